@@ -30,13 +30,19 @@ export function pageRouter(store: SessionStore): Router {
       expiry: field(req.body, "card_expiry"),
       cvc: field(req.body, "card_cvc"),
       name: field(req.body, "card_name"),
+      email: field(req.body, "email"),
     };
+    // Stripe asks for an e-mail address only when the session was not created with one.
+    if (!stored.session.customer_email && !/^[^\s@]+@[^\s@]+\.[^\s@]+$/.test(form.email.trim())) {
+      const error = { declined: false, field: "email" as const, message: "Your email address is incomplete or invalid." };
+      return void res.status(400).type("html").send(sessionPage(stored, { form, error }));
+    }
     const outcome = checkCard(form);
     if (!outcome.ok) {
       res.status(outcome.declined ? 402 : 400).type("html").send(sessionPage(stored, { form, error: outcome }));
       return;
     }
-    store.markPaid(stored, { name: form.name.trim() || null });
+    store.markPaid(stored, { name: form.name.trim() || null, email: form.email.trim() || null });
     res.redirect(303, stored.session.success_url.replaceAll("{CHECKOUT_SESSION_ID}", stored.session.id));
   });
   return router;
@@ -59,8 +65,8 @@ export function formatAmount(minor: number, currency: string): string {
 }
 
 interface FormState {
-  form: { number: string; expiry: string; cvc: string; name: string };
-  error: { field: "number" | "expiry" | "cvc"; message: string };
+  form: { number: string; expiry: string; cvc: string; name: string; email: string };
+  error: { field: "number" | "expiry" | "cvc" | "email"; message: string };
 }
 
 function sessionPage(stored: StoredSession, state?: FormState): string {
@@ -100,6 +106,7 @@ function cardForm(stored: StoredSession, total: string, state?: FormState): stri
     : "";
   return `${error}
 <form method="post" action="/pay/${escapeHtml(stored.session.id)}" autocomplete="off" novalidate>
+  ${stored.session.customer_email ? "" : `<label>Email<input name="email" type="email" value="${value("email")}"${invalid("email")} required></label>`}
   <label>Card number<input name="card_number" inputmode="numeric" placeholder="4242 4242 4242 4242" value="${value("number")}"${invalid("number")} required></label>
   <div class="row">
     <label>Expiry (MM / YY)<input name="card_expiry" inputmode="numeric" placeholder="12 / 34" value="${value("expiry")}"${invalid("expiry")} required></label>

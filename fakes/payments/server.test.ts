@@ -1,7 +1,7 @@
 import { createServer, type IncomingHttpHeaders, type Server } from "node:http";
 import type { AddressInfo } from "node:net";
 import Stripe from "stripe";
-import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from "vitest";
 import { createPaymentFake, type PaymentFake } from "./server";
 import { signatureHeader } from "./webhooks";
 
@@ -272,6 +272,37 @@ describe("payment fake", () => {
       const cvc = await payOnPage(session, "4242424242424242", { card_cvc: "1" });
       expect(await cvc.text()).toContain("security code is incomplete");
       expect((await stripe.checkout.sessions.retrieve(session.id)).status).toBe("open");
+    });
+
+    it("asks for an e-mail address when the session has none, and reports it in customer_details", async () => {
+      const session = await stripe.checkout.sessions.create(chargeParams({ customer_email: undefined }));
+      expect(await (await fetch(session.url!)).text()).toContain('name="email"');
+      const without = await payOnPage(session, "4242424242424242");
+      expect(without.status).toBe(400);
+      expect(await without.text()).toContain("email address is incomplete");
+      const withEmail = await payOnPage(session, "4242424242424242", { email: "payer@kestrel-ridge.example" });
+      expect(withEmail.status).toBe(303);
+      const paid = await stripe.checkout.sessions.retrieve(session.id);
+      expect(paid.customer_details).toMatchObject({ email: "payer@kestrel-ridge.example", name: "A. Observer" });
+    });
+
+    it("expires a session on its own once expires_at has passed", async () => {
+      const session = await stripe.checkout.sessions.create(chargeParams({ expires_at: Math.floor(Date.now() / 1000) + 31 * 60 }));
+      vi.useFakeTimers({ toFake: ["Date"] });
+      try {
+        vi.setSystemTime(Date.now() + 32 * 60 * 1000);
+        const later = await stripe.checkout.sessions.retrieve(session.id);
+        expect(later).toMatchObject({ status: "expired", url: null });
+      } finally {
+        vi.useRealTimers();
+      }
+      const delivery = await waitFor(() => deliveriesFor(receiver.deliveries, session.id)[0]);
+      expect(JSON.parse(delivery.body).type).toBe("checkout.session.expired");
+
+      const tooSoon = await stripe.checkout.sessions
+        .create(chargeParams({ expires_at: Math.floor(Date.now() / 1000) + 60 }))
+        .catch((e: unknown) => e);
+      expect(tooSoon).toMatchObject({ type: "StripeInvalidRequestError", param: "expires_at" });
     });
 
     it("signatures: a forged one, a wrong secret and a stale timestamp are refused by constructEvent", async () => {

@@ -53,12 +53,12 @@ export class SessionStore {
     return stored.session;
   }
 
-  markPaid(stored: StoredSession, details: { name: string | null }): void {
+  markPaid(stored: StoredSession, details: { name: string | null; email: string | null }): void {
     const session = stored.session;
     session.status = "complete";
     session.payment_status = "paid";
     session.payment_intent = newId("pi_", 24);
-    session.customer_details = { email: session.customer_email, name: details.name };
+    session.customer_details = { email: session.customer_email ?? details.email, name: details.name };
     session.url = null;
     this.#sender.emit("checkout.session.completed", structuredClone(session));
   }
