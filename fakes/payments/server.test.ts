@@ -238,14 +238,15 @@ describe("payment fake", () => {
 
       // Paying again is not possible: the page says it is done.
       const twice = await payOnPage(session, "4242424242424242");
-      expect(twice.status).toBe(409);
+      expect(twice.headers.get("x-payment-outcome")).toBe("session-complete");
       expect(await twice.text()).toContain("This payment has been made");
     });
 
     it("declines 4000 0000 0000 0002 on the page, sends nothing, and lets the payer retry", async () => {
       const session = await stripe.checkout.sessions.create(chargeParams());
       const declined = await payOnPage(session, "4000 0000 0000 0002");
-      expect(declined.status).toBe(402);
+      expect(declined.status).toBe(200);
+      expect(declined.headers.get("x-payment-outcome")).toBe("declined");
       const html = await declined.text();
       expect(html).toContain("Your card was declined.");
       expect(html).toContain('value="4000 0000 0000 0002"');
@@ -265,7 +266,7 @@ describe("payment fake", () => {
     it("rejects malformed card input with a message at the page", async () => {
       const session = await stripe.checkout.sessions.create(chargeParams());
       const luhn = await payOnPage(session, "4242 4242 4242 4241");
-      expect(luhn.status).toBe(400);
+      expect(luhn.headers.get("x-payment-outcome")).toBe("invalid");
       expect(await luhn.text()).toContain("Your card number is invalid.");
       const past = await payOnPage(session, "4242424242424242", { card_expiry: "01/20" });
       expect(await past.text()).toContain("expiration date is in the past");
@@ -278,7 +279,7 @@ describe("payment fake", () => {
       const session = await stripe.checkout.sessions.create(chargeParams({ customer_email: undefined }));
       expect(await (await fetch(session.url!)).text()).toContain('name="email"');
       const without = await payOnPage(session, "4242424242424242");
-      expect(without.status).toBe(400);
+      expect(without.headers.get("x-payment-outcome")).toBe("invalid");
       expect(await without.text()).toContain("email address is incomplete");
       const withEmail = await payOnPage(session, "4242424242424242", { email: "payer@kestrel-ridge.example" });
       expect(withEmail.status).toBe(303);
@@ -377,7 +378,7 @@ describe("payment fake", () => {
 
       await expect(stripe.checkout.sessions.expire(session.id)).rejects.toBeInstanceOf(Stripe.errors.StripeInvalidRequestError);
       const pay = await payOnPage(session, "4242424242424242");
-      expect(pay.status).toBe(409);
+      expect(pay.headers.get("x-payment-outcome")).toBe("session-expired");
       expect(await pay.text()).toContain("expired");
       expect((await stripe.checkout.sessions.retrieve(session.id)).status).toBe("expired");
     });
