@@ -1,0 +1,289 @@
+// Astrometric precision and epoch planning (SPEC §3.3).
+//
+// - Per frame, the centroid precision of a well-sampled Gaussian PSF: σ ≈ FWHM / (2.355 · SNR),
+//   i.e. σ_PSF / SNR, the usual photon-noise approximation (cf. King 1983, PASP 95, 163; the
+//   Cramér–Rao bound of Lindegren 1978 differs by a factor of order unity). Combined over N frames
+//   as σ/√N; the instrument's systematic floor is added in quadrature.
+// - Parallax factors from the Earth's barycentric position b = (X, Y, Z) in au (astronomy-engine
+//   BaryState, J2000 equator), the apparent shift being −ϖ times b's component across the line
+//   of sight:  f_α* = X sin α − Y cos α,  f_δ = X cos α sin δ + Y sin α sin δ − Z cos δ.
+// - Five-parameter weighted least squares (Δα*, Δδ, μα*, μδ, ϖ); the covariance (AᵀWA)⁻¹ gives
+//   σ(μα*), σ(μδ), σ(ϖ). Times are Julian years from the weighted mean epoch.
+
+import * as Astro from "astronomy-engine";
+import { DEG, type Target } from "./coordinates";
+import { prepareSiteNights, targetNights, limitAltitude, type Limit, type Site } from "./visibility";
+import { DAY_MS, addDays, dayNumber, utDays } from "./time";
+
+/** km/s per (arcsec/yr · pc): 1 au per Julian year. v_t = K · μ · d. */
+export const KM_S_PER_ARCSEC_YR_PC = 4.74047;
+
+export function tangentialVelocityKmS(muMasPerYr: number, distancePc: number): number {
+  return (KM_S_PER_ARCSEC_YR_PC * muMasPerYr * distancePc) / 1000;
+}
+
+export function properMotionForVelocity(vKmS: number, distancePc: number): number {
+  return (1000 * vKmS) / (KM_S_PER_ARCSEC_YR_PC * distancePc);
+}
+
+export function centroidPrecisionMas(fwhmArcsec: number, snr: number): number {
+  return (1000 * fwhmArcsec) / (2.3548 * snr);
+}
+
+export function epochPrecisionMas(a: { fwhmArcsec: number; snr: number; frames: number; floorMas: number }): number {
+  const perEpoch = centroidPrecisionMas(a.fwhmArcsec, a.snr) / Math.sqrt(a.frames);
+  return Math.hypot(perEpoch, a.floorMas);
+}
+
+export function parallaxFactors(raDeg: number, decDeg: number, t: number): { ra: number; dec: number } {
+  const b = Astro.BaryState(Astro.Body.Earth, new Astro.AstroTime(utDays(t)));
+  const a = raDeg * DEG;
+  const d = decDeg * DEG;
+  return {
+    ra: b.x * Math.sin(a) - b.y * Math.cos(a),
+    dec: b.x * Math.cos(a) * Math.sin(d) + b.y * Math.sin(a) * Math.sin(d) - b.z * Math.cos(d),
+  };
+}
+
+export type Epoch = { time: number; sigmaMas: number; factors?: { ra: number; dec: number } };
+
+export type FitPrecision = {
+  properMotionPrecisionMasPerYr: { ra: number; dec: number };
+  parallaxPrecisionMas: number | null;
+  positionPrecisionMas: { ra: number; dec: number };
+  referenceEpoch: number;
+  /** false when the epochs cannot determine the parameters (too few, or degenerate) */
+  determined: boolean;
+};
+
+const YEAR_MS = 365.25 * DAY_MS;
+
+function invert(m: number[][]): number[][] | null {
+  const n = m.length;
+  const a = m.map((row, i) => [...row, ...Array.from({ length: n }, (_, j) => (i === j ? 1 : 0))]);
+  const scale = Math.max(...m.map((r, i) => Math.abs(r[i])), 1e-300);
+  for (let c = 0; c < n; c++) {
+    let p = c;
+    for (let r = c + 1; r < n; r++) if (Math.abs(a[r][c]) > Math.abs(a[p][c])) p = r;
+    if (Math.abs(a[p][c]) < 1e-12 * scale) return null;
+    [a[c], a[p]] = [a[p], a[c]];
+    const piv = a[c][c];
+    for (let j = 0; j < 2 * n; j++) a[c][j] /= piv;
+    for (let r = 0; r < n; r++) {
+      if (r === c) continue;
+      const f = a[r][c];
+      if (f !== 0) for (let j = 0; j < 2 * n; j++) a[r][j] -= f * a[c][j];
+    }
+  }
+  return a.map((row) => row.slice(n));
+}
+
+/**
+ * Covariance of the astrometric fit over epochs. `parameters: 5` fits position, proper motion and
+ * parallax; `4` holds the parallax known (no parallax column), which gives the textbook
+ * straight-line result.
+ */
+export function fitPrecision(raDeg: number, decDeg: number, epochs: Epoch[], parameters: 4 | 5 = 5): FitPrecision {
+  const weights = epochs.map((e) => 1 / (e.sigmaMas * e.sigmaMas));
+  const wsum = weights.reduce((s, w) => s + w, 0);
+  const ref = epochs.reduce((s, e, i) => s + e.time * weights[i], 0) / (wsum || 1);
+  const n = parameters;
+  const N = Array.from({ length: n }, () => new Array(n).fill(0));
+  for (let i = 0; i < epochs.length; i++) {
+    const e = epochs[i];
+    const f = e.factors ?? parallaxFactors(raDeg, decDeg, e.time);
+    const tau = (e.time - ref) / YEAR_MS;
+    const rows = [
+      [1, 0, tau, 0, f.ra],
+      [0, 1, 0, tau, f.dec],
+    ];
+    for (const row of rows) {
+      for (let j = 0; j < n; j++) for (let k = 0; k < n; k++) N[j][k] += weights[i] * row[j] * row[k];
+    }
+  }
+  const C = epochs.length >= 2 ? invert(N) : null;
+  if (!C) {
+    return {
+      properMotionPrecisionMasPerYr: { ra: Infinity, dec: Infinity },
+      parallaxPrecisionMas: parameters === 5 ? Infinity : null,
+      positionPrecisionMas: { ra: Infinity, dec: Infinity },
+      referenceEpoch: ref,
+      determined: false,
+    };
+  }
+  return {
+    properMotionPrecisionMasPerYr: { ra: Math.sqrt(C[2][2]), dec: Math.sqrt(C[3][3]) },
+    parallaxPrecisionMas: parameters === 5 ? Math.sqrt(C[4][4]) : null,
+    positionPrecisionMas: { ra: Math.sqrt(C[0][0]), dec: Math.sqrt(C[1][1]) },
+    referenceEpoch: ref,
+    determined: true,
+  };
+}
+
+/** The API's astrometry answer for epoch dates (`YYYY-MM-DD`, taken at 00:00 UTC). */
+export function astrometryForDates(a: { raDeg: number; decDeg: number; epochs: string[]; positionalPrecisionMas: number }) {
+  const epochs = a.epochs.map((date) => {
+    const time = dayNumber(date) * DAY_MS;
+    return { date, time, sigmaMas: a.positionalPrecisionMas, factors: parallaxFactors(a.raDeg, a.decDeg, time) };
+  });
+  const fit = fitPrecision(a.raDeg, a.decDeg, epochs);
+  return {
+    properMotionPrecisionMasPerYr: fit.properMotionPrecisionMasPerYr,
+    parallaxPrecisionMas: fit.parallaxPrecisionMas as number,
+    determined: fit.determined,
+    parallaxFactors: epochs.map((e) => ({ date: e.date, ra: e.factors.ra, dec: e.factors.dec })),
+  };
+}
+
+export type SemesterRule = { aStartMonth: number; bStartMonth: number };
+/** Semester A = 1 Feb – 31 Jul, B = 1 Aug – 31 Jan (our default; calls may set their own). */
+export const DEFAULT_SEMESTERS: SemesterRule = { aStartMonth: 2, bStartMonth: 8 };
+
+export function semesterOf(date: string, rule: SemesterRule = DEFAULT_SEMESTERS): string {
+  const y = Number(date.slice(0, 4));
+  const m = Number(date.slice(5, 7));
+  if (m >= rule.aStartMonth && m < rule.bStartMonth) return `${y}A`;
+  return m >= rule.bStartMonth ? `${y}B` : `${y - 1}B`;
+}
+
+export type PlanInput = {
+  site: Site;
+  target: Target;
+  firstDate: string;
+  baselineYears: number;
+  perEpochPrecisionMas: number;
+  limit: Limit;
+  /** fixed number of epochs, or… */
+  epochs?: number;
+  /** …a required precision: proper motion (mas/yr) or tangential velocity at a distance */
+  required?: { properMotionMasPerYr: number } | { tangentialVelocityKmS: number; distancePc: number };
+  /** seconds on sky per epoch (exposures + overheads), for the cost per semester */
+  secondsPerEpoch?: number;
+  /** shortest useful window in a night (hours) */
+  minWindowHours?: number;
+  semesters?: SemesterRule;
+  maxEpochs?: number;
+};
+
+export type PlannedEpoch = { date: string; time: string; parallaxFactors: { ra: number; dec: number }; semester: string; altitudeWindowHours: number };
+
+export type Plan = {
+  epochs: PlannedEpoch[];
+  precision: FitPrecision;
+  requiredProperMotionMasPerYr: number | null;
+  met: boolean | null;
+  perSemester: { semester: string; epochs: number; hours: number }[];
+  candidates: number;
+  parallaxCurve: { date: string; ra: number; dec: number }[];
+  message?: string;
+};
+
+type Candidate = { date: string; time: number; hours: number; f: { ra: number; dec: number } };
+
+function objective(raDeg: number, decDeg: number, chosen: Candidate[], sigma: number): number {
+  const fit = fitPrecision(raDeg, decDeg, chosen.map((c) => ({ time: c.time, sigmaMas: sigma, factors: c.f })));
+  if (!fit.determined) return Infinity;
+  const p = fit.properMotionPrecisionMasPerYr;
+  return p.ra ** 2 + p.dec ** 2 + 0.5 * (fit.parallaxPrecisionMas ?? 0) ** 2;
+}
+
+/**
+ * Places epochs on nights when the target is observable in the dark: the first and last usable
+ * nights anchor the baseline, then epochs are added greedily, each the candidate night that
+ * lowers σ(μα*)² + σ(μδ)² + ½σ(ϖ)² the most, kept at least `minGap` apart so that they spread
+ * over the baseline — which drives them towards the parallax-factor extremes of each season.
+ */
+export function planEpochs(input: PlanInput): Plan {
+  const nights = Math.min(Math.round(input.baselineYears * 365.25) + 1, 366 * 6);
+  const prepared = prepareSiteNights(input.site, input.firstDate, nights);
+  const minAlt = limitAltitude(input.limit);
+  const minHours = input.minWindowHours ?? 0.5;
+  const rows = targetNights(prepared, input.target, minAlt);
+  const sigma = input.perEpochPrecisionMas;
+  const candidates: Candidate[] = [];
+  for (const r of rows) {
+    if (r.observableHours < minHours) continue;
+    const longest = r.windows.reduce((a, b) => (b.end - b.start > a.end - a.start ? b : a));
+    const time = (longest.start + longest.end) / 2;
+    candidates.push({ date: r.night.date, time, hours: r.observableHours, f: parallaxFactors(input.target.raDeg, input.target.decDeg, time) });
+  }
+  const required =
+    input.required === undefined
+      ? null
+      : "properMotionMasPerYr" in input.required
+        ? input.required.properMotionMasPerYr
+        : properMotionForVelocity(input.required.tangentialVelocityKmS, input.required.distancePc);
+  const maxEpochs = input.maxEpochs ?? 60;
+  const wanted = input.epochs ?? maxEpochs;
+  const parallaxCurve = [];
+  for (let d = 0; d < nights; d += 7) {
+    const date = addDays(input.firstDate, d);
+    const f = parallaxFactors(input.target.raDeg, input.target.decDeg, dayNumber(date) * DAY_MS);
+    parallaxCurve.push({ date, ra: f.ra, dec: f.dec });
+  }
+  if (candidates.length < 3) {
+    return {
+      epochs: [],
+      precision: fitPrecision(input.target.raDeg, input.target.decDeg, []),
+      requiredProperMotionMasPerYr: required,
+      met: required === null ? null : false,
+      perSemester: [],
+      candidates: candidates.length,
+      parallaxCurve,
+      message: "The target is not observable on enough nights in the baseline.",
+    };
+  }
+  const spanMs = candidates[candidates.length - 1].time - candidates[0].time;
+  const minGap = Math.max(3 * DAY_MS, Math.min(30 * DAY_MS, spanMs / (2 * Math.max(wanted, 3))));
+  const chosen: Candidate[] = [candidates[0], candidates[candidates.length - 1]];
+  const meets = () => {
+    const fit = fitPrecision(input.target.raDeg, input.target.decDeg, chosen.map((c) => ({ time: c.time, sigmaMas: sigma, factors: c.f })));
+    const p = fit.properMotionPrecisionMasPerYr;
+    return fit.determined && required !== null && Math.max(p.ra, p.dec) <= required;
+  };
+  while (chosen.length < wanted && !(input.epochs === undefined && meets())) {
+    let best: Candidate | null = null;
+    let bestValue = Infinity;
+    for (const c of candidates) {
+      if (chosen.some((x) => Math.abs(x.time - c.time) < minGap)) continue;
+      const v = objective(input.target.raDeg, input.target.decDeg, [...chosen, c], sigma);
+      if (v < bestValue) {
+        bestValue = v;
+        best = c;
+      }
+    }
+    if (!best) break;
+    chosen.push(best);
+  }
+  chosen.sort((a, b) => a.time - b.time);
+  const precision = fitPrecision(input.target.raDeg, input.target.decDeg, chosen.map((c) => ({ time: c.time, sigmaMas: sigma, factors: c.f })));
+  const semesters = new Map<string, number>();
+  const epochs = chosen.map((c) => {
+    const semester = semesterOf(c.date, input.semesters);
+    semesters.set(semester, (semesters.get(semester) ?? 0) + 1);
+    return { date: c.date, time: new Date(c.time).toISOString(), parallaxFactors: c.f, semester, altitudeWindowHours: c.hours };
+  });
+  const p = precision.properMotionPrecisionMasPerYr;
+  return {
+    epochs,
+    precision,
+    requiredProperMotionMasPerYr: required,
+    met: required === null ? null : precision.determined && Math.max(p.ra, p.dec) <= required,
+    perSemester: [...semesters.entries()].map(([semester, n]) => ({
+      semester,
+      epochs: n,
+      hours: ((input.secondsPerEpoch ?? 0) * n) / 3600,
+    })),
+    candidates: candidates.length,
+    parallaxCurve,
+  };
+}
+
+/** Precision for epochs the PI has moved (ISO times or dates), at a per-epoch precision. */
+export function precisionForMovedEpochs(raDeg: number, decDeg: number, times: string[], perEpochPrecisionMas: number): FitPrecision {
+  return fitPrecision(
+    raDeg,
+    decDeg,
+    times.map((t) => ({ time: t.length === 10 ? dayNumber(t) * DAY_MS : Date.parse(t), sigmaMas: perEpochPrecisionMas })),
+  );
+}

@@ -1,0 +1,595 @@
+// Night-by-night visibility of a fixed target from a site (SPEC §3.1).
+//
+// Conventions
+// - Target: ICRS/J2000 direction carried to the night by its proper motion, corrected for
+//   annual aberration (Earth's heliocentric velocity, as astronomy-engine does for its
+//   user-defined stars), then rotated to the true equator and equinox of date (precession +
+//   nutation, astronomy-engine's Rotation_EQJ_EQD). Altitudes are GEOMETRIC: no refraction is
+//   applied to the target or to twilight, so an altitude limit means the unrefracted altitude
+//   (refraction would lift a 30° limit by ~1.7′, a 20° limit by ~2.6′).
+// - Sunset and sunrise follow astronomy-engine's SearchRiseSet: the Sun's upper limb at
+//   −34′ × (air density at the site relative to sea level). Astronomical twilight: the Sun's
+//   centre at −18°, geometric, topocentric (common practice).
+// - A night is framed from the Sun's upper transit nearest local clock noon of its `date` (the
+//   local calendar date on which the night begins) to the next upper transit. Inside a frame
+//   the Sun goes down once and up once, so each event happens at most once.
+// - Speed: everything that depends only on the site and the dates (Sun on a daily grid,
+//   precession–nutation matrices, sidereal time, Earth's velocity, Moon) is computed once by
+//   `prepareSiteNights`. Crossings are solved in closed form from the hour angle,
+//   cos H = (sin h0 − sin φ sin δ) / (cos φ cos δ), iterated for the moving Sun.
+
+import * as Astro from "astronomy-engine";
+import { DEG, directionAt, toRaDec, vectorSeparationDeg, type Target, type Vec3 } from "./coordinates";
+import { altitudeForAirmass } from "./airmass";
+import { DAY_MS, addDays, dayNumber, localDate, utDays, zoneOffsetMs } from "./time";
+
+export type Site = { latitudeDeg: number; longitudeDeg: number; elevationM: number; timeZone: string };
+
+export type MoonCategory = "dark" | "grey" | "bright";
+
+/** Moon category of a night from the Moon's illuminated fraction at the middle of the dark interval. */
+export const MOON_CATEGORY_THRESHOLDS = {
+  /** dark when the illuminated fraction is below this */
+  darkBelow: 0.35,
+  /** grey when below this (and not dark); bright otherwise */
+  greyBelow: 0.7,
+} as const;
+
+export const TWILIGHT_ALTITUDE_DEG = -18;
+export const REFRACTION_MODEL = "none (geometric altitudes) for targets and twilight; sunset/sunrise with 34′ horizontal refraction scaled by air density";
+
+export function moonCategory(illumination: number): MoonCategory {
+  if (illumination < MOON_CATEGORY_THRESHOLDS.darkBelow) return "dark";
+  if (illumination < MOON_CATEGORY_THRESHOLDS.greyBelow) return "grey";
+  return "bright";
+}
+
+const SIDEREAL_RATE_DEG_PER_DAY = 360.98564736629;
+const SUN_RADIUS_KM = 695_700;
+const EARTH_RADIUS_KM = 6378.1366;
+const C_AU_PER_DAY = Astro.C_AUDAY;
+const RAD = 1 / DEG;
+
+type Matrix = number[]; // 3×3 row-major
+
+/** What a night offers, independent of the target. Times are ms since 1970 UTC. */
+export type SiteNight = {
+  date: string;
+  frameStart: number;
+  frameEnd: number;
+  sunset: number | null;
+  sunrise: number | null;
+  darkStart: number | null;
+  darkEnd: number | null;
+  /** instant at which the Moon (and the target's apparent place) are evaluated */
+  refTime: number;
+  moonIllumination: number;
+  moonAltitudeDeg: number;
+  moonCategory: MoonCategory;
+  /** topocentric Moon direction, equator of date */
+  moonDir: Vec3;
+  /** EQJ → equator of date at refTime */
+  rotation: Matrix;
+  /** Earth's heliocentric velocity / c (EQJ) at refTime, for annual aberration */
+  aberration: Vec3;
+  /** Greenwich apparent sidereal time (deg) at `gastTime` */
+  gastDeg: number;
+  gastTime: number;
+};
+
+export type PreparedSite = { site: Site; from: string; nights: SiteNight[] };
+
+type SunSample = { t: number; v: Vec3; gastDeg: number; rotation: Matrix; eqj: Vec3 };
+
+function wrap180(x: number): number {
+  return x - 360 * Math.floor((x + 180) / 360);
+}
+
+function matrixOf(rot: Astro.RotationMatrix): Matrix {
+  const r = rot.rot;
+  // astronomy-engine stores rot[i][j] so that out_j = Σ_i rot[i][j] · in_i
+  return [r[0][0], r[1][0], r[2][0], r[0][1], r[1][1], r[2][1], r[0][2], r[1][2], r[2][2]];
+}
+
+function apply(m: Matrix, v: Vec3): Vec3 {
+  return [
+    m[0] * v[0] + m[1] * v[1] + m[2] * v[2],
+    m[3] * v[0] + m[4] * v[1] + m[5] * v[2],
+    m[6] * v[0] + m[7] * v[1] + m[8] * v[2],
+  ];
+}
+
+/** Quadratic (Lagrange) interpolation through three samples. */
+function lagrange3(t: number, t0: number, t1: number, t2: number, y0: number, y1: number, y2: number): number {
+  const l0 = ((t - t1) * (t - t2)) / ((t0 - t1) * (t0 - t2));
+  const l1 = ((t - t0) * (t - t2)) / ((t1 - t0) * (t1 - t2));
+  const l2 = ((t - t0) * (t - t1)) / ((t2 - t0) * (t2 - t1));
+  return l0 * y0 + l1 * y1 + l2 * y2;
+}
+
+function lagrange3Slope(t: number, t0: number, t1: number, t2: number, y0: number, y1: number, y2: number): number {
+  const d0 = (2 * t - t1 - t2) / ((t0 - t1) * (t0 - t2));
+  const d1 = (2 * t - t0 - t2) / ((t1 - t0) * (t1 - t2));
+  const d2 = (2 * t - t0 - t1) / ((t2 - t0) * (t2 - t1));
+  return d0 * y0 + d1 * y1 + d2 * y2;
+}
+
+class SunTrack {
+  constructor(readonly samples: SunSample[]) {}
+
+  /** Index of the sample nearest to t (samples are about a day apart). */
+  private index(t: number): number {
+    const s = this.samples;
+    let k = Math.round((t - s[0].t) / DAY_MS);
+    k = Math.min(Math.max(k, 0), s.length - 1);
+    while (k > 0 && Math.abs(s[k - 1].t - t) < Math.abs(s[k].t - t)) k--;
+    while (k < s.length - 1 && Math.abs(s[k + 1].t - t) < Math.abs(s[k].t - t)) k++;
+    return k;
+  }
+
+  private around(t: number): [SunSample, SunSample, SunSample] {
+    const c = Math.min(Math.max(this.index(t), 1), this.samples.length - 2);
+    return [this.samples[c - 1], this.samples[c], this.samples[c + 1]];
+  }
+
+  /** Geocentric apparent Sun, equator of date: RA, Dec (deg), distance (AU). */
+  at(t: number): { ra: number; dec: number; dist: number } {
+    const [a, b, c] = this.around(t);
+    const x = lagrange3(t, a.t, b.t, c.t, a.v[0], b.v[0], c.v[0]);
+    const y = lagrange3(t, a.t, b.t, c.t, a.v[1], b.v[1], c.v[1]);
+    const z = lagrange3(t, a.t, b.t, c.t, a.v[2], b.v[2], c.v[2]);
+    const dist = Math.hypot(x, y, z);
+    return { ra: Math.atan2(y, x) * RAD, dec: Math.asin(z / dist) * RAD, dist };
+  }
+
+  /** Earth's heliocentric velocity (AU/day, EQJ) = −d(Sun's geocentric position)/dt. */
+  earthVelocity(t: number): Vec3 {
+    const [a, b, c] = this.around(t);
+    const f = (i: number) => -lagrange3Slope(t, a.t, b.t, c.t, a.eqj[i], b.eqj[i], c.eqj[i]) * DAY_MS;
+    return [f(0), f(1), f(2)];
+  }
+
+  nearest(t: number): SunSample {
+    return this.samples[this.index(t)];
+  }
+
+  gastDeg(t: number): number {
+    const s = this.nearest(t);
+    return s.gastDeg + SIDEREAL_RATE_DEG_PER_DAY * ((t - s.t) / DAY_MS);
+  }
+}
+
+function sunSample(t: number): SunSample {
+  const time = new Astro.AstroTime(utDays(t));
+  // Apparent geocentric Sun = minus the Earth's heliocentric position backdated by the light
+  // time (≈ 499 s × distance): light time and annual aberration together, to first order, as
+  // astronomy-engine's GeoVector(Sun, t, true) does, at a third of its cost.
+  const g = Astro.HelioVector(Astro.Body.Earth, time.AddDays(-0.0057755183));
+  g.x = -g.x;
+  g.y = -g.y;
+  g.z = -g.z;
+  const rotation = matrixOf(Astro.Rotation_EQJ_EQD(time));
+  const eqj: Vec3 = [g.x, g.y, g.z];
+  return { t, v: apply(rotation, eqj), eqj, gastDeg: 15 * Astro.SiderealTime(time), rotation };
+}
+
+type Geo = { sinLat: number; cosLat: number; lonDeg: number; latDeg: number };
+
+function geoOf(site: Site): Geo {
+  return {
+    sinLat: Math.sin(site.latitudeDeg * DEG),
+    cosLat: Math.cos(site.latitudeDeg * DEG),
+    lonDeg: site.longitudeDeg,
+    latDeg: site.latitudeDeg,
+  };
+}
+
+/** Topocentric geometric altitude of the Sun's centre (deg), from the interpolated track. */
+function sunAltitude(track: SunTrack, geo: Geo, t: number): number {
+  const s = track.at(t);
+  const h = lha(track.gastDeg(t), geo.lonDeg, s.ra);
+  const sinH = geo.sinLat * Math.sin(s.dec * DEG) + geo.cosLat * Math.cos(s.dec * DEG) * Math.cos(h * DEG);
+  const hGeo = Math.asin(Math.max(-1, Math.min(1, sinH))) * RAD;
+  return hGeo - parallaxDeg(s.dist) * Math.cos(hGeo * DEG);
+}
+
+function parallaxDeg(distAu: number): number {
+  return Math.asin(EARTH_RADIUS_KM / (distAu * Astro.KM_PER_AU)) * RAD;
+}
+
+function lha(gastDeg: number, lonDeg: number, raDeg: number): number {
+  return wrap180(gastDeg + lonDeg - raDeg);
+}
+
+/** Hour angle (deg, 0–180) at which a body at declination dec reaches altitude h0; ±Infinity if never / always. */
+export function hourAngleAtAltitude(latDeg: number, decDeg: number, h0Deg: number): number {
+  const denom = Math.cos(latDeg * DEG) * Math.cos(decDeg * DEG);
+  const num = Math.sin(h0Deg * DEG) - Math.sin(latDeg * DEG) * Math.sin(decDeg * DEG);
+  if (Math.abs(denom) < 1e-12) return num > 0 ? Number.NEGATIVE_INFINITY : Number.POSITIVE_INFINITY;
+  const c = num / denom;
+  if (c >= 1) return Number.NEGATIVE_INFINITY; // never reaches h0
+  if (c <= -1) return Number.POSITIVE_INFINITY; // always above h0
+  return Math.acos(c) * RAD;
+}
+
+/**
+ * Instant at which the Sun's topocentric centre crosses `h0(dist)` on one side of the meridian
+ * (side +1: descending, west; −1: ascending, east), starting from `guess`, solved from the hour
+ * angle and iterated because the Sun moves. Falls back to bisection inside [lo, hi].
+ */
+function sunCrossing(
+  track: SunTrack,
+  geo: Geo,
+  h0: (dist: number) => number,
+  side: 1 | -1,
+  guess: number,
+  lo: number,
+  hi: number,
+): number {
+  let t = guess;
+  for (let i = 0; i < 8; i++) {
+    const s = track.at(t);
+    const target = h0(s.dist);
+    const hGeo = target + parallaxDeg(s.dist) * Math.cos(target * DEG);
+    const H = hourAngleAtAltitude(geo.latDeg, s.dec, hGeo);
+    if (!Number.isFinite(H)) break;
+    const dt = (wrap180(side * H - lha(track.gastDeg(t), geo.lonDeg, s.ra)) / 360) * DAY_MS;
+    t += dt;
+    if (Math.abs(dt) < 1) return t >= lo && t <= hi ? t : bisect(track, geo, h0, lo, hi);
+  }
+  return bisect(track, geo, h0, lo, hi);
+}
+
+function bisect(track: SunTrack, geo: Geo, h0: (dist: number) => number, lo: number, hi: number): number {
+  const f = (t: number) => sunAltitude(track, geo, t) - h0(track.at(t).dist);
+  let a = lo;
+  let b = hi;
+  const fa = f(a);
+  for (let i = 0; i < 50 && b - a > 1; i++) {
+    const m = (a + b) / 2;
+    if (Math.sign(f(m)) === Math.sign(fa)) a = m;
+    else b = m;
+  }
+  return (a + b) / 2;
+}
+
+function transitNear(track: SunTrack, geo: Geo, t0: number): number {
+  let t = t0;
+  for (let i = 0; i < 5; i++) {
+    const s = track.at(t);
+    t -= (lha(track.gastDeg(t), geo.lonDeg, s.ra) / 360) * DAY_MS;
+  }
+  return t;
+}
+
+/**
+ * Events of one threshold in a frame: the instants at which the Sun goes below `h0` (after the
+ * first transit) and comes back above it (before the next). `start` is the frame start when the
+ * Sun is already below at the transit; `null, null` when it never goes below.
+ */
+function belowInterval(
+  track: SunTrack,
+  geo: Geo,
+  h0: (dist: number) => number,
+  frameStart: number,
+  frameEnd: number,
+): { start: number | null; end: number | null; startIsFrame: boolean; endIsFrame: boolean } {
+  const mid = (frameStart + frameEnd) / 2;
+  const minAlt = sunAltitude(track, geo, mid);
+  if (minAlt >= h0(track.at(mid).dist)) return { start: null, end: null, startIsFrame: false, endIsFrame: false };
+  const belowAtStart = sunAltitude(track, geo, frameStart) < h0(track.at(frameStart).dist);
+  const belowAtEnd = sunAltitude(track, geo, frameEnd) < h0(track.at(frameEnd).dist);
+  const quarter = (frameEnd - frameStart) / 4;
+  const start = belowAtStart ? frameStart : sunCrossing(track, geo, h0, 1, frameStart + quarter, frameStart, mid);
+  const end = belowAtEnd ? frameEnd : sunCrossing(track, geo, h0, -1, frameEnd - quarter, mid, frameEnd);
+  return { start, end, startIsFrame: belowAtStart, endIsFrame: belowAtEnd };
+}
+
+function moonAt(t: number, rotation: Matrix, sunVec: Vec3, observer: Astro.Observer, gastDeg: number, geo: Geo) {
+  const time = new Astro.AstroTime(utDays(t));
+  const m = Astro.GeoMoon(time);
+  const geoMoon = apply(rotation, [m.x, m.y, m.z]);
+  const o = Astro.ObserverVector(time, observer, true);
+  const topo: Vec3 = [geoMoon[0] - o.x, geoMoon[1] - o.y, geoMoon[2] - o.z];
+  const { raDeg, decDeg } = toRaDec(topo);
+  const H = lha(gastDeg, geo.lonDeg, raDeg);
+  const sinAlt = geo.sinLat * Math.sin(decDeg * DEG) + geo.cosLat * Math.cos(decDeg * DEG) * Math.cos(H * DEG);
+  // phase angle at the Moon between the Sun and the Earth; k = (1 + cos i)/2 (Meeus 48.1)
+  const toSun: Vec3 = [sunVec[0] - geoMoon[0], sunVec[1] - geoMoon[1], sunVec[2] - geoMoon[2]];
+  const toEarth: Vec3 = [-geoMoon[0], -geoMoon[1], -geoMoon[2]];
+  const i = vectorSeparationDeg(toSun, toEarth);
+  const n = Math.hypot(topo[0], topo[1], topo[2]);
+  return {
+    illumination: (1 + Math.cos(i * DEG)) / 2,
+    altitudeDeg: Math.asin(sinAlt) * RAD,
+    dir: [topo[0] / n, topo[1] / n, topo[2] / n] as Vec3,
+  };
+}
+
+const cache = new Map<string, PreparedSite>();
+const CACHE_SIZE = 64;
+
+/**
+ * Everything about `count` nights from local date `from` at a site that does not depend on the
+ * target. Cached (LRU) by site and dates, so repeated calls for other targets are cheap.
+ */
+export function prepareSiteNights(site: Site, from: string, count: number): PreparedSite {
+  const key = `${site.latitudeDeg}|${site.longitudeDeg}|${site.elevationM}|${site.timeZone}|${from}|${count}`;
+  const hit = cache.get(key);
+  if (hit) {
+    cache.delete(key);
+    cache.set(key, hit);
+    return hit;
+  }
+  const prepared = computeSiteNights(site, from, count);
+  cache.set(key, prepared);
+  if (cache.size > CACHE_SIZE) cache.delete(cache.keys().next().value as string);
+  return prepared;
+}
+
+export function clearSiteCache(): void {
+  cache.clear();
+}
+
+function computeSiteNights(site: Site, from: string, count: number): PreparedSite {
+  const geo = geoOf(site);
+  const observer = new Astro.Observer(site.latitudeDeg, site.longitudeDeg, site.elevationM);
+  const density = Astro.Atmosphere(site.elevationM).density;
+  const riseSetH0 = (dist: number) =>
+    -(34 / 60) * density - Math.asin(SUN_RADIUS_KM / (dist * Astro.KM_PER_AU)) * RAD;
+  const darkH0 = () => TWILIGHT_ALTITUDE_DEG;
+
+  // Local clock noon of each date (one time-zone look-up per date, seeded with the previous
+  // offset), and a daily Sun grid half a day later, one extra sample on each side.
+  const noons: number[] = [];
+  let offset = Math.round(site.longitudeDeg / 15) * 3_600_000;
+  for (let k = -2; k <= count + 1; k++) {
+    const wall = (dayNumber(from) + k) * DAY_MS + 12 * 3_600_000;
+    offset = zoneOffsetMs(wall - offset, site.timeZone);
+    noons.push(wall - offset);
+  }
+  const samples = noons.map((noon) => sunSample(noon + DAY_MS / 2));
+  const track = new SunTrack(samples);
+  const transits: number[] = [];
+  for (let k = 0; k <= count; k++) transits.push(transitNear(track, geo, noons[k + 2]));
+
+  const nights: SiteNight[] = [];
+  for (let i = 0; i < count; i++) {
+    const frameStart = transits[i];
+    const frameEnd = transits[i + 1];
+    const rs = belowInterval(track, geo, riseSetH0, frameStart, frameEnd);
+    const dk = belowInterval(track, geo, darkH0, frameStart, frameEnd);
+    const sunset = rs.start !== null && !rs.startIsFrame ? rs.start : null;
+    const sunrise = rs.end !== null && !rs.endIsFrame ? rs.end : null;
+    const darkStart = dk.start;
+    const darkEnd = dk.end;
+    const refTime =
+      darkStart !== null && darkEnd !== null
+        ? (darkStart + darkEnd) / 2
+        : sunset !== null && sunrise !== null
+          ? (sunset + sunrise) / 2
+          : (frameStart + frameEnd) / 2;
+    const sample = track.nearest(refTime);
+    const gastDeg = track.gastDeg(refTime);
+    const sun = track.at(refTime);
+    const sunVec: Vec3 = [
+      sun.dist * Math.cos(sun.dec * DEG) * Math.cos(sun.ra * DEG),
+      sun.dist * Math.cos(sun.dec * DEG) * Math.sin(sun.ra * DEG),
+      sun.dist * Math.sin(sun.dec * DEG),
+    ];
+    const moon = moonAt(refTime, sample.rotation, sunVec, observer, gastDeg, geo);
+    const v = track.earthVelocity(refTime);
+    nights.push({
+      date: addDays(from, i),
+      frameStart,
+      frameEnd,
+      sunset,
+      sunrise,
+      darkStart,
+      darkEnd,
+      refTime,
+      moonIllumination: moon.illumination,
+      moonAltitudeDeg: moon.altitudeDeg,
+      moonCategory: moonCategory(moon.illumination),
+      moonDir: moon.dir,
+      rotation: sample.rotation,
+      aberration: [v[0] / C_AU_PER_DAY, v[1] / C_AU_PER_DAY, v[2] / C_AU_PER_DAY],
+      gastDeg,
+      gastTime: refTime,
+    });
+  }
+  return { site, from, nights };
+}
+
+/** Apparent place of the target for a night: RA/Dec of date (deg) and unit vector. */
+export function apparentPlace(target: Target, night: SiteNight): { raDeg: number; decDeg: number; dir: Vec3 } {
+  const u = directionAt(target, night.refTime);
+  const a = night.aberration;
+  const w = apply(night.rotation, [u[0] + a[0], u[1] + a[1], u[2] + a[2]]);
+  const n = Math.hypot(w[0], w[1], w[2]);
+  const dir: Vec3 = [w[0] / n, w[1] / n, w[2] / n];
+  return { ...toRaDec(dir), dir };
+}
+
+export type Interval = { start: number; end: number };
+
+/**
+ * Intervals inside [darkStart, darkEnd] during which the target is at or above `minAltitudeDeg`.
+ * The target's apparent place is held fixed through the night (it moves < 0.5″ in 12 h), so its
+ * local hour angle grows linearly with time and the crossings follow in closed form.
+ */
+export function targetWindows(night: SiteNight, site: Site, raDeg: number, decDeg: number, minAltitudeDeg: number): Interval[] {
+  if (night.darkStart === null || night.darkEnd === null) return [];
+  const a = night.darkStart;
+  const b = night.darkEnd;
+  const H0 = hourAngleAtAltitude(site.latitudeDeg, decDeg, minAltitudeDeg);
+  if (H0 === Number.POSITIVE_INFINITY) return [{ start: a, end: b }];
+  if (H0 === Number.NEGATIVE_INFINITY) return [];
+  const rate = SIDEREAL_RATE_DEG_PER_DAY / DAY_MS;
+  const ha = wrap180(night.gastDeg + rate * (a - night.gastTime) + site.longitudeDeg - raDeg);
+  const hb = ha + rate * (b - a);
+  const out: Interval[] = [];
+  for (let k = Math.floor((ha + H0) / 360); 360 * k - H0 <= hb; k++) {
+    const lo = Math.max(ha, 360 * k - H0);
+    const hi = Math.min(hb, 360 * k + H0);
+    if (hi > lo) out.push({ start: a + (lo - ha) / rate, end: a + (hi - ha) / rate });
+  }
+  return out;
+}
+
+export type Limit = { minAltitudeDeg: number } | { maxAirmass: number };
+
+export function limitAltitude(limit: Limit): number {
+  return "minAltitudeDeg" in limit ? limit.minAltitudeDeg : altitudeForAirmass(limit.maxAirmass);
+}
+
+export type TargetNight = {
+  night: SiteNight;
+  windows: Interval[];
+  observableHours: number;
+  moonSeparationDeg: number;
+};
+
+/** Per-night windows for one target over prepared nights (numbers only; the fast path). */
+export function targetNights(prepared: PreparedSite, target: Target, minAltitudeDeg: number): TargetNight[] {
+  const out: TargetNight[] = new Array(prepared.nights.length);
+  for (let i = 0; i < prepared.nights.length; i++) {
+    const night = prepared.nights[i];
+    const place = apparentPlace(target, night);
+    const windows = targetWindows(night, prepared.site, place.raDeg, place.decDeg, minAltitudeDeg);
+    let ms = 0;
+    for (const w of windows) ms += w.end - w.start;
+    out[i] = { night, windows, observableHours: ms / 3_600_000, moonSeparationDeg: vectorSeparationDeg(place.dir, night.moonDir) };
+  }
+  return out;
+}
+
+const iso = (t: number | null) => (t === null ? null : new Date(t).toISOString());
+
+export type NightJson = {
+  date: string;
+  sunset: string | null;
+  sunrise: string | null;
+  darkStart: string | null;
+  darkEnd: string | null;
+  windows: { start: string; end: string }[];
+  observableHours: number;
+  moon: { illumination: number; altitudeDeg: number; separationDeg: number };
+  moonCategory: MoonCategory;
+};
+
+export type VisibilityJson = {
+  site: Site;
+  target: { raDeg: number; decDeg: number };
+  limit: { minAltitudeDeg: number; maxAirmass?: number };
+  nights: NightJson[];
+  summary: SemesterSummary;
+};
+
+export type SemesterSummary = {
+  observableHours: number;
+  byMoonCategory: Record<MoonCategory, number>;
+  darkHours: number;
+  bestMonths: { month: string; observableHours: number }[];
+  hoursPerNight: { date: string; hours: number; moonCategory: MoonCategory }[];
+};
+
+const round = (x: number, digits: number) => Math.round(x * 10 ** digits) / 10 ** digits;
+
+export function summarise(rows: TargetNight[]): SemesterSummary {
+  const byMoonCategory: Record<MoonCategory, number> = { dark: 0, grey: 0, bright: 0 };
+  const months = new Map<string, number>();
+  let total = 0;
+  let dark = 0;
+  for (const r of rows) {
+    total += r.observableHours;
+    byMoonCategory[r.night.moonCategory] += r.observableHours;
+    const month = r.night.date.slice(0, 7);
+    months.set(month, (months.get(month) ?? 0) + r.observableHours);
+    if (r.night.darkStart !== null && r.night.darkEnd !== null) dark += (r.night.darkEnd - r.night.darkStart) / 3_600_000;
+  }
+  const bestMonths = [...months.entries()]
+    .filter(([, h]) => h > 0)
+    .sort((a, b) => b[1] - a[1])
+    .slice(0, 3)
+    .map(([month, h]) => ({ month, observableHours: round(h, 2) }));
+  return {
+    observableHours: round(total, 2),
+    byMoonCategory: {
+      dark: round(byMoonCategory.dark, 2),
+      grey: round(byMoonCategory.grey, 2),
+      bright: round(byMoonCategory.bright, 2),
+    },
+    darkHours: round(dark, 2),
+    bestMonths,
+    hoursPerNight: rows.map((r) => ({ date: r.night.date, hours: round(r.observableHours, 3), moonCategory: r.night.moonCategory })),
+  };
+}
+
+export type VisibilityInput = { site: Site; target: Target; from: string; nights: number; limit: Limit };
+
+/** The API's visibility answer: nights with ISO 8601 UTC times and a semester summary. */
+export function computeVisibility(input: VisibilityInput): VisibilityJson {
+  const prepared = prepareSiteNights(input.site, input.from, input.nights);
+  const minAltitudeDeg = limitAltitude(input.limit);
+  const rows = targetNights(prepared, input.target, minAltitudeDeg);
+  return {
+    site: input.site,
+    target: { raDeg: input.target.raDeg, decDeg: input.target.decDeg },
+    limit: { minAltitudeDeg: round(minAltitudeDeg, 4), ...("maxAirmass" in input.limit ? { maxAirmass: input.limit.maxAirmass } : {}) },
+    nights: rows.map((r) => ({
+      date: r.night.date,
+      sunset: iso(r.night.sunset),
+      sunrise: iso(r.night.sunrise),
+      darkStart: iso(r.night.darkStart),
+      darkEnd: iso(r.night.darkEnd),
+      windows: r.windows.map((w) => ({ start: iso(w.start) as string, end: iso(w.end) as string })),
+      observableHours: round(r.observableHours, 4),
+      moon: {
+        illumination: round(r.night.moonIllumination, 4),
+        altitudeDeg: round(r.night.moonAltitudeDeg, 2),
+        separationDeg: round(r.moonSeparationDeg, 2),
+      },
+      moonCategory: r.night.moonCategory,
+    })),
+    summary: summarise(rows),
+  };
+}
+
+export type CurvePoint = { time: string; targetAltDeg: number; sunAltDeg: number; moonAltDeg: number };
+
+/**
+ * Altitude against time for one night (for a chart), every `stepMinutes` across the frame's
+ * night half: from 1 h before sunset (or the frame's quarter) to 1 h after sunrise. Sun and Moon
+ * from astronomy-engine directly (topocentric, geometric), the target as in `targetWindows`.
+ */
+export function altitudeCurve(site: Site, target: Target, date: string, stepMinutes = 10): {
+  night: SiteNight;
+  points: CurvePoint[];
+} {
+  const prepared = prepareSiteNights(site, date, 1);
+  const night = prepared.nights[0];
+  const quarter = (night.frameEnd - night.frameStart) / 4;
+  const start = night.sunset !== null ? night.sunset - 3_600_000 : night.frameStart + quarter;
+  const end = night.sunrise !== null ? night.sunrise + 3_600_000 : night.frameEnd - quarter;
+  const observer = new Astro.Observer(site.latitudeDeg, site.longitudeDeg, site.elevationM);
+  const place = apparentPlace(target, night);
+  const points: CurvePoint[] = [];
+  for (let t = start; t <= end + 1; t += stepMinutes * 60_000) {
+    const time = new Astro.AstroTime(utDays(t));
+    const sun = Astro.Equator(Astro.Body.Sun, time, observer, true, true);
+    const moon = Astro.Equator(Astro.Body.Moon, time, observer, true, true);
+    points.push({
+      time: new Date(t).toISOString(),
+      targetAltDeg: round(Astro.Horizon(time, observer, place.raDeg / 15, place.decDeg).altitude, 3),
+      sunAltDeg: round(Astro.Horizon(time, observer, sun.ra, sun.dec).altitude, 3),
+      moonAltDeg: round(Astro.Horizon(time, observer, moon.ra, moon.dec).altitude, 3),
+    });
+  }
+  return { night, points };
+}
+
+/** Local calendar date of an instant at a site (re-exported for callers that label nights). */
+export function siteLocalDate(site: Site, t: number): string {
+  return localDate(t, site.timeZone);
+}
