@@ -1,0 +1,19 @@
+// Vocabulary shared by the server, the database models and the browser (no imports on purpose).
+export const grantableRoles = ["reviewer", "chair", "admin"] as const;
+export type GrantableRole = (typeof grantableRoles)[number];
+
+export const moonCategories = ["dark", "grey", "bright"] as const;
+export type MoonCategory = (typeof moonCategories)[number];
+
+export const proposalStatuses = ["draft", "submitted", "in_review", "accepted", "waitlisted", "declined", "withdrawn"] as const;
+export type ProposalStatus = (typeof proposalStatuses)[number];
+
+export const proposalStatusLabels: Record<ProposalStatus, string> = {
+  draft: "draft",
+  submitted: "submitted",
+  in_review: "in review",
+  accepted: "accepted",
+  waitlisted: "waitlisted",
+  declined: "declined",
+  withdrawn: "withdrawn",
+};

@@ -1,0 +1,138 @@
+import nodemailer, { type SendMailOptions } from "nodemailer";
+import { QueryTypes, type Transaction } from "sequelize";
+import { OutgoingMail, sequelize } from "~/models/index.server";
+import type { MailAttachment } from "~/models/OutgoingMail";
+import { env } from "./env.server";
+
+export const MAX_MAIL_ATTEMPTS = 12;
+
+const transport = nodemailer.createTransport({
+  host: env.SMTP_HOST,
+  port: env.SMTP_PORT,
+  secure: env.SMTP_PORT === 465,
+  auth: env.SMTP_USER ? { user: env.SMTP_USER, pass: env.SMTP_PASSWORD } : undefined,
+  connectionTimeout: 5_000,
+  greetingTimeout: 5_000,
+  socketTimeout: 10_000,
+  tls: { rejectUnauthorized: env.NODE_ENV === "production" && env.SMTP_HOST !== "127.0.0.1" },
+});
+
+export function mailTransport() {
+  return transport;
+}
+
+/** Queues a message; it is sent by the worker, so a mail outage never loses it. */
+export async function enqueueMail(
+  message: { to: string; subject: string; text: string; html?: string; attachments?: MailAttachment[] },
+  transaction?: Transaction,
+) {
+  const row = await OutgoingMail.create(
+    {
+      toAddress: message.to,
+      subject: message.subject,
+      textBody: message.text,
+      htmlBody: message.html ?? null,
+      attachments: message.attachments ?? null,
+      nextAttemptAt: new Date(),
+      lastError: null,
+      messageId: null,
+      sentAt: null,
+    },
+    { transaction },
+  );
+  if (!transaction) kickWorker();
+  else transaction.afterCommit(kickWorker);
+  return row;
+}
+
+/** Back-off after the n-th failed attempt: 5 s, 10 s, 20 s … capped at 15 minutes. */
+export function retryDelayMs(attempts: number) {
+  return Math.min(5_000 * 2 ** Math.max(0, attempts - 1), 15 * 60_000);
+}
+
+/**
+ * Sends the messages that are due, one row at a time. Each row is locked with
+ * SKIP LOCKED inside its own transaction, so several app processes never send it twice.
+ */
+export async function drainMailQueue({ limit = 50, send = (m: SendMailOptions): Promise<{ messageId?: string }> => transport.sendMail(m) } = {}) {
+  let sent = 0;
+  let failed = 0;
+  for (let i = 0; i < limit; i++) {
+    const outcome = await sequelize.transaction(async (transaction) => {
+      const rows = await sequelize.query<{ id: number }>(
+        "SELECT id FROM outgoing_mail WHERE status = 'pending' AND nextAttemptAt <= NOW(3) ORDER BY nextAttemptAt, id LIMIT 1 FOR UPDATE SKIP LOCKED",
+        { type: QueryTypes.SELECT, transaction },
+      );
+      if (rows.length === 0) return "empty" as const;
+      const mail = await OutgoingMail.findByPk(rows[0].id, { transaction });
+      if (!mail) return "empty" as const;
+      try {
+        const info = await send({
+          from: env.MAIL_FROM,
+          to: mail.toAddress,
+          subject: mail.subject,
+          text: mail.textBody,
+          html: mail.htmlBody ?? undefined,
+          attachments: (mail.attachments ?? []).map((a) => ({
+            filename: a.filename,
+            contentType: a.contentType,
+            content: Buffer.from(a.content, "base64"),
+          })),
+        });
+        await mail.update({ status: "sent", sentAt: new Date(), attempts: mail.attempts + 1, messageId: info?.messageId ?? null, lastError: null }, { transaction });
+        return "sent" as const;
+      } catch (error) {
+        const attempts = mail.attempts + 1;
+        await mail.update(
+          {
+            attempts,
+            lastError: error instanceof Error ? error.message : String(error),
+            status: attempts >= MAX_MAIL_ATTEMPTS ? "failed" : "pending",
+            nextAttemptAt: new Date(Date.now() + retryDelayMs(attempts)),
+          },
+          { transaction },
+        );
+        return "failed" as const;
+      }
+    });
+    if (outcome === "empty") break;
+    if (outcome === "sent") sent++;
+    else failed++;
+  }
+  return { sent, failed };
+}
+
+let timer: NodeJS.Timeout | null = null;
+let running = false;
+let stopped = true;
+
+async function tick() {
+  if (running || stopped) return;
+  running = true;
+  try {
+    await drainMailQueue();
+  } catch (error) {
+    console.error("[mail] queue drain failed:", error instanceof Error ? error.message : error);
+  } finally {
+    running = false;
+  }
+}
+
+function kickWorker() {
+  if (!stopped) setImmediate(tick);
+}
+
+export function startMailWorker(intervalMs = 2_000) {
+  if (!stopped) return;
+  stopped = false;
+  timer = setInterval(tick, intervalMs);
+  timer.unref();
+  setImmediate(tick);
+}
+
+export function stopMailWorker() {
+  stopped = true;
+  if (timer) clearInterval(timer);
+  timer = null;
+}
+

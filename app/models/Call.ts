@@ -1,0 +1,43 @@
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from "sequelize";
+import type { CallOffer } from "./CallOffer";
+
+export class Call extends Model<InferAttributes<Call>, InferCreationAttributes<Call>> {
+  declare id: CreationOptional<number>;
+  /** e.g. 2027A */
+  declare semesterCode: string;
+  declare title: string;
+  declare opensAt: Date;
+  declare deadlineAt: Date;
+  /** YYYY-MM-DD, inclusive */
+  declare semesterStart: string;
+  /** YYYY-MM-DD, inclusive */
+  declare semesterEnd: string;
+  declare pageLimit: number;
+  declare currency: CreationOptional<string>;
+  declare accessFeePerHourCents: CreationOptional<number>;
+  declare pageChargeCents: CreationOptional<number>;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+  declare offers?: NonAttribute<CallOffer[]>;
+
+  static initModel(sequelize: Sequelize) {
+    Call.init(
+      {
+        id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
+        semesterCode: { type: DataTypes.STRING(8), allowNull: false, unique: true },
+        title: { type: DataTypes.STRING(200), allowNull: false },
+        opensAt: { type: DataTypes.DATE(3), allowNull: false },
+        deadlineAt: { type: DataTypes.DATE(3), allowNull: false },
+        semesterStart: { type: DataTypes.DATEONLY, allowNull: false },
+        semesterEnd: { type: DataTypes.DATEONLY, allowNull: false },
+        pageLimit: { type: DataTypes.INTEGER, allowNull: false },
+        currency: { type: DataTypes.STRING(3), allowNull: false, defaultValue: "eur" },
+        accessFeePerHourCents: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+        pageChargeCents: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+        createdAt: DataTypes.DATE(3),
+        updatedAt: DataTypes.DATE(3),
+      },
+      { sequelize, tableName: "calls" },
+    );
+  }
+}

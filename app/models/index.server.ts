@@ -1,0 +1,68 @@
+import { sequelize } from "~/lib/db.server";
+import { AuditEntry } from "./AuditEntry";
+import { Call } from "./Call";
+import { CallOffer } from "./CallOffer";
+import { Filter } from "./Filter";
+import { Instrument } from "./Instrument";
+import { Observation } from "./Observation";
+import { OutgoingMail } from "./OutgoingMail";
+import { PaymentEvent } from "./PaymentEvent";
+import { PlannedEpoch } from "./PlannedEpoch";
+import { Proposal } from "./Proposal";
+import { ProposalMember } from "./ProposalMember";
+import { RoleGrant } from "./RoleGrant";
+import { SignInCode, SignInRequest } from "./SignIn";
+import { StoredFile } from "./StoredFile";
+import { Target } from "./Target";
+import { Telescope } from "./Telescope";
+import { User } from "./User";
+
+for (const model of [
+  User, RoleGrant, Telescope, Instrument, Filter, Call, CallOffer, Proposal, ProposalMember,
+  Target, Observation, PlannedEpoch, StoredFile, OutgoingMail, AuditEntry, SignInRequest,
+  SignInCode, PaymentEvent,
+]) {
+  model.initModel(sequelize);
+}
+
+User.hasMany(RoleGrant, { foreignKey: "userId", as: "roleGrants" });
+RoleGrant.belongsTo(User, { foreignKey: "userId", as: "user" });
+RoleGrant.belongsTo(User, { foreignKey: "grantedById", as: "grantedBy" });
+
+Telescope.hasMany(Instrument, { foreignKey: "telescopeId", as: "instruments" });
+Instrument.belongsTo(Telescope, { foreignKey: "telescopeId", as: "telescope" });
+Instrument.hasMany(Filter, { foreignKey: "instrumentId", as: "filters" });
+Filter.belongsTo(Instrument, { foreignKey: "instrumentId", as: "instrument" });
+
+Call.hasMany(CallOffer, { foreignKey: "callId", as: "offers" });
+CallOffer.belongsTo(Call, { foreignKey: "callId", as: "call" });
+CallOffer.belongsTo(Telescope, { foreignKey: "telescopeId", as: "telescope" });
+
+Call.hasMany(Proposal, { foreignKey: "callId", as: "proposals" });
+Proposal.belongsTo(Call, { foreignKey: "callId", as: "call" });
+Proposal.belongsTo(User, { foreignKey: "createdById", as: "createdBy" });
+Proposal.hasMany(ProposalMember, { foreignKey: "proposalId", as: "members" });
+ProposalMember.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" });
+ProposalMember.belongsTo(User, { foreignKey: "userId", as: "user" });
+Proposal.hasMany(Target, { foreignKey: "proposalId", as: "targets" });
+Target.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" });
+Proposal.hasMany(Observation, { foreignKey: "proposalId", as: "observations" });
+Observation.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" });
+Observation.belongsTo(Target, { foreignKey: "targetId", as: "target" });
+Target.hasMany(Observation, { foreignKey: "targetId", as: "observations" });
+Observation.belongsTo(Instrument, { foreignKey: "instrumentId", as: "instrument" });
+Observation.belongsTo(Filter, { foreignKey: "filterId", as: "filter" });
+Observation.hasMany(PlannedEpoch, { foreignKey: "observationId", as: "epochs" });
+PlannedEpoch.belongsTo(Observation, { foreignKey: "observationId", as: "observation" });
+Proposal.hasMany(StoredFile, { foreignKey: "proposalId", as: "files" });
+StoredFile.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" });
+StoredFile.belongsTo(User, { foreignKey: "uploadedById", as: "uploadedBy" });
+
+AuditEntry.belongsTo(User, { foreignKey: "actorId", as: "actor" });
+AuditEntry.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" });
+
+export {
+  sequelize, AuditEntry, Call, CallOffer, Filter, Instrument, Observation, OutgoingMail,
+  PaymentEvent, PlannedEpoch, Proposal, ProposalMember, RoleGrant, SignInCode, SignInRequest,
+  StoredFile, Target, Telescope, User,
+};

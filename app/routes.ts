@@ -1,0 +1,21 @@
+import { type RouteConfig, index, layout, prefix, route } from "@react-router/dev/routes";
+
+export default [
+  route("healthz", "routes/healthz.ts"),
+  route("api/v1/payments/webhook", "routes/api.v1.payments.webhook.ts"),
+  route("sign-in/link", "routes/sign-in.link.ts"),
+  route("sign-out", "routes/sign-out.ts"),
+
+  layout("routes/_shell.tsx", [
+    index("routes/_index.tsx"),
+    route("sign-in", "routes/sign-in.tsx"),
+    route("welcome", "routes/welcome.tsx"),
+    route("review", "routes/review._index.tsx"),
+    route("committee", "routes/committee._index.tsx"),
+    ...prefix("admin", [
+      index("routes/admin._index.tsx"),
+      route("users", "routes/admin.users.tsx"),
+    ]),
+    route("*", "routes/$.tsx"),
+  ]),
+] satisfies RouteConfig;

@@ -1,0 +1,32 @@
+import { Link } from "react-router";
+import { requireRole } from "~/lib/auth.server";
+import { Call, Telescope, User } from "~/models/index.server";
+import type { Route } from "./+types/admin._index";
+
+export async function loader({ request }: Route.LoaderArgs) {
+  await requireRole(request, "admin");
+  const [users, telescopes, calls] = await Promise.all([User.count(), Telescope.count(), Call.count()]);
+  return { users, telescopes, calls };
+}
+
+export default function AdminHome({ loaderData }: Route.ComponentProps) {
+  const sections = [
+    { to: "/admin/users", title: "People and roles", text: `${loaderData.users} accounts. Grant and revoke reviewer, chair and admin roles.` },
+  ];
+  return (
+    <div className="space-y-4">
+      <h1>Observatory office</h1>
+      <p className="text-slate-600">
+        {loaderData.telescopes} telescopes and {loaderData.calls} calls are set up.
+      </p>
+      <div className="grid gap-4 md:grid-cols-3">
+        {sections.map((s) => (
+          <Link key={s.to} to={s.to} className="card block no-underline hover:border-night-700 hover:no-underline">
+            <h2 className="text-night-800">{s.title}</h2>
+            <p className="mt-1 text-sm text-slate-600">{s.text}</p>
+          </Link>
+        ))}
+      </div>
+    </div>
+  );
+}

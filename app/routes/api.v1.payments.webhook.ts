@@ -1,0 +1,23 @@
+import { data } from "react-router";
+import { recordPaymentEvent, verifyWebhook, WebhookRejected } from "~/lib/payments.server";
+import type { Route } from "./+types/api.v1.payments.webhook";
+
+// Signed by the payment service, not by a user session: the signature is the guard.
+export async function action({ request }: Route.ActionArgs) {
+  if (request.method !== "POST") return data({ error: "Use POST." }, { status: 405 });
+  const payload = await request.text();
+  try {
+    const event = verifyWebhook(payload, request.headers.get("stripe-signature"));
+    const { duplicate } = await recordPaymentEvent(event);
+    return data({ received: true, duplicate });
+  } catch (error) {
+    if (error instanceof WebhookRejected) {
+      return data({ error: "Webhook signature rejected.", issues: [{ path: "stripe-signature", message: error.message }] }, { status: 400 });
+    }
+    throw error;
+  }
+}
+
+export function loader() {
+  return data({ error: "Use POST." }, { status: 405 });
+}

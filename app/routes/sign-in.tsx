@@ -1,0 +1,168 @@
+import { zodResolver } from "@hookform/resolvers/zod";
+import { useForm } from "react-hook-form";
+import { data, Form, redirect, useActionData, useNavigation, useSubmit } from "react-router";
+import { Field, inputProps } from "~/components/Field";
+import {
+  CODE_LIFETIME_SECONDS,
+  getSessionUser,
+  rateLimitMessage,
+  safeRedirectTo,
+  sendSignInCode,
+  totpStateFromRequest,
+  verifySignInCode,
+  clientIp,
+} from "~/lib/auth.server";
+import { fieldErrors } from "~/lib/forms";
+import { codeSchema, emailSchema } from "~/lib/schemas/auth";
+import { getSession, sessionStorage } from "~/lib/session.server";
+import type { Route } from "./+types/sign-in";
+
+export function meta() {
+  return [{ title: "Sign in · Nightshare" }];
+}
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const url = new URL(request.url);
+  const redirectTo = safeRedirectTo(url.searchParams.get("redirectTo"));
+  if (await getSessionUser(request)) throw redirect(redirectTo);
+  const totp = totpStateFromRequest(request);
+  const session = await getSession(request);
+  const flash = session.get("flash");
+  return data(
+    {
+      step: totp.hasCode ? ("code" as const) : ("email" as const),
+      email: totp.email ?? "",
+      error: flash ?? totp.error ?? null,
+      redirectTo,
+      minutes: CODE_LIFETIME_SECONDS / 60,
+    },
+    flash ? { headers: { "Set-Cookie": await sessionStorage.commitSession(session) } } : undefined,
+  );
+}
+
+/** The strategy reads the form itself, so it gets a fresh request with just its fields. */
+function strategyRequest(request: Request, fields: Record<string, string>) {
+  const headers = new Headers({ "Content-Type": "application/x-www-form-urlencoded" });
+  for (const name of ["cookie", "x-nightshare-client-ip", "host"]) {
+    const value = request.headers.get(name);
+    if (value) headers.set(name, value);
+  }
+  return new Request(request.url, { method: "POST", headers, body: new URLSearchParams(fields) });
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const form = Object.fromEntries(await request.formData()) as Record<string, string>;
+  if (form.intent === "restart") {
+    throw redirect("/sign-in", { headers: { "Set-Cookie": "_totp=; Path=/; Max-Age=0; HttpOnly; SameSite=Lax" } });
+  }
+  if (form.intent === "verify") {
+    const parsed = codeSchema.safeParse(form);
+    if (!parsed.success) return data({ errors: fieldErrors(parsed.error), values: form }, { status: 400 });
+    return verifySignInCode(strategyRequest(request, { code: parsed.data.code }));
+  }
+  const parsed = emailSchema.safeParse(form);
+  if (!parsed.success) return data({ errors: fieldErrors(parsed.error), values: form }, { status: 400 });
+  const email = parsed.data.email.toLowerCase();
+  const limited = await rateLimitMessage({ email, ip: clientIp(request) });
+  if (limited) {
+    return data(
+      { errors: { email: limited.message } as Record<string, string>, values: form },
+      { status: 429, headers: { "Retry-After": String(limited.retryAfterSeconds) } },
+    );
+  }
+  return sendSignInCode(strategyRequest(request, { email }), { email, redirectTo: parsed.data.redirectTo ?? "/" });
+}
+
+function EmailStep({ redirectTo, email }: { redirectTo: string; email: string }) {
+  const actionData = useActionData<typeof action>();
+  const navigation = useNavigation();
+  const submit = useSubmit();
+  const server = actionData && "errors" in actionData ? actionData : undefined;
+  const { register, handleSubmit, formState } = useForm({
+    resolver: zodResolver(emailSchema),
+    defaultValues: { email: server?.values.email ?? email, redirectTo },
+  });
+  const error = formState.errors.email?.message ?? server?.errors.email;
+  return (
+    <Form
+      method="post"
+      noValidate
+      className="space-y-4"
+      onSubmit={handleSubmit((values, event) => submit(event?.target as HTMLFormElement))}
+    >
+      <input type="hidden" {...register("redirectTo")} />
+      <input type="hidden" name="intent" value="send" />
+      <Field label="E-mail address" id="email" error={error} hint="We send a one-time code and a sign-in link to this address.">
+        <input type="email" autoComplete="email" autoFocus {...inputProps("email", error)} {...register("email")} />
+      </Field>
+      <button type="submit" className="btn w-full" disabled={navigation.state === "submitting"}>
+        {navigation.state === "submitting" ? "Sending…" : "Send me a code"}
+      </button>
+    </Form>
+  );
+}
+
+function CodeStep({ email, minutes }: { email: string; minutes: number }) {
+  const actionData = useActionData<typeof action>();
+  const server = actionData && "errors" in actionData ? actionData : undefined;
+  const { register, handleSubmit, formState } = useForm({
+    resolver: zodResolver(codeSchema),
+    defaultValues: { code: server?.values.code ?? "" },
+  });
+  const submit = useSubmit();
+  const error = formState.errors.code?.message ?? server?.errors.code;
+  return (
+    <div className="space-y-5">
+      <p className="text-slate-700">
+        We sent a code to <strong>{email}</strong>. It works once and expires {minutes} minutes after it was sent.
+        You can also open the link in that e-mail.
+      </p>
+      <Form method="post" noValidate className="space-y-4" onSubmit={handleSubmit((_, event) => submit(event?.target as HTMLFormElement))}>
+        <input type="hidden" name="intent" value="verify" />
+        <Field label="Code from the e-mail" id="code" error={error}>
+          <input
+            autoComplete="one-time-code"
+            autoFocus
+            spellCheck={false}
+            maxLength={6}
+            {...inputProps("code", error)}
+            className="input font-mono text-lg tracking-[0.3em]"
+            {...register("code")}
+          />
+        </Field>
+        <button type="submit" className="btn w-full">Sign in</button>
+      </Form>
+      <div className="flex flex-wrap gap-2 border-t border-slate-200 pt-4 text-sm">
+        <Form method="post">
+          <input type="hidden" name="intent" value="send" />
+          <input type="hidden" name="email" value={email} />
+          <button type="submit" className="btn-quiet">Send a new code</button>
+        </Form>
+        <Form method="post">
+          <input type="hidden" name="intent" value="restart" />
+          <button type="submit" className="btn-quiet">Use another address</button>
+        </Form>
+      </div>
+    </div>
+  );
+}
+
+export default function SignIn({ loaderData }: Route.ComponentProps) {
+  const { step, email, error, redirectTo, minutes } = loaderData;
+  return (
+    <div className="mx-auto max-w-md">
+      <div className="card">
+        <h1>Sign in</h1>
+        <p className="mt-1 mb-5 text-sm text-slate-600">
+          No password: Nightshare mails you a code. A new address gets a new account.
+        </p>
+        {error ? (
+          <p role="alert" className="mb-4 rounded-md border border-red-200 bg-red-50 px-3 py-2 text-sm text-red-800">
+            {error}
+          </p>
+        ) : null}
+        {step === "code" ? <CodeStep email={email} minutes={minutes} /> : <EmailStep redirectTo={redirectTo} email={email} />}
+      </div>
+    </div>
+  );
+}
