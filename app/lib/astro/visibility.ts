@@ -593,3 +593,13 @@ export function altitudeCurve(site: Site, target: Target, date: string, stepMinu
 export function siteLocalDate(site: Site, t: number): string {
   return localDate(t, site.timeZone);
 }
+
+/** Moon's illuminated fraction k = (1 + cos i)/2 (Meeus 48.1), i from geocentric Moon and Sun vectors. */
+export function moonIllumination(t: number): number {
+  const time = new Astro.AstroTime(utDays(t));
+  const m = Astro.GeoMoon(time);
+  const e = Astro.HelioVector(Astro.Body.Earth, time);
+  const toSun: Vec3 = [-e.x - m.x, -e.y - m.y, -e.z - m.z];
+  const i = vectorSeparationDeg(toSun, [-m.x, -m.y, -m.z]);
+  return (1 + Math.cos(i * DEG)) / 2;
+}

@@ -1,0 +1,188 @@
+import * as Astro from "astronomy-engine";
+import { describe, expect, it } from "vitest";
+import { altitudeForAirmass } from "./airmass";
+import { localDate } from "./time";
+import {
+  MOON_CATEGORY_THRESHOLDS,
+  altitudeCurve,
+  computeVisibility,
+  moonCategory,
+  prepareSiteNights,
+  targetNights,
+  type Site,
+} from "./visibility";
+
+// Invented sites (no real observatory): mid-northern, southern, sub-arctic, arctic, near-pole.
+const MID: Site = { latitudeDeg: 44.2, longitudeDeg: 10.6, elevationM: 800, timeZone: "Europe/Rome" };
+const SOUTH: Site = { latitudeDeg: -31.7, longitudeDeg: -69.9, elevationM: 2400, timeZone: "America/Argentina/San_Juan" };
+const SUBARCTIC: Site = { latitudeDeg: 60.0, longitudeDeg: 5.0, elevationM: 100, timeZone: "Europe/Oslo" };
+const ARCTIC: Site = { latitudeDeg: 78.0, longitudeDeg: 15.0, elevationM: 10, timeZone: "Europe/Oslo" };
+const NEAR_POLE: Site = { latitudeDeg: 86.0, longitudeDeg: 0, elevationM: 0, timeZone: "UTC" };
+
+const observer = (s: Site) => new Astro.Observer(s.latitudeDeg, s.longitudeDeg, s.elevationM);
+
+describe("agreement with astronomy-engine's own searches (tolerance 1 s)", () => {
+  for (const [name, site, from] of [
+    ["mid-north", MID, "2027-02-01"],
+    ["south", SOUTH, "2027-08-01"],
+  ] as const) {
+    it(`sunset, sunrise, twilight and target crossings over 183 nights at the ${name} site`, () => {
+      const prepared = prepareSiteNights(site, from, 183);
+      const rows = targetNights(prepared, { raDeg: 201.7, decDeg: -12.3 }, 30);
+      const obs = observer(site);
+      Astro.DefineStar(Astro.Body.Star1, 201.7 / 15, -12.3, 1e6);
+      let worst = 0;
+      let windowEdges = 0;
+      for (const r of rows) {
+        const n = r.night;
+        const start = new Date(n.frameStart);
+        const ref = [
+          [Astro.SearchRiseSet(Astro.Body.Sun, obs, -1, start, 1), n.sunset],
+          [Astro.SearchRiseSet(Astro.Body.Sun, obs, +1, start, 1), n.sunrise],
+          [Astro.SearchAltitude(Astro.Body.Sun, obs, -1, start, 1, -18), n.darkStart],
+          [Astro.SearchAltitude(Astro.Body.Sun, obs, +1, start, 1, -18), n.darkEnd],
+        ] as const;
+        for (const [a, ours] of ref) worst = Math.max(worst, Math.abs(a!.date.getTime() - (ours as number)) / 1000);
+        for (const w of r.windows) {
+          if (w.start > n.darkStart! + 1) {
+            const a = Astro.SearchAltitude(Astro.Body.Star1, obs, +1, new Date(w.start - 600_000), 0.1, 30)!;
+            worst = Math.max(worst, Math.abs(a.date.getTime() - w.start) / 1000);
+            windowEdges++;
+          }
+          if (w.end < n.darkEnd! - 1) {
+            const a = Astro.SearchAltitude(Astro.Body.Star1, obs, -1, new Date(w.end - 600_000), 0.1, 30)!;
+            worst = Math.max(worst, Math.abs(a.date.getTime() - w.end) / 1000);
+            windowEdges++;
+          }
+        }
+      }
+      expect(windowEdges).toBeGreaterThan(50);
+      expect(worst).toBeLessThan(1);
+    });
+  }
+
+  it("Moon illumination and altitude agree with astronomy-engine (0.001, 0.02°)", () => {
+    const prepared = prepareSiteNights(MID, "2027-02-01", 60);
+    const obs = observer(MID);
+    for (const n of prepared.nights) {
+      const ill = Astro.Illumination(Astro.Body.Moon, new Date(n.refTime)).phase_fraction;
+      expect(Math.abs(ill - n.moonIllumination)).toBeLessThan(0.001);
+      const eq = Astro.Equator(Astro.Body.Moon, new Date(n.refTime), obs, true, true);
+      const alt = Astro.Horizon(new Date(n.refTime), obs, eq.ra, eq.dec).altitude;
+      expect(Math.abs(alt - n.moonAltitudeDeg)).toBeLessThan(0.02);
+    }
+  });
+});
+
+/** Observable hours by brute force: astronomy-engine altitude every 30 s inside the dark interval. */
+function bruteHours(site: Site, ra: number, dec: number, limit: number, a: number, b: number): number {
+  Astro.DefineStar(Astro.Body.Star2, ra / 15, dec, 1e6);
+  const obs = observer(site);
+  let up = 0;
+  const step = 30_000;
+  for (let t = a + step / 2; t < b; t += step) {
+    const eq = Astro.Equator(Astro.Body.Star2, new Date(t), obs, true, true);
+    if (Astro.Horizon(new Date(t), obs, eq.ra, eq.dec).altitude >= limit) up += step;
+  }
+  return up / 3_600_000;
+}
+
+describe("edge cases", () => {
+  it("circumpolar above the limit: one window spanning the whole dark interval", () => {
+    const [r] = targetNights(prepareSiteNights(MID, "2027-01-15", 1), { raDeg: 100, decDeg: 75 }, 20);
+    expect(r.windows).toEqual([{ start: r.night.darkStart, end: r.night.darkEnd }]);
+  });
+
+  it("never rising: no windows, no error", () => {
+    const v = computeVisibility({ site: MID, target: { raDeg: 100, decDeg: -60 }, from: "2027-01-15", nights: 5, limit: { minAltitudeDeg: 0 } });
+    expect(v.nights.every((n) => n.windows.length === 0 && n.observableHours === 0)).toBe(true);
+    expect(v.summary.observableHours).toBe(0);
+  });
+
+  it("no astronomical darkness at 60° N in June: darkStart and darkEnd null, no windows, but a sunset", () => {
+    const v = computeVisibility({ site: SUBARCTIC, target: { raDeg: 270, decDeg: 40 }, from: "2027-06-21", nights: 1, limit: { minAltitudeDeg: 20 } });
+    const n = v.nights[0];
+    expect(n.darkStart).toBeNull();
+    expect(n.darkEnd).toBeNull();
+    expect(n.windows).toEqual([]);
+    expect(n.sunset).not.toBeNull();
+    expect(n.sunrise).not.toBeNull();
+  });
+
+  it("midnight sun at 78° N: no sunset, no sunrise, no darkness", () => {
+    const [n] = prepareSiteNights(ARCTIC, "2027-06-21", 1).nights;
+    expect([n.sunset, n.sunrise, n.darkStart, n.darkEnd]).toEqual([null, null, null, null]);
+  });
+
+  it("polar night at 78° N: no sunset or sunrise, yet a dark interval bounded by −18° crossings", () => {
+    const [n] = prepareSiteNights(ARCTIC, "2027-12-21", 1).nights;
+    expect(n.sunset).toBeNull();
+    expect(n.sunrise).toBeNull();
+    expect(n.darkStart).toBeGreaterThan(n.frameStart);
+    expect(n.darkEnd).toBeLessThan(n.frameEnd);
+    const obs = observer(ARCTIC);
+    const a = Astro.SearchAltitude(Astro.Body.Sun, obs, -1, new Date(n.frameStart), 1, -18)!;
+    expect(Math.abs(a.date.getTime() - n.darkStart!) / 1000).toBeLessThan(2);
+  });
+
+  it("polar night at 86° N: dark the whole frame, and windows match a brute-force altitude scan", () => {
+    const prepared = prepareSiteNights(NEAR_POLE, "2027-12-20", 3);
+    for (const n of prepared.nights) {
+      expect(n.darkStart).toBe(n.frameStart);
+      expect(n.darkEnd).toBe(n.frameEnd);
+    }
+    // a target at δ = +2° near the pole hovers around 6° altitude: limit 5° gives one or two windows a night
+    const rows = targetNights(prepared, { raDeg: 40, decDeg: 2 }, 5);
+    for (const r of rows) {
+      const brute = bruteHours(NEAR_POLE, 40, 2, 5, r.night.darkStart!, r.night.darkEnd!);
+      expect(Math.abs(r.observableHours - brute)).toBeLessThan(0.02); // 30-s scan: ±0.01 h per edge
+    }
+  });
+
+  it("nights across a year boundary: consecutive dates, contiguous frames, sunset on the night's local date", () => {
+    const prepared = prepareSiteNights(SOUTH, "2027-12-30", 4);
+    expect(prepared.nights.map((n) => n.date)).toEqual(["2027-12-30", "2027-12-31", "2028-01-01", "2028-01-02"]);
+    for (let i = 0; i < prepared.nights.length; i++) {
+      const n = prepared.nights[i];
+      expect(localDate(n.sunset!, SOUTH.timeZone)).toBe(n.date);
+      if (i > 0) expect(n.frameStart).toBe(prepared.nights[i - 1].frameEnd);
+    }
+  });
+
+  it("observable hours match a brute-force scan at a mid-latitude site", () => {
+    const prepared = prepareSiteNights(MID, "2027-03-01", 20);
+    for (const r of targetNights(prepared, { raDeg: 150, decDeg: 5 }, 35)) {
+      const brute = bruteHours(MID, 150, 5, 35, r.night.darkStart!, r.night.darkEnd!);
+      expect(Math.abs(r.observableHours - brute)).toBeLessThan(0.02);
+    }
+  });
+
+  it("an air-mass limit is the same as the equivalent altitude limit", () => {
+    const base = { site: MID, target: { raDeg: 150, decDeg: 5 }, from: "2027-03-01", nights: 10 };
+    const a = computeVisibility({ ...base, limit: { maxAirmass: 1.5 } });
+    const b = computeVisibility({ ...base, limit: { minAltitudeDeg: altitudeForAirmass(1.5) } });
+    expect(a.nights.map((n) => n.windows)).toEqual(b.nights.map((n) => n.windows));
+    // sec z = 1.5 would give 41.81°; the curved atmosphere of Kasten & Young needs a little less altitude
+    expect(Math.abs(a.limit.minAltitudeDeg - 41.74)).toBeLessThan(0.02);
+  });
+
+  it("moon categories follow the stated thresholds", () => {
+    expect(moonCategory(MOON_CATEGORY_THRESHOLDS.darkBelow - 0.01)).toBe("dark");
+    expect(moonCategory(MOON_CATEGORY_THRESHOLDS.darkBelow)).toBe("grey");
+    expect(moonCategory(MOON_CATEGORY_THRESHOLDS.greyBelow)).toBe("bright");
+    const v = computeVisibility({ site: MID, target: { raDeg: 150, decDeg: 5 }, from: "2027-02-01", nights: 30, limit: { minAltitudeDeg: 30 } });
+    const cats = new Set(v.nights.map((n) => n.moonCategory));
+    expect(cats).toEqual(new Set(["dark", "grey", "bright"]));
+    const sum = v.summary.byMoonCategory.dark + v.summary.byMoonCategory.grey + v.summary.byMoonCategory.bright;
+    expect(sum).toBeCloseTo(v.summary.observableHours, 1);
+  });
+
+  it("an altitude curve for a night peaks where the target transits", () => {
+    const { points, night } = altitudeCurve(MID, { raDeg: 150, decDeg: 5 }, "2027-03-01", 10);
+    expect(points.length).toBeGreaterThan(50);
+    const max = points.reduce((a, b) => (b.targetAltDeg > a.targetAltDeg ? b : a));
+    expect(max.targetAltDeg).toBeCloseTo(90 - 44.2 + 5, 0);
+    expect(Date.parse(points[0].time)).toBeLessThan(night.sunset!);
+    expect(points.every((p) => p.sunAltDeg < 30)).toBe(true);
+  });
+});
