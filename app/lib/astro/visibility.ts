@@ -452,14 +452,52 @@ export type TargetNight = {
 
 /** Per-night windows for one target over prepared nights (numbers only; the fast path). */
 export function targetNights(prepared: PreparedSite, target: Target, minAltitudeDeg: number): TargetNight[] {
+  const site = prepared.site;
+  const sinLat = Math.sin(site.latitudeDeg * DEG);
+  const cosLat = Math.cos(site.latitudeDeg * DEG);
+  const sinH0 = Math.sin(minAltitudeDeg * DEG);
+  const moving = (target.pmRaCosDecMasPerYr ?? 0) !== 0 || (target.pmDecMasPerYr ?? 0) !== 0;
+  const fixed = moving ? null : directionAt(target, 0);
+  const rate = SIDEREAL_RATE_DEG_PER_DAY / DAY_MS;
   const out: TargetNight[] = new Array(prepared.nights.length);
   for (let i = 0; i < prepared.nights.length; i++) {
     const night = prepared.nights[i];
-    const place = apparentPlace(target, night);
-    const windows = targetWindows(night, prepared.site, place.raDeg, place.decDeg, minAltitudeDeg);
-    let ms = 0;
-    for (const w of windows) ms += w.end - w.start;
-    out[i] = { night, windows, observableHours: ms / 3_600_000, moonSeparationDeg: vectorSeparationDeg(place.dir, night.moonDir) };
+    const u = fixed ?? directionAt(target, night.refTime);
+    const ab = night.aberration;
+    const x0 = u[0] + ab[0];
+    const y0 = u[1] + ab[1];
+    const z0 = u[2] + ab[2];
+    const m = night.rotation;
+    const x = m[0] * x0 + m[1] * y0 + m[2] * z0;
+    const y = m[3] * x0 + m[4] * y0 + m[5] * z0;
+    const z = m[6] * x0 + m[7] * y0 + m[8] * z0;
+    const r = Math.sqrt(x * x + y * y + z * z);
+    const sinDec = z / r;
+    const cosDec = Math.sqrt(x * x + y * y) / r;
+    const md = night.moonDir;
+    const moonSeparationDeg = Math.acos(Math.max(-1, Math.min(1, (x * md[0] + y * md[1] + z * md[2]) / r))) * RAD;
+    const windows: Interval[] = [];
+    let hours = 0;
+    if (night.darkStart !== null && night.darkEnd !== null) {
+      const a = night.darkStart;
+      const b = night.darkEnd;
+      const denom = cosLat * cosDec;
+      const c = denom < 1e-12 ? (sinH0 - sinLat * sinDec > 0 ? 2 : -2) : (sinH0 - sinLat * sinDec) / denom;
+      if (c <= -1) windows.push({ start: a, end: b });
+      else if (c < 1) {
+        const H0 = Math.acos(c) * RAD;
+        const ra = Math.atan2(y, x) * RAD;
+        const ha = wrap180(night.gastDeg + rate * (a - night.gastTime) + site.longitudeDeg - ra);
+        const hb = ha + rate * (b - a);
+        for (let k = Math.floor((ha + H0) / 360); 360 * k - H0 <= hb; k++) {
+          const lo = Math.max(ha, 360 * k - H0);
+          const hi = Math.min(hb, 360 * k + H0);
+          if (hi > lo) windows.push({ start: a + (lo - ha) / rate, end: a + (hi - ha) / rate });
+        }
+      }
+      for (const w of windows) hours += (w.end - w.start) / 3_600_000;
+    }
+    out[i] = { night, windows, observableHours: hours, moonSeparationDeg };
   }
   return out;
 }
