@@ -3,6 +3,7 @@ import { type RouteConfig, index, layout, prefix, route } from "@react-router/de
 export default [
   route("healthz", "routes/healthz.ts"),
   route("api/v1/payments/webhook", "routes/api.v1.payments.webhook.ts"),
+  route("api/v1/admin/users", "routes/api.v1.admin.users.ts"),
   route("sign-in/link", "routes/sign-in.link.ts"),
   route("sign-out", "routes/sign-out.ts"),
 

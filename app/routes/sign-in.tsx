@@ -93,7 +93,14 @@ function EmailStep({ redirectTo, email }: { redirectTo: string; email: string })
       <input type="hidden" {...register("redirectTo")} />
       <input type="hidden" name="intent" value="send" />
       <Field label="E-mail address" id="email" error={error} hint="We send a one-time code and a sign-in link to this address.">
-        <input type="email" autoComplete="email" autoFocus {...inputProps("email", error)} {...register("email")} />
+        <input
+            type="email"
+            autoComplete="email"
+            autoFocus
+            defaultValue={server?.values.email ?? email}
+            {...inputProps("email", error)}
+            {...register("email")}
+          />
       </Field>
       <button type="submit" className="btn w-full" disabled={navigation.state === "submitting"}>
         {navigation.state === "submitting" ? "Sending…" : "Send me a code"}

@@ -43,10 +43,15 @@ export default function Welcome({ loaderData }: Route.ComponentProps) {
       </p>
       <Form method="post" noValidate className="space-y-4" onSubmit={handleSubmit((_, e) => submit(e?.target as HTMLFormElement))}>
         <Field label="Your name" id="name" error={error("name")}>
-          <input autoComplete="name" {...inputProps("name", error("name"))} {...register("name")} />
+          <input autoComplete="name" defaultValue={actionData?.values.name ?? loaderData.name} {...inputProps("name", error("name"))} {...register("name")} />
         </Field>
         <Field label="Institution" id="institution" error={error("institution")}>
-          <input autoComplete="organization" {...inputProps("institution", error("institution"))} {...register("institution")} />
+          <input
+            autoComplete="organization"
+            defaultValue={actionData?.values.institution ?? loaderData.institution}
+            {...inputProps("institution", error("institution"))}
+            {...register("institution")}
+          />
         </Field>
         <button type="submit" className="btn w-full">Continue</button>
       </Form>

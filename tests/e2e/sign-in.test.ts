@@ -1,0 +1,85 @@
+import type { Browser } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { listen } from "../helpers/app";
+import { launchBrowser, screenshot, watchConsole } from "../helpers/browser";
+import { ensureDatabase } from "../helpers/db";
+import { clearMail } from "../helpers/maildev";
+import { signInInBrowser } from "../helpers/sign-in-browser";
+
+describe("signing in with Chromium", () => {
+  let server: Awaited<ReturnType<typeof listen>>;
+  let browser: Browser;
+  beforeAll(async () => {
+    await ensureDatabase();
+    await clearMail();
+    server = await listen();
+    browser = await launchBrowser();
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await server?.close();
+  });
+
+  it("shows the home page to a visitor", async () => {
+    const page = await browser.newPage();
+    const errors = watchConsole(page);
+    await page.goto(server.url);
+    await expect(page.getByRole("heading", { level: 1 })).toBeTruthy();
+    expect(await page.getByRole("link", { name: "Sign in" }).first().isVisible()).toBe(true);
+    expect(await page.getByRole("link", { name: "Office" }).count()).toBe(0);
+    await screenshot(page, "home-visitor");
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  it("refuses a malformed address at the field, keeping it", async () => {
+    const page = await browser.newPage();
+    const errors = watchConsole(page);
+    await page.goto(`${server.url}/sign-in`);
+    await page.getByLabel("E-mail address").fill("someone@nowhere");
+    await page.getByRole("button", { name: "Send me a code" }).click();
+    await page.getByText("Enter a valid e-mail address").waitFor();
+    expect(await page.getByLabel("E-mail address").inputValue()).toBe("someone@nowhere");
+    await screenshot(page, "sign-in-error");
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  it("signs in the demo admin with the code from the mail catcher and manages roles", async () => {
+    const page = await browser.newPage();
+    const errors = watchConsole(page);
+    await page.goto(`${server.url}/sign-in`);
+    await screenshot(page, "sign-in");
+    await signInInBrowser(page, server.url, "admin@kestrel-ridge.example");
+    await screenshot(page, "home-admin");
+    expect(await page.getByRole("link", { name: "Office" }).isVisible()).toBe(true);
+    expect(await page.getByRole("link", { name: "Committee" }).count()).toBe(0);
+
+    await page.goto(`${server.url}/admin/users`);
+    await page.getByRole("heading", { name: "People and roles" }).waitFor();
+    await page.getByLabel("Find").fill("pi4@");
+    const grant = page.getByRole("button", { name: "Grant reviewer for pi4@kestrel-ridge.example" });
+    await grant.click();
+    await page.getByRole("button", { name: "Revoke reviewer for pi4@kestrel-ridge.example" }).waitFor();
+    await page.getByLabel("Find").fill("");
+    await screenshot(page, "admin-users");
+    await page.getByRole("button", { name: "Revoke reviewer for pi4@kestrel-ridge.example" }).click();
+    await page.getByRole("button", { name: "Grant reviewer for pi4@kestrel-ridge.example" }).waitFor();
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  it("signs in the demo reviewer and shows only the review area", async () => {
+    const page = await browser.newPage();
+    const errors = watchConsole(page);
+    await signInInBrowser(page, server.url, "reviewer@kestrel-ridge.example");
+    expect(await page.getByRole("link", { name: "Review" }).first().isVisible()).toBe(true);
+    expect(await page.getByRole("link", { name: "Office" }).count()).toBe(0);
+    const response = await page.goto(`${server.url}/admin/users`);
+    expect(response?.status()).toBe(403);
+    await page.getByText("Not for your account").waitFor();
+    await screenshot(page, "forbidden");
+    expect(errors.filter((e) => !e.includes("403"))).toEqual([]);
+    await page.close();
+  });
+});
