@@ -87,7 +87,7 @@ export default function AdminUsers({ loaderData }: Route.ComponentProps) {
       column.accessor("name", { header: "Name" }),
       column.accessor("institution", { header: "Institution" }),
       column.accessor("isMemberInstitution", {
-        header: "Member",
+        header: "Member institution",
         cell: (info) => (info.getValue() ? "yes" : "no"),
       }),
       column.accessor("lastSignInAt", {
