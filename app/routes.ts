@@ -4,6 +4,9 @@ export default [
   route("healthz", "routes/healthz.ts"),
   route("api/v1/payments/webhook", "routes/api.v1.payments.webhook.ts"),
   route("api/v1/admin/users", "routes/api.v1.admin.users.ts"),
+  route("api/v1/proposals", "routes/api.v1.proposals.ts"),
+  route("api/v1/proposals/:proposalId", "routes/api.v1.proposals.$proposalId.ts"),
+  route("proposals/:proposalId/pdf", "routes/proposals.$proposalId.pdf.ts"),
   route("sign-in/link", "routes/sign-in.link.ts"),
   route("sign-out", "routes/sign-out.ts"),
 
@@ -13,6 +16,18 @@ export default [
     route("welcome", "routes/welcome.tsx"),
     route("review", "routes/review._index.tsx"),
     route("committee", "routes/committee._index.tsx"),
+    ...prefix("proposals", [
+      index("routes/proposals._index.tsx"),
+      route("new", "routes/proposals.new.tsx"),
+      route(":proposalId", "routes/proposals.$proposalId.tsx", [
+        index("routes/proposals.$proposalId._index.tsx"),
+        route("team", "routes/proposals.$proposalId.team.tsx"),
+        route("targets", "routes/proposals.$proposalId.targets.tsx"),
+        route("observations", "routes/proposals.$proposalId.observations.tsx"),
+        route("history", "routes/proposals.$proposalId.history.tsx"),
+        route("submit", "routes/proposals.$proposalId.submit.tsx"),
+      ]),
+    ]),
     ...prefix("admin", [
       index("routes/admin._index.tsx"),
       route("users", "routes/admin.users.tsx"),

@@ -10,6 +10,7 @@ export interface NavItem {
 
 export const navItems: NavItem[] = [
   { to: "/sky-tools", label: "Sky tools" },
+  { to: "/proposals", label: "My proposals", signedIn: true },
   { to: "/review", label: "Review", role: "reviewer" },
   { to: "/committee", label: "Committee", role: "chair" },
   { to: "/admin", label: "Office", role: "admin" },

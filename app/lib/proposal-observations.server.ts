@@ -1,0 +1,136 @@
+// Observations of a proposal: per target, an instrument and filter from the call's telescopes.
+import { writeAudit } from "~/lib/audit.server";
+import type { ObservationInput } from "~/lib/schemas/proposals";
+import { CallOffer, Filter, Instrument, Observation, sequelize, Target, Telescope } from "~/models/index.server";
+import { assertEditable, getProposalForUser, ProposalRefused, type Actor } from "./proposals.server";
+import type { Transaction } from "sequelize";
+
+export type InstrumentOption = {
+  telescopeId: number;
+  telescopeName: string;
+  apertureM: number;
+  instrumentId: number;
+  instrumentName: string;
+  readoutSeconds: number;
+  acquisitionSeconds: number;
+  filters: { id: number; band: string }[];
+};
+
+/** Instruments (with their filters) on the telescopes that this call offers time on. */
+export async function instrumentOptions({ callId, transaction }: { callId: number; transaction?: Transaction }): Promise<InstrumentOption[]> {
+  const offers = await CallOffer.findAll({ where: { callId }, attributes: ["telescopeId"], transaction });
+  const telescopeIds = [...new Set(offers.map((o) => o.telescopeId))];
+  if (telescopeIds.length === 0) return [];
+  const telescopes = await Telescope.findAll({
+    where: { id: telescopeIds },
+    include: [{ model: Instrument, as: "instruments", include: [{ model: Filter, as: "filters" }] }],
+    order: [["apertureM", "DESC"], ["id", "ASC"]],
+    transaction,
+  });
+  const bandOrder = ["U", "B", "V", "R", "I"];
+  return telescopes.flatMap((t) =>
+    (t.instruments ?? []).map((i) => ({
+      telescopeId: t.id,
+      telescopeName: t.name,
+      apertureM: t.apertureM,
+      instrumentId: i.id,
+      instrumentName: i.name,
+      readoutSeconds: i.readoutSeconds,
+      acquisitionSeconds: i.acquisitionSeconds,
+      filters: (i.filters ?? [])
+        .map((f) => ({ id: f.id, band: f.band }))
+        .sort((a, b) => (bandOrder.indexOf(a.band) + 99) % 99 - (bandOrder.indexOf(b.band) + 99) % 99 || a.band.localeCompare(b.band)),
+    })),
+  );
+}
+
+export type ObservationRow = Omit<ObservationInput, "mode"> & { id: number; mode: "snr" | "exposure"; targetName: string; instrumentName: string; telescopeId: number; band: string };
+
+export async function listObservations({ user, proposalId }: { user: Actor; proposalId: number }) {
+  const access = await getProposalForUser({ proposalId, user });
+  const [observations, options] = await Promise.all([
+    Observation.findAll({
+      where: { proposalId },
+      include: [
+        { model: Target, as: "target" },
+        { model: Instrument, as: "instrument" },
+        { model: Filter, as: "filter" },
+      ],
+      order: [["targetId", "ASC"], ["id", "ASC"]],
+    }),
+    instrumentOptions({ callId: access.call.id }),
+  ]);
+  const rows: ObservationRow[] = observations.map((o) => ({
+    id: o.id,
+    targetId: o.targetId,
+    targetName: o.target?.name ?? "?",
+    instrumentId: o.instrumentId,
+    instrumentName: o.instrument?.name ?? "?",
+    telescopeId: o.instrument?.telescopeId ?? 0,
+    filterId: o.filterId,
+    band: o.filter?.band ?? "?",
+    mode: o.snrGoal !== null ? "snr" : "exposure",
+    snrGoal: o.snrGoal,
+    exposureSeconds: o.exposureSeconds,
+    framesPerEpoch: o.framesPerEpoch,
+    epochsPerSemester: o.epochsPerSemester,
+    baselineYears: o.baselineYears,
+    requiredPmPrecisionMasPerYr: o.requiredPmPrecisionMasPerYr,
+    moonCategory: o.moonCategory,
+    maxAirmass: o.maxAirmass,
+    seeingArcsec: o.seeingArcsec,
+  }));
+  return { access, observations: rows, options };
+}
+
+async function checkChoices(proposalId: number, callId: number, input: ObservationInput, transaction: Transaction) {
+  const target = await Target.findOne({ where: { id: input.targetId, proposalId }, transaction });
+  if (!target) throw new ProposalRefused("Choose one of this proposal's targets.", 400, "targetId");
+  const options = await instrumentOptions({ callId, transaction });
+  const instrument = options.find((o) => o.instrumentId === input.instrumentId);
+  if (!instrument) throw new ProposalRefused("Choose an instrument on a telescope that this call offers.", 400, "instrumentId");
+  if (!instrument.filters.some((f) => f.id === input.filterId)) throw new ProposalRefused(`Choose one of the filters of ${instrument.instrumentName}.`, 400, "filterId");
+  return { target, instrument };
+}
+
+function columns(input: ObservationInput) {
+  const { mode: _mode, ...rest } = input;
+  return rest;
+}
+
+export async function createObservation({ user, proposalId, input }: { user: Actor; proposalId: number; input: ObservationInput }) {
+  return sequelize.transaction(async (transaction) => {
+    const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
+    assertEditable(access);
+    const { target, instrument } = await checkChoices(proposalId, access.call.id, input, transaction);
+    const observation = await Observation.create({ proposalId, ...columns(input) }, { transaction });
+    await writeAudit(
+      { actorId: user.id, action: "observation.added", entityType: "observation", entityId: observation.id, proposalId, details: { target: target.name, instrument: instrument.instrumentName } },
+      transaction,
+    );
+    return observation;
+  });
+}
+
+export async function updateObservation({ user, proposalId, observationId, input }: { user: Actor; proposalId: number; observationId: number; input: ObservationInput }) {
+  return sequelize.transaction(async (transaction) => {
+    const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
+    assertEditable(access);
+    const observation = await Observation.findOne({ where: { id: observationId, proposalId }, transaction });
+    if (!observation) throw new ProposalRefused("That observation is not part of this proposal (any more).", 400, "form");
+    const { target } = await checkChoices(proposalId, access.call.id, input, transaction);
+    await observation.update(columns(input), { transaction });
+    await writeAudit({ actorId: user.id, action: "observation.updated", entityType: "observation", entityId: observationId, proposalId, details: { target: target.name } }, transaction);
+    return observation;
+  });
+}
+
+export async function deleteObservation({ user, proposalId, observationId }: { user: Actor; proposalId: number; observationId: number }) {
+  return sequelize.transaction(async (transaction) => {
+    assertEditable(await getProposalForUser({ proposalId, user, transaction, lock: true }));
+    const observation = await Observation.findOne({ where: { id: observationId, proposalId }, include: [{ model: Target, as: "target" }], transaction });
+    if (!observation) throw new ProposalRefused("That observation is not part of this proposal (any more).", 400, "form");
+    await observation.destroy({ transaction });
+    await writeAudit({ actorId: user.id, action: "observation.deleted", entityType: "observation", entityId: observationId, proposalId, details: { target: observation.target?.name ?? null } }, transaction);
+  });
+}

@@ -1,0 +1,190 @@
+// Submission: a checklist computed on the server, then one transaction that gives the code
+// (NS-<semester>-<3 digits>, serial per call under a lock on the call's row), the state and the
+// audit entry; then the receipt with the proposal PDF to the PI and every Co-I.
+import { QueryTypes } from "sequelize";
+import { writeAudit } from "~/lib/audit.server";
+import { env } from "~/lib/env.server";
+import { computeFeasibilitySheet } from "~/lib/feasibility.server";
+import { enqueueMail } from "~/lib/mail-queue.server";
+import { plainMail } from "~/lib/mail-templates.server";
+import { buildProposalPdf } from "~/lib/proposal-pdf.server";
+import { ABSTRACT_WORD_LIMIT, scienceCategoryLabel, wordCount } from "~/lib/proposal-vocabulary";
+import { latestScienceCase } from "~/lib/science-case.server";
+import { Observation, ProposalMember, sequelize, Target } from "~/models/index.server";
+import { assertPi, deadlinePassed, getProposalForUser, ProposalRefused, type Access, type Actor } from "./proposals.server";
+
+export type ChecklistItem = { key: string; label: string; ok: boolean; detail: string; href?: string };
+
+export function proposalCode(semesterCode: string, serial: number) {
+  return `NS-${semesterCode}-${String(serial).padStart(3, "0")}`;
+}
+
+export async function submissionChecklist({ user, proposalId, access: given }: { user: Actor; proposalId: number; access?: Access }) {
+  const access = given ?? (await getProposalForUser({ proposalId, user }));
+  const { proposal, call } = access;
+  const base = `/proposals/${proposalId}`;
+  const items: ChecklistItem[] = [];
+
+  const words = wordCount(proposal.abstract);
+  const overviewGaps = [
+    proposal.title.trim().length < 5 ? "a title" : null,
+    words === 0 ? "an abstract" : words > ABSTRACT_WORD_LIMIT ? `an abstract within ${ABSTRACT_WORD_LIMIT} words (it has ${words})` : null,
+    !scienceCategoryLabel(proposal.scienceCategory) ? "a science category" : null,
+    proposal.isMultiSemester && (proposal.semestersRequested ?? []).length < 2 ? "the semesters of the multi-semester programme" : null,
+  ].filter(Boolean);
+  items.push({
+    key: "overview",
+    label: "Overview complete",
+    ok: overviewGaps.length === 0,
+    detail: overviewGaps.length ? `Missing: ${overviewGaps.join(", ")}.` : `${words} words in the abstract; ${scienceCategoryLabel(proposal.scienceCategory)}.`,
+    href: base,
+  });
+
+  const targets = await Target.findAll({ where: { proposalId }, attributes: ["id", "name"] });
+  items.push({ key: "targets", label: "At least one target", ok: targets.length > 0, detail: targets.length ? `${targets.length} target${targets.length === 1 ? "" : "s"}.` : "No target yet.", href: `${base}/targets` });
+
+  const observed = new Set((await Observation.findAll({ where: { proposalId }, attributes: ["targetId"] })).map((o) => o.targetId));
+  const without = targets.filter((t) => !observed.has(t.id));
+  items.push({
+    key: "observations",
+    label: "At least one observation per target",
+    ok: targets.length > 0 && without.length === 0,
+    detail:
+      targets.length === 0
+        ? "Add targets first."
+        : without.length
+          ? `No observation yet for ${without.slice(0, 5).map((t) => t.name).join(", ")}${without.length > 5 ? ` and ${without.length - 5} more` : ""}.`
+          : "Every target has an observation.",
+    href: `${base}/observations`,
+  });
+
+  let requestedHours: number | null = null;
+  try {
+    const sheet = await computeFeasibilitySheet({ proposalId });
+    requestedHours = sheet.requestedHours;
+    const blocking = sheet.problems.filter((p) => p.severity === "blocking");
+    const warnings = sheet.problems.length - blocking.length;
+    items.push({
+      key: "feasibility",
+      label: "Feasibility sheet without blocking errors",
+      ok: blocking.length === 0,
+      detail: blocking.length
+        ? `${blocking.length} blocking: ${blocking.slice(0, 3).map((p) => p.message).join(" · ")}${blocking.length > 3 ? " …" : ""}`
+        : `${sheet.requestedHours.toFixed(1)} h requested${warnings ? `; ${warnings} warning${warnings === 1 ? "" : "s"} to read` : ""}.`,
+      href: `${base}/feasibility`,
+    });
+  } catch (error) {
+    console.error("feasibility sheet failed", error);
+    items.push({ key: "feasibility", label: "Feasibility sheet without blocking errors", ok: false, detail: "The feasibility sheet could not be computed; open it to see why.", href: `${base}/feasibility` });
+  }
+
+  const scienceCase = await latestScienceCase({ proposalId });
+  items.push({
+    key: "scienceCase",
+    label: `Science case uploaded, at most ${call.pageLimit} pages`,
+    ok: Boolean(scienceCase && scienceCase.pageCount <= call.pageLimit),
+    detail: !scienceCase
+      ? "No science case uploaded yet."
+      : scienceCase.pageCount > call.pageLimit
+        ? `${scienceCase.filename} has ${scienceCase.pageCount} pages; the limit is ${call.pageLimit}.`
+        : `${scienceCase.filename}, ${scienceCase.pageCount} page${scienceCase.pageCount === 1 ? "" : "s"}.`,
+    href: `${base}/science-case`,
+  });
+
+  const late = deadlinePassed(call);
+  items.push({
+    key: "deadline",
+    label: "Before the deadline",
+    ok: !late,
+    detail: `${late ? "The deadline passed on" : "Deadline"} ${call.deadlineAt.toISOString().slice(0, 16).replace("T", " ")} UTC.`,
+  });
+
+  const ready = proposal.status === "draft" && items.every((i) => i.ok);
+  return { items, ready, requestedHours, access };
+}
+
+export async function submitProposal({ user, proposalId }: { user: Actor; proposalId: number }) {
+  const { items, access } = await submissionChecklist({ user, proposalId });
+  assertPi(access, "submit the proposal");
+  if (access.proposal.status !== "draft") throw new ProposalRefused(`The proposal is already ${access.proposal.status.replace("_", " ")}.`, 409);
+  const missing = items.filter((i) => !i.ok);
+  if (missing.length) {
+    throw new ProposalRefused(`Not submitted: ${missing.map((i) => `${i.label.toLowerCase()} (${i.detail.replace(/\.$/, "")})`).join("; ")}.`, 409);
+  }
+
+  const submitted = await sequelize.transaction(async (transaction) => {
+    // The call's row lock serialises code assignment within a call; the unique (callId, serial) index backs it up.
+    await sequelize.query("SELECT id FROM calls WHERE id = :callId FOR UPDATE", { replacements: { callId: access.call.id }, type: QueryTypes.SELECT, transaction });
+    const again = await getProposalForUser({ proposalId, user, transaction, lock: true });
+    assertPi(again, "submit the proposal");
+    const { proposal, call } = again;
+    if (proposal.status !== "draft") throw new ProposalRefused(`The proposal is already ${proposal.status.replace("_", " ")}.`, 409);
+    if (deadlinePassed(call)) throw new ProposalRefused(`The deadline of call ${call.semesterCode} has passed.`, 409);
+    const keptCode = proposal.code !== null;
+    if (!keptCode) {
+      const [row] = await sequelize.query<{ maxSerial: number | null }>("SELECT MAX(serial) AS maxSerial FROM proposals WHERE callId = :callId", {
+        replacements: { callId: call.id },
+        type: QueryTypes.SELECT,
+        transaction,
+      });
+      const serial = Number(row?.maxSerial ?? 0) + 1;
+      proposal.serial = serial;
+      proposal.code = proposalCode(call.semesterCode, serial);
+    }
+    proposal.status = "submitted";
+    proposal.submittedAt = new Date();
+    await proposal.save({ transaction });
+    await writeAudit(
+      { actorId: user.id, action: "proposal.submitted", entityType: "proposal", entityId: proposalId, proposalId, details: { code: proposal.code, keptCode } },
+      transaction,
+    );
+    return { code: proposal.code!, title: proposal.title, semesterCode: call.semesterCode, deadlineAt: call.deadlineAt, submittedAt: proposal.submittedAt };
+  });
+
+  const receipt = await queueReceipt({ user, proposalId, ...submitted });
+  return { ...submitted, ...receipt };
+}
+
+/**
+ * The receipt is queued after the submission commits, because the PDF must show the code that
+ * the submission assigned (the PDF builder reads committed data). If the PDF cannot be built the
+ * receipt still goes out, with the download link, and the failure is in the history.
+ */
+async function queueReceipt({ user, proposalId, code, title, semesterCode, deadlineAt, submittedAt }: { user: Actor; proposalId: number; code: string; title: string; semesterCode: string; deadlineAt: Date; submittedAt: Date | null }) {
+  let pdf: Uint8Array | null = null;
+  let pdfError: string | null = null;
+  try {
+    pdf = await buildProposalPdf({ proposalId });
+  } catch (error) {
+    pdfError = error instanceof Error ? error.message : String(error);
+    console.error("proposal PDF failed", error);
+  }
+  const members = await ProposalMember.findAll({ where: { proposalId } });
+  const link = new URL(`/proposals/${proposalId}/pdf`, env.APP_URL).toString();
+  const when = (d: Date | null) => (d ?? new Date()).toISOString().slice(0, 16).replace("T", " ");
+  const mail = plainMail({
+    subject: `Nightshare receipt: ${code} submitted`,
+    paragraphs: [
+      `The proposal ${code}, "${title}", was submitted to call ${semesterCode} on ${when(submittedAt)} UTC.`,
+      pdf ? "The attached PDF is the proposal as the time-allocation committee will read it: the cover, the technical pages with the feasibility sheet, and the science case." : `The PDF could not be attached this time; download it from Nightshare: ${link}`,
+      `The PI can withdraw it until the deadline, ${when(deadlineAt)} UTC, and reopen it as a draft to change it; it keeps its code.`,
+    ],
+    button: { label: "Download the proposal PDF", href: link },
+  });
+  const attachments = pdf ? [{ filename: `${code}.pdf`, contentType: "application/pdf", content: Buffer.from(pdf).toString("base64") }] : [];
+  await sequelize.transaction(async (transaction) => {
+    for (const m of members) await enqueueMail({ to: m.email, ...mail, attachments }, transaction);
+    await writeAudit(
+      { actorId: user.id, action: "proposal.receipt_queued", entityType: "proposal", entityId: proposalId, proposalId, details: { to: members.map((m) => m.email), pdfBytes: pdf?.byteLength ?? null, pdfError } },
+      transaction,
+    );
+  });
+  return { recipients: members.map((m) => m.email), pdfAttached: Boolean(pdf) };
+}
+
+export async function proposalPdfForUser({ user, proposalId }: { user: Actor; proposalId: number }) {
+  const { proposal } = await getProposalForUser({ proposalId, user });
+  const bytes = await buildProposalPdf({ proposalId });
+  return { bytes, filename: `${proposal.code ?? `nightshare-draft-${proposal.id}`}.pdf` };
+}
+

@@ -1,0 +1,92 @@
+// The team of a proposal: Co-Is invited by address (mailed through the queue), removed, and the
+// PI role handed over. Invitations are claimed when the invitee signs in with that address.
+import { writeAudit } from "~/lib/audit.server";
+import { env } from "~/lib/env.server";
+import { enqueueMail } from "~/lib/mail-queue.server";
+import { plainMail } from "~/lib/mail-templates.server";
+import { ProposalMember, sequelize, User } from "~/models/index.server";
+import { assertEditable, assertPi, getProposalForUser, ProposalRefused, type Actor } from "./proposals.server";
+
+export const MAX_TEAM_SIZE = 60;
+
+export type TeamMember = { id: number; email: string; name: string | null; institution: string | null; role: "pi" | "coi"; joined: boolean; isYou: boolean };
+
+export async function listTeam({ user, proposalId }: { user: Actor; proposalId: number }): Promise<TeamMember[]> {
+  await getProposalForUser({ proposalId, user });
+  const members = await ProposalMember.findAll({ where: { proposalId }, include: [{ model: User, as: "user" }], order: [["role", "DESC"], ["id", "ASC"]] });
+  return members.map((m) => ({
+    id: m.id,
+    email: m.email,
+    name: m.user?.name ?? null,
+    institution: m.user?.institution ?? null,
+    role: m.role,
+    joined: m.userId !== null,
+    isYou: m.userId === user.id,
+  }));
+}
+
+export async function inviteCoI({ user, proposalId, email }: { user: Actor; proposalId: number; email: string }) {
+  const address = email.trim().toLowerCase();
+  return sequelize.transaction(async (transaction) => {
+    const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
+    assertEditable(access);
+    const existing = await ProposalMember.findOne({ where: { proposalId, email: address }, transaction });
+    if (existing) throw new ProposalRefused(`${address} is already on the team.`, 400, "email");
+    if ((await ProposalMember.count({ where: { proposalId }, transaction })) >= MAX_TEAM_SIZE) {
+      throw new ProposalRefused(`A team has at most ${MAX_TEAM_SIZE} members.`, 400, "email");
+    }
+    const member = await ProposalMember.create({ proposalId, userId: null, email: address, role: "coi", acceptedAt: null }, { transaction });
+    const inviter = await User.findByPk(user.id, { transaction });
+    const who = inviter?.name ? `${inviter.name} (${inviter.email})` : user.email;
+    const link = new URL(`/proposals/${proposalId}`, env.APP_URL).toString();
+    const mail = plainMail({
+      subject: `Nightshare: you are invited as Co-I on "${access.proposal.title}"`,
+      paragraphs: [
+        `${who} has added you as a co-investigator (Co-I) on the proposal "${access.proposal.title}" for call ${access.call.semesterCode}.`,
+        `Sign in to Nightshare with this address (${address}) and the proposal appears under My proposals; you can edit it while it is a draft. Only the PI submits or withdraws it.`,
+        `The deadline is ${access.call.deadlineAt.toISOString().slice(0, 16).replace("T", " ")} UTC.`,
+      ],
+      button: { label: "Open the proposal", href: link },
+    });
+    await enqueueMail({ to: address, ...mail }, transaction);
+    await writeAudit({ actorId: user.id, action: "member.invited", entityType: "proposal_member", entityId: member.id, proposalId, details: { email: address, role: "coi" } }, transaction);
+    return member;
+  });
+}
+
+export async function removeMember({ user, proposalId, memberId }: { user: Actor; proposalId: number; memberId: number }) {
+  return sequelize.transaction(async (transaction) => {
+    const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
+    assertEditable(access);
+    const member = await ProposalMember.findOne({ where: { id: memberId, proposalId }, transaction });
+    if (!member) throw new ProposalRefused("That person is not on this team (any more).", 400, "memberId");
+    if (member.role === "pi") throw new ProposalRefused("The PI cannot be removed; hand the PI role to a Co-I first.", 409, "memberId");
+    const self = member.id === access.membership.id;
+    if (!self) assertPi(access, "remove other members");
+    await member.destroy({ transaction });
+    await writeAudit(
+      { actorId: user.id, action: self ? "member.left" : "member.removed", entityType: "proposal_member", entityId: memberId, proposalId, details: { email: member.email } },
+      transaction,
+    );
+    return { self };
+  });
+}
+
+export async function handOverPi({ user, proposalId, memberId }: { user: Actor; proposalId: number; memberId: number }) {
+  return sequelize.transaction(async (transaction) => {
+    const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
+    assertPi(access, "hand over the PI role");
+    assertEditable(access);
+    const member = await ProposalMember.findOne({ where: { id: memberId, proposalId }, transaction });
+    if (!member || member.role !== "coi") throw new ProposalRefused("Choose a Co-I of this proposal.", 400, "memberId");
+    if (member.userId === null) {
+      throw new ProposalRefused(`${member.email} has not signed in yet; the PI role can go to them once they have.`, 409, "memberId");
+    }
+    await access.membership.update({ role: "coi" }, { transaction });
+    await member.update({ role: "pi" }, { transaction });
+    await writeAudit(
+      { actorId: user.id, action: "member.pi_handed_over", entityType: "proposal_member", entityId: member.id, proposalId, details: { from: access.membership.email, to: member.email } },
+      transaction,
+    );
+  });
+}

@@ -1,0 +1,322 @@
+// The PI's proposals: every function takes one typed object and is scoped by the caller. A user
+// sees a proposal only through a membership (by user id, or by the invited address until the
+// first visit claims it); for anyone else the proposal does not exist (404, never 403).
+import { data } from "react-router";
+import { Op, QueryTypes, type Transaction } from "sequelize";
+import type { SessionUser } from "~/lib/auth.server";
+import { writeAudit } from "~/lib/audit.server";
+import type { ProposalStatus } from "~/lib/domain";
+import { upcomingSemesters } from "~/lib/proposal-vocabulary";
+import type { z } from "zod";
+import type { newProposalSchema, overviewSchema } from "~/lib/schemas/proposals";
+import { AuditEntry, Call, Proposal, ProposalMember, sequelize, User } from "~/models/index.server";
+import type { MemberRole } from "~/models/ProposalMember";
+
+export type Actor = Pick<SessionUser, "id" | "email">;
+
+/** A refusal the user can act on: shown next to `field` (or above the form) with `status`. */
+export class ProposalRefused extends Error {
+  constructor(
+    message: string,
+    readonly status: 400 | 403 | 409 = 400,
+    readonly field = "form",
+  ) {
+    super(message);
+  }
+}
+
+export function notFound(): never {
+  throw data({ error: "No such proposal.", message: "There is no proposal at this address, or you are not on its team." }, { status: 404 });
+}
+
+/** Where-clause of the memberships that are this user's (claimed, or invited by address and not yet claimed). */
+export function membershipWhere(user: Actor) {
+  return { [Op.or]: [{ userId: user.id }, { userId: null, email: user.email.toLowerCase() }] };
+}
+
+/** Invitations to this address become the user's on their first visit. */
+export async function claimInvitations({ user }: { user: Actor }) {
+  const [claimed] = await ProposalMember.update(
+    { userId: user.id, acceptedAt: new Date() },
+    { where: { userId: null, email: user.email.toLowerCase() } },
+  );
+  return claimed;
+}
+
+export function deadlinePassed(call: Pick<Call, "deadlineAt">, now = new Date()) {
+  return now.getTime() >= call.deadlineAt.getTime();
+}
+
+export function callIsOpen(call: Pick<Call, "opensAt" | "deadlineAt">, now = new Date()) {
+  return now.getTime() >= call.opensAt.getTime() && !deadlinePassed(call, now);
+}
+
+export type Access = { proposal: Proposal; call: Call; membership: ProposalMember; role: MemberRole; isPi: boolean; editable: boolean };
+
+/**
+ * The proposal if the user is on its team, else a 404. With `transaction` + `lock`, the
+ * proposal row is locked FOR UPDATE for the rest of the transaction.
+ */
+export async function getProposalForUser({
+  proposalId,
+  user,
+  transaction,
+  lock = false,
+}: {
+  proposalId: number;
+  user: Actor;
+  transaction?: Transaction;
+  lock?: boolean;
+}): Promise<Access> {
+  if (!Number.isSafeInteger(proposalId) || proposalId <= 0) notFound();
+  if (!transaction) await claimInvitations({ user });
+  const membership = await ProposalMember.findOne({ where: { proposalId, ...membershipWhere(user) }, transaction });
+  if (!membership) notFound();
+  const proposal = await Proposal.findByPk(proposalId, { transaction, lock: lock && transaction ? transaction.LOCK.UPDATE : undefined });
+  if (!proposal) notFound();
+  const call = await Call.findByPk(proposal.callId, { transaction });
+  if (!call) notFound();
+  return { proposal, call, membership, role: membership.role, isPi: membership.role === "pi", editable: proposal.status === "draft" };
+}
+
+/** Throws unless the proposal is a draft (submitted proposals are read-only). */
+export function assertEditable(access: Access) {
+  if (!access.editable) {
+    throw new ProposalRefused(
+      `This proposal is ${access.proposal.status === "in_review" ? "in review" : access.proposal.status}, so it is read-only.${
+        access.proposal.status === "submitted" ? " The PI can withdraw it before the deadline and reopen it as a draft to change it." : access.proposal.status === "withdrawn" ? " The PI can reopen it as a draft before the deadline." : ""
+      }`,
+      409,
+    );
+  }
+}
+
+export function assertPi(access: Access, what: string) {
+  if (!access.isPi) throw new ProposalRefused(`Only the PI can ${what}.`, 403);
+}
+
+export type ProposalSummary = {
+  id: number;
+  code: string | null;
+  title: string;
+  status: ProposalStatus;
+  role: MemberRole;
+  callId: number;
+  semesterCode: string;
+  deadlineAt: string;
+  lastChangeAt: string;
+  targets: number;
+  observations: number;
+};
+
+export async function listProposalsForUser({ user }: { user: Actor }): Promise<ProposalSummary[]> {
+  await claimInvitations({ user });
+  const memberships = await ProposalMember.findAll({
+    where: { userId: user.id },
+    include: [{ model: Proposal, as: "proposal", include: [{ model: Call, as: "call" }] }],
+  });
+  const ids = memberships.map((m) => m.proposalId);
+  if (ids.length === 0) return [];
+  const counts = await sequelize.query<{ proposalId: number; targets: number; observations: number; lastAudit: Date | null }>(
+    `SELECT p.id AS proposalId,
+            (SELECT COUNT(*) FROM targets t WHERE t.proposalId = p.id) AS targets,
+            (SELECT COUNT(*) FROM observations o WHERE o.proposalId = p.id) AS observations,
+            (SELECT MAX(a.createdAt) FROM audit_log a WHERE a.proposalId = p.id) AS lastAudit
+       FROM proposals p WHERE p.id IN (:ids)`,
+    { type: QueryTypes.SELECT, replacements: { ids } },
+  );
+  const byId = new Map(counts.map((c) => [Number(c.proposalId), c]));
+  return memberships
+    .filter((m) => m.proposal)
+    .map((m) => {
+      const p = m.proposal!;
+      const c = byId.get(p.id);
+      const last = [p.updatedAt, c?.lastAudit ? new Date(c.lastAudit) : null].filter(Boolean) as Date[];
+      return {
+        id: p.id,
+        code: p.code,
+        title: p.title,
+        status: p.status,
+        role: m.role,
+        callId: p.callId,
+        semesterCode: p.call!.semesterCode,
+        deadlineAt: p.call!.deadlineAt.toISOString(),
+        lastChangeAt: new Date(Math.max(...last.map((d) => d.getTime()))).toISOString(),
+        targets: Number(c?.targets ?? 0),
+        observations: Number(c?.observations ?? 0),
+      };
+    })
+    .sort((a, b) => b.lastChangeAt.localeCompare(a.lastChangeAt));
+}
+
+export async function openCalls({ now = new Date() }: { now?: Date } = {}) {
+  const calls = await Call.findAll({ where: { opensAt: { [Op.lte]: now }, deadlineAt: { [Op.gt]: now } }, order: [["deadlineAt", "ASC"]] });
+  return calls.map((c) => ({ id: c.id, semesterCode: c.semesterCode, title: c.title, deadlineAt: c.deadlineAt.toISOString(), pageLimit: c.pageLimit }));
+}
+
+export async function createProposal({ user, ...input }: { user: Actor } & z.output<typeof newProposalSchema>) {
+  return sequelize.transaction(async (transaction) => {
+    const call = await Call.findByPk(input.callId, { transaction });
+    if (!call) throw new ProposalRefused("Choose one of the open calls.", 400, "callId");
+    if (!callIsOpen(call)) {
+      throw new ProposalRefused(
+        deadlinePassed(call) ? `The deadline of call ${call.semesterCode} has passed.` : `Call ${call.semesterCode} opens on ${call.opensAt.toISOString().slice(0, 10)}.`,
+        400,
+        "callId",
+      );
+    }
+    const proposal = await Proposal.create(
+      { callId: call.id, title: input.title, abstract: input.abstract ?? "", scienceCategory: null, semestersRequested: [call.semesterCode], createdById: user.id },
+      { transaction },
+    );
+    await ProposalMember.create({ proposalId: proposal.id, userId: user.id, email: user.email.toLowerCase(), role: "pi", acceptedAt: new Date() }, { transaction });
+    await writeAudit(
+      { actorId: user.id, action: "proposal.created", entityType: "proposal", entityId: proposal.id, proposalId: proposal.id, details: { callId: call.id, semesterCode: call.semesterCode, title: input.title } },
+      transaction,
+    );
+    return proposal;
+  });
+}
+
+export type OverviewValues = {
+  title: string;
+  abstract: string;
+  scienceCategory: string | null;
+  isMultiSemester: boolean;
+  semestersRequested: string[];
+  isTargetOfOpportunity: boolean;
+};
+
+export function overviewValues(p: Proposal): OverviewValues {
+  return {
+    title: p.title,
+    abstract: p.abstract,
+    scienceCategory: p.scienceCategory,
+    isMultiSemester: p.isMultiSemester,
+    semestersRequested: p.semestersRequested ?? [],
+    isTargetOfOpportunity: p.isTargetOfOpportunity,
+  };
+}
+
+export type OverviewResult =
+  | { ok: true; version: number }
+  | {
+      ok: false;
+      conflict: { mine: OverviewValues; saved: OverviewValues; savedVersion: number; savedBy: string | null; savedAt: string };
+    };
+
+/**
+ * Saves the overview if nobody saved since the form was loaded (`version`); otherwise returns
+ * both the user's values and the saved ones, so that nothing is lost and the user chooses.
+ */
+export async function updateOverview({ user, proposalId, version, ...input }: { user: Actor; proposalId: number } & z.output<typeof overviewSchema>): Promise<OverviewResult> {
+  return sequelize.transaction(async (transaction) => {
+    const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
+    assertEditable(access);
+    const { proposal, call } = access;
+    const allowed = upcomingSemesters(call.semesterCode);
+    const semesters = input.isMultiSemester ? allowed.filter((s) => input.semestersRequested.includes(s)) : [call.semesterCode];
+    const strange = input.semestersRequested.filter((s) => !allowed.includes(s));
+    if (input.isMultiSemester && strange.length) throw new ProposalRefused(`Choose among ${allowed.join(", ")}.`, 400, "semestersRequested");
+    if (input.isMultiSemester && !semesters.includes(call.semesterCode)) {
+      throw new ProposalRefused(`The programme must include the call's own semester, ${call.semesterCode}.`, 400, "semestersRequested");
+    }
+    const mine: OverviewValues = { ...input, semestersRequested: semesters };
+    if (proposal.version !== version) {
+      const last = await AuditEntry.findOne({
+        where: { proposalId, action: { [Op.in]: ["proposal.overview_updated", "proposal.created"] } },
+        order: [["id", "DESC"]],
+        include: [{ model: User, as: "actor" }],
+        transaction,
+      });
+      return {
+        ok: false as const,
+        conflict: {
+          mine,
+          saved: overviewValues(proposal),
+          savedVersion: proposal.version,
+          savedBy: last?.actor ? (last.actor.name ?? last.actor.email) : null,
+          savedAt: (last?.createdAt ?? proposal.updatedAt).toISOString(),
+        },
+      };
+    }
+    const before = overviewValues(proposal);
+    const changed = (Object.keys(mine) as (keyof OverviewValues)[]).filter((k) => JSON.stringify(before[k]) !== JSON.stringify(mine[k]));
+    proposal.set(mine);
+    await proposal.save({ transaction });
+    await writeAudit(
+      {
+        actorId: user.id,
+        action: "proposal.overview_updated",
+        entityType: "proposal",
+        entityId: proposalId,
+        proposalId,
+        details: { changed, version: proposal.version, ...(changed.includes("title") ? { title: mine.title } : {}) },
+      },
+      transaction,
+    );
+    return { ok: true as const, version: proposal.version };
+  });
+}
+
+export async function withdrawProposal({ user, proposalId }: { user: Actor; proposalId: number }) {
+  return sequelize.transaction(async (transaction) => {
+    const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
+    assertPi(access, "withdraw the proposal");
+    const { proposal, call } = access;
+    if (!["draft", "submitted"].includes(proposal.status)) throw new ProposalRefused(`A proposal that is ${proposal.status.replace("_", " ")} cannot be withdrawn here.`, 409);
+    if (deadlinePassed(call)) throw new ProposalRefused(`The deadline of call ${call.semesterCode} has passed; write to the observatory office to withdraw.`, 409);
+    const from = proposal.status;
+    proposal.status = "withdrawn";
+    await proposal.save({ transaction });
+    await writeAudit({ actorId: user.id, action: "proposal.withdrawn", entityType: "proposal", entityId: proposalId, proposalId, details: { from, code: proposal.code } }, transaction);
+    return proposal;
+  });
+}
+
+export async function reopenProposal({ user, proposalId }: { user: Actor; proposalId: number }) {
+  return sequelize.transaction(async (transaction) => {
+    const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
+    assertPi(access, "reopen the proposal");
+    const { proposal, call } = access;
+    if (proposal.status !== "withdrawn") throw new ProposalRefused("Only a withdrawn proposal can be reopened.", 409);
+    if (deadlinePassed(call)) throw new ProposalRefused(`The deadline of call ${call.semesterCode} has passed, so the proposal cannot be reopened.`, 409);
+    proposal.status = "draft";
+    await proposal.save({ transaction });
+    await writeAudit({ actorId: user.id, action: "proposal.reopened", entityType: "proposal", entityId: proposalId, proposalId, details: { code: proposal.code } }, transaction);
+    return proposal;
+  });
+}
+
+export type HistoryEntry = { id: number; at: string; actor: string | null; action: string; entityType: string; entityId: number | null; details: Record<string, unknown> | null };
+
+export async function proposalHistory({ user, proposalId }: { user: Actor; proposalId: number }): Promise<HistoryEntry[]> {
+  await getProposalForUser({ proposalId, user });
+  const entries = await AuditEntry.findAll({ where: { proposalId }, order: [["id", "DESC"]], include: [{ model: User, as: "actor" }], limit: 1000 });
+  return entries.map((e) => ({
+    id: e.id,
+    at: e.createdAt.toISOString(),
+    actor: e.actor ? (e.actor.name ?? e.actor.email) : null,
+    action: e.action,
+    entityType: e.entityType,
+    entityId: e.entityId,
+    details: e.details,
+  }));
+}
+
+/** What the workspace layout shows on every tab. */
+export function workspaceHeader(access: Access) {
+  const { proposal, call } = access;
+  return {
+    id: proposal.id,
+    code: proposal.code,
+    title: proposal.title,
+    status: proposal.status,
+    version: proposal.version,
+    role: access.role,
+    isPi: access.isPi,
+    editable: access.editable,
+    call: { id: call.id, semesterCode: call.semesterCode, deadlineAt: call.deadlineAt.toISOString(), pageLimit: call.pageLimit, deadlinePassed: deadlinePassed(call) },
+  };
+}
+export type WorkspaceHeader = ReturnType<typeof workspaceHeader>;

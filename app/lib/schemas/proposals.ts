@@ -1,0 +1,146 @@
+// Forms of the PI's workspace: shared by the browser (react-hook-form) and the actions (safeParse).
+import { z } from "zod";
+import { parseDec, parseRa } from "~/lib/astro/coordinates";
+import { moonCategories } from "~/lib/domain";
+import { ABSTRACT_WORD_LIMIT, scienceCategoryValues, SEMESTER_CODE, wordCount } from "~/lib/proposal-vocabulary";
+
+export const TARGET_BANDS = ["U", "B", "V", "R", "I"] as const;
+
+/** A number typed into a form (or sent as JSON); "" is "not given". */
+function numberField(label: string, opts: { min?: number; max?: number; int?: boolean; required?: boolean; exclusiveMin?: boolean } = {}) {
+  return z.union([z.string(), z.number(), z.null()]).optional().transform((raw, ctx): number | null => {
+    const text = typeof raw === "number" ? String(raw) : (raw ?? "").trim().replace(/^[−–]/, "-");
+    if (text === "") {
+      if (opts.required) ctx.addIssue({ code: "custom", message: `Enter the ${label}.` });
+      return null;
+    }
+    const value = Number(text);
+    if (!Number.isFinite(value)) {
+      ctx.addIssue({ code: "custom", message: `The ${label} must be a number.` });
+      return null;
+    }
+    if (opts.int && !Number.isInteger(value)) ctx.addIssue({ code: "custom", message: `The ${label} must be a whole number.` });
+    if (opts.min !== undefined && (opts.exclusiveMin ? value <= opts.min : value < opts.min)) {
+      ctx.addIssue({ code: "custom", message: `The ${label} must be ${opts.exclusiveMin ? "more than" : "at least"} ${opts.min}.` });
+    }
+    if (opts.max !== undefined && value > opts.max) ctx.addIssue({ code: "custom", message: `The ${label} must be at most ${opts.max}.` });
+    return value;
+  });
+}
+
+const flag = z.union([z.boolean(), z.string(), z.null()]).optional().transform((v) => v === true || v === "on" || v === "true" || v === "1");
+
+const title = z.string().trim().min(5, "Give the proposal a title of at least 5 characters.").max(300, "Keep the title under 300 characters.");
+const abstract = z
+  .string()
+  .trim()
+  .max(20_000, "The abstract is far too long.")
+  .superRefine((text, ctx) => {
+    const words = wordCount(text);
+    if (words > ABSTRACT_WORD_LIMIT) ctx.addIssue({ code: "custom", message: `The abstract has ${words} words; the limit is ${ABSTRACT_WORD_LIMIT}.` });
+  });
+
+export const newProposalSchema = z.object({
+  callId: z.coerce.number({ error: "Choose a call." }).int().positive("Choose a call."),
+  title,
+  abstract: abstract.optional().default(""),
+});
+
+export const overviewSchema = z
+  .object({
+    version: z.coerce.number().int().min(0),
+    title,
+    abstract,
+    scienceCategory: z.union([z.enum(scienceCategoryValues, "Choose a science category from the list."), z.literal("")]).transform((v) => v || null),
+    isMultiSemester: flag,
+    semestersRequested: z
+      .union([z.array(z.string()), z.string(), z.null(), z.literal(false)])
+      .optional()
+      .transform((v) => (Array.isArray(v) ? v : typeof v === "string" && v ? [v] : []))
+      .pipe(z.array(z.string().regex(SEMESTER_CODE, "Semesters look like 2027A or 2027B."))),
+    isTargetOfOpportunity: flag,
+  })
+  .superRefine((value, ctx) => {
+    if (value.isMultiSemester && value.semestersRequested.length < 2) {
+      ctx.addIssue({ code: "custom", path: ["semestersRequested"], message: "A multi-semester programme asks for at least two semesters: tick them." });
+    }
+  });
+
+export const inviteSchema = z.object({
+  email: z
+    .string()
+    .trim()
+    .min(1, "Enter the Co-I's e-mail address.")
+    .max(254, "That address is too long.")
+    .pipe(z.email("Enter a valid e-mail address, like name@institute.example.")),
+});
+
+export const memberSchema = z.object({ memberId: z.coerce.number().int().positive("Choose a member.") });
+
+export const targetSchema = z
+  .object({
+    name: z.string().trim().min(1, "Give the target a name.").max(120, "Keep the name under 120 characters."),
+    ra: z.union([z.string(), z.number()]).transform((v) => String(v)),
+    dec: z.union([z.string(), z.number()]).transform((v) => String(v)),
+    pmra: numberField("proper motion in RA", { min: -100_000, max: 100_000 }),
+    pmdec: numberField("proper motion in Dec", { min: -100_000, max: 100_000 }),
+    magnitude: numberField("magnitude", { min: -2, max: 30 }),
+    band: z
+      .union([z.string(), z.null()])
+      .optional()
+      .transform((v) => (v ?? "").trim().toUpperCase())
+      .refine((v) => v === "" || (TARGET_BANDS as readonly string[]).includes(v), `The band is one of ${TARGET_BANDS.join(", ")}.`)
+      .transform((v) => v || null),
+    notes: z.union([z.string(), z.null()]).optional().transform((v) => (v ?? "").trim() || null),
+  })
+  .transform((value, ctx) => {
+    const ra = parseRa(value.ra, "RA");
+    const dec = parseDec(value.dec, "Dec");
+    if (!ra.ok) ctx.addIssue({ code: "custom", path: ["ra"], message: ra.message });
+    if (!dec.ok) ctx.addIssue({ code: "custom", path: ["dec"], message: dec.message });
+    if (value.magnitude !== null && !value.band) ctx.addIssue({ code: "custom", path: ["band"], message: "Give the band of the magnitude." });
+    return { ...value, raDeg: ra.ok ? ra.value : NaN, decDeg: dec.ok ? dec.value : NaN };
+  });
+export type TargetInput = z.output<typeof targetSchema>;
+
+export const observationSchema = z
+  .object({
+    targetId: z.coerce.number({ error: "Choose a target." }).int().positive("Choose a target."),
+    instrumentId: z.coerce.number({ error: "Choose an instrument." }).int().positive("Choose an instrument."),
+    filterId: z.coerce.number({ error: "Choose a filter." }).int().positive("Choose a filter."),
+    mode: z.enum(["snr", "exposure"], "Choose an SNR goal or an exposure time."),
+    snrGoal: numberField("SNR goal", { min: 0, max: 10_000, exclusiveMin: true }),
+    exposureSeconds: numberField("exposure time", { min: 0, max: 7_200, exclusiveMin: true }),
+    framesPerEpoch: numberField("number of frames per epoch", { min: 1, max: 500, int: true, required: true }),
+    epochsPerSemester: numberField("number of epochs per semester", { min: 1, max: 100, int: true, required: true }),
+    baselineYears: numberField("baseline", { min: 0, max: 10, exclusiveMin: true }),
+    requiredPmPrecisionMasPerYr: numberField("required proper-motion precision", { min: 0, max: 1_000, exclusiveMin: true }),
+    moonCategory: z.enum(moonCategories, "Choose dark, grey or bright time."),
+    maxAirmass: numberField("airmass limit", { min: 1, max: 3, required: true }),
+    seeingArcsec: numberField("seeing", { min: 0.3, max: 5, required: true }),
+  })
+  .superRefine((value, ctx) => {
+    if (value.mode === "snr" && value.snrGoal === null) ctx.addIssue({ code: "custom", path: ["snrGoal"], message: "Enter the SNR goal, or switch to an exposure time." });
+    if (value.mode === "exposure" && value.exposureSeconds === null) {
+      ctx.addIssue({ code: "custom", path: ["exposureSeconds"], message: "Enter the exposure time, or switch to an SNR goal." });
+    }
+    if (value.requiredPmPrecisionMasPerYr !== null && value.baselineYears === null) {
+      ctx.addIssue({ code: "custom", path: ["baselineYears"], message: "A proper-motion precision needs a baseline in years." });
+    }
+  })
+  .transform((value) => ({
+    ...value,
+    // exactly one of the two is kept
+    snrGoal: value.mode === "snr" ? value.snrGoal : null,
+    exposureSeconds: value.mode === "exposure" ? value.exposureSeconds : null,
+    // required above, so present whenever the parse succeeds
+    framesPerEpoch: value.framesPerEpoch as number,
+    epochsPerSemester: value.epochsPerSemester as number,
+    maxAirmass: value.maxAirmass as number,
+    seeingArcsec: value.seeingArcsec as number,
+  }));
+export type ObservationInput = z.output<typeof observationSchema>;
+
+export const csvImportSchema = z.object({
+  csv: z.string().max(2_000_000, "That CSV is too large for one import (2 MB); split it.").refine((t) => t.trim() !== "", "Paste the CSV or choose a file."),
+});

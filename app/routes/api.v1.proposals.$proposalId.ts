@@ -1,0 +1,46 @@
+import { data } from "react-router";
+import { requireUser } from "~/lib/auth.server";
+import { computeFeasibilitySheet } from "~/lib/feasibility.server";
+import { listObservations } from "~/lib/proposal-observations.server";
+import { listTargets } from "~/lib/proposal-targets.server";
+import { listTeam } from "~/lib/proposal-team.server";
+import { getProposalForUser, overviewValues, workspaceHeader } from "~/lib/proposals.server";
+import type { Route } from "./+types/api.v1.proposals.$proposalId";
+
+/** GET /api/v1/proposals/:proposalId: one proposal of the user's, with its feasibility sheet. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  if (!/^\d{1,10}$/.test(params.proposalId)) {
+    return data({ error: "The request has invalid fields.", issues: [{ path: "proposalId", message: "must be a positive whole number" }] }, { status: 400 });
+  }
+  const proposalId = Number(params.proposalId);
+  const access = await getProposalForUser({ proposalId, user });
+  const [team, targets, { observations }] = await Promise.all([listTeam({ user, proposalId }), listTargets({ user, proposalId }), listObservations({ user, proposalId })]);
+  let feasibilitySheet = null;
+  let feasibilityError: string | null = null;
+  try {
+    feasibilitySheet = await computeFeasibilitySheet({ proposalId });
+  } catch (error) {
+    console.error(`feasibility sheet of proposal ${proposalId} failed`, error);
+    feasibilityError = "The feasibility sheet could not be computed.";
+  }
+  return data(
+    {
+      proposal: {
+        ...workspaceHeader(access),
+        ...overviewValues(access.proposal),
+        submittedAt: access.proposal.submittedAt?.toISOString() ?? null,
+        team: team.map(({ isYou: _isYou, ...m }) => m),
+        targets,
+        observations,
+      },
+      feasibilitySheet,
+      ...(feasibilityError ? { feasibilityError } : {}),
+    },
+    { headers: { "Cache-Control": "private, no-store" } },
+  );
+}
+
+export async function action() {
+  return data({ error: "Use GET.", issues: [] }, { status: 405, headers: { Allow: "GET" } });
+}

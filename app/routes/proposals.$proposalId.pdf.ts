@@ -1,0 +1,17 @@
+import { requireUser } from "~/lib/auth.server";
+import { proposalIdParam } from "~/lib/proposal-routes.server";
+import { proposalPdfForUser } from "~/lib/proposal-submit.server";
+import type { Route } from "./+types/proposals.$proposalId.pdf";
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  const { bytes, filename } = await proposalPdfForUser({ user, proposalId: proposalIdParam(params) });
+  return new Response(Buffer.from(bytes), {
+    headers: {
+      "Content-Type": "application/pdf",
+      "Content-Disposition": `attachment; filename="${filename}"`,
+      "Content-Length": String(bytes.byteLength),
+      "Cache-Control": "private, no-store",
+    },
+  });
+}

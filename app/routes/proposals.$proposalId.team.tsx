@@ -1,0 +1,129 @@
+import { zodResolver } from "@hookform/resolvers/zod";
+import { useEffect } from "react";
+import { useForm } from "react-hook-form";
+import { data, useFetcher } from "react-router";
+import { Field, inputProps } from "~/components/Field";
+import { useWorkspace } from "~/components/workspace";
+import { requireUser } from "~/lib/auth.server";
+import { fieldErrors } from "~/lib/forms";
+import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
+import { handOverPi, inviteCoI, listTeam, removeMember } from "~/lib/proposal-team.server";
+import { memberRoleLabels } from "~/lib/proposal-vocabulary";
+import { inviteSchema, memberSchema } from "~/lib/schemas/proposals";
+import type { Route } from "./+types/proposals.$proposalId.team";
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  return { members: await listTeam({ user, proposalId: proposalIdParam(params) }) };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const proposalId = proposalIdParam(params);
+  const values = formValues(await request.formData()) as Record<string, string>;
+  const intent = values.intent;
+  try {
+    if (intent === "invite") {
+      const parsed = inviteSchema.safeParse(values);
+      if (!parsed.success) return data({ ok: false as const, intent, errors: fieldErrors(parsed.error), values }, { status: 400 });
+      await inviteCoI({ user, proposalId, email: parsed.data.email });
+      return { ok: true as const, intent, message: `Invitation sent to ${parsed.data.email.toLowerCase()}.`, errors: {} as Record<string, string>, values: {} as Record<string, string> };
+    }
+    if (intent === "remove" || intent === "hand-over") {
+      const parsed = memberSchema.safeParse(values);
+      if (!parsed.success) return data({ ok: false as const, intent, errors: fieldErrors(parsed.error), values }, { status: 400 });
+      if (intent === "remove") {
+        const { self } = await removeMember({ user, proposalId, memberId: parsed.data.memberId });
+        return { ok: true as const, intent, message: self ? "You have left the team." : "Removed from the team.", errors: {} as Record<string, string>, values };
+      }
+      await handOverPi({ user, proposalId, memberId: parsed.data.memberId });
+      return { ok: true as const, intent, message: "The PI role has been handed over; you are now a Co-I.", errors: {} as Record<string, string>, values };
+    }
+    return data({ ok: false as const, intent, errors: { form: "Unknown action." } as Record<string, string>, values }, { status: 400 });
+  } catch (error) {
+    const refused = refusalResponse(error, values);
+    return data({ ...refused.data, intent }, { status: refused.init?.status ?? 400 });
+  }
+}
+
+function InviteForm() {
+  const fetcher = useFetcher<typeof action>();
+  const result = fetcher.data?.intent === "invite" ? fetcher.data : undefined;
+  const { register, handleSubmit, formState, reset } = useForm({ resolver: zodResolver(inviteSchema), defaultValues: { email: "" } });
+  useEffect(() => {
+    if (result?.ok && fetcher.state === "idle") reset({ email: "" });
+  }, [result, fetcher.state, reset]);
+  const error = formState.errors.email?.message ?? (result && !result.ok ? (result.errors.email ?? result.errors.form) : undefined);
+  return (
+    <fetcher.Form method="post" noValidate className="card space-y-3" onSubmit={handleSubmit((_, e) => fetcher.submit(e?.target as HTMLFormElement))}>
+      <h2>Invite a Co-I</h2>
+      <p className="text-sm text-slate-600">They receive an e-mail with a link. When they sign in with that address the proposal appears in their list, and they can edit it while it is a draft.</p>
+      <input type="hidden" name="intent" value="invite" />
+      <div className="flex flex-wrap items-start gap-3">
+        <div className="min-w-72 flex-1">
+          <Field label="E-mail address" id="invite-email" error={error}>
+            <input type="email" autoComplete="off" {...inputProps("invite-email", error)} {...register("email")} />
+          </Field>
+        </div>
+        <button type="submit" className="btn mt-7" disabled={fetcher.state !== "idle"}>{fetcher.state !== "idle" ? "Sending…" : "Send invitation"}</button>
+      </div>
+      {result?.ok ? <p role="status" className="text-sm text-emerald-700">{result.message}</p> : null}
+    </fetcher.Form>
+  );
+}
+
+function MemberActions({ member, isPi }: { member: Route.ComponentProps["loaderData"]["members"][number]; isPi: boolean }) {
+  const fetcher = useFetcher<typeof action>();
+  const error = fetcher.data && !fetcher.data.ok ? Object.values(fetcher.data.errors)[0] : null;
+  if (member.role === "pi") return null;
+  const canRemove = isPi || member.isYou;
+  return (
+    <div className="flex flex-wrap items-center gap-2">
+      {isPi ? (
+        <fetcher.Form method="post" onSubmit={(e) => { if (!confirm(`Hand the PI role to ${member.name ?? member.email}? You become a Co-I.`)) e.preventDefault(); }}>
+          <input type="hidden" name="intent" value="hand-over" />
+          <input type="hidden" name="memberId" value={member.id} />
+          <button type="submit" className="btn-quiet" disabled={!member.joined} title={member.joined ? undefined : "Possible once they have signed in"}>Make PI</button>
+        </fetcher.Form>
+      ) : null}
+      {canRemove ? (
+        <fetcher.Form method="post" onSubmit={(e) => { if (!confirm(member.isYou ? "Leave this proposal's team?" : `Remove ${member.name ?? member.email} from the team?`)) e.preventDefault(); }}>
+          <input type="hidden" name="intent" value="remove" />
+          <input type="hidden" name="memberId" value={member.id} />
+          <button type="submit" className="btn-quiet">{member.isYou ? "Leave" : "Remove"}</button>
+        </fetcher.Form>
+      ) : null}
+      {error ? <span role="alert" className="text-sm text-red-700">{error}</span> : null}
+      {fetcher.data?.ok ? <span role="status" className="text-sm text-emerald-700">{fetcher.data.message}</span> : null}
+    </div>
+  );
+}
+
+export default function Team({ loaderData }: Route.ComponentProps) {
+  const workspace = useWorkspace();
+  return (
+    <div className="space-y-5">
+      <div className="overflow-x-auto rounded-lg border border-slate-200 bg-white">
+        <table className="table-base">
+          <thead>
+            <tr><th>Name</th><th>E-mail</th><th>Institution</th><th>Role</th><th>Status</th>{workspace.editable ? <th /> : null}</tr>
+          </thead>
+          <tbody>
+            {loaderData.members.map((m) => (
+              <tr key={m.id}>
+                <td>{m.name ?? <span className="text-slate-400">—</span>}{m.isYou ? <span className="ml-1 text-xs text-slate-500">(you)</span> : null}</td>
+                <td>{m.email}</td>
+                <td>{m.institution ?? <span className="text-slate-400">—</span>}</td>
+                <td className="font-semibold">{memberRoleLabels[m.role]}</td>
+                <td>{m.joined ? "signed in" : <span className="text-amber-800">invited, not signed in yet</span>}</td>
+                {workspace.editable ? <td><MemberActions member={m} isPi={workspace.isPi} /></td> : null}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      {workspace.editable ? <InviteForm /> : <p className="text-sm text-slate-600">The team can change only while the proposal is a draft.</p>}
+      <p className="text-sm text-slate-600">Co-Is edit the draft; only the PI submits, withdraws, removes other members or hands the PI role over.</p>
+    </div>
+  );
+}

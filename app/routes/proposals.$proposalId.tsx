@@ -1,0 +1,87 @@
+import { Link, NavLink, Outlet } from "react-router";
+import { StatusBadge } from "~/components/StatusBadge";
+import { utc } from "~/components/workspace";
+import { requireUser } from "~/lib/auth.server";
+import { memberRoleLabels } from "~/lib/proposal-vocabulary";
+import { proposalIdParam } from "~/lib/proposal-routes.server";
+import { getProposalForUser, workspaceHeader } from "~/lib/proposals.server";
+import type { Route } from "./+types/proposals.$proposalId";
+
+export function meta({ data }: Route.MetaArgs) {
+  return [{ title: `${data?.proposal.code ?? "Draft"} · ${data?.proposal.title ?? "Proposal"} · Nightshare` }];
+}
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  const access = await getProposalForUser({ proposalId: proposalIdParam(params), user });
+  return { proposal: workspaceHeader(access) };
+}
+
+const tabs = [
+  { to: "", label: "Overview", end: true },
+  { to: "team", label: "Team" },
+  { to: "targets", label: "Targets" },
+  { to: "observations", label: "Observations" },
+  { to: "feasibility", label: "Feasibility sheet" },
+  { to: "science-case", label: "Science case" },
+  { to: "history", label: "History" },
+  { to: "submit", label: "Submit" },
+];
+
+export default function Workspace({ loaderData }: Route.ComponentProps) {
+  const p = loaderData.proposal;
+  return (
+    <div className="space-y-5">
+      <div>
+        <p className="text-sm text-slate-600">
+          <Link to="/proposals">My proposals</Link> · call {p.call.semesterCode}
+        </p>
+        <div className="mt-1 flex flex-wrap items-center gap-3">
+          <h1 className="min-w-0 break-words">{p.title}</h1>
+          <StatusBadge status={p.status} />
+        </div>
+        <p className="mt-1 text-sm text-slate-600">
+          {p.code ? <span className="font-semibold text-night-900">{p.code}</span> : <span>No code yet: it is given at submission</span>} · you are{" "}
+          {memberRoleLabels[p.role]} · deadline {utc(p.call.deadlineAt)}
+          {p.call.deadlinePassed ? <strong className="text-red-700"> (passed)</strong> : null}
+        </p>
+      </div>
+      {!p.editable ? (
+        <p role="status" className="rounded-md border border-night-700/30 bg-night-100 px-4 py-2 text-sm text-night-900">
+          This proposal is {p.status === "in_review" ? "in review" : p.status} and therefore read-only.{" "}
+          {p.status === "submitted" && !p.call.deadlinePassed
+            ? p.isPi
+              ? "To change it, withdraw it on the Submit tab and reopen it as a draft; it keeps its code."
+              : "The PI can withdraw it and reopen it as a draft before the deadline."
+            : p.status === "withdrawn" && !p.call.deadlinePassed
+              ? p.isPi
+                ? "Reopen it as a draft on the Submit tab to change it."
+                : "The PI can reopen it as a draft before the deadline."
+              : null}
+        </p>
+      ) : p.call.deadlinePassed ? (
+        <p role="status" className="rounded-md border border-red-200 bg-red-50 px-4 py-2 text-sm text-red-800">
+          The deadline of call {p.call.semesterCode} has passed: this draft can no longer be submitted.
+        </p>
+      ) : null}
+      <nav aria-label="Proposal sections" className="flex flex-wrap gap-1 border-b border-slate-300">
+        {tabs.map((tab) => (
+          <NavLink
+            key={tab.label}
+            to={tab.to}
+            end={tab.end}
+            prefetch="intent"
+            className={({ isActive }) =>
+              `-mb-px rounded-t-md border px-3 py-2 text-sm font-semibold no-underline hover:no-underline ${
+                isActive ? "border-slate-300 border-b-white bg-white text-night-900" : "border-transparent text-slate-600 hover:text-night-800"
+              }`
+            }
+          >
+            {tab.label}
+          </NavLink>
+        ))}
+      </nav>
+      <Outlet />
+    </div>
+  );
+}

@@ -1,0 +1,173 @@
+import {
+  createColumnHelper,
+  flexRender,
+  getCoreRowModel,
+  getFilteredRowModel,
+  getSortedRowModel,
+  useReactTable,
+  type SortingState,
+} from "@tanstack/react-table";
+import { useMemo, useState } from "react";
+import { Link } from "react-router";
+import { StatusBadge } from "~/components/StatusBadge";
+import { utc } from "~/components/workspace";
+import { requireUser } from "~/lib/auth.server";
+import { proposalStatuses, proposalStatusLabels, type ProposalStatus } from "~/lib/domain";
+import { withRequestedHours } from "~/lib/proposal-hours.server";
+import { memberRoleLabels } from "~/lib/proposal-vocabulary";
+import { listProposalsForUser, openCalls } from "~/lib/proposals.server";
+import type { Route } from "./+types/proposals._index";
+
+export function meta() {
+  return [{ title: "My proposals · Nightshare" }];
+}
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  const [proposals, calls] = await Promise.all([listProposalsForUser({ user }).then(withRequestedHours), openCalls()]);
+  return { proposals, calls };
+}
+
+type Row = Awaited<ReturnType<typeof loader>>["proposals"][number];
+const column = createColumnHelper<Row>();
+
+export default function MyProposals({ loaderData }: Route.ComponentProps) {
+  const { proposals, calls } = loaderData;
+  const [sorting, setSorting] = useState<SortingState>([{ id: "lastChangeAt", desc: true }]);
+  const [globalFilter, setGlobalFilter] = useState("");
+  const [status, setStatus] = useState<"" | ProposalStatus>("");
+  const [semester, setSemester] = useState("");
+  const semesters = useMemo(() => [...new Set(proposals.map((p) => p.semesterCode))].sort(), [proposals]);
+  const rows = useMemo(() => proposals.filter((p) => (!status || p.status === status) && (!semester || p.semesterCode === semester)), [proposals, status, semester]);
+  const columns = useMemo(
+    () => [
+      column.accessor("status", { header: "State", cell: (info) => <StatusBadge status={info.getValue()} />, sortingFn: (a, b) => proposalStatuses.indexOf(a.original.status) - proposalStatuses.indexOf(b.original.status) }),
+      column.accessor((p) => p.code ?? "", { id: "code", header: "Code", cell: (info) => info.getValue() || <span className="text-slate-400">not yet</span> }),
+      column.accessor("semesterCode", { header: "Call" }),
+      column.accessor("title", {
+        header: "Title",
+        cell: (info) => (
+          <span>
+            <Link to={`/proposals/${info.row.original.id}`} className="font-semibold">{info.getValue()}</Link>
+            <span className="ml-2 text-xs text-slate-500">{memberRoleLabels[info.row.original.role]}</span>
+          </span>
+        ),
+      }),
+      column.accessor((p) => p.requestedHours ?? -1, {
+        id: "requestedHours",
+        header: "Requested hours",
+        cell: (info) => {
+          const h = info.row.original.requestedHours;
+          return h === null ? <span className="text-red-700" title="The feasibility sheet could not be computed">?</span> : <span className="tabular-nums">{h.toFixed(1)}</span>;
+        },
+      }),
+      column.accessor("lastChangeAt", { header: "Last change", cell: (info) => <span className="whitespace-nowrap">{utc(info.getValue())}</span> }),
+    ],
+    [],
+  );
+  const table = useReactTable({
+    data: rows,
+    columns,
+    state: { sorting, globalFilter },
+    onSortingChange: setSorting,
+    onGlobalFilterChange: setGlobalFilter,
+    getCoreRowModel: getCoreRowModel(),
+    getSortedRowModel: getSortedRowModel(),
+    getFilteredRowModel: getFilteredRowModel(),
+  });
+  return (
+    <div className="space-y-5">
+      <div className="flex flex-wrap items-end justify-between gap-4">
+        <div>
+          <h1>My proposals</h1>
+          <p className="mt-1 text-sm text-slate-600">Proposals you lead as PI or are invited to as Co-I. Drafts can be edited by the whole team; only the PI submits.</p>
+        </div>
+        {calls.length ? (
+          <Link to="/proposals/new" className="btn">Start a proposal</Link>
+        ) : (
+          <p className="text-sm text-slate-600">No call is open at the moment.</p>
+        )}
+      </div>
+      {proposals.length === 0 ? (
+        <div className="card text-slate-700">
+          <p>You have no proposals yet.</p>
+          {calls.length ? (
+            <p className="mt-2">
+              Open {calls.length === 1 ? "call" : "calls"}:{" "}
+              {calls.map((c, i) => (
+                <span key={c.id}>
+                  {i ? ", " : ""}
+                  <Link to={`/proposals/new?call=${c.semesterCode}`}>{c.semesterCode}</Link> (deadline {utc(c.deadlineAt)})
+                </span>
+              ))}
+              .
+            </p>
+          ) : null}
+        </div>
+      ) : (
+        <>
+          <div className="flex flex-wrap items-end gap-4">
+            <div className="w-72">
+              <label htmlFor="proposal-filter">Find</label>
+              <input id="proposal-filter" className="input" placeholder="Title or code" value={globalFilter} onChange={(e) => setGlobalFilter(e.target.value)} />
+            </div>
+            <div>
+              <label htmlFor="status-filter">State</label>
+              <select id="status-filter" className="input" value={status} onChange={(e) => setStatus(e.target.value as typeof status)}>
+                <option value="">Any</option>
+                {proposalStatuses.map((s) => (
+                  <option key={s} value={s}>{proposalStatusLabels[s]}</option>
+                ))}
+              </select>
+            </div>
+            <div>
+              <label htmlFor="call-filter">Call</label>
+              <select id="call-filter" className="input" value={semester} onChange={(e) => setSemester(e.target.value)}>
+                <option value="">Any</option>
+                {semesters.map((s) => (
+                  <option key={s} value={s}>{s}</option>
+                ))}
+              </select>
+            </div>
+            <p className="ml-auto text-sm text-slate-600">{table.getFilteredRowModel().rows.length} of {proposals.length} proposals</p>
+          </div>
+          <div className="overflow-x-auto rounded-lg border border-slate-200 bg-white">
+            <table className="table-base">
+              <thead>
+                {table.getHeaderGroups().map((group) => (
+                  <tr key={group.id}>
+                    {group.headers.map((header) => {
+                      const sorted = header.column.getIsSorted();
+                      return (
+                        <th key={header.id} aria-sort={sorted ? (sorted === "asc" ? "ascending" : "descending") : undefined}>
+                          <button type="button" className="font-semibold" onClick={header.column.getToggleSortingHandler()}>
+                            {flexRender(header.column.columnDef.header, header.getContext())}
+                            <span className="ml-1 text-slate-400">{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : ""}</span>
+                          </button>
+                        </th>
+                      );
+                    })}
+                  </tr>
+                ))}
+              </thead>
+              <tbody>
+                {table.getRowModel().rows.map((row) => (
+                  <tr key={row.id} className="hover:bg-night-50">
+                    {row.getVisibleCells().map((cell) => (
+                      <td key={cell.id}>{flexRender(cell.column.columnDef.cell, cell.getContext())}</td>
+                    ))}
+                  </tr>
+                ))}
+                {table.getRowModel().rows.length === 0 ? (
+                  <tr>
+                    <td colSpan={columns.length} className="py-6 text-center text-slate-500">No proposal matches.</td>
+                  </tr>
+                ) : null}
+              </tbody>
+            </table>
+          </div>
+        </>
+      )}
+    </div>
+  );
+}
