@@ -42,7 +42,8 @@ function filterRows(instrumentId: number) {
 const telescopes = [
   {
     telescope: { name: "KRO 2.4 m", apertureM: 2.4, centralObstruction: 0.33 },
-    // A thinned back-illuminated 4k CCD imager of the kind such telescopes carry.
+    // Detector and overhead values typical of a thinned back-illuminated 4k CCD imager on a 2-m class
+    // telescope, and of a 2k imager on a 1-m (from memory of common practice, not a real camera).
     instrument: {
       name: "Ridge Imager 4K", pixelScaleArcsec: 0.3, readNoiseE: 4.5, darkEPerPixelPerS: 0.0008,
       gainEPerAdu: 1.5, fullWellE: 150_000, readoutSeconds: 35, acquisitionSeconds: 240,
