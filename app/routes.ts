@@ -3,6 +3,10 @@ import { type RouteConfig, index, layout, prefix, route } from "@react-router/de
 export default [
   route("healthz", "routes/healthz.ts"),
   route("api/v1/payments/webhook", "routes/api.v1.payments.webhook.ts"),
+  route("api/v1/visibility", "routes/api.v1.visibility.ts"),
+  route("api/v1/exposure", "routes/api.v1.exposure.ts"),
+  route("api/v1/astrometry", "routes/api.v1.astrometry.ts"),
+  route("api/v1/epoch-plan", "routes/api.v1.epoch-plan.ts"),
   route("api/v1/admin/users", "routes/api.v1.admin.users.ts"),
   route("api/v1/proposals", "routes/api.v1.proposals.ts"),
   route("api/v1/proposals/:proposalId", "routes/api.v1.proposals.$proposalId.ts"),
@@ -14,6 +18,7 @@ export default [
     index("routes/_index.tsx"),
     route("sign-in", "routes/sign-in.tsx"),
     route("welcome", "routes/welcome.tsx"),
+    route("sky-tools", "routes/sky-tools.tsx"),
     route("review", "routes/review._index.tsx"),
     route("committee", "routes/committee._index.tsx"),
     ...prefix("proposals", [

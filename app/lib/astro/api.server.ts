@@ -1,0 +1,240 @@
+// The science API behind api.v1.visibility / exposure / astrometry / epoch-plan: validation,
+// telescope and instrument look-ups, a per-IP rate limit, and JSON errors (400/429, never 500).
+import { data } from "react-router";
+import type { z } from "zod";
+import { apiIssues } from "~/lib/forms";
+import { Filter, Instrument, Telescope } from "~/models/index.server";
+import { astrometryForDates, epochPrecisionMas, planEpochs, precisionForMovedEpochs } from "./astrometry";
+import { computeExposure, type ExposureInput } from "./exposure";
+import { ZERO_POINTS, type Band } from "./photometry";
+import {
+  astrometryBodySchema,
+  epochPlanBodySchema,
+  exposureBodySchema,
+  visibilityQuerySchema,
+  type EpochPlanBody,
+  type ExposureBody,
+} from "./schemas";
+import { MOON_CATEGORY_THRESHOLDS, REFRACTION_MODEL, altitudeCurve, computeVisibility, type Limit, type Site } from "./visibility";
+import { AIRMASS_FORMULA } from "./airmass";
+
+export const RATE_LIMIT_PER_MINUTE = 600;
+const buckets = new Map<string, { start: number; count: number }>();
+
+type Issue = { path: string; message: string };
+
+class BadInput extends Error {
+  constructor(readonly issues: Issue[]) {
+    super(issues.map((i) => i.message).join("; "));
+  }
+}
+
+const noStore = { "Cache-Control": "no-store" };
+
+function rateLimited(request: Request): Response | null {
+  const ip = request.headers.get("x-nightshare-client-ip") ?? "unknown";
+  const now = Date.now();
+  const b = buckets.get(ip);
+  if (!b || now - b.start >= 60_000) {
+    buckets.set(ip, { start: now, count: 1 });
+    if (buckets.size > 10_000) for (const [k, v] of buckets) if (now - v.start >= 60_000) buckets.delete(k);
+    return null;
+  }
+  b.count++;
+  if (b.count <= RATE_LIMIT_PER_MINUTE) return null;
+  const retry = Math.ceil((b.start + 60_000 - now) / 1000);
+  return Response.json(
+    { error: `Too many requests: at most ${RATE_LIMIT_PER_MINUTE} a minute from one address.`, issues: [] },
+    { status: 429, headers: { ...noStore, "Retry-After": String(retry) } },
+  );
+}
+
+/** Wraps a handler: rate limit, zod issues → 400, unknown failures → 503 JSON (never an HTML 500). */
+async function guarded(request: Request, run: () => Promise<unknown>) {
+  const limited = rateLimited(request);
+  if (limited) return limited;
+  try {
+    return data(await run(), { headers: noStore });
+  } catch (error) {
+    if (error instanceof BadInput) return data({ error: "The request has invalid fields.", issues: error.issues }, { status: 400, headers: noStore });
+    console.error("science API failure", error);
+    return data({ error: "The computation could not be completed; try again.", issues: [] }, { status: 503, headers: noStore });
+  }
+}
+
+function parse<S extends z.ZodType>(schema: S, input: unknown): z.output<S> {
+  const r = schema.safeParse(input);
+  if (!r.success) throw new BadInput(apiIssues(r.error).issues);
+  return r.data;
+}
+
+async function jsonBody(request: Request): Promise<unknown> {
+  const text = await request.text();
+  if (text.length > 200_000) throw new BadInput([{ path: "(body)", message: "the body is larger than 200 kB" }]);
+  try {
+    return JSON.parse(text);
+  } catch {
+    throw new BadInput([{ path: "(body)", message: "the body is not valid JSON" }]);
+  }
+}
+
+export function methodNotAllowed(allowed: string) {
+  return data({ error: `Use ${allowed}.`, issues: [] }, { status: 405, headers: { Allow: allowed } });
+}
+
+/** A whole-hour time zone from the longitude, when the caller gives none (IANA Etc/GMT±N, sign inverted). */
+export function zoneFromLongitude(lon: number): string {
+  const h = Math.round(lon / 15);
+  return h === 0 ? "UTC" : `Etc/GMT${h > 0 ? "-" : "+"}${Math.abs(h)}`;
+}
+
+async function telescopeSite(id: number, path: string): Promise<{ site: Site; telescope: Telescope }> {
+  const t = await Telescope.findByPk(id);
+  if (!t) throw new BadInput([{ path, message: `no telescope with id ${id}` }]);
+  return { telescope: t, site: { latitudeDeg: t.latitudeDeg, longitudeDeg: t.longitudeDeg, elevationM: t.elevationM, timeZone: t.timeZone } };
+}
+
+function limitOf(q: { minAltitude?: number; maxAirmass?: number }): Limit {
+  if (q.maxAirmass !== undefined) return { maxAirmass: q.maxAirmass };
+  return { minAltitudeDeg: q.minAltitude ?? 30 };
+}
+
+export const CONVENTIONS = {
+  refraction: REFRACTION_MODEL,
+  airmass: AIRMASS_FORMULA,
+  twilight: "Sun's centre at −18°, geometric",
+  moonCategoryThresholds: MOON_CATEGORY_THRESHOLDS,
+  moonCategoryRule: "by the Moon's illuminated fraction at the middle of the dark interval",
+};
+
+export async function visibilityResponse(request: Request) {
+  return guarded(request, async () => {
+    const params = Object.fromEntries(new URL(request.url).searchParams);
+    const q = parse(visibilityQuerySchema, params);
+    const site: Site =
+      q.telescope !== undefined
+        ? (await telescopeSite(q.telescope, "telescope")).site
+        : { latitudeDeg: q.lat!, longitudeDeg: q.lon!, elevationM: q.elevation ?? 0, timeZone: q.timeZone ?? zoneFromLongitude(q.lon!) };
+    const target = { raDeg: q.ra, decDeg: q.dec, pmRaCosDecMasPerYr: q.pmRa, pmDecMasPerYr: q.pmDec };
+    const result = computeVisibility({ site, target, from: q.from, nights: q.nights, limit: limitOf(q) });
+    const curve = q.night ? curveJson(site, target, q.night) : undefined;
+    return { ...result, conventions: CONVENTIONS, ...(curve ? { curve } : {}) };
+  });
+}
+
+function curveJson(site: Site, target: { raDeg: number; decDeg: number }, date: string) {
+  const { night, points } = altitudeCurve(site, target, date, 10);
+  const iso = (t: number | null) => (t === null ? null : new Date(t).toISOString());
+  return { date, sunset: iso(night.sunset), sunrise: iso(night.sunrise), darkStart: iso(night.darkStart), darkEnd: iso(night.darkEnd), points };
+}
+
+async function exposureInput(b: ExposureBody): Promise<ExposureInput> {
+  let telescope = b.telescope;
+  let instrument = b.instrument;
+  let zeroPointPhotons: number | undefined;
+  let extinction = b.extinctionMagPerAirmass;
+  let sky = b.skyMagPerArcsec2;
+  if (b.instrumentId !== undefined) {
+    const inst = await Instrument.findByPk(b.instrumentId, { include: [{ model: Filter, as: "filters" }] });
+    if (!inst) throw new BadInput([{ path: "instrumentId", message: `no instrument with id ${b.instrumentId}` }]);
+    instrument ??= {
+      throughput: inst.throughput,
+      pixelScaleArcsec: inst.pixelScaleArcsec,
+      readNoiseE: inst.readNoiseE,
+      darkEPerPixelPerS: inst.darkEPerPixelPerS,
+      fullWellE: inst.fullWellE,
+    };
+    const filter = inst.filters?.find((f) => f.band === b.band);
+    if (!filter) throw new BadInput([{ path: "band", message: `instrument ${b.instrumentId} has no ${b.band} filter` }]);
+    zeroPointPhotons = filter.zeroPointPhotons;
+    extinction ??= filter.extinctionMagPerAirmass;
+    if (sky === undefined) {
+      const cat = b.moonCategory ?? "dark";
+      sky = cat === "dark" ? filter.skyDarkMag : cat === "grey" ? filter.skyGreyMag : filter.skyBrightMag;
+    }
+    if (!telescope && b.telescopeId === undefined) {
+      const t = await Telescope.findByPk(inst.telescopeId);
+      if (t) telescope = { apertureM: t.apertureM, centralObstruction: t.centralObstruction };
+    }
+  }
+  if (!telescope && b.telescopeId !== undefined) {
+    const { telescope: t } = await telescopeSite(b.telescopeId, "telescopeId");
+    telescope = { apertureM: t.apertureM, centralObstruction: t.centralObstruction };
+  }
+  if (!telescope) throw new BadInput([{ path: "telescope", message: "telescope or telescopeId is required" }]);
+  if (!instrument) throw new BadInput([{ path: "instrument", message: "instrument or instrumentId is required" }]);
+  const common = {
+    band: b.band as Band,
+    magnitude: b.magnitude,
+    airmass: b.airmass,
+    seeingArcsec: b.seeingArcsec,
+    skyMagPerArcsec2: sky,
+    moonCategory: b.moonCategory,
+    extinctionMagPerAirmass: extinction,
+    zeroPointPhotons,
+    telescope,
+    instrument,
+  };
+  return b.snr !== undefined ? { ...common, snr: b.snr } : { ...common, exposureSeconds: b.exposureSeconds as number };
+}
+
+export async function exposureResponse(request: Request) {
+  return guarded(request, async () => {
+    const b = parse(exposureBodySchema, await jsonBody(request));
+    const input = await exposureInput(b);
+    const r = computeExposure(input);
+    return {
+      ...r,
+      zeroPointPhotons: input.zeroPointPhotons ?? ZERO_POINTS[input.band].photonsPerSecondCm2,
+      conventions: {
+        equation: "SNR = N* / sqrt(N* + n_pix (N_sky + N_dark + RN²)) (Howell; Merline & Howell 1995)",
+        aperture: "radius = 1 × FWHM of the seeing (93.75 % of a Gaussian PSF)",
+        zeroPoints: "Bessell, Castelli & Plez (1998) unless the instrument's filter sets its own",
+      },
+    };
+  });
+}
+
+export async function astrometryResponse(request: Request) {
+  return guarded(request, async () => {
+    const b = parse(astrometryBodySchema, await jsonBody(request));
+    const r = astrometryForDates({ raDeg: b.raDeg, decDeg: b.decDeg, epochs: b.epochs, positionalPrecisionMas: b.positionalPrecisionMas });
+    if (!r.determined) {
+      throw new BadInput([{ path: "epochs", message: "these epochs cannot separate position, proper motion and parallax (spread them over different dates)" }]);
+    }
+    return r;
+  });
+}
+
+async function planInput(b: EpochPlanBody) {
+  const site = b.site ?? (await telescopeSite(b.telescopeId as number, "telescopeId")).site;
+  const perEpoch = b.perEpochPrecisionMas ?? epochPrecisionMas({ fwhmArcsec: b.fwhmArcsec!, snr: b.snr!, frames: b.frames ?? 1, floorMas: b.floorMas ?? 0 });
+  const required =
+    b.requiredProperMotionMasPerYr !== undefined
+      ? { properMotionMasPerYr: b.requiredProperMotionMasPerYr }
+      : b.requiredTangentialVelocityKmS !== undefined
+        ? { tangentialVelocityKmS: b.requiredTangentialVelocityKmS, distancePc: b.distancePc as number }
+        : undefined;
+  return { site, perEpoch, required };
+}
+
+export async function epochPlanResponse(request: Request) {
+  return guarded(request, async () => {
+    const b = parse(epochPlanBodySchema, await jsonBody(request));
+    const { site, perEpoch, required } = await planInput(b);
+    const target = { raDeg: b.target.ra, decDeg: b.target.dec, pmRaCosDecMasPerYr: b.target.pmRaCosDecMasPerYr, pmDecMasPerYr: b.target.pmDecMasPerYr };
+    const plan = planEpochs({
+      site,
+      target,
+      firstDate: b.firstDate,
+      baselineYears: b.baselineYears,
+      epochs: b.epochs,
+      required,
+      perEpochPrecisionMas: perEpoch,
+      limit: limitOf(b),
+      secondsPerEpoch: b.secondsPerEpoch,
+    });
+    const moved = b.movedEpochs ? precisionForMovedEpochs(target.raDeg, target.decDeg, b.movedEpochs, perEpoch) : undefined;
+    return { site, target, perEpochPrecisionMas: perEpoch, ...plan, ...(moved ? { movedPrecision: moved } : {}) };
+  });
+}

@@ -1,0 +1,12 @@
+import { exposureResponse, methodNotAllowed } from "~/lib/astro/api.server";
+import type { Route } from "./+types/api.v1.exposure";
+
+// Public: anonymous use is allowed, under the per-IP rate limit.
+export function action({ request }: Route.ActionArgs) {
+  if (request.method !== "POST") return methodNotAllowed("POST");
+  return exposureResponse(request);
+}
+
+export function loader() {
+  return methodNotAllowed("POST");
+}

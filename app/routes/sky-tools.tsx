@@ -1,0 +1,79 @@
+import { EpochTool, type EpochAnswer, type EpochForm } from "~/components/sky-tools/EpochTool";
+import { ExposureTool, type ExposureAnswer, type ExposureForm } from "~/components/sky-tools/ExposureTool";
+import { VisibilityTool, type VisibilityAnswer, type VisibilityForm } from "~/components/sky-tools/VisibilityTool";
+import { AIRMASS_FORMULA } from "~/lib/astro/airmass";
+import { planEpochs } from "~/lib/astro/astrometry";
+import { computeExposure } from "~/lib/astro/exposure";
+import { ZERO_POINTS } from "~/lib/astro/photometry";
+import { MOON_CATEGORY_THRESHOLDS, REFRACTION_MODEL, altitudeCurve, computeVisibility, type Site } from "~/lib/astro/visibility";
+import type { Route } from "./+types/sky-tools";
+
+export const meta: Route.MetaFunction = () => [{ title: "Sky tools · Nightshare" }];
+
+// Invented defaults: a site of our own choosing and a made-up field, semester 2027B.
+const SITE: Site = { latitudeDeg: 31.3, longitudeDeg: -108.7, elevationM: 2100, timeZone: "America/Denver" };
+const VIS: VisibilityForm = {
+  lat: "31.3", lon: "-108.7", elevation: "2100", timeZone: SITE.timeZone, ra: "05:36:48", dec: "+18:30:00",
+  from: "2027-08-01", nights: "183", minAltitude: "", maxAirmass: "1.6", night: "2027-11-15",
+};
+const EXP: ExposureForm = {
+  band: "V", magnitude: "20.5", mode: "snr", snr: "50", exposureSeconds: "", airmass: "1.2", seeingArcsec: "1.1", moonCategory: "dark",
+  telescope: { apertureM: "2.4", centralObstruction: "0.3" },
+  instrument: { throughput: "0.55", pixelScaleArcsec: "0.35", readNoiseE: "4", darkEPerPixelPerS: "0.001", fullWellE: "90000" },
+};
+const EPOCH: EpochForm = {
+  site: { latitudeDeg: "31.3", longitudeDeg: "-108.7", elevationM: "2100", timeZone: SITE.timeZone },
+  target: { ra: "05:36:48", dec: "+18:30:00" }, firstDate: "2027-08-01", baselineYears: "3", goal: "velocity", epochs: "8",
+  requiredProperMotionMasPerYr: "", requiredTangentialVelocityKmS: "2", distancePc: "1500", perEpochPrecisionMas: "4", maxAirmass: "1.6",
+  secondsPerEpoch: "1500",
+};
+
+// Public page: no sign-in. The first answers are computed here so that the page is useful before
+// any script runs; the forms then recompute live through the API.
+export function loader() {
+  const target = { raDeg: 84.2, decDeg: 18.5 };
+  const visibility = computeVisibility({ site: SITE, target, from: VIS.from, nights: 183, limit: { maxAirmass: 1.6 } });
+  const { night, points } = altitudeCurve(SITE, target, VIS.night, 10);
+  const iso = (t: number | null) => (t === null ? null : new Date(t).toISOString());
+  const curve = { date: VIS.night, sunset: iso(night.sunset), sunrise: iso(night.sunrise), darkStart: iso(night.darkStart), darkEnd: iso(night.darkEnd), points };
+  const exposure = computeExposure({
+    band: "V", magnitude: 20.5, snr: 50, airmass: 1.2, seeingArcsec: 1.1, moonCategory: "dark",
+    telescope: { apertureM: 2.4, centralObstruction: 0.3 },
+    instrument: { throughput: 0.55, pixelScaleArcsec: 0.35, readNoiseE: 4, darkEPerPixelPerS: 0.001, fullWellE: 90000 },
+  });
+  const plan = planEpochs({
+    site: SITE, target, firstDate: "2027-08-01", baselineYears: 3, perEpochPrecisionMas: 4, limit: { maxAirmass: 1.6 },
+    required: { tangentialVelocityKmS: 2, distancePc: 1500 }, secondsPerEpoch: 1500,
+  });
+  return {
+    visibility: { ...visibility, curve } as VisibilityAnswer,
+    exposure: { ...exposure, zeroPointPhotons: ZERO_POINTS.V.photonsPerSecondCm2 } as ExposureAnswer,
+    plan: { ...plan, perEpochPrecisionMas: 4 } as EpochAnswer,
+  };
+}
+
+export default function SkyTools({ loaderData }: Route.ComponentProps) {
+  return (
+    <div className="space-y-8">
+      <header className="space-y-2">
+        <h1>Sky tools</h1>
+        <p className="max-w-3xl text-slate-600">
+          The calculators behind every feasibility sheet, open to anyone. Change a field and the numbers follow. The same computations answer at{" "}
+          <code>/api/v1/visibility</code>, <code>/api/v1/exposure</code>, <code>/api/v1/astrometry</code> and <code>/api/v1/epoch-plan</code>.
+        </p>
+        <ul className="grid gap-x-6 gap-y-1 text-xs text-slate-600 md:grid-cols-2">
+          <li>
+            <b>Moon category</b> of a night, by the Moon's illuminated fraction at the middle of the dark interval: dark below{" "}
+            {MOON_CATEGORY_THRESHOLDS.darkBelow * 100} %, grey below {MOON_CATEGORY_THRESHOLDS.greyBelow * 100} %, bright otherwise.
+          </li>
+          <li><b>Twilight</b>: astronomical, the Sun's centre 18° below the horizon (geometric). Times in UTC, with the site's local time beside them.</li>
+          <li><b>Air mass</b>: {AIRMASS_FORMULA}, from the geometric altitude.</li>
+          <li><b>Refraction</b>: {REFRACTION_MODEL}.</li>
+        </ul>
+      </header>
+      <VisibilityTool defaults={VIS} initial={loaderData.visibility} />
+      <ExposureTool defaults={EXP} initial={loaderData.exposure} />
+      <EpochTool defaults={EPOCH} initial={loaderData.plan} />
+    </div>
+  );
+}
