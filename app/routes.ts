@@ -11,6 +11,7 @@ export default [
   route("api/v1/proposals", "routes/api.v1.proposals.ts"),
   route("api/v1/proposals/:proposalId", "routes/api.v1.proposals.$proposalId.ts"),
   route("proposals/:proposalId/pdf", "routes/proposals.$proposalId.pdf.ts"),
+  route("proposals/:proposalId/files/:fileId", "routes/proposals.$proposalId.files.$fileId.ts"),
   route("sign-in/link", "routes/sign-in.link.ts"),
   route("sign-out", "routes/sign-out.ts"),
 
@@ -29,6 +30,8 @@ export default [
         route("team", "routes/proposals.$proposalId.team.tsx"),
         route("targets", "routes/proposals.$proposalId.targets.tsx"),
         route("observations", "routes/proposals.$proposalId.observations.tsx"),
+        route("feasibility", "routes/proposals.$proposalId.feasibility.tsx"),
+        route("science-case", "routes/proposals.$proposalId.science-case.tsx"),
         route("history", "routes/proposals.$proposalId.history.tsx"),
         route("submit", "routes/proposals.$proposalId.submit.tsx"),
       ]),

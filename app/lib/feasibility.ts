@@ -225,7 +225,17 @@ export type FeasibilitySheet = {
   };
   sites: Record<number, { telescopeName: string; site: Site; nights: SheetNight[] }>;
   observations: ObservationSheet[];
-  targets: { targetId: number; name: string; raDeg: number; decDeg: number; magnitude: number | null; band: string | null; observationIds: number[] }[];
+  targets: {
+    targetId: number;
+    name: string;
+    raDeg: number;
+    decDeg: number;
+    pmRaMasPerYr: number | null;
+    pmDecMasPerYr: number | null;
+    magnitude: number | null;
+    band: string | null;
+    observationIds: number[];
+  }[];
   totals: { telescopeId: number; telescopeName: string; semesterCode: string; moonCategory: MoonCategory; hours: number; offeredHours: number | null }[];
   requestedHours: number;
   problems: Problem[];
@@ -661,6 +671,8 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
       name: t.name,
       raDeg: t.raDeg,
       decDeg: t.decDeg,
+      pmRaMasPerYr: t.pmRaMasPerYr,
+      pmDecMasPerYr: t.pmDecMasPerYr,
       magnitude: t.magnitude,
       band: t.band,
       observationIds: observations.filter((o) => o.targetId === t.id).map((o) => o.observationId),
