@@ -75,7 +75,7 @@ export function AltitudeChart({
       <div className="h-64 w-full">
         <ResponsiveContainer width="100%" height="100%">
           <LineChart data={data} margin={{ top: 5, right: 10, bottom: 5, left: 0 }}>
-            <CartesianGrid strokeDasharray="3 3" />
+            <CartesianGrid strokeDasharray="3 3" vertical={false} />
             {ds !== null && de !== null ? (
               <>
                 <ReferenceArea x1={first} x2={ds} fill="#e8a849" fillOpacity={0.18} ifOverflow="hidden" />
@@ -85,7 +85,7 @@ export function AltitudeChart({
               <ReferenceArea x1={first} x2={last} fill="#e8a849" fillOpacity={0.18} />
             )}
             <XAxis dataKey="t" type="number" domain={[first, last]} scale="time" tickFormatter={(t: number) => hhmm(new Date(t).toISOString())} fontSize={11} />
-            <YAxis domain={[-30, 90]} ticks={[-30, 0, 30, 60, 90]} fontSize={11} width={36} unit="°" />
+            <YAxis domain={[-60, 90]} ticks={[-60, -30, 0, 30, 60, 90]} fontSize={11} width={40} unit="°" />
             <Tooltip labelFormatter={(t) => `${new Date(Number(t)).toISOString().slice(0, 16).replace("T", " ")} UTC`} formatter={(v, name) => [`${Number(v).toFixed(1)}°`, name]} />
             <ReferenceLine y={minAltitudeDeg} stroke="#b91c1c" strokeDasharray="6 3" label={{ value: `airmass limit (${minAltitudeDeg.toFixed(1)}°)`, position: "insideTopRight", fontSize: 11, fill: "#b91c1c" }} />
             <ReferenceLine y={0} stroke="#64748b" />
@@ -115,13 +115,22 @@ export function ParallaxFactorChart({
     ...curve.map((c) => ({ t: toT(c.date), ra: c.ra, dec: c.dec })),
     ...epochs.map((e) => ({ t: toT(e.date), epochRa: e.parallaxFactorRa, epochDec: e.parallaxFactorDec })),
   ].sort((a, b) => a.t - b.t);
+  const ticks: number[] = [];
+  if (data.length) {
+    const first = new Date(data[0].t);
+    for (let y = first.getUTCFullYear(), m = first.getUTCMonth() < 6 ? 6 : 12; ; m += 6) {
+      const t = Date.UTC(y, m, 1);
+      if (t > data[data.length - 1].t) break;
+      ticks.push(t);
+    }
+  }
   return (
     <figure>
       <div className="h-56 w-full">
         <ResponsiveContainer width="100%" height="100%">
           <ComposedChart data={data} margin={{ top: 5, right: 10, bottom: 5, left: 0 }}>
-            <CartesianGrid strokeDasharray="3 3" />
-            <XAxis dataKey="t" type="number" scale="time" domain={["dataMin", "dataMax"]} tickFormatter={(t: number) => new Date(t).toISOString().slice(0, 7)} fontSize={11} />
+            <CartesianGrid strokeDasharray="3 3" vertical={false} />
+            <XAxis dataKey="t" type="number" scale="time" domain={["dataMin", "dataMax"]} ticks={ticks} tickFormatter={(t: number) => new Date(t).toISOString().slice(0, 7)} fontSize={11} />
             <YAxis domain={[-1.1, 1.1]} fontSize={11} width={36} />
             <Tooltip labelFormatter={(t) => new Date(Number(t)).toISOString().slice(0, 10)} formatter={(v, name) => [Number(v).toFixed(3), name]} />
             <Line dataKey="ra" name="f(α*)" stroke="#2b4f7e" dot={false} connectNulls isAnimationActive={false} />

@@ -8,8 +8,9 @@ import { writeAudit } from "~/lib/audit.server";
 import { assertEditable, getProposalForUser, ProposalRefused, type Actor } from "~/lib/proposals.server";
 import { sequelize, StoredFile, User } from "~/models/index.server";
 
-export const SCIENCE_CASE_KIND = "science_case";
-export const SCIENCE_CASE_MAX_BYTES = 10 * 1024 * 1024;
+import { SCIENCE_CASE_KIND, SCIENCE_CASE_MAX_BYTES } from "~/lib/science-case";
+
+export { SCIENCE_CASE_KIND, SCIENCE_CASE_MAX_BYTES };
 
 export type ScienceCaseInfo = { id: number; filename: string; pageCount: number; sizeBytes: number; createdAt: string; sha256: string; uploadedBy: string | null };
 

@@ -5,7 +5,8 @@ import { Field, inputProps } from "~/components/Field";
 import { requireUser } from "~/lib/auth.server";
 import { proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
 import { getProposalForUser } from "~/lib/proposals.server";
-import { readLimitedFormData, SCIENCE_CASE_MAX_BYTES, scienceCaseHistory, storeScienceCase } from "~/lib/science-case.server";
+import { SCIENCE_CASE_MAX_BYTES } from "~/lib/science-case";
+import { readLimitedFormData, scienceCaseHistory, storeScienceCase } from "~/lib/science-case.server";
 import type { Route } from "./+types/proposals.$proposalId.science-case";
 
 const MAX_MB = SCIENCE_CASE_MAX_BYTES / (1024 * 1024);

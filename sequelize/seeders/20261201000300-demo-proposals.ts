@@ -77,7 +77,7 @@ const demos: Demo[] = [
     category: "clusters-astrometry", multi: ["2027A", "2027B", "2028A"],
     abstract: "Trigonometric parallaxes of the brightest giants in the Ossel Cluster, at an estimated 450 pc, tie its main-sequence fitting distance to a geometric one. We place epochs near the parallax-factor extremes of each season.",
     targets: [{ name: "Ossel Cluster core", ra: 171.6, dec: 22.9, pmRa: 6.2, pmDec: -11.4, mag: 14.1, band: "R" }],
-    obs: { telescope: "2.4", band: "R", snr: 200, frames: 6, epochs: 2, baseline: 1.5, reqPm: 2.5, moon: "grey", airmass: 1.6, seeing: 1.0 },
+    obs: { telescope: "2.4", band: "R", snr: 200, frames: 6, epochs: 2, baseline: 1.5, reqPm: 3, moon: "grey", airmass: 1.6, seeing: 1.0 },
   },
   {
     title: "Internal kinematics of the Brannock Field 2 association",
@@ -137,7 +137,7 @@ const demos: Demo[] = [
     category: "clusters-astrometry", multi: ["2026B", "2027A"],
     abstract: "The bright members of Calder Field 9 are within reach of the 1.0 m. One year of epochs measures their bulk motion to 5 mas/yr.",
     targets: [{ name: "Calder Field 9", ra: 15.2, dec: 40.1, pmRa: -2.4, pmDec: -1.1, mag: 13.2, band: "V" }],
-    obs: { telescope: "1.0", band: "V", snr: 150, frames: 4, epochs: 2, baseline: 1, reqPm: 8, moon: "grey", airmass: 1.6, seeing: 1.3 },
+    obs: { telescope: "1.0", band: "V", snr: 150, frames: 4, epochs: 2, baseline: 1, reqPm: 10, moon: "grey", airmass: 1.6, seeing: 1.3 },
   },
   {
     title: "Tessaly Knot: the slowest cluster in the sky?",
@@ -402,7 +402,8 @@ function plannedEpochDates(site: Parameters<typeof prepareSiteNights>[0], start:
   const out: string[] = [];
   for (const dates of bySemester.values()) {
     const n = Math.min(o.epochs, dates.length);
-    for (let i = 0; i < n; i++) out.push(dates[n === 1 ? 0 : Math.round((i * (dates.length - 1)) / (n - 1))]);
+    // Spread over the season, away from the semester's edges (where the next semester's epochs start).
+    for (let i = 0; i < n; i++) out.push(dates[Math.floor(((i + 0.5) * dates.length) / n)]);
   }
   return [...new Set(out)].sort();
 }
