@@ -2,7 +2,7 @@
 // problems and totals live). Only types come from ~/lib/feasibility: nothing server-side here.
 //
 // Live use (agreed with the workspace's observations tab): `useLiveFeasibility(proposalId, key)`
-// loads GET /api/v1/proposals/:id, whose JSON carries the sheet as `feasibility`, and loads it
+// loads GET /api/v1/proposals/:id, whose JSON carries the sheet as `feasibilitySheet`, and loads it
 // again whenever `key` changes (e.g. the observation's saved version), without a page reload.
 import { useEffect } from "react";
 import { useFetcher } from "react-router";
@@ -93,17 +93,17 @@ export function TotalsTable({ sheet }: { sheet: Pick<FeasibilitySheet, "totals" 
 
 /** The sheet from the JSON API, re-fetched whenever `key` changes. */
 export function useLiveFeasibility(proposalId: number, key: unknown) {
-  const fetcher = useFetcher<{ feasibility?: FeasibilitySheet }>();
+  const fetcher = useFetcher<{ feasibilitySheet?: FeasibilitySheet | null; feasibilityError?: string }>();
   const { load } = fetcher;
   useEffect(() => {
     load(`/api/v1/proposals/${proposalId}`);
   }, [proposalId, key, load]);
-  return { sheet: fetcher.data?.feasibility ?? null, loading: fetcher.state !== "idle" };
+  return { sheet: fetcher.data?.feasibilitySheet ?? null, error: fetcher.data?.feasibilityError ?? null, loading: fetcher.state !== "idle" };
 }
 
 /** Problems and totals, kept current from the API: for the observations tab. */
 export function LiveFeasibilitySummary({ proposalId, revision }: { proposalId: number; revision: unknown }) {
-  const { sheet, loading } = useLiveFeasibility(proposalId, revision);
+  const { sheet, error, loading } = useLiveFeasibility(proposalId, revision);
   return (
     <section aria-label="Feasibility sheet summary" aria-busy={loading} className="space-y-3">
       <div className="flex items-baseline justify-between gap-4">
@@ -118,7 +118,7 @@ export function LiveFeasibilitySummary({ proposalId, revision }: { proposalId: n
           <TotalsTable sheet={sheet} />
         </>
       ) : (
-        <p className="text-sm text-slate-600">{loading ? "Computing…" : "Not available."}</p>
+        <p className="text-sm text-slate-600">{loading ? "Computing…" : (error ?? "Not available.")}</p>
       )}
     </section>
   );

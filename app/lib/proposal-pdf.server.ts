@@ -55,7 +55,7 @@ async function family(doc: PDFDocument, names: string[]): Promise<Family> {
   return out;
 }
 
-const FALLBACK: Record<string, string> = { "⁻": "-", "≤": "<=", "≥": ">=", "√": "sqrt", "→": "->", "…": "...", "·": "·" };
+const FALLBACK: Record<string, string> = { "≈": "~", "ϖ": "plx", "⁻": "-", "≤": "<=", "≥": ">=", "√": "sqrt", "→": "->", "…": "...", "·": "·" };
 
 /** Splits text into runs, each set in the first face of the family that has its glyphs. */
 function runs(text: string, fam: Family): { text: string; font: PDFFont }[] {
@@ -220,7 +220,7 @@ function technicalPages(w: Writer, sheet: FeasibilitySheet) {
       { label: "Dark", width: 0.07, right: true },
       { label: "Grey", width: 0.07, right: true },
       { label: "Bright", width: 0.07, right: true },
-      { label: "Usable (nights)", width: 0.11, right: true },
+      { label: "Usable (n)", width: 0.11, right: true },
       { label: "Best months", width: 0.14 },
     ],
     sheet.observations.map((o) => [
@@ -331,7 +331,7 @@ function technicalPages(w: Writer, sheet: FeasibilitySheet) {
     w.table(
       [
         { label: "Target · band", width: 0.22 },
-        { label: "Baseline (yr)", width: 0.1, right: true },
+        { label: "Years", width: 0.1, right: true },
         { label: "Epochs", width: 0.08, right: true },
         { label: "σ epoch (mas)", width: 0.12, right: true },
         { label: "σμ reached (mas/yr)", width: 0.18, right: true },

@@ -1,0 +1,129 @@
+// The feasibility sheet through HTTP and the proposal PDF, on the test MariaDB.
+import { spawnSync } from "node:child_process";
+import { existsSync, mkdtempSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { PDFDocument } from "pdf-lib";
+import { beforeAll, describe, expect, it } from "vitest";
+import { computeFeasibilitySheet } from "~/lib/feasibility.server";
+import { buildProposalPdf } from "~/lib/proposal-pdf.server";
+import { Observation, Proposal, Target } from "~/models/index.server";
+import { request } from "../helpers/app";
+import { ensureDatabase } from "../helpers/db";
+import { newUser } from "../helpers/session";
+import { readyProposal, testCall } from "./proposals-fixtures";
+
+type Person = Awaited<ReturnType<typeof newUser>>;
+let pi: Person;
+let stranger: Person;
+let ready: Awaited<ReturnType<typeof readyProposal>>;
+
+beforeAll(async () => {
+  await ensureDatabase();
+  pi = await newUser({ name: "Sheet PI" });
+  stranger = await newUser({ name: "Sheet Stranger" });
+  const call = await testCall();
+  ready = await readyProposal({ user: pi.user, callId: call.id, title: "Feasibility test programme" });
+});
+
+describe("feasibility sheet screen", () => {
+  it("shows the computed sheet to the team", async () => {
+    const res = await (await request()).get(`/proposals/${ready.proposal.id}/feasibility`).set("Cookie", pi.cookie);
+    expect(res.status).toBe(200);
+    expect(res.text).toContain("Feasibility sheet for");
+    expect(res.text).toContain("Hollowmere Field 1");
+    expect(res.text).toContain("Noise term");
+    expect(res.text).toContain("Time per epoch");
+  });
+
+  it("answers 404 to other users and sends anonymous visitors to sign in", async () => {
+    const other = await (await request()).get(`/proposals/${ready.proposal.id}/feasibility`).set("Cookie", stranger.cookie);
+    expect(other.status).toBe(404);
+    const anonymous = await (await request()).get(`/proposals/${ready.proposal.id}/feasibility`);
+    expect(anonymous.status).toBe(302);
+    expect(anonymous.headers.location).toMatch(/^\/sign-in/);
+  });
+
+  it("follows the saved observations: an edit shows on the next load", async () => {
+    const observation = await Observation.findOne({ where: { proposalId: ready.proposal.id } });
+    await observation!.update({ snrGoal: null, exposureSeconds: 3000 });
+    await Target.update({ magnitude: 9 }, { where: { id: ready.target.id } });
+    const res = await (await request()).get(`/proposals/${ready.proposal.id}/feasibility`).set("Cookie", pi.cookie);
+    expect(res.text).toMatch(/saturate/);
+    const sheet = await computeFeasibilitySheet({ proposalId: ready.proposal.id });
+    expect(sheet.problems.some((p) => p.severity === "blocking" && /saturate/.test(p.message))).toBe(true);
+    await observation!.update({ snrGoal: 50, exposureSeconds: null });
+    await Target.update({ magnitude: 15.5 }, { where: { id: ready.target.id } });
+    expect((await computeFeasibilitySheet({ proposalId: ready.proposal.id })).problems.filter((p) => p.severity === "blocking")).toEqual([]);
+  });
+
+  it("stays fast for a proposal with 50 targets", async () => {
+    const call = await testCall();
+    const big = await readyProposal({ user: pi.user, callId: call.id, title: "Fifty-field survey" });
+    const template = (await Observation.findOne({ where: { proposalId: big.proposal.id } }))!;
+    const targets = await Target.bulkCreate(
+      Array.from({ length: 49 }, (_, i) => ({
+        proposalId: big.proposal.id,
+        name: `Survey field ${i + 2}`,
+        raDeg: 120 + i * 2.5,
+        decDeg: -5 + (i % 10) * 6,
+        pmRaMasPerYr: null,
+        pmDecMasPerYr: null,
+        magnitude: 14 + (i % 6),
+        band: "V",
+        notes: null,
+      })),
+    );
+    await Observation.bulkCreate(
+      targets.map((t) => ({
+        proposalId: big.proposal.id,
+        targetId: t.id,
+        instrumentId: template.instrumentId,
+        filterId: template.filterId,
+        snrGoal: 50,
+        exposureSeconds: null,
+        framesPerEpoch: 3,
+        epochsPerSemester: 1,
+        baselineYears: null,
+        requiredPmPrecisionMasPerYr: null,
+        moonCategory: "dark" as const,
+        maxAirmass: 2,
+        seeingArcsec: 1.2,
+      })),
+    );
+    const started = performance.now();
+    const res = await (await request()).get(`/proposals/${big.proposal.id}/feasibility`).set("Cookie", pi.cookie);
+    const ms = performance.now() - started;
+    expect(res.status).toBe(200);
+    const sheet = await computeFeasibilitySheet({ proposalId: big.proposal.id });
+    expect(sheet.observations).toHaveLength(50);
+    console.log(`feasibility sheet page for 50 targets: ${Math.round(ms)} ms`);
+    expect(ms).toBeLessThan(15_000);
+  });
+});
+
+describe("proposal PDF", () => {
+  it("has a cover, technical pages and the science case's pages, with the title and state", async () => {
+    const proposal = await Proposal.findByPk(ready.proposal.id);
+    const bytes = await buildProposalPdf({ proposalId: ready.proposal.id });
+    const doc = await PDFDocument.load(bytes);
+    expect(doc.getTitle()).toBe(`Draft: ${proposal!.title}`);
+    const pages = doc.getPages();
+    // The fixture's science case has 2 pages of 595 × 842 pt; ours are A4 (595.28 × 841.89).
+    const scienceCase = pages.filter((p) => p.getSize().width === 595 && p.getSize().height === 842);
+    expect(scienceCase).toHaveLength(2);
+    expect(pages.slice(-2).every((p) => p.getSize().width === 595)).toBe(true);
+    expect(pages.length).toBeGreaterThanOrEqual(1 + 1 + 2);
+    // With Debian's poppler-utils (pdftotext) the text itself is checked too.
+    if (existsSync("/usr/bin/pdftotext")) {
+      const file = path.join(mkdtempSync(path.join(tmpdir(), "ns-pdf-")), "p.pdf");
+      writeFileSync(file, bytes);
+      const text = spawnSync("pdftotext", ["-layout", file, "-"], { encoding: "utf8" }).stdout;
+      expect(text).toContain("Draft — not submitted");
+      expect(text).toContain("Feasibility test programme");
+      expect(text).toContain("Technical case: feasibility sheet");
+      expect(text).toContain("Hollowmere Field 1");
+      expect(text).toContain(`page ${pages.length} of ${pages.length}`);
+    }
+  });
+});
