@@ -9,6 +9,7 @@ export interface NavItem {
 }
 
 export const navItems: NavItem[] = [
+  { to: "/calls", label: "Open calls" },
   { to: "/sky-tools", label: "Sky tools" },
   { to: "/proposals", label: "My proposals", signedIn: true },
   { to: "/review", label: "Review", role: "reviewer" },

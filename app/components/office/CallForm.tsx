@@ -1,0 +1,228 @@
+import { useState } from "react";
+import { Form, useNavigation } from "react-router";
+import { moonCategories } from "~/lib/domain";
+import { callSchema, currencies, offerField } from "~/lib/schemas/office";
+import { formatInZone, formatUtc, zonedLocalToUtc } from "~/lib/zoned-time";
+import { fieldId, FormError, Message, NumberField, TextField, useClientCheck, type FormResult } from "./fields";
+
+export interface CallFormValues {
+  semesterCode: string;
+  title: string;
+  /** wall clock at the observatory, YYYY-MM-DDTHH:MM */
+  opensAt: string;
+  deadlineAt: string;
+  semesterStart: string;
+  semesterEnd: string;
+  pageLimit: number | string;
+  currency: string;
+  accessFee: number | string;
+  pageCharge: number | string;
+  offers: Record<number, Record<string, number>>;
+}
+
+const moonLabels = { dark: "Dark", grey: "Grey", bright: "Bright" } as const;
+
+/** A wall-clock date and time at the observatory, with the UTC instant it means right below. */
+function ZonedDateTime({
+  prefix,
+  name,
+  label,
+  timeZone,
+  defaultValue,
+  error,
+}: {
+  prefix: string;
+  name: string;
+  label: string;
+  timeZone: string;
+  defaultValue?: string;
+  error?: string;
+}) {
+  const [value, setValue] = useState(defaultValue ?? "");
+  const id = fieldId(prefix, name);
+  const instant = value ? zonedLocalToUtc(value, timeZone) : null;
+  return (
+    <div>
+      <label htmlFor={id}>
+        {label} <span className="font-normal text-slate-500">{`(${timeZone})`}</span>
+      </label>
+      <input
+        id={id}
+        name={name}
+        type="datetime-local"
+        className="input"
+        defaultValue={defaultValue}
+        onChange={(e) => setValue(e.target.value)}
+        aria-invalid={error ? true : undefined}
+        aria-describedby={error ? `${id}-error` : `${id}-utc`}
+      />
+      {error ? (
+        <Message id={id} error={error} />
+      ) : (
+        <p id={`${id}-utc`} className="mt-1 text-xs text-slate-600" aria-live="polite">
+          {instant ? (
+            <>
+              {formatInZone(instant, timeZone)} = <strong className="font-semibold">{formatUtc(instant)}</strong>
+            </>
+          ) : (
+            "Observatory local time; the UTC equivalent appears here."
+          )}
+        </p>
+      )}
+    </div>
+  );
+}
+
+export function CallForm({
+  intent,
+  initial,
+  result,
+  timeZone,
+  telescopes,
+  submitLabel,
+}: {
+  intent: string;
+  initial: CallFormValues;
+  result?: FormResult;
+  timeZone: string;
+  telescopes: { id: number; name: string; siteName: string }[];
+  submitLabel: string;
+}) {
+  const { errors, onSubmit } = useClientCheck(callSchema, result?.errors);
+  const navigation = useNavigation();
+  const busy = navigation.state === "submitting";
+  const typed = result?.values ?? {};
+  const v = (name: keyof CallFormValues) => (typed[name] ?? initial[name]) as string | number | undefined;
+  const cell = (telescopeId: number, moon: string) => typed[offerField(telescopeId, moon)] ?? initial.offers[telescopeId]?.[moon] ?? 0;
+  const p = `call-${intent}`;
+  return (
+    <Form method="post" noValidate onSubmit={onSubmit} className="space-y-6" aria-label={submitLabel}>
+      <input type="hidden" name="timeZone" value={timeZone} />
+      <FormError error={errors.form ?? errors.timeZone} />
+      <fieldset className="card space-y-4">
+        <legend className="px-1 text-lg font-semibold text-night-900">The call</legend>
+        <div className="grid gap-4 md:grid-cols-[12rem_1fr]">
+          <TextField prefix={p} name="semesterCode" label="Semester" defaultValue={v("semesterCode")} error={errors.semesterCode} placeholder="2028A" hint="Year and A or B" />
+          <TextField prefix={p} name="title" label="Title" defaultValue={v("title")} error={errors.title} placeholder="Call for proposals 2028A" />
+        </div>
+        <div className="grid gap-4 md:grid-cols-2">
+          <ZonedDateTime prefix={p} name="opensAt" label="Opens" timeZone={timeZone} defaultValue={v("opensAt") as string} error={errors.opensAt} />
+          <ZonedDateTime prefix={p} name="deadlineAt" label="Deadline" timeZone={timeZone} defaultValue={v("deadlineAt") as string} error={errors.deadlineAt} />
+        </div>
+        <div className="grid gap-4 md:grid-cols-3">
+          {(["semesterStart", "semesterEnd"] as const).map((name) => {
+            const id = fieldId(p, name);
+            return (
+              <div key={name}>
+                <label htmlFor={id}>{name === "semesterStart" ? "Semester starts" : "Semester ends (inclusive)"}</label>
+                <input
+                  id={id}
+                  name={name}
+                  type="date"
+                  className="input"
+                  defaultValue={v(name) as string}
+                  aria-invalid={errors[name] ? true : undefined}
+                  aria-describedby={errors[name] ? `${id}-error` : undefined}
+                />
+                <Message id={id} error={errors[name]} hint={name === "semesterEnd" ? "A semester lasts 3 to 13 months" : "Nights from this date"} />
+              </div>
+            );
+          })}
+          <NumberField prefix={p} name="pageLimit" label="Page limit" unit="pages" defaultValue={v("pageLimit")} error={errors.pageLimit} hint="Of the science case PDF" />
+        </div>
+      </fieldset>
+
+      <fieldset className="card space-y-3">
+        <legend className="px-1 text-lg font-semibold text-night-900">Hours offered</legend>
+        <p className="text-sm text-slate-600">Per telescope and moon category. A telescope with 0 hours everywhere is not part of the call.</p>
+        {telescopes.length === 0 ? <p className="text-amber-800">Set up a telescope first.</p> : null}
+        <div className="overflow-x-auto">
+          <table className="table-base max-w-3xl">
+            <thead>
+              <tr>
+                <th>Telescope</th>
+                {moonCategories.map((m) => (
+                  <th key={m} className="text-right">
+                    {moonLabels[m]} (h)
+                  </th>
+                ))}
+              </tr>
+            </thead>
+            <tbody>
+              {telescopes.map((t) => (
+                <tr key={t.id}>
+                  <th scope="row" className="bg-white font-semibold">
+                    {t.name}
+                    <span className="block text-xs font-normal text-slate-500">{t.siteName}</span>
+                  </th>
+                  {moonCategories.map((m) => {
+                    const name = offerField(t.id, m);
+                    const id = fieldId(p, name);
+                    return (
+                      <td key={m} className="text-right">
+                        <label htmlFor={id} className="sr-only">
+                          {moonLabels[m]} hours on {t.name}
+                        </label>
+                        <input
+                          id={id}
+                          name={name}
+                          inputMode="decimal"
+                          autoComplete="off"
+                          defaultValue={String(cell(t.id, m))}
+                          className="input mt-0 ml-auto w-24 text-right tabular-nums"
+                          aria-invalid={errors[name] ? true : undefined}
+                          aria-describedby={errors[name] ? `${id}-error` : undefined}
+                        />
+                        {errors[name] ? (
+                          <p id={`${id}-error`} role="alert" className="mt-1 text-xs text-red-700">
+                            {errors[name]}
+                          </p>
+                        ) : null}
+                      </td>
+                    );
+                  })}
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+        {errors.offers ? (
+          <p role="alert" className="field-error">
+            {errors.offers}
+          </p>
+        ) : null}
+      </fieldset>
+
+      <fieldset className="card space-y-4">
+        <legend className="px-1 text-lg font-semibold text-night-900">Charges</legend>
+        <div className="grid gap-4 md:grid-cols-3">
+          <div>
+            <label htmlFor={fieldId(p, "currency")}>Currency</label>
+            <select id={fieldId(p, "currency")} name="currency" className="input" defaultValue={v("currency") as string}>
+              {currencies.map((c) => (
+                <option key={c} value={c}>
+                  {c.toUpperCase()}
+                </option>
+              ))}
+            </select>
+            <Message id={fieldId(p, "currency")} error={errors.currency} />
+          </div>
+          <NumberField
+            prefix={p}
+            name="accessFee"
+            label="Access fee"
+            unit="per allocated hour"
+            defaultValue={v("accessFee")}
+            error={errors.accessFee}
+            hint="Charged to non-member institutions"
+          />
+          <NumberField prefix={p} name="pageCharge" label="Page charge" unit="per page" defaultValue={v("pageCharge")} error={errors.pageCharge} hint="0 for none" />
+        </div>
+      </fieldset>
+
+      <button type="submit" className="btn" disabled={busy}>
+        {busy ? "Saving…" : submitLabel}
+      </button>
+    </Form>
+  );
+}

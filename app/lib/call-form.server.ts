@@ -1,0 +1,58 @@
+// What the call pages need around the form: the observatory's zone, the telescopes for the grid,
+// and a stored call turned back into the form's wall-clock values.
+import { listTelescopes, observatoryTimeZone, type getCall } from "./office.server";
+import { utcToZonedLocal } from "./zoned-time";
+import type { CallFormValues } from "~/components/office/CallForm";
+
+export async function callFormContext() {
+  const [timeZone, telescopes] = await Promise.all([observatoryTimeZone(), listTelescopes()]);
+  return { timeZone, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name, siteName: t.siteName })) };
+}
+
+export function callToForm(call: Awaited<ReturnType<typeof getCall>>, timeZone: string): CallFormValues {
+  return {
+    semesterCode: call.semesterCode,
+    title: call.title,
+    opensAt: utcToZonedLocal(call.opensAt, timeZone),
+    deadlineAt: utcToZonedLocal(call.deadlineAt, timeZone),
+    semesterStart: call.semesterStart,
+    semesterEnd: call.semesterEnd,
+    pageLimit: call.pageLimit,
+    currency: call.currency,
+    accessFee: call.accessFeePerHourCents / 100,
+    pageCharge: call.pageChargeCents / 100,
+    offers: call.offers,
+  };
+}
+
+/** A blank form for the next semester after the latest call (a starting point, all editable). */
+export function emptyCallForm(latest: { semesterCode: string; semesterEnd: string } | null): CallFormValues {
+  return {
+    semesterCode: "",
+    title: "",
+    opensAt: "",
+    deadlineAt: "",
+    semesterStart: "",
+    semesterEnd: "",
+    pageLimit: 4,
+    currency: "eur",
+    accessFee: 0,
+    pageCharge: 0,
+    offers: {},
+    ...(latest ? nextSemester(latest) : {}),
+  };
+}
+
+function nextSemester(latest: { semesterCode: string; semesterEnd: string }) {
+  const year = Number(latest.semesterCode.slice(0, 4));
+  const code = latest.semesterCode.endsWith("A") ? `${year}B` : `${year + 1}A`;
+  const end = new Date(`${latest.semesterEnd}T00:00:00Z`);
+  const start = new Date(end.getTime() + 86_400_000);
+  const last = new Date(Date.UTC(start.getUTCFullYear(), start.getUTCMonth() + 6, 0));
+  return {
+    semesterCode: code,
+    title: `Call for proposals ${code}`,
+    semesterStart: start.toISOString().slice(0, 10),
+    semesterEnd: last.toISOString().slice(0, 10),
+  };
+}

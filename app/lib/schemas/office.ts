@@ -1,0 +1,214 @@
+// The observatory office's set-up forms: one schema per form, shared by the browser (checked
+// before sending) and the action (checked again). Numbers arrive as typed text; an empty field is
+// a message, never a silent 0.
+import { z } from "zod";
+import { moonCategories } from "~/lib/domain";
+import { isValidTimeZone, startOfDateInZone, zonedLocalToUtc } from "~/lib/zoned-time";
+
+interface NumberRule {
+  min: number;
+  max: number;
+  /** shown in messages, e.g. "m" or "e⁻" */
+  unit?: string;
+  /** the lower bound itself is not allowed */
+  positive?: boolean;
+  integer?: boolean;
+}
+
+const show = (n: number) => (Math.abs(n) >= 1e5 ? n.toExponential().replace("e+", "e") : String(n));
+
+/** A number typed into a field: required, finite, within range; the message names the field. */
+export function numberField(label: string, rule: NumberRule) {
+  const unit = rule.unit ? (rule.unit.startsWith("°") ? rule.unit : ` ${rule.unit}`) : "";
+  const range = `${rule.positive ? "more than" : "from"} ${show(rule.min)} ${rule.positive ? "and at most" : "to"} ${show(rule.max)}${unit}`;
+  let number = z.number({ error: `${label} must be a number (use a point for decimals).` });
+  number = rule.positive
+    ? number.gt(rule.min, `${label} must be ${range}.`)
+    : number.min(rule.min, `${label} must be ${range}.`);
+  number = number.max(rule.max, `${label} must be ${range}.`);
+  if (rule.integer) number = number.int(`${label} must be a whole number.`);
+  return z.preprocess(
+    (value) => (typeof value === "number" ? String(value) : value),
+    z
+      .string({ error: `Enter the ${label.toLowerCase()}.` })
+      .trim()
+      .min(1, `Enter the ${label.toLowerCase()}.`)
+      .transform((text) => (/^[+-]?(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i.test(text) ? Number(text) : Number.NaN))
+      .pipe(number),
+  );
+}
+
+const name = (what: string, max = 120) =>
+  z
+    .string({ error: `Enter the ${what}.` })
+    .trim()
+    .min(1, `Enter the ${what}.`)
+    .max(max, `The ${what} is too long (at most ${max} characters).`);
+
+// ---------------------------------------------------------------- telescopes
+
+export const telescopeSchema = z.object({
+  name: name("telescope's name"),
+  siteName: name("site name"),
+  latitudeDeg: numberField("Latitude", { min: -90, max: 90, unit: "° (north positive)" }),
+  longitudeDeg: numberField("Longitude", { min: -180, max: 180, unit: "° (east positive)" }),
+  elevationM: numberField("Elevation", { min: -500, max: 6000, unit: "m" }),
+  timeZone: z
+    .string({ error: "Choose the site's time zone." })
+    .trim()
+    .min(1, "Choose the site's time zone.")
+    .refine(isValidTimeZone, "That is not an IANA time zone; pick one from the list, like America/Denver."),
+  apertureM: numberField("Aperture", { min: 0.05, max: 50, unit: "m" }),
+  centralObstruction: numberField("Central obstruction", { min: 0, max: 0.9, unit: "of the diameter" }),
+});
+export type TelescopeInput = z.infer<typeof telescopeSchema>;
+
+// ---------------------------------------------------------------- instruments
+
+export const instrumentSchema = z.object({
+  name: name("instrument's name"),
+  pixelScaleArcsec: numberField("Pixel scale", { min: 0, max: 20, unit: "″/pixel", positive: true }),
+  readNoiseE: numberField("Read noise", { min: 0, max: 200, unit: "e⁻" }),
+  darkEPerPixelPerS: numberField("Dark current", { min: 0, max: 100, unit: "e⁻/pixel/s" }),
+  gainEPerAdu: numberField("Gain", { min: 0, max: 100, unit: "e⁻/ADU", positive: true }),
+  fullWellE: numberField("Full well", { min: 100, max: 1e7, unit: "e⁻" }),
+  readoutSeconds: numberField("Readout overhead", { min: 0, max: 3600, unit: "s" }),
+  acquisitionSeconds: numberField("Acquisition overhead", { min: 0, max: 7200, unit: "s" }),
+  astrometricFloorMas: numberField("Systematic astrometric floor", { min: 0, max: 1000, unit: "mas" }),
+  throughput: numberField("Throughput", { min: 0, max: 1, positive: true }),
+});
+export type InstrumentInput = z.infer<typeof instrumentSchema>;
+
+// ---------------------------------------------------------------- filters
+
+export const filterSchema = z
+  .object({
+    band: z
+      .string({ error: "Enter the band's name." })
+      .trim()
+      .min(1, "Enter the band's name, like V or r′.")
+      .max(16, "A band's name has at most 16 characters."),
+    zeroPointPhotons: numberField("Zero point", { min: 0, max: 1e8, unit: "photons s⁻¹ cm⁻²", positive: true }),
+    extinctionMagPerAirmass: numberField("Extinction", { min: 0, max: 3, unit: "mag/airmass" }),
+    skyDarkMag: numberField("Dark sky", { min: 10, max: 26, unit: "mag/arcsec²" }),
+    skyGreyMag: numberField("Grey sky", { min: 10, max: 26, unit: "mag/arcsec²" }),
+    skyBrightMag: numberField("Bright sky", { min: 10, max: 26, unit: "mag/arcsec²" }),
+  })
+  .superRefine((f, ctx) => {
+    // A brighter sky has a smaller magnitude per square arcsecond.
+    if (f.skyGreyMag > f.skyDarkMag) {
+      ctx.addIssue({ code: "custom", path: ["skyGreyMag"], message: "Grey sky cannot be darker (a larger number) than dark sky." });
+    }
+    if (f.skyBrightMag > f.skyGreyMag) {
+      ctx.addIssue({ code: "custom", path: ["skyBrightMag"], message: "Bright sky cannot be darker (a larger number) than grey sky." });
+    }
+  });
+export type FilterInput = z.infer<typeof filterSchema>;
+
+// ---------------------------------------------------------------- calls
+
+export const currencies = ["eur", "usd", "gbp", "chf"] as const;
+export const MIN_SEMESTER_MONTHS = 3;
+export const MAX_SEMESTER_MONTHS = 13;
+
+/** The form field of one cell of the offered-hours grid. */
+export const offerField = (telescopeId: number, moon: string) => `offer.${telescopeId}.${moon}`;
+const offerPattern = new RegExp(`^offer\\.(\\d+)\\.(${moonCategories.join("|")})$`);
+const hoursField = numberField("Hours offered", { min: 0, max: 5000, unit: "h" });
+
+const dateField = (label: string) =>
+  z
+    .string({ error: `Enter the ${label}.` })
+    .trim()
+    .min(1, `Enter the ${label}.`)
+    .refine((v) => /^\d{4}-\d{2}-\d{2}$/.test(v) && !Number.isNaN(Date.parse(`${v}T00:00:00Z`)) && new Date(`${v}T00:00:00Z`).toISOString().startsWith(v), {
+      message: `The ${label} is not a date (YYYY-MM-DD).`,
+    });
+
+const localDateTime = (label: string) =>
+  z
+    .string({ error: `Enter the ${label}.` })
+    .trim()
+    .min(1, `Enter the ${label} (date and time at the observatory).`);
+
+const money = (label: string) =>
+  numberField(label, { min: 0, max: 1e6 }).refine((v) => Math.abs(v * 100 - Math.round(v * 100)) < 1e-6, {
+    message: `${label} has at most two decimals.`,
+  });
+
+function monthsAfter(date: string, months: number) {
+  const d = new Date(`${date}T00:00:00Z`);
+  d.setUTCMonth(d.getUTCMonth() + months);
+  return d.toISOString().slice(0, 10);
+}
+
+/**
+ * The call form. Dates and times are typed as the observatory's wall clock (`timeZone`, which the
+ * server sets to the observatory's zone); the result carries UTC instants. Cells of the offered-hours
+ * grid are fields named `offer.<telescopeId>.<moon>`.
+ */
+export const callSchema = z
+  .looseObject({
+    semesterCode: z
+      .string({ error: "Enter the semester code." })
+      .trim()
+      .toUpperCase()
+      .regex(/^\d{4}[AB]$/, "A semester code is the year and A or B, like 2027A."),
+    title: name("title", 200).min(3, "Give the call a title of at least 3 characters."),
+    timeZone: z.string().refine(isValidTimeZone, "The observatory's time zone is not set; set up a telescope first."),
+    opensAt: localDateTime("opening"),
+    deadlineAt: localDateTime("deadline"),
+    semesterStart: dateField("semester start"),
+    semesterEnd: dateField("semester end"),
+    pageLimit: numberField("Page limit", { min: 1, max: 100, unit: "pages", integer: true }),
+    currency: z.enum(currencies, "Choose the currency of the charges."),
+    accessFee: money("Access fee"),
+    pageCharge: money("Page charge"),
+  })
+  .transform((call, ctx) => {
+    const opensAt = zonedLocalToUtc(call.opensAt, call.timeZone);
+    const deadlineAt = zonedLocalToUtc(call.deadlineAt, call.timeZone);
+    if (!opensAt) ctx.addIssue({ code: "custom", path: ["opensAt"], message: "The opening is not a date and time (YYYY-MM-DD HH:MM)." });
+    if (!deadlineAt) ctx.addIssue({ code: "custom", path: ["deadlineAt"], message: "The deadline is not a date and time (YYYY-MM-DD HH:MM)." });
+    const semesterStartsAt = startOfDateInZone(call.semesterStart, call.timeZone);
+    if (opensAt && deadlineAt && opensAt >= deadlineAt) {
+      ctx.addIssue({ code: "custom", path: ["deadlineAt"], message: "The deadline must come after the opening." });
+    } else if (deadlineAt && semesterStartsAt && deadlineAt >= semesterStartsAt) {
+      ctx.addIssue({ code: "custom", path: ["deadlineAt"], message: `The deadline must come before the semester starts (${call.semesterStart}).` });
+    }
+    if (call.semesterEnd <= call.semesterStart) {
+      ctx.addIssue({ code: "custom", path: ["semesterEnd"], message: "The semester must end after it starts." });
+    } else if (call.semesterEnd < monthsAfter(call.semesterStart, MIN_SEMESTER_MONTHS)) {
+      ctx.addIssue({ code: "custom", path: ["semesterEnd"], message: `A semester lasts at least ${MIN_SEMESTER_MONTHS} months; this one is shorter.` });
+    } else if (call.semesterEnd > monthsAfter(call.semesterStart, MAX_SEMESTER_MONTHS)) {
+      ctx.addIssue({ code: "custom", path: ["semesterEnd"], message: `A semester lasts at most ${MAX_SEMESTER_MONTHS} months; this one is longer.` });
+    }
+    const offers: { telescopeId: number; moonCategory: (typeof moonCategories)[number]; hoursOffered: number }[] = [];
+    for (const [key, value] of Object.entries(call)) {
+      const match = offerPattern.exec(key);
+      if (!match) continue;
+      const parsed = hoursField.safeParse(value);
+      if (!parsed.success) {
+        ctx.addIssue({ code: "custom", path: [key], message: parsed.error.issues[0].message });
+        continue;
+      }
+      offers.push({ telescopeId: Number(match[1]), moonCategory: match[2] as (typeof moonCategories)[number], hoursOffered: parsed.data });
+    }
+    if (offers.length && offers.every((o) => o.hoursOffered === 0)) {
+      ctx.addIssue({ code: "custom", path: ["offers"], message: "Offer some hours on at least one telescope." });
+    }
+    return {
+      semesterCode: call.semesterCode,
+      title: call.title,
+      opensAt: opensAt ?? new Date(Number.NaN),
+      deadlineAt: deadlineAt ?? new Date(Number.NaN),
+      semesterStart: call.semesterStart,
+      semesterEnd: call.semesterEnd,
+      pageLimit: call.pageLimit,
+      currency: call.currency,
+      accessFeePerHourCents: Math.round(call.accessFee * 100),
+      pageChargeCents: Math.round(call.pageCharge * 100),
+      offers,
+    };
+  });
+export type CallInput = z.output<typeof callSchema>;

@@ -1,0 +1,51 @@
+import { redirect } from "react-router";
+import { Breadcrumbs } from "~/components/office/Breadcrumbs";
+import { CallForm } from "~/components/office/CallForm";
+import { resultFor } from "~/components/office/fields";
+import { requireRole } from "~/lib/auth.server";
+import { callFormContext, callToForm } from "~/lib/call-form.server";
+import { getCall, observatoryTimeZone, updateCall } from "~/lib/office.server";
+import { formValues, handle, idParam, orNotFound } from "~/lib/office-forms.server";
+import { callSchema } from "~/lib/schemas/office";
+import type { Route } from "./+types/admin.calls.$callId";
+
+export function meta({ data }: Route.MetaArgs) {
+  return [{ title: `Call ${data?.semesterCode ?? ""} · Observatory office · Nightshare` }];
+}
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  await requireRole(request, "admin");
+  const callId = idParam(params.callId, "call");
+  const [call, context] = await Promise.all([orNotFound(getCall({ callId })), callFormContext()]);
+  return { ...context, semesterCode: call.semesterCode, initial: callToForm(call, context.timeZone) };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const actor = await requireRole(request, "admin");
+  const callId = idParam(params.callId, "call");
+  const values = formValues(await request.formData());
+  values.timeZone = await observatoryTimeZone();
+  return handle({ intent: "update", values, schema: callSchema }, async (input) => {
+    await updateCall({ actor, callId, values: input });
+    return redirect(`/admin/calls?saved=${input.semesterCode}`);
+  });
+}
+
+export default function EditCall({ loaderData, actionData }: Route.ComponentProps) {
+  return (
+    <div className="space-y-6">
+      <Breadcrumbs
+        trail={[{ to: "/admin", label: "Observatory office" }, { to: "/admin/calls", label: "Calls" }, { label: loaderData.semesterCode }]}
+      />
+      <h1>Call {loaderData.semesterCode}</h1>
+      <CallForm
+        intent="update"
+        initial={loaderData.initial}
+        result={resultFor(actionData, "update")}
+        timeZone={loaderData.timeZone}
+        telescopes={loaderData.telescopes}
+        submitLabel="Save the call"
+      />
+    </div>
+  );
+}

@@ -1,0 +1,139 @@
+import { Link, redirect, useSearchParams } from "react-router";
+import { Breadcrumbs } from "~/components/office/Breadcrumbs";
+import { DeleteButton } from "~/components/office/DeleteButton";
+import { resultFor, Saved } from "~/components/office/fields";
+import { InstrumentForm } from "~/components/office/InstrumentForm";
+import { TelescopeForm } from "~/components/office/TelescopeForm";
+import { requireRole } from "~/lib/auth.server";
+import { createInstrument, deleteTelescope, getTelescope, updateTelescope } from "~/lib/office.server";
+import { attempt, formValues, handle, idParam, orNotFound, unknownIntent } from "~/lib/office-forms.server";
+import { instrumentSchema, telescopeSchema } from "~/lib/schemas/office";
+import { supportedTimeZones } from "~/lib/zoned-time";
+import type { Route } from "./+types/admin.telescopes.$telescopeId";
+
+export function meta({ data }: Route.MetaArgs) {
+  return [{ title: `${data?.telescope.name ?? "Telescope"} · Observatory office · Nightshare` }];
+}
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  await requireRole(request, "admin");
+  const telescopeId = idParam(params.telescopeId, "telescope");
+  return { telescope: await orNotFound(getTelescope({ telescopeId })), timeZones: supportedTimeZones() };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const actor = await requireRole(request, "admin");
+  const telescopeId = idParam(params.telescopeId, "telescope");
+  const formData = await request.formData();
+  const intent = String(formData.get("intent") ?? "");
+  const values = formValues(formData);
+  switch (intent) {
+    case "update":
+      return handle({ intent, values, schema: telescopeSchema }, async (input) => {
+        const { changed } = await updateTelescope({ actor, telescopeId, values: input });
+        return redirect(`/admin/telescopes/${telescopeId}?saved=${changed ? "telescope" : "unchanged"}`);
+      });
+    case "createInstrument":
+      return handle({ intent, values, schema: instrumentSchema }, async (input) => {
+        const id = await createInstrument({ actor, telescopeId, values: input });
+        return redirect(`/admin/instruments/${id}?saved=created`);
+      });
+    case "delete":
+      return attempt({ intent, values }, async () => {
+        const { name } = await deleteTelescope({ actor, telescopeId });
+        return redirect(`/admin/telescopes?deleted=${encodeURIComponent(name)}`);
+      });
+    default:
+      return unknownIntent();
+  }
+}
+
+const savedText: Record<string, string> = {
+  created: "The telescope was added. Now add its instruments.",
+  telescope: "Saved.",
+  unchanged: "Nothing had changed.",
+};
+
+export default function TelescopePage({ loaderData, actionData }: Route.ComponentProps) {
+  const { telescope, timeZones } = loaderData;
+  const [params] = useSearchParams();
+  const saved = params.get("saved");
+  const deleted = params.get("deleted");
+  return (
+    <div className="space-y-6">
+      <Breadcrumbs trail={[{ to: "/admin", label: "Observatory office" }, { to: "/admin/telescopes", label: "Telescopes" }, { label: telescope.name }]} />
+      <h1>{telescope.name}</h1>
+      {saved && !actionData ? <Saved>{savedText[saved] ?? "Saved."}</Saved> : null}
+      {deleted && !actionData ? <Saved>The instrument {deleted} was deleted.</Saved> : null}
+
+      <section className="card space-y-3" aria-labelledby="site">
+        <h2 id="site">Site and optics</h2>
+        <TelescopeForm
+          key={telescope.updatedAt}
+          intent="update"
+          initial={telescope}
+          result={resultFor(actionData, "update")}
+          timeZones={timeZones}
+          submitLabel="Save the telescope"
+        />
+      </section>
+
+      <section className="space-y-3" aria-labelledby="instruments">
+        <h2 id="instruments">Instruments</h2>
+        <div className="overflow-x-auto rounded-lg border border-slate-200 bg-white">
+          <table className="table-base">
+            <thead>
+              <tr>
+                <th>Instrument</th>
+                <th className="text-right">Pixel scale (″/px)</th>
+                <th className="text-right">Read noise (e⁻)</th>
+                <th className="text-right">Gain (e⁻/ADU)</th>
+                <th className="text-right">Full well (e⁻)</th>
+                <th className="text-right">Throughput</th>
+                <th className="text-right">Floor (mas)</th>
+                <th>Filters</th>
+              </tr>
+            </thead>
+            <tbody>
+              {telescope.instruments.map((i) => (
+                <tr key={i.id} className="hover:bg-night-50">
+                  <td className="font-semibold">
+                    <Link to={`/admin/instruments/${i.id}`}>{i.name}</Link>
+                  </td>
+                  <td className="text-right tabular-nums">{i.pixelScaleArcsec}</td>
+                  <td className="text-right tabular-nums">{i.readNoiseE}</td>
+                  <td className="text-right tabular-nums">{i.gainEPerAdu}</td>
+                  <td className="text-right tabular-nums">{i.fullWellE.toLocaleString("en-GB")}</td>
+                  <td className="text-right tabular-nums">{i.throughput}</td>
+                  <td className="text-right tabular-nums">{i.astrometricFloorMas}</td>
+                  <td>{i.bands.length ? i.bands.join(" ") : <span className="text-amber-700">no filters yet</span>}</td>
+                </tr>
+              ))}
+              {telescope.instruments.length === 0 ? (
+                <tr>
+                  <td colSpan={8} className="py-6 text-center text-slate-500">No instrument yet. Proposals cannot use this telescope until it has one with filters.</td>
+                </tr>
+              ) : null}
+            </tbody>
+          </table>
+        </div>
+      </section>
+
+      <section className="card space-y-3" aria-labelledby="new-instrument">
+        <h2 id="new-instrument">Add an instrument</h2>
+        <InstrumentForm intent="createInstrument" result={resultFor(actionData, "createInstrument")} submitLabel="Add the instrument" />
+      </section>
+
+      <section className="space-y-2" aria-labelledby="delete-telescope">
+        <h2 id="delete-telescope" className="text-base">Delete this telescope</h2>
+        <p className="text-sm text-slate-600">Only a telescope no call offers hours on, and whose instruments no observation uses, can be deleted.</p>
+        <DeleteButton
+          intent="delete"
+          label={`Delete ${telescope.name}`}
+          question={`Delete ${telescope.name} with its instruments and filters?`}
+          error={resultFor(actionData, "delete")?.errors?.form}
+        />
+      </section>
+    </div>
+  );
+}
