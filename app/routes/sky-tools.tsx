@@ -24,7 +24,7 @@ const EXP: ExposureForm = {
 const EPOCH: EpochForm = {
   site: { latitudeDeg: "31.3", longitudeDeg: "-108.7", elevationM: "2100", timeZone: SITE.timeZone },
   target: { ra: "05:36:48", dec: "+18:30:00" }, firstDate: "2027-08-01", baselineYears: "3", goal: "velocity", epochs: "8",
-  requiredProperMotionMasPerYr: "", requiredTangentialVelocityKmS: "2", distancePc: "1500", perEpochPrecisionMas: "4", maxAirmass: "1.6",
+  requiredProperMotionMasPerYr: "", requiredTangentialVelocityKmS: "5", distancePc: "1500", perEpochPrecisionMas: "4", maxAirmass: "1.6",
   secondsPerEpoch: "1500",
 };
 
@@ -43,7 +43,7 @@ export function loader() {
   });
   const plan = planEpochs({
     site: SITE, target, firstDate: "2027-08-01", baselineYears: 3, perEpochPrecisionMas: 4, limit: { maxAirmass: 1.6 },
-    required: { tangentialVelocityKmS: 2, distancePc: 1500 }, secondsPerEpoch: 1500,
+    required: { tangentialVelocityKmS: 5, distancePc: 1500 }, secondsPerEpoch: 1500,
   });
   return {
     visibility: { ...visibility, curve } as VisibilityAnswer,

@@ -104,9 +104,9 @@ export function EpochTool({ defaults, initial }: { defaults: EpochForm; initial:
         <Field label="Baseline (years)" id="ep-baselineYears" error={err("baselineYears")}><input inputMode="decimal" {...input("baselineYears")} /></Field>
         <Field label="Plan by" id="ep-goal">
           <select id="ep-goal" className="input" {...form.register("goal")}>
-            <option value="epochs">number of epochs</option>
-            <option value="pm">required σ(μ)</option>
-            <option value="velocity">required σ(v) at a distance</option>
+            <option value="epochs">epoch count</option>
+            <option value="pm">σ(μ) required</option>
+            <option value="velocity">σ(v) at a distance</option>
           </select>
         </Field>
         {goal === "epochs" ? <Field label="Epochs (3–60)" id="ep-epochs" error={err("epochs")}><input inputMode="numeric" {...input("epochs")} /></Field> : null}

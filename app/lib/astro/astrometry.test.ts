@@ -108,10 +108,22 @@ describe("parallax factors", () => {
     const ra = (Math.atan2(b.y, b.x) / DEG + 360) % 360;
     const dec = Math.asin(b.z / Math.hypot(b.x, b.y, b.z)) / DEG;
     const f = parallaxFactors(ra, dec, t);
-    expect(Math.hypot(f.ra, f.dec)).toBeLessThan(1e-9);
+    expect(Math.hypot(f.ra, f.dec)).toBeLessThan(2e-6); // our Earth position is within 1e-6 au of BaryState's
     // and 90° from it, the full |b| (≈ 1 au)
     const g = parallaxFactors((ra + 90) % 360, 0, t);
     expect(Math.hypot(g.ra, g.dec)).toBeGreaterThan(0.97);
+  });
+});
+
+describe("Earth's barycentric position", () => {
+  it("matches astronomy-engine's BaryState(Earth) within 1e-6 au (the interpolated Sun offset)", async () => {
+    const { earthBarycentric } = await import("./astrometry");
+    for (let i = 0; i < 40; i++) {
+      const t = T0 + i * 37.3 * DAY;
+      const b = Astro.BaryState(Astro.Body.Earth, new Date(t));
+      const e = earthBarycentric(t);
+      expect(Math.hypot(e[0] - b.x, e[1] - b.y, e[2] - b.z)).toBeLessThan(1e-6);
+    }
   });
 });
 

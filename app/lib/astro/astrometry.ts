@@ -35,13 +35,44 @@ export function epochPrecisionMas(a: { fwhmArcsec: number; snr: number; frames: 
   return Math.hypot(perEpoch, a.floorMas);
 }
 
+const sunOffsetCache = new Map<number, [number, number, number]>();
+const NODE_DAYS = 16;
+
+/** The Sun's offset from the solar-system barycentre (au, EQJ) at a node of a 16-day grid. */
+function sunOffsetAt(node: number): [number, number, number] {
+  let v = sunOffsetCache.get(node);
+  if (!v) {
+    const s = Astro.BaryState(Astro.Body.Sun, new Astro.AstroTime(node * NODE_DAYS));
+    v = [s.x, s.y, s.z];
+    if (sunOffsetCache.size > 5000) sunOffsetCache.clear();
+    sunOffsetCache.set(node, v);
+  }
+  return v;
+}
+
+/**
+ * Earth's barycentric position (au, EQJ): heliocentric Earth (VSOP87, astronomy-engine) plus the
+ * Sun's barycentric offset, the latter interpolated linearly between 16-day nodes of BaryState
+ * (it moves ~0.01 au in Jupiter's 12 years: the interpolation error is below 1e-7 au).
+ */
+export function earthBarycentric(t: number): [number, number, number] {
+  const ut = utDays(t);
+  const e = Astro.HelioVector(Astro.Body.Earth, new Astro.AstroTime(ut));
+  const x = ut / NODE_DAYS;
+  const n = Math.floor(x);
+  const f = x - n;
+  const a = sunOffsetAt(n);
+  const b = sunOffsetAt(n + 1);
+  return [e.x + a[0] + f * (b[0] - a[0]), e.y + a[1] + f * (b[1] - a[1]), e.z + a[2] + f * (b[2] - a[2])];
+}
+
 export function parallaxFactors(raDeg: number, decDeg: number, t: number): { ra: number; dec: number } {
-  const b = Astro.BaryState(Astro.Body.Earth, new Astro.AstroTime(utDays(t)));
+  const [bx, by, bz] = earthBarycentric(t);
   const a = raDeg * DEG;
   const d = decDeg * DEG;
   return {
-    ra: b.x * Math.sin(a) - b.y * Math.cos(a),
-    dec: b.x * Math.cos(a) * Math.sin(d) + b.y * Math.sin(a) * Math.sin(d) - b.z * Math.cos(d),
+    ra: bx * Math.sin(a) - by * Math.cos(a),
+    dec: bx * Math.cos(a) * Math.sin(d) + by * Math.sin(a) * Math.sin(d) - bz * Math.cos(d),
   };
 }
 
@@ -180,11 +211,45 @@ export type Plan = {
 
 type Candidate = { date: string; time: number; hours: number; f: { ra: number; dec: number } };
 
-function objective(raDeg: number, decDeg: number, chosen: Candidate[], sigma: number): number {
-  const fit = fitPrecision(raDeg, decDeg, chosen.map((c) => ({ time: c.time, sigmaMas: sigma, factors: c.f })));
-  if (!fit.determined) return Infinity;
-  const p = fit.properMotionPrecisionMasPerYr;
-  return p.ra ** 2 + p.dec ** 2 + 0.5 * (fit.parallaxPrecisionMas ?? 0) ** 2;
+/** Normal matrix of the 5-parameter fit, 5×5 row-major. */
+type Normal = Float64Array;
+
+/** Adds one epoch's two rows (weight w) to the normal matrix; τ from a fixed reference (μ, ϖ variances do not depend on it). */
+function addEpoch(N: Normal, c: Candidate, ref: number, w: number): void {
+  const tau = (c.time - ref) / YEAR_MS;
+  const r1 = [1, 0, tau, 0, c.f.ra];
+  const r2 = [0, 1, 0, tau, c.f.dec];
+  for (let j = 0; j < 5; j++) for (let k = 0; k < 5; k++) N[5 * j + k] += w * (r1[j] * r1[k] + r2[j] * r2[k]);
+}
+
+const L = new Float64Array(25);
+const y = new Float64Array(5);
+
+/** σ²(μα*) + σ²(μδ) + ½σ²(ϖ) from the normal matrix by Cholesky (no allocation); Infinity if singular. */
+function objectiveOf(N: Normal): number {
+  for (let i = 0; i < 5; i++) {
+    for (let j = 0; j <= i; j++) {
+      let sum = N[5 * i + j];
+      for (let k = 0; k < j; k++) sum -= L[5 * i + k] * L[5 * j + k];
+      if (i === j) {
+        if (sum <= 1e-12 * N[5 * i + i]) return Infinity;
+        L[5 * i + i] = Math.sqrt(sum);
+      } else L[5 * i + j] = sum / L[5 * j + j];
+    }
+  }
+  let total = 0;
+  for (const [col, weight] of [[2, 1], [3, 1], [4, 0.5]] as const) {
+    // (N⁻¹)_cc = |L⁻¹ e_c|²
+    for (let i = 0; i < 5; i++) {
+      let sum = i === col ? 1 : 0;
+      for (let k = 0; k < i; k++) sum -= L[5 * i + k] * y[k];
+      y[i] = sum / L[5 * i + i];
+    }
+    let q = 0;
+    for (let i = col; i < 5; i++) q += y[i] * y[i];
+    total += weight * q;
+  }
+  return total;
 }
 
 /**
@@ -241,12 +306,19 @@ export function planEpochs(input: PlanInput): Plan {
     const p = fit.properMotionPrecisionMasPerYr;
     return fit.determined && required !== null && Math.max(p.ra, p.dec) <= required;
   };
+  const ref = candidates[0].time;
+  const w = 1 / (sigma * sigma);
+  const N: Normal = new Float64Array(25);
+  for (const c of chosen) addEpoch(N, c, ref, w);
+  const trial: Normal = new Float64Array(25);
   while (chosen.length < wanted && !(input.epochs === undefined && meets())) {
     let best: Candidate | null = null;
     let bestValue = Infinity;
     for (const c of candidates) {
       if (chosen.some((x) => Math.abs(x.time - c.time) < minGap)) continue;
-      const v = objective(input.target.raDeg, input.target.decDeg, [...chosen, c], sigma);
+      trial.set(N);
+      addEpoch(trial, c, ref, w);
+      const v = objectiveOf(trial);
       if (v < bestValue) {
         bestValue = v;
         best = c;
@@ -254,6 +326,7 @@ export function planEpochs(input: PlanInput): Plan {
     }
     if (!best) break;
     chosen.push(best);
+    addEpoch(N, best, ref, w);
   }
   chosen.sort((a, b) => a.time - b.time);
   const precision = fitPrecision(input.target.raDeg, input.target.decDeg, chosen.map((c) => ({ time: c.time, sigmaMas: sigma, factors: c.f })));

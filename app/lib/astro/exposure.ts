@@ -1,6 +1,6 @@
 // Exposure time and signal-to-noise from the CCD equation (SPEC §3.2):
 //   SNR = N* / sqrt(N* + n_pix (N_sky + N_dark + RN²))
-// (Howell, Handbook of CCD Astronomy, 2nd ed., §4.4; Merline & Howell 1995, Exp. Astron. 6, 163),
+// (Howell, Handbook of CCD Astronomy, 2nd ed., §4.4; Merline & Howell 1995, Experimental Astronomy 6, 163),
 // all terms in electrons over one exposure.
 //
 // - N* = F0 · 10^(−0.4 (m + k X)) · A · τ · t · f_ap: band zero point F0 (photons s⁻¹ cm⁻²),
