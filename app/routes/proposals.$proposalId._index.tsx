@@ -1,4 +1,5 @@
 import { zodResolver } from "@hookform/resolvers/zod";
+import { useState } from "react";
 import { useForm } from "react-hook-form";
 import { data, Form, useActionData, useNavigation, useRevalidator, useSubmit } from "react-router";
 import { AbstractField } from "~/components/AbstractField";
@@ -95,40 +96,53 @@ function ConflictPanel({ conflict, onKeepMine, onTakeSaved }: { conflict: Confli
 }
 
 export default function Overview({ loaderData }: Route.ComponentProps) {
-  return <OverviewForm key={loaderData.version} {...loaderData} />;
-}
-
-function OverviewForm({ values, version, semesters, callSemester, editable }: Route.ComponentProps["loaderData"]) {
   const actionData = useActionData<typeof action>();
-  const navigation = useNavigation();
   const submit = useSubmit();
   const revalidator = useRevalidator();
-  const fromAction = actionData && !actionData.ok && !actionData.conflict ? (actionData.values as Record<string, unknown>) : null;
-  const { register, handleSubmit, formState, watch } = useForm({
-    resolver: zodResolver(overviewSchema),
-    defaultValues: {
-      version: String(version),
-      title: (fromAction?.title as string) ?? values.title,
-      abstract: (fromAction?.abstract as string) ?? values.abstract,
-      scienceCategory: ((fromAction?.scienceCategory as string) ?? values.scienceCategory ?? "") as "",
-      isMultiSemester: fromAction ? fromAction.isMultiSemester === "on" : values.isMultiSemester,
-      semestersRequested: fromAction ? ([] as string[]).concat((fromAction.semestersRequested as string[] | string | undefined) ?? []) : values.semestersRequested,
-      isTargetOfOpportunity: fromAction ? fromAction.isTargetOfOpportunity === "on" : values.isTargetOfOpportunity,
-    },
-  });
-  const errors = actionData && !actionData.ok ? actionData.errors : {};
-  const error = (field: "title" | "abstract" | "scienceCategory" | "semestersRequested" | "form") =>
-    (field !== "form" ? formState.errors[field]?.message : undefined) ?? errors[field];
-  const conflict = actionData && !actionData.ok && actionData.conflict && actionData.conflict.savedVersion > version ? actionData.conflict : null;
-  const multi = watch("isMultiSemester");
-  const saving = navigation.state === "submitting";
+  // The conflict stays on screen until the user chooses; the form below keeps their version meanwhile.
+  const [dismissed, setDismissed] = useState<string | null>(null);
+  const raw = actionData && !actionData.ok ? actionData.conflict : null;
+  const conflict = raw && dismissed !== `${raw.savedVersion}@${raw.savedAt}` ? raw : null;
   return (
     <div className="space-y-4">
       <ConflictPanel
         conflict={conflict}
         onKeepMine={() => conflict && submit(toFormData(conflict.mine, conflict.savedVersion), { method: "post" })}
-        onTakeSaved={() => revalidator.revalidate()}
+        onTakeSaved={() => {
+          if (conflict) setDismissed(`${conflict.savedVersion}@${conflict.savedAt}`);
+          revalidator.revalidate();
+        }}
       />
+      <OverviewForm key={`${loaderData.version}-${conflict ? "conflict" : "ok"}`} {...loaderData} mine={conflict?.mine ?? null} />
+    </div>
+  );
+}
+
+function OverviewForm({ values, version, semesters, callSemester, editable, mine }: Route.ComponentProps["loaderData"] & { mine: OverviewValues | null }) {
+  const actionData = useActionData<typeof action>();
+  const navigation = useNavigation();
+  const submit = useSubmit();
+  const fromAction = actionData && !actionData.ok && !actionData.conflict ? (actionData.values as Record<string, unknown>) : null;
+  const start: OverviewValues = mine ?? values;
+  const { register, handleSubmit, formState, watch } = useForm({
+    resolver: zodResolver(overviewSchema),
+    defaultValues: {
+      version: String(version),
+      title: (fromAction?.title as string) ?? start.title,
+      abstract: (fromAction?.abstract as string) ?? start.abstract,
+      scienceCategory: ((fromAction?.scienceCategory as string) ?? start.scienceCategory ?? "") as "",
+      isMultiSemester: fromAction ? fromAction.isMultiSemester === "on" : start.isMultiSemester,
+      semestersRequested: fromAction ? ([] as string[]).concat((fromAction.semestersRequested as string[] | string | undefined) ?? []) : start.semestersRequested,
+      isTargetOfOpportunity: fromAction ? fromAction.isTargetOfOpportunity === "on" : start.isTargetOfOpportunity,
+    },
+  });
+  const errors = actionData && !actionData.ok ? actionData.errors : {};
+  const error = (field: "title" | "abstract" | "scienceCategory" | "semestersRequested" | "form") =>
+    (field !== "form" ? formState.errors[field]?.message : undefined) ?? errors[field];
+  const multi = watch("isMultiSemester");
+  const saving = navigation.state === "submitting";
+  return (
+    <>
       <Form method="post" noValidate className="card space-y-5" onSubmit={handleSubmit((_, e) => submit(e?.target as HTMLFormElement))}>
         <input type="hidden" {...register("version")} />
         {error("form") ? <p role="alert" className="rounded-md border border-red-200 bg-red-50 px-3 py-2 text-sm text-red-800">{error("form")}</p> : null}
@@ -178,6 +192,6 @@ function OverviewForm({ values, version, semesters, callSemester, editable }: Ro
           </div>
         ) : null}
       </Form>
-    </div>
+    </>
   );
 }

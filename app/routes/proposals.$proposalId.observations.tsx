@@ -1,7 +1,7 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useEffect, useMemo, useState } from "react";
 import { useForm } from "react-hook-form";
-import { data, Link, useFetcher } from "react-router";
+import { data, Link, useActionData, useFetcher } from "react-router";
 import { Field, inputProps } from "~/components/Field";
 import { fixed, useWorkspace } from "~/components/workspace";
 import { requireUser } from "~/lib/auth.server";
@@ -166,10 +166,12 @@ function LiveSummary({ values, data: d }: { values: FormShape; data: Data }) {
 
 function ObservationForm({ data: d, editing, onDone }: { data: Data; editing: ObservationRow | null; onDone: () => void }) {
   const fetcher = useFetcher<typeof action>();
-  const result = fetcher.data && (fetcher.data.intent === "create" || fetcher.data.intent === "update") ? fetcher.data : undefined;
+  const pageAnswer = useActionData<typeof action>();
+  const answer = fetcher.data ?? pageAnswer;
+  const result = answer && (answer.intent === "create" || answer.intent === "update") ? answer : undefined;
   const { register, handleSubmit, formState, watch, setValue, reset } = useForm<FormShape>({
     resolver: zodResolver(observationSchema) as never,
-    defaultValues: editing ? formOf(editing) : blank(d),
+    defaultValues: editing ? formOf(editing) : result && !result.ok ? { ...blank(d), ...(result.values as Partial<FormShape>) } : blank(d),
   });
   useEffect(() => {
     if (result?.ok && fetcher.state === "idle") {

@@ -1,7 +1,7 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useEffect, useRef, useState } from "react";
 import { useForm } from "react-hook-form";
-import { data, useFetcher } from "react-router";
+import { data, useActionData, useFetcher } from "react-router";
 import { Field, inputProps } from "~/components/Field";
 import { fixed, useWorkspace } from "~/components/workspace";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
@@ -70,10 +70,12 @@ function formOf(t: TargetRow) {
 
 function TargetForm({ editing, onDone }: { editing: TargetRow | null; onDone: () => void }) {
   const fetcher = useFetcher<typeof action>();
-  const result = fetcher.data && (fetcher.data.intent === "create" || fetcher.data.intent === "update") ? fetcher.data : undefined;
+  const pageAnswer = useActionData<typeof action>();
+  const answer = fetcher.data ?? pageAnswer;
+  const result = answer && (answer.intent === "create" || answer.intent === "update") ? answer : undefined;
   const { register, handleSubmit, formState, reset } = useForm({
     resolver: zodResolver(targetSchema),
-    defaultValues: editing ? formOf(editing) : emptyTarget,
+    defaultValues: editing ? formOf(editing) : result && !result.ok ? { ...emptyTarget, ...(result.values as Record<string, string>) } : emptyTarget,
   });
   useEffect(() => {
     if (result?.ok && fetcher.state === "idle") {
@@ -121,10 +123,13 @@ function TargetForm({ editing, onDone }: { editing: TargetRow | null; onDone: ()
 
 function CsvImport() {
   const fetcher = useFetcher<typeof action>();
-  const [text, setText] = useState("");
+  const pageAnswer = useActionData<typeof action>();
+  const answer = fetcher.data ?? pageAnswer;
+  const initial = answer?.intent === "import" ? (answer.ok ? (answer.remaining ?? "") : String((answer.values as Record<string, string>).csv ?? "")) : "";
+  const [text, setText] = useState(initial);
   const [fileNote, setFileNote] = useState<string | null>(null);
   const fileRef = useRef<HTMLInputElement>(null);
-  const result = fetcher.data?.intent === "import" ? fetcher.data : undefined;
+  const result = answer?.intent === "import" ? answer : undefined;
   useEffect(() => {
     if (fetcher.state !== "idle" || !result) return;
     if (result.ok) setText(result.remaining ?? "");

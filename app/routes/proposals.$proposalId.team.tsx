@@ -1,7 +1,7 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useEffect } from "react";
 import { useForm } from "react-hook-form";
-import { data, useFetcher } from "react-router";
+import { data, redirect, useActionData, useFetcher } from "react-router";
 import { Field, inputProps } from "~/components/Field";
 import { useWorkspace } from "~/components/workspace";
 import { requireUser } from "~/lib/auth.server";
@@ -34,6 +34,8 @@ export async function action({ request, params }: Route.ActionArgs) {
       if (!parsed.success) return data({ ok: false as const, intent, errors: fieldErrors(parsed.error), values }, { status: 400 });
       if (intent === "remove") {
         const { self } = await removeMember({ user, proposalId, memberId: parsed.data.memberId });
+        // after leaving, the proposal is no longer yours to see
+        if (self) throw redirect("/proposals");
         return { ok: true as const, intent, message: self ? "You have left the team." : "Removed from the team.", errors: {} as Record<string, string>, values };
       }
       await handOverPi({ user, proposalId, memberId: parsed.data.memberId });
@@ -41,6 +43,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     }
     return data({ ok: false as const, intent, errors: { form: "Unknown action." } as Record<string, string>, values }, { status: 400 });
   } catch (error) {
+    if (error instanceof Response) throw error;
     const refused = refusalResponse(error, values);
     return data({ ...refused.data, intent }, { status: refused.init?.status ?? 400 });
   }
@@ -48,7 +51,10 @@ export async function action({ request, params }: Route.ActionArgs) {
 
 function InviteForm() {
   const fetcher = useFetcher<typeof action>();
-  const result = fetcher.data?.intent === "invite" ? fetcher.data : undefined;
+  const actionData = useActionData<typeof action>();
+  // without JavaScript the form posts as a page and the answer arrives as the page's action data
+  const answer = fetcher.data ?? actionData;
+  const result = answer?.intent === "invite" ? answer : undefined;
   const { register, handleSubmit, formState, reset } = useForm({ resolver: zodResolver(inviteSchema), defaultValues: { email: "" } });
   useEffect(() => {
     if (result?.ok && fetcher.state === "idle") reset({ email: "" });

@@ -71,7 +71,7 @@ export default function NewProposal({ loaderData }: Route.ComponentProps) {
           <div className="mt-2 grid gap-3 sm:grid-cols-2">
             {calls.map((c) => (
               <label key={c.id} className="flex cursor-pointer items-start gap-3 rounded-md border border-slate-300 bg-white p-3 font-normal has-[:checked]:border-night-700 has-[:checked]:bg-night-50">
-                <input type="radio" value={String(c.id)} className="mt-1" {...register("callId")} aria-invalid={error("callId") ? true : undefined} />
+                <input type="radio" value={String(c.id)} className="mt-1" defaultChecked={String(c.id) === String(actionData?.values.callId ?? preselected ?? "")} {...register("callId")} aria-invalid={error("callId") ? true : undefined} />
                 <span>
                   <span className="block font-semibold text-night-900">{c.semesterCode}</span>
                   <span className="block text-sm text-slate-600">{c.title}</span>
