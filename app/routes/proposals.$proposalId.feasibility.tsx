@@ -1,5 +1,5 @@
-import { useState } from "react";
-import { Form, Link, useNavigation } from "react-router";
+import { useEffect, useState } from "react";
+import { Form, Link, useNavigation, useRevalidator } from "react-router";
 import { AltitudeChart, HoursPerNightChart, ParallaxFactorChart } from "~/components/FeasibilityCharts";
 import { hours, ProblemsList, TotalsTable } from "~/components/FeasibilityParts";
 import { ErrorPage } from "~/components/ErrorPage";
@@ -223,6 +223,15 @@ function ObservationCard({ o, sheet, defaultOpen }: { o: ObservationSheet; sheet
 export default function FeasibilitySheetPage({ loaderData }: Route.ComponentProps) {
   const { sheet, chart, night, ms } = loaderData;
   const navigation = useNavigation();
+  const revalidator = useRevalidator();
+  // Edits made in another tab or window (e.g. the observations tab) show when the user comes back.
+  useEffect(() => {
+    const onFocus = () => {
+      if (document.visibilityState === "visible" && revalidator.state === "idle") revalidator.revalidate();
+    };
+    document.addEventListener("visibilitychange", onFocus);
+    return () => document.removeEventListener("visibilitychange", onFocus);
+  }, [revalidator]);
   const c = sheet.conventions;
   const chartObs = chart ? sheet.observations.find((o) => o.observationId === chart.observationId) : null;
   return (
@@ -231,7 +240,7 @@ export default function FeasibilitySheetPage({ loaderData }: Route.ComponentProp
         <h2>Feasibility sheet for {sheet.semesterCode}</h2>
         <p className="text-xs text-slate-500">
           Computed {sheet.computedAt.slice(0, 19).replace("T", " ")} UTC in {ms} ms from the saved targets and observations
-          {navigation.state === "loading" ? " · updating…" : ""}
+          {navigation.state === "loading" || revalidator.state === "loading" ? " · updating…" : ""}
         </p>
       </div>
       <ProblemsList problems={sheet.problems} />
