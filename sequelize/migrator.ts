@@ -23,7 +23,7 @@ export function createMigrator(sequelize: Sequelize) {
   return new Umzug<QueryInterface>({
     migrations: { glob: path.join(here, "migrations/*.ts").replaceAll("\\", "/"), resolve: resolver<QueryInterface>() },
     context: sequelize.getQueryInterface(),
-    storage: new SequelizeStorage({ sequelize, tableName: "schema_migrations" }),
+    storage: new SequelizeStorage({ sequelize, tableName: "schema_migrations", modelName: "SchemaMigration" }),
     logger: undefined,
   });
 }
@@ -33,7 +33,7 @@ export function createSeeder(sequelize: Sequelize) {
   return new Umzug<Sequelize>({
     migrations: { glob: path.join(here, "seeders/*.ts").replaceAll("\\", "/"), resolve: resolver<Sequelize>() },
     context: sequelize,
-    storage: new SequelizeStorage({ sequelize, tableName: "seed_runs" }),
+    storage: new SequelizeStorage({ sequelize, tableName: "seed_runs", modelName: "SeedRun" }),
     logger: undefined,
   });
 }

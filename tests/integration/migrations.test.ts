@@ -54,7 +54,8 @@ describe("migrations on MariaDB", () => {
     const first = await counts();
     expect(first.telescopes).toBe(2);
     expect(first.filters).toBe(10);
-    expect(first.calls).toBe(2);
+    // 2027A (open) and 2027B (announced), and the demo's closed 2026B for the decided proposals.
+    expect((await Call.findAll()).map((c) => c.semesterCode).sort()).toEqual(expect.arrayContaining(["2027A", "2027B"]));
     // Run every seeder again, bypassing the record of what ran: each one is idempotent on its own.
     await sequelize.query("DELETE FROM seed_runs");
     await createSeeder(sequelize).up();
