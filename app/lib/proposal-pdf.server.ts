@@ -55,7 +55,7 @@ async function family(doc: PDFDocument, names: string[]): Promise<Family> {
   return out;
 }
 
-const FALLBACK: Record<string, string> = { "≈": "~", "ϖ": "plx", "⁻": "-", "≤": "<=", "≥": ">=", "√": "sqrt", "→": "->", "…": "...", "·": "·" };
+const FALLBACK: Record<string, string> = { "≈": "~", "ϖ": "plx", "⁻": "-", "≤": "<=", "≥": ">=", "√": "sqrt ", "→": "->", "…": "...", "·": "·" };
 
 /** Splits text into runs, each set in the first face of the family that has its glyphs. */
 function runs(text: string, fam: Family): { text: string; font: PDFFont }[] {
