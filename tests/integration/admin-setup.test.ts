@@ -1,7 +1,8 @@
 // The observatory office's set-up screens: telescopes, instruments, filters and calls. Every action
 // through the app's HTTP front (supertest), every refusal with its field's message and the typed
 // value kept, every change audited, and none of it open to anyone but an admin.
-import { beforeAll, describe, expect, it } from "vitest";
+import { Op } from "sequelize";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { AuditEntry, Call, CallOffer, Filter, Instrument, Observation, Proposal, Target, Telescope } from "~/models/index.server";
 import { observatoryTimeZone } from "~/lib/office.server";
 import { zonedLocalToUtc } from "~/lib/zoned-time";
@@ -15,6 +16,9 @@ const outsiders: Record<Outsider, string> = { anonymous: "", pi: "", reviewer: "
 let admin = "";
 let adminId = 0;
 const run = Date.now().toString(36).slice(-5);
+// What this file creates is removed at the end, so the other test files find the demo as seeded.
+const createdCalls: string[] = [];
+const createdProposals: number[] = [];
 
 /** What React puts in the HTML for a text: messages are checked as the page shows them. */
 function html(text: string) {
@@ -78,6 +82,12 @@ const filter = (over: Record<string, string> = {}) => ({
   skyGreyMag: "21.0",
   skyBrightMag: "19.6",
   ...over,
+});
+
+afterAll(async () => {
+  await Proposal.destroy({ where: { id: createdProposals } });
+  await Call.destroy({ where: { semesterCode: createdCalls } });
+  await Telescope.destroy({ where: { name: { [Op.like]: `Test ${run}%` } } });
 });
 
 beforeAll(async () => {
@@ -313,7 +323,7 @@ describe("telescopes", () => {
     });
 
     it("a filter of another instrument cannot be edited through this one", async () => {
-      const other = await Filter.findOne({ where: { instrumentId: { [(await import("sequelize")).Op.ne]: instrumentId } } });
+      const other = await Filter.findOne({ where: { instrumentId: { [Op.ne]: instrumentId } } });
       const res = await post(`/admin/instruments/${instrumentId}`, { intent: "updateFilter", filterId: other!.id, ...filter({ band: "Z" }) });
       expect(res.status).toBe(404);
       expect((await Filter.findByPk(other!.id))!.band).not.toBe("Z");
@@ -330,6 +340,7 @@ describe("telescopes", () => {
         semestersRequested: [call!.semesterCode],
         createdById: pi.user.id,
       });
+      createdProposals.push(proposal.id);
       const target = await Target.create({
         proposalId: proposal.id, name: "Field A", raDeg: 10, decDeg: 20, pmRaMasPerYr: null, pmDecMasPerYr: null, magnitude: 18, band: "V", notes: null,
       });
@@ -370,6 +381,7 @@ describe("telescopes", () => {
 
 describe("calls", () => {
   const code = `${2300 + Math.floor(Math.random() * 600)}A`;
+  createdCalls.push(code);
   let zone = "UTC";
   let telescopes: Telescope[] = [];
   let callId = 0;
@@ -546,6 +558,7 @@ describe("calls", () => {
       semesterStart: local(now + 120 * 86_400_000).slice(0, 10), semesterEnd: local(now + 300 * 86_400_000).slice(0, 10), pageLimit: 5,
     });
     const closedCode = `${2300 + ((Number(code.slice(0, 4)) - 2300 + 450) % 600)}A`;
+    createdCalls.push(openCode, soonCode, closedCode);
     await Call.create({
       semesterCode: closedCode, title: `Closed call ${closedCode}`, opensAt: new Date(now - 60 * 86_400_000), deadlineAt: new Date(now - 86_400_000),
       semesterStart: local(now + 20 * 86_400_000).slice(0, 10), semesterEnd: local(now + 200 * 86_400_000).slice(0, 10), pageLimit: 4,
