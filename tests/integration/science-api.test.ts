@@ -221,4 +221,18 @@ describe("method and rate limit", () => {
   it("refuses the wrong method with 405", async () => {
     expect((await (await request()).get("/api/v1/exposure")).status).toBe(405);
   });
+
+  // Last in the file: it uses up this address's minute (600 requests) and checks the 429.
+  it("answers 429 JSON after 600 requests a minute from one address", async () => {
+    const agent = await request();
+    let limited: { status: number; body: { error?: string }; headers: Record<string, string> } | null = null;
+    for (let i = 0; i < 700 && !limited; i++) {
+      const res = await agent.post("/api/v1/astrometry").send({});
+      if (res.status === 429) limited = res;
+      else expect(res.status).toBe(400);
+    }
+    expect(limited).not.toBeNull();
+    expect(limited!.body.error).toMatch(/600/);
+    expect(Number(limited!.headers["retry-after"])).toBeGreaterThan(0);
+  });
 });
