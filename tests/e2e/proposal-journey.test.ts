@@ -1,0 +1,133 @@
+// The PI's journey in Chromium: sign in with the code from the mail catcher, start a proposal,
+// invite a Co-I, import targets from CSV, fill an observation while the live numbers update,
+// upload a science case, submit, and find the receipt with its PDF in the mail catcher.
+import { writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import type { Browser } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { listen } from "../helpers/app";
+import { launchBrowser, screenshot, watchConsole } from "../helpers/browser";
+import { ensureDatabase } from "../helpers/db";
+import { testEnv } from "../helpers/env";
+import { clearMail, waitForMail } from "../helpers/maildev";
+import { signInInBrowser } from "../helpers/sign-in-browser";
+import { pdfWithPages } from "../integration/proposals-fixtures";
+
+describe("a PI's proposal, from sign-in to receipt", () => {
+  let server: Awaited<ReturnType<typeof listen>>;
+  let browser: Browser;
+  beforeAll(async () => {
+    await ensureDatabase();
+    await clearMail();
+    server = await listen();
+    browser = await launchBrowser();
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await server?.close();
+  });
+
+  it("signs in, drafts, invites, imports, observes, uploads, submits and gets the receipt", { timeout: 180_000 }, async () => {
+    const page = await browser.newPage({ viewport: { width: 1400, height: 1000 } });
+    const errors = watchConsole(page);
+    const pi = "pi@kestrel-ridge.example";
+    await signInInBrowser(page, server.url, pi);
+
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "My proposals" }).click();
+    await page.getByRole("heading", { name: "My proposals" }).waitFor();
+    await screenshot(page, "journey-01-my-proposals");
+
+    await page.goto(`${server.url}/proposals/new?call=2027A`);
+    await page.getByRole("button", { name: "Create the draft" }).click();
+    await page.getByText("Give the proposal a title of at least 5 characters.").waitFor();
+    await page.getByLabel("Title").fill("Tangential motions in the Brackfell cluster field");
+    await page.getByLabel("Abstract").fill("We follow members of an invented open cluster over three years to separate them from field stars by their proper motions.");
+    await page.getByText("21 / 250 words").waitFor();
+    await screenshot(page, "journey-02-new-proposal");
+    await page.getByRole("button", { name: "Create the draft" }).click();
+    await page.waitForURL(/\/proposals\/\d+$/);
+    const base = page.url();
+
+    await page.getByLabel("Science category").selectOption("clusters-astrometry");
+    await page.getByRole("button", { name: "Save the overview" }).click();
+    await page.getByText(/^Saved at/).waitFor();
+    await screenshot(page, "journey-03-overview");
+
+    await page.getByRole("link", { name: "Team", exact: true }).click();
+    await page.getByLabel("E-mail address").fill("colleague@brackwater.example");
+    await page.getByRole("button", { name: "Send invitation" }).click();
+    await page.getByText("Invitation sent to colleague@brackwater.example.").waitFor();
+    await page.getByRole("cell", { name: "colleague@brackwater.example" }).first().waitFor();
+    await screenshot(page, "journey-04-team");
+    await waitForMail("colleague@brackwater.example", /invited as Co-I/);
+
+    await page.getByRole("link", { name: "Targets", exact: true }).click();
+    await page.getByLabel("CSV text").fill(
+      ["name,ra,dec,pmra,pmdec,magnitude,band", "Brackfell A,13:05:20.0,+22:10:00,-4.2,1.1,15.5,V", "Brackfell B,13:06:02.5,+22:14:30,,,16.8,V", "Brackfell C,13:07:00,+95:00:00,,,16,V"].join("\n"),
+    );
+    await page.getByRole("button", { name: "Import", exact: true }).click();
+    await page.getByText("2 accepted and saved").waitFor();
+    await page.getByText("must be in the range −90 ≤ Dec ≤ +90 degrees").waitFor();
+    expect(await page.getByLabel("CSV text").inputValue()).toContain("Brackfell C");
+    await screenshot(page, "journey-05-targets-import");
+    // the refused row is fixed in the box and imported again
+    await page.getByLabel("CSV text").fill("name,ra,dec,pmra,pmdec,magnitude,band\nBrackfell C,13:07:00,+25:00:00,,,16,V");
+    await page.getByRole("button", { name: "Import", exact: true }).click();
+    await page.getByText("1 accepted and saved").waitFor();
+    await page.getByRole("cell", { name: "Brackfell C", exact: true }).first().waitFor();
+
+    await page.getByRole("link", { name: "Observations", exact: true }).click();
+    const exposure = page.getByTestId("live-exposure");
+    await exposure.waitFor();
+    const first = await exposure.textContent();
+    await page.getByLabel("SNR goal per frame").fill("250");
+    await page.waitForFunction((before) => document.querySelector('[data-testid="live-exposure"]')?.textContent !== before, first);
+    const second = await exposure.textContent();
+    expect(Number.parseFloat(second!)).toBeGreaterThan(Number.parseFloat(first!));
+    await page.getByLabel("Frames per epoch").fill("3");
+    await screenshot(page, "journey-06-observation-live");
+    for (const name of ["Brackfell A", "Brackfell B", "Brackfell C"]) {
+      await page.getByLabel("Target", { exact: true }).selectOption({ label: name });
+      await page.getByRole("button", { name: "Add the observation" }).click();
+      await page.getByRole("cell", { name, exact: true }).first().waitFor();
+    }
+    await screenshot(page, "journey-07-observations");
+
+    await page.getByRole("link", { name: "Feasibility sheet", exact: true }).click();
+    await page.waitForLoadState("networkidle");
+    await screenshot(page, "journey-08-feasibility");
+
+    await page.getByRole("link", { name: "Science case", exact: true }).click();
+    const pdf = path.join(tmpdir(), `science-case-${Date.now()}.pdf`);
+    writeFileSync(pdf, await pdfWithPages(3));
+    await page.getByLabel("PDF file").setInputFiles(pdf);
+    await page.getByRole("button", { name: "Upload", exact: true }).click();
+    await page.getByText(/3 pages/).first().waitFor();
+    await screenshot(page, "journey-09-science-case");
+
+    await page.getByRole("link", { name: "Submit", exact: true }).click();
+    await screenshot(page, "journey-10-checklist");
+    await page.getByRole("button", { name: "Submit the proposal" }).click();
+    await page.getByText(/Submitted as NS-2027A-\d{3}/).first().waitFor();
+    const code = (await page.getByText(/Submitted as NS-2027A-\d{3}/).first().textContent())!.match(/NS-2027A-\d{3}/)![0];
+    await screenshot(page, "journey-11-submitted");
+
+    const receipt = await waitForMail(pi, new RegExp(`receipt: ${code}`), 30_000);
+    const attachment = receipt.attachments![0];
+    expect(attachment.contentType).toBe("application/pdf");
+    const file = await fetch(`${testEnv.maildevUrl}/api/email/${receipt.id}/attachment/${encodeURIComponent(attachment.generatedFileName ?? attachment.fileName)}`);
+    expect(Buffer.from(await file.arrayBuffer()).subarray(0, 5).toString()).toBe("%PDF-");
+    await waitForMail("colleague@brackwater.example", new RegExp(`receipt: ${code}`), 30_000);
+    // the app's own pages logged no error (the mail catcher's UI is not ours)
+    expect(errors).toEqual([]);
+    await page.goto(`${testEnv.maildevUrl}/#/email/${receipt.id}`);
+    await page.waitForTimeout(1500);
+    await screenshot(page, "journey-12-receipt-in-maildev");
+
+    await page.goto(`${base}/history`);
+    await page.getByText(`Submitted the proposal as ${code}.`).waitFor();
+    await screenshot(page, "journey-13-history");
+    await page.close();
+  });
+});
