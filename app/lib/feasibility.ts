@@ -560,7 +560,7 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
           });
         }
       } else {
-        problems.push({ severity: "warning", ...where, message: `${label}: no required proper-motion precision is given, so the epoch plan cannot be checked against the science goal.` });
+        problems.push({ severity: "warning", ...where, message: `${label}: no required proper-motion precision is given, so the epoch plan cannot be checked against what the science needs.` });
       }
       epochsThisSemester = perSemesterEpochs.get(call.semesterCode) ?? 0;
       astrometry = {

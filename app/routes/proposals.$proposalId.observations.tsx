@@ -2,6 +2,7 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import { useEffect, useMemo, useState } from "react";
 import { useForm } from "react-hook-form";
 import { data, Link, useActionData, useFetcher } from "react-router";
+import { LiveFeasibilitySummary } from "~/components/FeasibilityParts";
 import { Field, inputProps } from "~/components/Field";
 import { fixed, useWorkspace } from "~/components/workspace";
 import { requireUser } from "~/lib/auth.server";
@@ -315,6 +316,12 @@ export default function Observations({ loaderData }: Route.ComponentProps) {
       ) : null}
       {workspace.editable && targets.length && options.length ? (
         <ObservationForm key={editing?.id ?? "new"} data={loaderData} editing={editing} onDone={() => setEditing(null)} />
+      ) : null}
+      {/* Recomputed from the API after every save (the loader's data changes), without a page reload. */}
+      {observations.length ? (
+        <div className="card">
+          <LiveFeasibilitySummary proposalId={workspace.id} revision={observations} />
+        </div>
       ) : null}
     </div>
   );
