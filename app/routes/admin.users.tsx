@@ -1,6 +1,5 @@
 import {
   createColumnHelper,
-  flexRender,
   getCoreRowModel,
   getFilteredRowModel,
   getPaginationRowModel,
@@ -8,6 +7,7 @@ import {
   useReactTable,
   type SortingState,
 } from "@tanstack/react-table";
+import { SortableTable } from "~/components/SortableTable";
 import { useMemo, useState } from "react";
 import { data, useFetcher } from "react-router";
 import { requireRole } from "~/lib/auth.server";
@@ -153,41 +153,7 @@ export default function AdminUsers({ loaderData }: Route.ComponentProps) {
         </div>
         <p className="ml-auto text-sm text-slate-600">{table.getFilteredRowModel().rows.length} of {users.length} accounts</p>
       </div>
-      <div className="overflow-x-auto rounded-lg border border-slate-200 bg-white">
-        <table className="table-base">
-          <thead>
-            {table.getHeaderGroups().map((group) => (
-              <tr key={group.id}>
-                {group.headers.map((header) => {
-                  const sorted = header.column.getIsSorted();
-                  return (
-                    <th key={header.id} aria-sort={sorted ? (sorted === "asc" ? "ascending" : "descending") : undefined}>
-                      <button type="button" className="font-semibold" onClick={header.column.getToggleSortingHandler()}>
-                        {flexRender(header.column.columnDef.header, header.getContext())}
-                        <span className="ml-1 text-slate-400">{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : ""}</span>
-                      </button>
-                    </th>
-                  );
-                })}
-              </tr>
-            ))}
-          </thead>
-          <tbody>
-            {table.getRowModel().rows.map((row) => (
-              <tr key={row.id} className="hover:bg-night-50">
-                {row.getVisibleCells().map((cell) => (
-                  <td key={cell.id}>{flexRender(cell.column.columnDef.cell, cell.getContext())}</td>
-                ))}
-              </tr>
-            ))}
-            {table.getRowModel().rows.length === 0 ? (
-              <tr>
-                <td colSpan={columns.length} className="py-6 text-center text-slate-500">No account matches.</td>
-              </tr>
-            ) : null}
-          </tbody>
-        </table>
-      </div>
+      <SortableTable table={table} empty="No account matches." />
       <div className="flex items-center gap-2 text-sm">
         <button type="button" className="btn-quiet" onClick={() => table.previousPage()} disabled={!table.getCanPreviousPage()}>
           Previous
