@@ -3,6 +3,7 @@
 import { altitudeCurve } from "~/lib/astro/visibility";
 import { buildFeasibilitySheet, type FeasibilityInput, type FeasibilitySheet } from "~/lib/feasibility";
 import { Call, CallOffer, Filter, Instrument, Observation, PlannedEpoch, Proposal, Target, Telescope } from "~/models/index.server";
+import { plainInstrument } from "./office.server";
 
 export type { FeasibilitySheet } from "~/lib/feasibility";
 
@@ -36,20 +37,7 @@ export async function loadFeasibilityInput({ proposalId }: { proposalId: number 
       apertureM: t.apertureM,
       centralObstruction: t.centralObstruction,
     })),
-    instruments: instruments.map((i) => ({
-      id: i.id,
-      telescopeId: i.telescopeId,
-      name: i.name,
-      pixelScaleArcsec: i.pixelScaleArcsec,
-      readNoiseE: i.readNoiseE,
-      darkEPerPixelPerS: i.darkEPerPixelPerS,
-      gainEPerAdu: i.gainEPerAdu,
-      fullWellE: i.fullWellE,
-      readoutSeconds: i.readoutSeconds,
-      acquisitionSeconds: i.acquisitionSeconds,
-      astrometricFloorMas: i.astrometricFloorMas,
-      throughput: i.throughput,
-    })),
+    instruments: instruments.map(plainInstrument),
     filters: instruments.flatMap((i) =>
       (i.filters ?? []).map((f) => ({
         id: f.id,

@@ -74,7 +74,8 @@ function plainTelescope(t: Telescope) {
   };
 }
 
-function plainInstrument(i: Instrument) {
+/** An instrument as plain JSON-able data (for loaders and the feasibility computation). */
+export function plainInstrument(i: Instrument) {
   return {
     id: i.id,
     telescopeId: i.telescopeId,
