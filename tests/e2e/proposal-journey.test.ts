@@ -4,41 +4,28 @@
 import { writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
-import type { Browser } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { listen } from "../helpers/app";
-import { launchBrowser, screenshot, watchConsole } from "../helpers/browser";
-import { ensureDatabase } from "../helpers/db";
+import { describe, expect, it } from "vitest";
+import { screenshot, watchConsole } from "../helpers/browser";
+import { appInBrowser } from "../helpers/browser-suite";
 import { testEnv } from "../helpers/env";
-import { clearMail, waitForMail } from "../helpers/maildev";
+import { waitForMail } from "../helpers/maildev";
 import { signInInBrowser } from "../helpers/sign-in-browser";
 import { pdfWithPages } from "../integration/proposals-fixtures";
 
 describe("a PI's proposal, from sign-in to receipt", () => {
-  let server: Awaited<ReturnType<typeof listen>>;
-  let browser: Browser;
-  beforeAll(async () => {
-    await ensureDatabase();
-    await clearMail();
-    server = await listen();
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-  });
+  const suite = appInBrowser();
 
   it("signs in, drafts, invites, imports, observes, uploads, submits and gets the receipt", { timeout: 180_000 }, async () => {
-    const page = await browser.newPage({ viewport: { width: 1400, height: 1000 } });
+    const page = await suite.browser.newPage({ viewport: { width: 1400, height: 1000 } });
     const errors = watchConsole(page);
     const pi = "pi@kestrel-ridge.example";
-    await signInInBrowser(page, server.url, pi);
+    await signInInBrowser(page, suite.server.url, pi);
 
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "My proposals" }).click();
     await page.getByRole("heading", { name: "My proposals" }).waitFor();
     await screenshot(page, "journey-01-my-proposals");
 
-    await page.goto(`${server.url}/proposals/new?call=2027A`);
+    await page.goto(`${suite.server.url}/proposals/new?call=2027A`);
     await page.getByRole("button", { name: "Create the draft" }).click();
     await page.getByText("Give the proposal a title of at least 5 characters.").waitFor();
     await page.getByLabel("Title").fill("Tangential motions in the Brackfell cluster field");

@@ -1,29 +1,15 @@
-import type { Browser } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { listen } from "../helpers/app";
-import { launchBrowser, screenshot, watchConsole } from "../helpers/browser";
-import { ensureDatabase } from "../helpers/db";
-import { clearMail } from "../helpers/maildev";
+import { describe, expect, it } from "vitest";
+import { screenshot, watchConsole } from "../helpers/browser";
+import { appInBrowser } from "../helpers/browser-suite";
 import { signInInBrowser } from "../helpers/sign-in-browser";
 
 describe("signing in with Chromium", () => {
-  let server: Awaited<ReturnType<typeof listen>>;
-  let browser: Browser;
-  beforeAll(async () => {
-    await ensureDatabase();
-    await clearMail();
-    server = await listen();
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await server?.close();
-  });
+  const suite = appInBrowser();
 
   it("shows the home page to a visitor", async () => {
-    const page = await browser.newPage();
+    const page = await suite.browser.newPage();
     const errors = watchConsole(page);
-    await page.goto(server.url);
+    await page.goto(suite.server.url);
     await expect(page.getByRole("heading", { level: 1 })).toBeTruthy();
     await page.getByRole("link", { name: "Sign in", exact: true }).waitFor();
     expect(await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Office" }).count()).toBe(0);
@@ -33,9 +19,9 @@ describe("signing in with Chromium", () => {
   });
 
   it("refuses a malformed address at the field, keeping it", async () => {
-    const page = await browser.newPage();
+    const page = await suite.browser.newPage();
     const errors = watchConsole(page);
-    await page.goto(`${server.url}/sign-in`);
+    await page.goto(`${suite.server.url}/sign-in`);
     await page.getByLabel("E-mail address").fill("someone@nowhere");
     await page.getByRole("button", { name: "Send me a code" }).click();
     await page.getByText("Enter a valid e-mail address").waitFor();
@@ -46,17 +32,17 @@ describe("signing in with Chromium", () => {
   });
 
   it("signs in the demo admin with the code from the mail catcher and manages roles", async () => {
-    const page = await browser.newPage();
+    const page = await suite.browser.newPage();
     const errors = watchConsole(page);
-    await page.goto(`${server.url}/sign-in`);
+    await page.goto(`${suite.server.url}/sign-in`);
     await screenshot(page, "sign-in");
-    await signInInBrowser(page, server.url, "admin@kestrel-ridge.example");
+    await signInInBrowser(page, suite.server.url, "admin@kestrel-ridge.example");
     await screenshot(page, "home-admin");
     const nav = page.getByRole("navigation", { name: "Main" });
     await nav.getByRole("link", { name: "Office", exact: true }).waitFor();
     expect(await nav.getByRole("link", { name: "Committee" }).count()).toBe(0);
 
-    await page.goto(`${server.url}/admin/users`);
+    await page.goto(`${suite.server.url}/admin/users`);
     await page.getByRole("heading", { name: "People and roles" }).waitFor();
     await page.getByLabel("Find").fill("pi4@");
     const grant = page.getByRole("button", { name: "Grant reviewer for pi4@kestrel-ridge.example" });
@@ -71,13 +57,13 @@ describe("signing in with Chromium", () => {
   });
 
   it("signs in the demo reviewer and shows only the review area", async () => {
-    const page = await browser.newPage();
+    const page = await suite.browser.newPage();
     const errors = watchConsole(page);
-    await signInInBrowser(page, server.url, "reviewer@kestrel-ridge.example");
+    await signInInBrowser(page, suite.server.url, "reviewer@kestrel-ridge.example");
     const nav = page.getByRole("navigation", { name: "Main" });
     await nav.getByRole("link", { name: "Review", exact: true }).waitFor();
     expect(await nav.getByRole("link", { name: "Office" }).count()).toBe(0);
-    const response = await page.goto(`${server.url}/admin/users`);
+    const response = await page.goto(`${suite.server.url}/admin/users`);
     expect(response?.status()).toBe(403);
     await page.getByText("Not for your account").waitFor();
     await screenshot(page, "forbidden");
