@@ -18,6 +18,7 @@ import {
   YAxis,
 } from "recharts";
 import type { MoonCategory } from "~/lib/domain";
+import { ALTITUDE_TICKS, PARALLAX_FACTOR_TICKS, halfYearTicks, wholeHourTicks } from "./chart-ticks";
 import { moonColours } from "./FeasibilityParts";
 
 export function HoursPerNightChart({ nights, hoursPerNight }: { nights: { date: string; moonCategory: MoonCategory }[]; hoursPerNight: number[] }) {
@@ -29,7 +30,7 @@ export function HoursPerNightChart({ nights, hoursPerNight }: { nights: { date: 
           <BarChart data={data} margin={{ top: 5, right: 10, bottom: 5, left: 0 }} barCategoryGap={0}>
             <CartesianGrid strokeDasharray="3 3" vertical={false} />
             <XAxis dataKey="date" tickFormatter={(d: string) => d.slice(5)} minTickGap={30} fontSize={11} />
-            <YAxis fontSize={11} width={36} label={{ value: "h", angle: 0, position: "insideTopLeft", fontSize: 11 }} />
+            <YAxis fontSize={11} width={36} allowDecimals={false} label={{ value: "h", angle: 0, position: "insideTopLeft", fontSize: 11 }} />
             <Tooltip formatter={(v) => [`${Number(v).toFixed(2)} h`, "observable"]} labelFormatter={(d) => `night of ${d}`} />
             <Bar dataKey="hours" isAnimationActive={false}>
               {data.map((d) => (
@@ -84,8 +85,8 @@ export function AltitudeChart({
             ) : (
               <ReferenceArea x1={first} x2={last} fill="#e8a849" fillOpacity={0.18} />
             )}
-            <XAxis dataKey="t" type="number" domain={[first, last]} scale="time" tickFormatter={(t: number) => hhmm(new Date(t).toISOString())} fontSize={11} />
-            <YAxis domain={[-60, 90]} ticks={[-60, -30, 0, 30, 60, 90]} fontSize={11} width={40} unit="°" />
+            <XAxis dataKey="t" type="number" domain={[first, last]} scale="time" ticks={wholeHourTicks(first, last)} tickFormatter={(t: number) => hhmm(new Date(t).toISOString())} fontSize={11} />
+            <YAxis domain={[0, 90]} allowDataOverflow ticks={ALTITUDE_TICKS} fontSize={11} width={40} unit="°" />
             <Tooltip labelFormatter={(t) => `${new Date(Number(t)).toISOString().slice(0, 16).replace("T", " ")} UTC`} formatter={(v, name) => [`${Number(v).toFixed(1)}°`, name]} />
             <ReferenceLine y={minAltitudeDeg} stroke="#b91c1c" strokeDasharray="6 3" label={{ value: `airmass limit (${minAltitudeDeg.toFixed(1)}°)`, position: "insideTopRight", fontSize: 11, fill: "#b91c1c" }} />
             <ReferenceLine y={0} stroke="#64748b" />
@@ -97,7 +98,7 @@ export function AltitudeChart({
         </ResponsiveContainer>
       </div>
       <figcaption className="mt-1 text-xs text-slate-600">
-        Altitude (geometric) against UTC. Shaded: Sun above −18° (twilight or day). Dashed red: the observation's airmass limit.
+        Altitude (geometric, above the horizon) against UTC. Shaded: Sun above −18° (twilight or day). Dashed red: the observation's airmass limit.
       </figcaption>
     </figure>
   );
@@ -115,15 +116,7 @@ export function ParallaxFactorChart({
     ...curve.map((c) => ({ t: toT(c.date), ra: c.ra, dec: c.dec })),
     ...epochs.map((e) => ({ t: toT(e.date), epochRa: e.parallaxFactorRa, epochDec: e.parallaxFactorDec })),
   ].sort((a, b) => a.t - b.t);
-  const ticks: number[] = [];
-  if (data.length) {
-    const first = new Date(data[0].t);
-    for (let y = first.getUTCFullYear(), m = first.getUTCMonth() < 6 ? 6 : 12; ; m += 6) {
-      const t = Date.UTC(y, m, 1);
-      if (t > data[data.length - 1].t) break;
-      ticks.push(t);
-    }
-  }
+  const ticks = data.length ? halfYearTicks(data[0].t, data[data.length - 1].t) : [];
   return (
     <figure>
       <div className="h-56 w-full">
@@ -131,7 +124,7 @@ export function ParallaxFactorChart({
           <ComposedChart data={data} margin={{ top: 5, right: 10, bottom: 5, left: 0 }}>
             <CartesianGrid strokeDasharray="3 3" vertical={false} />
             <XAxis dataKey="t" type="number" scale="time" domain={["dataMin", "dataMax"]} ticks={ticks} tickFormatter={(t: number) => new Date(t).toISOString().slice(0, 7)} fontSize={11} />
-            <YAxis domain={[-1.1, 1.1]} fontSize={11} width={36} />
+            <YAxis domain={[-1.1, 1.1]} ticks={PARALLAX_FACTOR_TICKS} tickFormatter={(v: number) => v.toFixed(1)} fontSize={11} width={36} />
             <Tooltip labelFormatter={(t) => new Date(Number(t)).toISOString().slice(0, 10)} formatter={(v, name) => [Number(v).toFixed(3), name]} />
             <Line dataKey="ra" name="f(α*)" stroke="#2b4f7e" dot={false} connectNulls isAnimationActive={false} />
             <Line dataKey="dec" name="f(δ)" stroke="#d98e2b" dot={false} connectNulls isAnimationActive={false} />

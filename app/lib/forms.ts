@@ -19,3 +19,34 @@ export function apiIssues(error: z.ZodError, summary = "The request has invalid 
     issues: error.issues.map((issue) => ({ path: issue.path.join(".") || "(body)", message: issue.message })),
   };
 }
+
+const escape = (s: string) => s.replace(/[.*+?^${}()|[\]\\]/g, "\\$&");
+
+/**
+ * One validation message in plain words, naming its field once. Messages from the parsers and the
+ * API schemas come in several shapes — `Dec: must be …` (the parser's own label), `maxAirmass must
+ * be at most 10` (the API's field id), or a bare `must be a calendar date` — and a caller used to
+ * prefix the path as well, giving `dec: Dec: must …`. Give the field's id (`dec`, `site.timeZone`)
+ * and its name for people (`Dec`, `Time zone`); `names` turns other field ids mentioned in the
+ * message into words too.
+ */
+export function plainIssue(message: string, opts: { field?: string; name?: string; names?: Record<string, string> } = {}): string {
+  const leaf = opts.field?.split(".").pop() ?? "";
+  const name = opts.name ?? leaf;
+  let text = message.trim();
+  // "Dec: must …", "dec: Dec: must …", "ra: RA: hours must be 0–23": drop leading "<label>:" prefixes
+  const labels = [leaf, name, opts.field ?? ""].filter(Boolean).map(escape);
+  if (labels.length) {
+    const prefix = new RegExp(`^(?:(?:${labels.join("|")})\\s*:\\s*)+`, "i");
+    const stripped = text.replace(prefix, "");
+    if (stripped !== text) text = /^not\b/.test(stripped) ? stripped : /^required\b/.test(stripped) ? `${name} is ${stripped}` : `${name} ${stripped}`;
+  }
+  const names: Record<string, string> = { ...opts.names, ...(leaf && name !== leaf ? { [leaf]: name } : {}) };
+  for (const id of Object.keys(names).sort((a, b) => b.length - a.length)) {
+    text = text.replace(new RegExp(`(^|[^\\w.])${escape(id)}(?![\\w])`, "g"), (_m, before: string) => `${before}${names[id]}`);
+  }
+  // "date is required", "must be a calendar date": say which field
+  if (/^(must|should)\b/.test(text)) text = `${name} ${text}`;
+  else if (/^date is required\b/.test(text) && name) text = text.replace(/^date/, name);
+  return text.charAt(0).toUpperCase() + text.slice(1);
+}

@@ -1,6 +1,6 @@
-import { useEffect, useState } from "react";
+import { lazy, useEffect, useState } from "react";
 import { Form, Link, useNavigation, useRevalidator } from "react-router";
-import { AltitudeChart, HoursPerNightChart, ParallaxFactorChart } from "~/components/FeasibilityCharts";
+import { ChartPlaceholder, ClientOnly } from "~/components/ClientOnly";
 import { hours, ProblemsList, TotalsTable } from "~/components/FeasibilityParts";
 import { ErrorPage } from "~/components/ErrorPage";
 import { Field, inputProps } from "~/components/Field";
@@ -12,6 +12,12 @@ import { altitudeChartFor, loadFeasibilityInput } from "~/lib/feasibility.server
 import { proposalIdParam } from "~/lib/proposal-routes.server";
 import { getProposalForUser } from "~/lib/proposals.server";
 import type { Route } from "./+types/proposals.$proposalId.feasibility";
+
+// recharts is a large chunk: the charts load in the browser only, on the pages that draw them
+const charts = () => import("~/components/FeasibilityCharts");
+const AltitudeChart = lazy(() => charts().then((m) => ({ default: m.AltitudeChart })));
+const HoursPerNightChart = lazy(() => charts().then((m) => ({ default: m.HoursPerNightChart })));
+const ParallaxFactorChart = lazy(() => charts().then((m) => ({ default: m.ParallaxFactorChart })));
 
 export function meta() {
   return [{ title: "Feasibility sheet · Nightshare" }];
@@ -54,6 +60,7 @@ function NoiseTable({ exposure }: { exposure: NonNullable<ObservationSheet["expo
     ["read (n_pix · RN²)", n.read, `${exposure.readNoiseE} e⁻ RMS per pixel`],
   ];
   return (
+    <div className="overflow-x-auto">
     <table className="table-base">
       <thead>
         <tr>
@@ -82,6 +89,7 @@ function NoiseTable({ exposure }: { exposure: NonNullable<ObservationSheet["expo
         </tr>
       </tfoot>
     </table>
+    </div>
   );
 }
 
@@ -127,7 +135,9 @@ function ObservationCard({ o, sheet, defaultOpen }: { o: ObservationSheet; sheet
               <div><dt className="text-slate-500">Longest night window</dt><dd>{o.visibility.bestNight ? <Link to={`?obs=${o.observationId}&night=${o.visibility.bestNight}#altitude`}>{o.visibility.bestNight}</Link> : "—"}</dd></div>
               <div><dt className="text-slate-500">Seeing assumed</dt><dd>{o.seeingArcsec}″</dd></div>
             </dl>
-            <HoursPerNightChart nights={nights} hoursPerNight={o.visibility.hoursPerNight} />
+            <ClientOnly fallback={<ChartPlaceholder className="h-48 w-full" />}>
+              <HoursPerNightChart nights={nights} hoursPerNight={o.visibility.hoursPerNight} />
+            </ClientOnly>
             <Link to={`?obs=${o.observationId}#altitude`} className="text-sm">Altitude against time on a chosen night →</Link>
           </section>
 
@@ -167,8 +177,13 @@ function ObservationCard({ o, sheet, defaultOpen }: { o: ObservationSheet; sheet
                 {a.requiredPmPrecisionMasPerYr !== null ? `, ${a.requiredPmPrecisionMasPerYr} mas/yr required (${a.met ? "met" : "not met"})` : ""}; parallax precision{" "}
                 <strong>{a.parallaxPrecisionMas !== null ? `${fx(a.parallaxPrecisionMas, 3)} mas` : "not determined"}</strong>.
               </p>
-              {a.parallaxCurve.length ? <ParallaxFactorChart curve={a.parallaxCurve} epochs={a.epochs} /> : null}
+              {a.parallaxCurve.length ? (
+                <ClientOnly fallback={<ChartPlaceholder className="h-56 w-full" />}>
+                  <ParallaxFactorChart curve={a.parallaxCurve} epochs={a.epochs} />
+                </ClientOnly>
+              ) : null}
               <div className="grid gap-4 md:grid-cols-[2fr_1fr]">
+                <div className="min-w-0 overflow-x-auto">
                 <table className="table-base">
                   <thead>
                     <tr>
@@ -193,6 +208,8 @@ function ObservationCard({ o, sheet, defaultOpen }: { o: ObservationSheet; sheet
                     ))}
                   </tbody>
                 </table>
+                </div>
+                <div className="min-w-0 overflow-x-auto">
                 <table className="table-base">
                   <thead>
                     <tr>
@@ -211,6 +228,7 @@ function ObservationCard({ o, sheet, defaultOpen }: { o: ObservationSheet; sheet
                     ))}
                   </tbody>
                 </table>
+                </div>
               </div>
             </section>
           ) : null}
@@ -247,7 +265,9 @@ export default function FeasibilitySheetPage({ loaderData }: Route.ComponentProp
 
       <section className="card space-y-3">
         <h2>Requested time</h2>
-        <TotalsTable sheet={sheet} />
+        <div className="overflow-x-auto">
+          <TotalsTable sheet={sheet} />
+        </div>
       </section>
 
       <section className="space-y-3">
@@ -257,7 +277,8 @@ export default function FeasibilitySheetPage({ loaderData }: Route.ComponentProp
             Nothing to compute yet. Add targets and observations on the <Link to="../observations">observations tab</Link>.
           </p>
         ) : (
-          <table className="table-base card">
+          <div className="card overflow-x-auto p-0">
+          <table className="table-base">
             <thead>
               <tr>
                 <th>Target</th>
@@ -287,6 +308,7 @@ export default function FeasibilitySheetPage({ loaderData }: Route.ComponentProp
               })}
             </tbody>
           </table>
+          </div>
         )}
         {sheet.observations.map((o, i) => (
           <ObservationCard key={o.observationId} o={o} sheet={sheet} defaultOpen={i < 3} />
@@ -315,7 +337,9 @@ export default function FeasibilitySheetPage({ loaderData }: Route.ComponentProp
           <p className="text-sm text-slate-600">
             {chartObs.targetName} on the night of {chart.date}: dark from {chart.darkStart?.slice(11, 16) ?? "—"} to {chart.darkEnd?.slice(11, 16) ?? "—"} UTC (sunset {chart.sunset?.slice(11, 16) ?? "—"}, sunrise {chart.sunrise?.slice(11, 16) ?? "—"}).
           </p>
-          <AltitudeChart points={chart.points} minAltitudeDeg={chart.minAltitudeDeg} darkStart={chart.darkStart} darkEnd={chart.darkEnd} />
+          <ClientOnly fallback={<ChartPlaceholder className="h-64 w-full" />}>
+            <AltitudeChart points={chart.points} minAltitudeDeg={chart.minAltitudeDeg} darkStart={chart.darkStart} darkEnd={chart.darkEnd} />
+          </ClientOnly>
         </section>
       ) : null}
 

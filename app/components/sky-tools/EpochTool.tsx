@@ -1,14 +1,17 @@
-import { zodResolver } from "@hookform/resolvers/zod";
-import { useEffect, useState } from "react";
-import { useForm, type Resolver } from "react-hook-form";
-import { useFetcher } from "react-router";
-import { CartesianGrid, ComposedChart, Line, ResponsiveContainer, Scatter, Tooltip, XAxis, YAxis } from "recharts";
+import { lazy, useEffect, useState } from "react";
+import { useForm } from "react-hook-form";
+import { ChartPlaceholder, ClientOnly } from "~/components/ClientOnly";
 import { Field, inputProps } from "~/components/Field";
 import type { FitPrecision, Plan } from "~/lib/astro/astrometry";
-import { epochPlanBodySchema, type EpochPlanBody } from "~/lib/astro/schemas";
-import { fmt, isApiError, useLiveForm, useServerIssues } from "./live";
+import { plainIssue } from "~/lib/forms";
+import { LiveStatusLine, TelescopePicker } from "./LiveStatus";
+import { compact, fmt, isoDateInput, issuesByField, useLiveApi, type SkyTelescope } from "./live";
+
+const ParallaxChartLazy = lazy(() => import("./EpochCharts").then((m) => ({ default: m.ParallaxChart })));
 
 export type EpochForm = {
+  /** a telescope id (its site), or "custom" for the site fields */
+  telescopeId: string;
   site: { latitudeDeg: string; longitudeDeg: string; elevationM: string; timeZone: string };
   target: { ra: string; dec: string };
   firstDate: string;
@@ -25,63 +28,88 @@ export type EpochForm = {
 
 export type EpochAnswer = Plan & { perEpochPrecisionMas: number; movedPrecision?: FitPrecision };
 
-const FIELDS = [
-  "site.latitudeDeg", "site.longitudeDeg", "site.elevationM", "site.timeZone", "target.ra", "target.dec", "firstDate",
-  "baselineYears", "epochs", "requiredProperMotionMasPerYr", "requiredTangentialVelocityKmS", "distancePc",
-  "perEpochPrecisionMas", "maxAirmass", "secondsPerEpoch",
-] as const;
-type FieldName = (typeof FIELDS)[number];
+const NAMES = {
+  telescopeId: "Telescope",
+  "site.latitudeDeg": "Latitude",
+  "site.longitudeDeg": "Longitude",
+  "site.elevationM": "Elevation",
+  "site.timeZone": "Time zone",
+  "target.ra": "RA",
+  "target.dec": "Dec",
+  firstDate: "First date",
+  baselineYears: "Baseline",
+  epochs: "Epochs",
+  requiredProperMotionMasPerYr: "Required σ(μ)",
+  requiredTangentialVelocityKmS: "Required σ(v)",
+  distancePc: "Distance",
+  perEpochPrecisionMas: "Per-epoch σ",
+  maxAirmass: "Max air mass",
+  secondsPerEpoch: "Seconds per epoch",
+} as const;
+type FieldName = keyof typeof NAMES;
+const SITE_FIELDS = ["site.latitudeDeg", "site.longitudeDeg", "site.elevationM", "site.timeZone"] as const;
 
-function payload(raw: EpochForm, moved: string[] | null) {
-  const { goal, ...body } = raw;
+/** The API body for the form's values (and the moved epoch dates, if any). */
+export function epochRequest(raw: EpochForm, moved: string[] | null) {
+  const { goal, telescopeId, site, ...body } = raw;
   return {
-    ...body,
-    epochs: goal === "epochs" ? body.epochs : "",
-    requiredProperMotionMasPerYr: goal === "pm" ? body.requiredProperMotionMasPerYr : "",
-    requiredTangentialVelocityKmS: goal === "velocity" ? body.requiredTangentialVelocityKmS : "",
-    distancePc: goal === "velocity" ? body.distancePc : "",
-    ...(moved ? { movedEpochs: moved } : {}),
+    method: "POST" as const,
+    url: "/api/v1/epoch-plan",
+    body: compact({
+      ...body,
+      ...(telescopeId === "custom" ? { site } : { telescopeId }),
+      epochs: goal === "epochs" ? body.epochs : "",
+      requiredProperMotionMasPerYr: goal === "pm" ? body.requiredProperMotionMasPerYr : "",
+      requiredTangentialVelocityKmS: goal === "velocity" ? body.requiredTangentialVelocityKmS : "",
+      distancePc: goal === "velocity" ? body.distancePc : "",
+      ...(moved ? { movedEpochs: moved } : {}),
+    }),
   };
 }
 
-export function EpochTool({ defaults, initial }: { defaults: EpochForm; initial: EpochAnswer }) {
-  const fetcher = useFetcher<EpochAnswer>();
+export function EpochTool({ defaults, initial, telescopes }: { defaults: EpochForm; initial: EpochAnswer; telescopes: SkyTelescope[] }) {
+  const form = useForm<EpochForm>({ defaultValues: defaults });
   const [moved, setMoved] = useState<string[] | null>(null);
-  const form = useForm<EpochForm, unknown, EpochPlanBody>({
-    resolver: zodResolver(epochPlanBodySchema) as unknown as Resolver<EpochForm, unknown, EpochPlanBody>,
-    defaultValues: defaults,
-    mode: "onChange",
-  });
-  const goal = form.watch("goal");
-  useLiveForm(form, () => {
-    setMoved(null);
-    fetcher.submit(payload(form.getValues(), null), { method: "post", action: "/api/v1/epoch-plan", encType: "application/json" });
-  });
-  useServerIssues(form, fetcher.data, FIELDS);
-  const [plan, setPlan] = useState<EpochAnswer>(initial);
+  // a change of the form is a new plan: the moved dates belonged to the old one
   useEffect(() => {
-    if (fetcher.data && !isApiError(fetcher.data)) setPlan(fetcher.data);
-  }, [fetcher.data]);
+    const sub = form.watch(() => setMoved(null));
+    return () => sub.unsubscribe();
+  }, [form]);
+  const values = form.watch();
+  const goal = values.goal;
+  const live = useLiveApi<EpochAnswer>(epochRequest(values, moved), initial);
+  const movedIssues = live.issues.filter((i) => i.path.startsWith("movedEpochs"));
+  const { byField, other } = issuesByField(
+    live.issues.filter((i) => !i.path.startsWith("movedEpochs")),
+    NAMES,
+    (p) => (p === "site" ? "telescopeId" : p),
+  );
+  const plan = live.result;
+  const custom = values.telescopeId === "custom";
+  const err = (k: FieldName): string | undefined => byField[k];
+  const input = (k: FieldName) => ({ ...inputProps(`ep-${k}`, err(k)), ...form.register(k) });
+  const site = (k: (typeof SITE_FIELDS)[number]) => ({ ...input(k), readOnly: !custom, className: custom ? "input" : "input bg-slate-100 text-slate-600" });
+  const pick = (id: string) => {
+    const t = telescopes.find((x) => String(x.id) === id);
+    form.setValue("telescopeId", id);
+    if (t) {
+      form.setValue("site.latitudeDeg", String(t.latitudeDeg));
+      form.setValue("site.longitudeDeg", String(t.longitudeDeg));
+      form.setValue("site.elevationM", String(t.elevationM));
+      form.setValue("site.timeZone", t.timeZone);
+    }
+  };
   const moveEpoch = (i: number, date: string) => {
     const next = (moved ?? plan.epochs.map((e) => e.date)).slice();
     next[i] = date;
     setMoved(next);
-    if (next.every((d) => /^\d{4}-\d{2}-\d{2}$/.test(d))) {
-      fetcher.submit(payload(form.getValues(), next), { method: "post", action: "/api/v1/epoch-plan", encType: "application/json" });
-    }
   };
-  const errors = form.formState.errors as Record<string, unknown>;
-  const err = (k: FieldName): string | undefined => {
-    const [a, b] = k.split(".");
-    const e = errors[a] as Record<string, { message?: string }> & { message?: string };
-    return (b ? e?.[b]?.message : e?.message) as string | undefined;
+  const movedError = (i: number) => {
+    const issue = movedIssues.find((x) => x.path === `movedEpochs.${i}`) ?? (i === 0 ? movedIssues.find((x) => x.path === "movedEpochs") : undefined);
+    return issue ? plainIssue(issue.message, { field: `movedEpochs.${i}`, name: `Epoch ${i + 1}` }) : undefined;
   };
-  const input = (k: FieldName) => ({ ...inputProps(`ep-${k}`, err(k)), ...form.register(k) });
   const p = plan.precision;
   const movedP = plan.movedPrecision;
-  const curve = plan.parallaxCurve.map((c) => ({ t: Date.parse(c.date), ra: c.ra, dec: c.dec }));
-  const points = plan.epochs.map((e) => ({ t: Date.parse(e.time), ra: e.parallaxFactors.ra, dec: e.parallaxFactors.dec }));
-  const year = (t: number) => new Date(t).toISOString().slice(0, 7);
 
   return (
     <section className="card space-y-6" aria-labelledby="ep-title">
@@ -93,14 +121,15 @@ export function EpochTool({ defaults, initial }: { defaults: EpochForm; initial:
           Move an epoch in the table to see the precision change.
         </p>
       </div>
-      <form className="grid grid-cols-2 gap-4 md:grid-cols-4 lg:grid-cols-6" noValidate onSubmit={(e) => e.preventDefault()}>
-        <Field label="Latitude (°)" id="ep-site.latitudeDeg" error={err("site.latitudeDeg")}><input inputMode="decimal" {...input("site.latitudeDeg")} /></Field>
-        <Field label="Longitude (°, E +)" id="ep-site.longitudeDeg" error={err("site.longitudeDeg")}><input inputMode="decimal" {...input("site.longitudeDeg")} /></Field>
-        <Field label="Elevation (m)" id="ep-site.elevationM" error={err("site.elevationM")}><input inputMode="decimal" {...input("site.elevationM")} /></Field>
-        <Field label="Time zone" id="ep-site.timeZone" error={err("site.timeZone")}><input {...input("site.timeZone")} /></Field>
+      <form className="grid grid-cols-1 gap-4 sm:grid-cols-2 md:grid-cols-4 lg:grid-cols-6" noValidate onSubmit={(e) => e.preventDefault()}>
+        <TelescopePicker id="ep-telescopeId" value={values.telescopeId} onChange={pick} telescopes={telescopes} error={err("telescopeId")} />
+        <Field label="Latitude (°)" id="ep-site.latitudeDeg" error={err("site.latitudeDeg")}><input inputMode="decimal" {...site("site.latitudeDeg")} /></Field>
+        <Field label="Longitude (°, E +)" id="ep-site.longitudeDeg" error={err("site.longitudeDeg")}><input inputMode="decimal" {...site("site.longitudeDeg")} /></Field>
+        <Field label="Elevation (m)" id="ep-site.elevationM" error={err("site.elevationM")}><input inputMode="decimal" {...site("site.elevationM")} /></Field>
+        <Field label="Time zone" id="ep-site.timeZone" error={err("site.timeZone")}><input {...site("site.timeZone")} /></Field>
         <Field label="RA (J2000)" id="ep-target.ra" error={err("target.ra")}><input {...input("target.ra")} /></Field>
         <Field label="Dec (J2000)" id="ep-target.dec" error={err("target.dec")}><input {...input("target.dec")} /></Field>
-        <Field label="First date" id="ep-firstDate" error={err("firstDate")}><input type="date" {...input("firstDate")} /></Field>
+        <Field label="First date" id="ep-firstDate" error={err("firstDate")}><input {...isoDateInput} {...input("firstDate")} /></Field>
         <Field label="Baseline (years)" id="ep-baselineYears" error={err("baselineYears")}><input inputMode="decimal" {...input("baselineYears")} /></Field>
         <Field label="Plan by" id="ep-goal">
           <select id="ep-goal" className="input" {...form.register("goal")}>
@@ -120,6 +149,7 @@ export function EpochTool({ defaults, initial }: { defaults: EpochForm; initial:
         <Field label="Per-epoch σ (mas)" id="ep-perEpochPrecisionMas" error={err("perEpochPrecisionMas")} hint="per coordinate"><input inputMode="decimal" {...input("perEpochPrecisionMas")} /></Field>
         <Field label="Max air mass" id="ep-maxAirmass" error={err("maxAirmass")}><input inputMode="decimal" {...input("maxAirmass")} /></Field>
         <Field label="Seconds per epoch" id="ep-secondsPerEpoch" error={err("secondsPerEpoch")} hint="exposures + overheads"><input inputMode="numeric" {...input("secondsPerEpoch")} /></Field>
+        <LiveStatusLine status={live.status} failure={live.failure} other={other} testId="ep-status" />
       </form>
 
       {plan.message ? <p className="rounded bg-dusk-100 px-3 py-2 text-sm">{plan.message}</p> : null}
@@ -138,10 +168,10 @@ export function EpochTool({ defaults, initial }: { defaults: EpochForm; initial:
         ))}
       </dl>
       {movedP ? (
-        <p className="rounded border border-dusk-400 bg-dusk-100 px-3 py-2 text-sm" role="status">
+        <p className="rounded border border-dusk-400 bg-dusk-100 px-3 py-2 text-sm" role="status" data-testid="ep-moved">
           With your moved epochs: σ(μα*) {fmt(movedP.properMotionPrecisionMasPerYr.ra, 3)}, σ(μδ) {fmt(movedP.properMotionPrecisionMasPerYr.dec, 3)} mas/yr, σ(ϖ){" "}
           {fmt(movedP.parallaxPrecisionMas, 3)} mas {movedP.determined ? "" : "(these dates cannot separate the parameters)"}.{" "}
-          <button type="button" className="btn-quiet" onClick={() => { setMoved(null); fetcher.submit(payload(form.getValues(), null), { method: "post", action: "/api/v1/epoch-plan", encType: "application/json" }); }}>
+          <button type="button" className="btn-quiet" onClick={() => setMoved(null)}>
             Back to the plan
           </button>
         </p>
@@ -150,18 +180,9 @@ export function EpochTool({ defaults, initial }: { defaults: EpochForm; initial:
       <figure className="space-y-2">
         <figcaption className="text-sm font-semibold text-night-900">Parallax factors over the baseline (lines) and the planned epochs (dots)</figcaption>
         <div className="h-64 w-full">
-          <ResponsiveContainer width="100%" height="100%">
-            <ComposedChart margin={{ top: 8, right: 16, bottom: 8, left: 0 }}>
-              <CartesianGrid stroke="#e2e8f0" />
-              <XAxis dataKey="t" type="number" scale="time" domain={["dataMin", "dataMax"]} tickFormatter={year} />
-              <YAxis domain={[-1.1, 1.1]} ticks={[-1, -0.5, 0, 0.5, 1]} />
-              <Tooltip labelFormatter={(t) => new Date(Number(t)).toISOString().slice(0, 10)} formatter={(v) => fmt(Number(v), 3)} />
-              <Line data={curve} dataKey="ra" name="f(α*)" stroke="#1e3a5f" dot={false} strokeWidth={2} isAnimationActive={false} />
-              <Line data={curve} dataKey="dec" name="f(δ)" stroke="#d98e2b" dot={false} strokeWidth={2} isAnimationActive={false} />
-              <Scatter data={points} dataKey="ra" name="epoch f(α*)" fill="#1e3a5f" isAnimationActive={false} />
-              <Scatter data={points} dataKey="dec" name="epoch f(δ)" fill="#d98e2b" isAnimationActive={false} />
-            </ComposedChart>
-          </ResponsiveContainer>
+          <ClientOnly fallback={<ChartPlaceholder className="h-64 w-full" />}>
+            <ParallaxChartLazy plan={plan} />
+          </ClientOnly>
         </div>
         <p className="text-xs text-slate-500"><span className="font-semibold text-night-800">━ f(α*)</span> · <span className="font-semibold text-dusk-500">━ f(δ)</span> (in units of the parallax); {plan.candidates} usable nights in the baseline.</p>
       </figure>
@@ -175,7 +196,16 @@ export function EpochTool({ defaults, initial }: { defaults: EpochForm; initial:
                 <tr key={`${i}-${e.date}`}>
                   <td>{i + 1}</td>
                   <td>
-                    <input type="date" aria-label={`Epoch ${i + 1} date`} className="input mt-0 py-1" value={moved?.[i] ?? e.date} onChange={(ev) => moveEpoch(i, ev.target.value)} />
+                    <input
+                      {...isoDateInput}
+                      aria-label={`Epoch ${i + 1} date`}
+                      aria-invalid={movedError(i) ? true : undefined}
+                      aria-describedby={movedError(i) ? `ep-moved-${i}-error` : undefined}
+                      className="input mt-0 w-32 py-1"
+                      value={moved?.[i] ?? e.date}
+                      onChange={(ev) => moveEpoch(i, ev.target.value)}
+                    />
+                    {movedError(i) ? <p id={`ep-moved-${i}-error`} className="field-error" role="alert">{movedError(i)}</p> : null}
                   </td>
                   <td>{e.time.slice(0, 16).replace("T", " ")}</td>
                   <td>{fmt(e.parallaxFactors.ra, 3)}</td>

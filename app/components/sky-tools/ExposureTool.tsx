@@ -1,13 +1,13 @@
-import { zodResolver } from "@hookform/resolvers/zod";
-import { useForm, type Resolver } from "react-hook-form";
-import { useFetcher } from "react-router";
+import { useForm } from "react-hook-form";
 import { Field, inputProps } from "~/components/Field";
 import type { ExposureResult } from "~/lib/astro/exposure";
 import { BANDS } from "~/lib/astro/photometry";
-import { exposureBodySchema, type ExposureBody } from "~/lib/astro/schemas";
-import { fmt, isApiError, useLiveForm, useServerIssues } from "./live";
+import { LiveStatusLine, TelescopePicker } from "./LiveStatus";
+import { compact, fmt, issuesByField, useLiveApi, type SkyTelescope } from "./live";
 
 export type ExposureForm = {
+  /** a telescope id (its aperture and obstruction), or "custom" for the two fields below */
+  telescopeId: string;
   band: string;
   magnitude: string;
   mode: "snr" | "time";
@@ -20,39 +20,60 @@ export type ExposureForm = {
   instrument: { throughput: string; pixelScaleArcsec: string; readNoiseE: string; darkEPerPixelPerS: string; fullWellE: string };
 };
 
-const FIELDS = [
-  "band", "magnitude", "snr", "exposureSeconds", "airmass", "seeingArcsec", "moonCategory",
-  "telescope.apertureM", "telescope.centralObstruction", "instrument.throughput", "instrument.pixelScaleArcsec",
-  "instrument.readNoiseE", "instrument.darkEPerPixelPerS", "instrument.fullWellE",
-] as const;
-type FieldName = (typeof FIELDS)[number];
+const NAMES = {
+  telescopeId: "Telescope",
+  band: "Band",
+  magnitude: "Magnitude",
+  snr: "Target SNR",
+  exposureSeconds: "Exposure",
+  airmass: "Air mass",
+  seeingArcsec: "Seeing",
+  moonCategory: "Moon",
+  "telescope.apertureM": "Aperture",
+  "telescope.centralObstruction": "Central obstruction",
+  "instrument.throughput": "Throughput",
+  "instrument.pixelScaleArcsec": "Pixel scale",
+  "instrument.readNoiseE": "Read noise",
+  "instrument.darkEPerPixelPerS": "Dark current",
+  "instrument.fullWellE": "Full well",
+} as const;
+type FieldName = keyof typeof NAMES;
 
 export type ExposureAnswer = ExposureResult & { zeroPointPhotons: number };
 
-export function ExposureTool({ defaults, initial }: { defaults: ExposureForm; initial: ExposureAnswer }) {
-  const fetcher = useFetcher<ExposureAnswer>();
-  const form = useForm<ExposureForm, unknown, ExposureBody>({
-    resolver: zodResolver(exposureBodySchema) as unknown as Resolver<ExposureForm, unknown, ExposureBody>,
-    defaultValues: defaults,
-    mode: "onChange",
-  });
-  const mode = form.watch("mode");
-  useLiveForm(form, () => {
-    const raw = form.getValues();
-    const { mode: m, ...body } = raw;
-    const payload = { ...body, snr: m === "snr" ? body.snr : "", exposureSeconds: m === "time" ? body.exposureSeconds : "" };
-    fetcher.submit(payload, { method: "post", action: "/api/v1/exposure", encType: "application/json" });
-  });
-  useServerIssues(form, fetcher.data, FIELDS);
-  const r = fetcher.data && !isApiError(fetcher.data) ? fetcher.data : initial;
-  const errors = form.formState.errors as Record<string, { message?: string } | Record<string, { message?: string }>>;
-  const err = (k: FieldName): string | undefined => {
-    const [a, b] = k.split(".");
-    const e = errors[a] as Record<string, { message?: string }> & { message?: string };
-    return (b ? e?.[b]?.message : e?.message) as string | undefined;
+/** The API body for the form's values: exactly one of snr / exposureSeconds, the telescope by id or by its two numbers. */
+export function exposureRequest(v: ExposureForm) {
+  const { mode, telescopeId, telescope, ...rest } = v;
+  const body = {
+    ...rest,
+    snr: mode === "snr" ? rest.snr : "",
+    exposureSeconds: mode === "time" ? rest.exposureSeconds : "",
+    ...(telescopeId === "custom" ? { telescope } : { telescopeId }),
   };
+  return { method: "POST" as const, url: "/api/v1/exposure", body: compact(body) };
+}
+
+export function ExposureTool({ defaults, initial, telescopes }: { defaults: ExposureForm; initial: ExposureAnswer; telescopes: SkyTelescope[] }) {
+  const form = useForm<ExposureForm>({ defaultValues: defaults });
+  const values = form.watch();
+  const mode = values.mode;
+  const live = useLiveApi<ExposureAnswer>(exposureRequest(values), initial);
+  // "telescope" (nothing given) belongs to the picker
+  const { byField, other } = issuesByField(live.issues, NAMES, (p) => (p === "telescope" ? "telescopeId" : p));
+  const r = live.result;
+  const custom = values.telescopeId === "custom";
+  const err = (k: FieldName): string | undefined => byField[k];
   const input = (k: FieldName) => ({ ...inputProps(`exp-${k}`, err(k)), ...form.register(k) });
+  const scope = (k: "telescope.apertureM" | "telescope.centralObstruction") => ({ ...input(k), readOnly: !custom, className: custom ? "input" : "input bg-slate-100 text-slate-600" });
   const select = (k: FieldName) => ({ id: `exp-${k}`, "aria-invalid": err(k) ? true : undefined, ...form.register(k) });
+  const pick = (id: string) => {
+    const t = telescopes.find((x) => String(x.id) === id);
+    form.setValue("telescopeId", id);
+    if (t) {
+      form.setValue("telescope.apertureM", String(t.apertureM));
+      form.setValue("telescope.centralObstruction", String(t.centralObstruction));
+    }
+  };
   const total = r.noise.source + r.noise.sky + r.noise.dark + r.noise.read;
 
   return (
@@ -64,7 +85,8 @@ export function ExposureTool({ defaults, initial }: { defaults: ExposureForm; in
           Bessell, Castelli &amp; Plez (1998), extinction k·X, and an aperture of radius 1 × FWHM of the seeing.
         </p>
       </div>
-      <form className="grid grid-cols-2 gap-4 md:grid-cols-4 lg:grid-cols-7" noValidate onSubmit={(e) => e.preventDefault()}>
+      <form className="grid grid-cols-1 gap-4 sm:grid-cols-2 md:grid-cols-4 lg:grid-cols-7" noValidate onSubmit={(e) => e.preventDefault()}>
+        <TelescopePicker id="exp-telescopeId" value={values.telescopeId} onChange={pick} telescopes={telescopes} error={err("telescopeId")} customLabel="Custom telescope (aperture below)" />
         <Field label="Band" id="exp-band" error={err("band")}>
           <select {...select("band")} className="input">{BANDS.map((b) => <option key={b}>{b}</option>)}</select>
         </Field>
@@ -100,20 +122,21 @@ export function ExposureTool({ defaults, initial }: { defaults: ExposureForm; in
         <Field label="Moon" id="exp-moonCategory" error={err("moonCategory")}>
           <select {...select("moonCategory")} className="input"><option>dark</option><option>grey</option><option>bright</option></select>
         </Field>
-        <Field label="Aperture (m)" id="exp-telescope.apertureM" error={err("telescope.apertureM")}><input inputMode="decimal" {...input("telescope.apertureM")} /></Field>
-        <Field label="Central obstruction" id="exp-telescope.centralObstruction" error={err("telescope.centralObstruction")} hint="fraction of the diameter"><input inputMode="decimal" {...input("telescope.centralObstruction")} /></Field>
+        <Field label="Aperture (m)" id="exp-telescope.apertureM" error={err("telescope.apertureM")}><input inputMode="decimal" {...scope("telescope.apertureM")} /></Field>
+        <Field label="Central obstruction" id="exp-telescope.centralObstruction" error={err("telescope.centralObstruction")} hint="fraction of the diameter"><input inputMode="decimal" {...scope("telescope.centralObstruction")} /></Field>
         <Field label="Throughput (0–1)" id="exp-instrument.throughput" error={err("instrument.throughput")}><input inputMode="decimal" {...input("instrument.throughput")} /></Field>
         <Field label="Pixel scale (″)" id="exp-instrument.pixelScaleArcsec" error={err("instrument.pixelScaleArcsec")}><input inputMode="decimal" {...input("instrument.pixelScaleArcsec")} /></Field>
         <Field label="Read noise (e⁻)" id="exp-instrument.readNoiseE" error={err("instrument.readNoiseE")}><input inputMode="decimal" {...input("instrument.readNoiseE")} /></Field>
         <Field label="Dark (e⁻/px/s)" id="exp-instrument.darkEPerPixelPerS" error={err("instrument.darkEPerPixelPerS")}><input inputMode="decimal" {...input("instrument.darkEPerPixelPerS")} /></Field>
         <Field label="Full well (e⁻)" id="exp-instrument.fullWellE" error={err("instrument.fullWellE")}><input inputMode="decimal" {...input("instrument.fullWellE")} /></Field>
+        <LiveStatusLine status={live.status} failure={live.failure} other={other} testId="exp-status" />
       </form>
 
       <div className="grid gap-6 md:grid-cols-2">
         <table className="table-base">
           <tbody>
-            <tr><th>Exposure</th><td className="text-lg font-semibold">{fmt(r.exposureSeconds, 1)} s</td></tr>
-            <tr><th>Signal-to-noise</th><td className="text-lg font-semibold">{fmt(r.snr, 1)}</td></tr>
+            <tr><th>Exposure</th><td className="text-lg font-semibold" data-testid="exp-exposure">{fmt(r.exposureSeconds, 1)} s</td></tr>
+            <tr><th>Signal-to-noise</th><td className="text-lg font-semibold" data-testid="exp-snr">{fmt(r.snr, 1)}</td></tr>
             <tr><th>Source in aperture</th><td>{fmt(r.sourceElectrons, 0)} e⁻ ({fmt(r.apertureFraction * 100, 1)} % of the PSF, radius {fmt(r.apertureRadiusArcsec, 2)}″)</td></tr>
             <tr><th>Pixels in aperture</th><td>{fmt(r.pixels, 1)}</td></tr>
             <tr><th>Sky per pixel</th><td>{fmt(r.skyElectronsPerPixel, 1)} e⁻ ({fmt(r.skyMagPerArcsec2, 2)} mag/arcsec²)</td></tr>

@@ -1,14 +1,19 @@
-import { zodResolver } from "@hookform/resolvers/zod";
-import { useForm, type Resolver } from "react-hook-form";
-import { useFetcher } from "react-router";
-import { Bar, BarChart, CartesianGrid, Cell, Line, LineChart, ReferenceArea, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
+import { lazy } from "react";
+import { useForm } from "react-hook-form";
+import { ChartPlaceholder, ClientOnly } from "~/components/ClientOnly";
 import { Field, inputProps } from "~/components/Field";
 import { airmass } from "~/lib/astro/airmass";
-import { visibilityQuerySchema, type VisibilityQuery } from "~/lib/astro/schemas";
 import type { VisibilityJson } from "~/lib/astro/visibility";
-import { MOON_COLOURS, fmt, isApiError, localTime, useLiveForm, useServerIssues, utcTime } from "./live";
+import { LiveStatusLine, TelescopePicker } from "./LiveStatus";
+import { MOON_COLOURS, fmt, isoDateInput, issuesByField, localTime, useLiveApi, utcTime, type SkyTelescope } from "./live";
+
+// recharts is a large chunk: loaded in the browser only, by the pages that draw a chart
+const AltitudeChartLazy = lazy(() => import("./VisibilityCharts").then((m) => ({ default: m.AltitudeChart })));
+const HoursChartLazy = lazy(() => import("./VisibilityCharts").then((m) => ({ default: m.HoursChart })));
 
 export type VisibilityForm = {
+  /** a telescope id, or "custom" for the coordinates below */
+  telescope: string;
   lat: string;
   lon: string;
   elevation: string;
@@ -33,25 +38,56 @@ export type Curve = {
 
 export type VisibilityAnswer = VisibilityJson & { curve?: Curve };
 
-const FIELDS = ["lat", "lon", "elevation", "timeZone", "ra", "dec", "from", "nights", "minAltitude", "maxAirmass", "night"] as const;
+type FieldName = Exclude<keyof VisibilityForm, never>;
+/** The form's fields (also the API's query names) and their names in messages. */
+const NAMES: Record<FieldName, string> = {
+  telescope: "Telescope",
+  lat: "Latitude",
+  lon: "Longitude",
+  elevation: "Elevation",
+  timeZone: "Time zone",
+  ra: "RA",
+  dec: "Dec",
+  from: "First night",
+  nights: "Nights",
+  minAltitude: "Min altitude",
+  maxAirmass: "Max air mass",
+  night: "Night for the chart",
+};
+const SITE_FIELDS = ["lat", "lon", "elevation", "timeZone"] as const;
 
-export function VisibilityTool({ defaults, initial }: { defaults: VisibilityForm; initial: VisibilityAnswer }) {
-  const fetcher = useFetcher<VisibilityAnswer>();
-  const form = useForm<VisibilityForm, unknown, VisibilityQuery>({
-    resolver: zodResolver(visibilityQuerySchema) as unknown as Resolver<VisibilityForm, unknown, VisibilityQuery>,
-    defaultValues: defaults,
-    mode: "onChange",
-  });
-  useLiveForm(form, () => {
-    const raw = form.getValues();
-    const query = new URLSearchParams(Object.entries(raw).filter(([, v]) => v !== ""));
-    fetcher.load(`/api/v1/visibility?${query}`);
-  });
-  useServerIssues(form, fetcher.data, FIELDS);
-  const answer = fetcher.data && !isApiError(fetcher.data) ? fetcher.data : initial;
-  const err = (k: (typeof FIELDS)[number]) => form.formState.errors[k]?.message as string | undefined;
+/** The API request for the form's values: the telescope's id, or the free coordinates. */
+export function visibilityRequest(v: VisibilityForm) {
+  const custom = v.telescope === "custom";
+  const query = new URLSearchParams();
+  for (const [k, value] of Object.entries(v) as [FieldName, string][]) {
+    if (k === "telescope" ? custom : !custom && (SITE_FIELDS as readonly string[]).includes(k)) continue;
+    if (value.trim() !== "") query.set(k, value.trim());
+  }
+  return { method: "GET" as const, url: `/api/v1/visibility?${query}` };
+}
+
+export function VisibilityTool({ defaults, initial, telescopes }: { defaults: VisibilityForm; initial: VisibilityAnswer; telescopes: SkyTelescope[] }) {
+  const form = useForm<VisibilityForm>({ defaultValues: defaults });
+  const values = form.watch();
+  const live = useLiveApi<VisibilityAnswer>(visibilityRequest(values), initial);
+  const { byField, other } = issuesByField(live.issues, NAMES);
+  const answer = live.result;
+  const custom = values.telescope === "custom";
+  const err = (k: FieldName) => byField[k];
+  const input = (k: FieldName) => ({ ...inputProps(`vis-${k}`, err(k)), ...form.register(k) });
+  const site = (k: (typeof SITE_FIELDS)[number]) => ({ ...input(k), readOnly: !custom, className: custom ? "input" : "input bg-slate-100 text-slate-600" });
+  const pick = (id: string) => {
+    const t = telescopes.find((x) => String(x.id) === id);
+    form.setValue("telescope", id);
+    if (t) {
+      form.setValue("lat", String(t.latitudeDeg));
+      form.setValue("lon", String(t.longitudeDeg));
+      form.setValue("elevation", String(t.elevationM));
+      form.setValue("timeZone", t.timeZone);
+    }
+  };
   const tz = answer.site.timeZone;
-  const input = (k: (typeof FIELDS)[number], extra: Record<string, unknown> = {}) => ({ ...inputProps(`vis-${k}`, err(k)), ...form.register(k), ...extra });
 
   return (
     <section className="card space-y-6" aria-labelledby="vis-title">
@@ -61,24 +97,25 @@ export function VisibilityTool({ defaults, initial }: { defaults: VisibilityForm
           Nights from a date at a site: twilight, the windows in which the target stands above the limit in the dark, and the Moon.
         </p>
       </div>
-      <form className="grid grid-cols-2 gap-4 md:grid-cols-4 lg:grid-cols-6" noValidate onSubmit={(e) => e.preventDefault()}>
-        <Field label="Latitude (°, N +)" id="vis-lat" error={err("lat")}><input inputMode="decimal" {...input("lat")} /></Field>
-        <Field label="Longitude (°, E +)" id="vis-lon" error={err("lon")}><input inputMode="decimal" {...input("lon")} /></Field>
-        <Field label="Elevation (m)" id="vis-elevation" error={err("elevation")}><input inputMode="decimal" {...input("elevation")} /></Field>
-        <Field label="Time zone (IANA)" id="vis-timeZone" error={err("timeZone")}><input {...input("timeZone")} /></Field>
+      <form className="grid grid-cols-1 gap-4 sm:grid-cols-2 md:grid-cols-4 lg:grid-cols-6" noValidate onSubmit={(e) => e.preventDefault()}>
+        <TelescopePicker id="vis-telescope" value={values.telescope} onChange={pick} telescopes={telescopes} error={err("telescope")} />
+        <Field label="Latitude (°, N +)" id="vis-lat" error={err("lat")}><input inputMode="decimal" {...site("lat")} /></Field>
+        <Field label="Longitude (°, E +)" id="vis-lon" error={err("lon")}><input inputMode="decimal" {...site("lon")} /></Field>
+        <Field label="Elevation (m)" id="vis-elevation" error={err("elevation")}><input inputMode="decimal" {...site("elevation")} /></Field>
+        <Field label="Time zone (IANA)" id="vis-timeZone" error={err("timeZone")}><input {...site("timeZone")} /></Field>
         <Field label="RA (J2000)" id="vis-ra" error={err("ra")} hint="hh:mm:ss or degrees"><input {...input("ra")} /></Field>
         <Field label="Dec (J2000)" id="vis-dec" error={err("dec")} hint="±dd:mm:ss or degrees"><input {...input("dec")} /></Field>
-        <Field label="First night" id="vis-from" error={err("from")}><input type="date" {...input("from")} /></Field>
+        <Field label="First night" id="vis-from" error={err("from")} hint="YYYY-MM-DD"><input {...isoDateInput} {...input("from")} /></Field>
         <Field label="Nights (1–366)" id="vis-nights" error={err("nights")}><input inputMode="numeric" {...input("nights")} /></Field>
         <Field label="Min altitude (°)" id="vis-minAltitude" error={err("minAltitude")} hint="or leave empty and give an air mass"><input inputMode="decimal" {...input("minAltitude")} /></Field>
         <Field label="Max air mass" id="vis-maxAirmass" error={err("maxAirmass")} hint="Kasten & Young (1989)"><input inputMode="decimal" {...input("maxAirmass")} /></Field>
-        <Field label="Night for the chart" id="vis-night" error={err("night")}><input type="date" {...input("night")} /></Field>
-        <div className="self-end pb-2 text-sm text-slate-500" aria-live="polite">{fetcher.state === "loading" ? "Computing…" : "Up to date"}</div>
+        <Field label="Night for the chart" id="vis-night" error={err("night")} hint="YYYY-MM-DD"><input {...isoDateInput} {...input("night")} /></Field>
+        <LiveStatusLine status={live.status} failure={live.failure} other={other} testId="vis-status" />
       </form>
 
       <Summary answer={answer} />
-      {answer.curve ? <AltitudeChart curve={answer.curve} limit={answer.limit.minAltitudeDeg} timeZone={tz} /> : null}
-      <HoursChart answer={answer} />
+      {answer.curve ? <AltitudeFigure curve={answer.curve} limit={answer.limit.minAltitudeDeg} timeZone={tz} /> : null}
+      <HoursFigure answer={answer} />
       <NightsTable answer={answer} />
     </section>
   );
@@ -105,13 +142,7 @@ function Summary({ answer }: { answer: VisibilityAnswer }) {
   );
 }
 
-function AltitudeChart({ curve, limit, timeZone }: { curve: Curve; limit: number; timeZone: string }) {
-  const data = curve.points.map((p) => ({ t: Date.parse(p.time), target: p.targetAltDeg, sun: p.sunAltDeg, moon: p.moonAltDeg }));
-  const first = data[0]?.t ?? 0;
-  const last = data[data.length - 1]?.t ?? 0;
-  const darkStart = curve.darkStart ? Date.parse(curve.darkStart) : null;
-  const darkEnd = curve.darkEnd ? Date.parse(curve.darkEnd) : null;
-  const tick = (t: number) => `${new Date(t).toISOString().slice(11, 16)}`;
+function AltitudeFigure({ curve, limit, timeZone }: { curve: Curve; limit: number; timeZone: string }) {
   const rows = curve.points.filter((_, i) => i % 3 === 0);
   return (
     <figure className="space-y-3">
@@ -119,27 +150,9 @@ function AltitudeChart({ curve, limit, timeZone }: { curve: Curve; limit: number
         Altitude on the night of {curve.date} (UTC on the axis; shaded: twilight and day, Sun above −18°; dashed: altitude limit {fmt(limit, 1)}°)
       </figcaption>
       <div className="h-72 w-full">
-        <ResponsiveContainer width="100%" height="100%">
-          <LineChart data={data} margin={{ top: 8, right: 16, bottom: 8, left: 0 }}>
-            <CartesianGrid stroke="#e2e8f0" />
-            <XAxis dataKey="t" type="number" domain={[first, last]} tickFormatter={tick} scale="time" />
-            <YAxis domain={[-20, 90]} allowDataOverflow ticks={[-18, 0, 15, 30, 45, 60, 75, 90]} unit="°" />
-            {darkStart === null || darkEnd === null ? (
-              <ReferenceArea x1={first} x2={last} fill="#fbefdc" fillOpacity={0.8} />
-            ) : (
-              <>
-                <ReferenceArea x1={first} x2={darkStart} fill="#fbefdc" fillOpacity={0.8} />
-                <ReferenceArea x1={darkEnd} x2={last} fill="#fbefdc" fillOpacity={0.8} />
-              </>
-            )}
-            <ReferenceLine y={limit} stroke="#b91c1c" strokeDasharray="6 4" />
-            <ReferenceLine y={0} stroke="#64748b" />
-            <Tooltip labelFormatter={(t) => `${tick(Number(t))} UTC · ${localTime(new Date(Number(t)).toISOString(), timeZone)} local`} formatter={(v) => `${fmt(Number(v), 1)}°`} />
-            <Line type="monotone" dataKey="target" name="Target" stroke="#1e3a5f" strokeWidth={2.5} dot={false} isAnimationActive={false} />
-            <Line type="monotone" dataKey="moon" name="Moon" stroke="#8a9bb0" strokeDasharray="4 3" strokeWidth={2} dot={false} isAnimationActive={false} />
-            <Line type="monotone" dataKey="sun" name="Sun" stroke="#d98e2b" strokeWidth={2} dot={false} isAnimationActive={false} />
-          </LineChart>
-        </ResponsiveContainer>
+        <ClientOnly fallback={<ChartPlaceholder className="h-72 w-full" />}>
+          <AltitudeChartLazy curve={curve} limit={limit} timeZone={timeZone} />
+        </ClientOnly>
       </div>
       <p className="text-xs text-slate-500">
         <span className="font-semibold text-night-800">━ target</span> · <span className="font-semibold text-slate-500">┅ Moon</span> ·{" "}
@@ -169,25 +182,14 @@ function AltitudeChart({ curve, limit, timeZone }: { curve: Curve; limit: number
   );
 }
 
-function HoursChart({ answer }: { answer: VisibilityAnswer }) {
-  const data = answer.summary.hoursPerNight;
+function HoursFigure({ answer }: { answer: VisibilityAnswer }) {
   return (
     <figure className="space-y-2">
       <figcaption className="text-sm font-semibold text-night-900">Observable hours per night, coloured by moon category</figcaption>
       <div className="h-56 w-full">
-        <ResponsiveContainer width="100%" height="100%">
-          <BarChart data={data} margin={{ top: 8, right: 16, bottom: 8, left: 0 }} barCategoryGap={0}>
-            <CartesianGrid stroke="#e2e8f0" vertical={false} />
-            <XAxis dataKey="date" tickFormatter={(d: string) => d.slice(5)} minTickGap={24} />
-            <YAxis unit=" h" />
-            <Tooltip formatter={(v) => `${fmt(Number(v), 2)} h`} />
-            <Bar dataKey="hours" isAnimationActive={false}>
-              {data.map((d) => (
-                <Cell key={d.date} fill={MOON_COLOURS[d.moonCategory]} />
-              ))}
-            </Bar>
-          </BarChart>
-        </ResponsiveContainer>
+        <ClientOnly fallback={<ChartPlaceholder className="h-56 w-full" />}>
+          <HoursChartLazy data={answer.summary.hoursPerNight} />
+        </ClientOnly>
       </div>
       <p className="flex gap-4 text-xs text-slate-600">
         {(["dark", "grey", "bright"] as const).map((c) => (

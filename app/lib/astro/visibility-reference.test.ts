@@ -11,22 +11,42 @@
 // - presence of every event and the number of windows: exact;
 // - Moon's illuminated fraction 0.015 (astropy's ephemeris and the elongation form of the
 //   phase angle), Moon altitude 0.1°, Moon–target separation 0.05°.
+import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
-import reference from "../../../tests/fixtures/visibility-reference.json" with { type: "json" };
-import { prepareSiteNights, targetNights, type Site } from "./visibility";
+import { z } from "zod";
+import { prepareSiteNights, targetNights } from "./visibility";
 
-type RefNight = {
-  date: string;
-  sunset: string | null;
-  sunrise: string | null;
-  darkStart: string | null;
-  darkEnd: string | null;
-  moonIllumination: number;
-  moonAltitudeDeg: number;
-  targets: Record<string, { moonSeparationDeg: number; windows: [string, string][] }>;
-};
-type RefSite = Site & { id: string; nights: RefNight[] };
-const ref = reference as unknown as { firstNight: string; nights: number; astropy: string; targets: { id: string; raDeg: number; decDeg: number }[]; sites: RefSite[] };
+// The 1.8 MB fixture is read at run time (importing it made tsc type the whole literal on every
+// typecheck); its shape is checked here instead.
+const isoOrNull = z.string().nullable();
+const refNight = z.object({
+  date: z.string(),
+  sunset: isoOrNull,
+  sunrise: isoOrNull,
+  darkStart: isoOrNull,
+  darkEnd: isoOrNull,
+  moonIllumination: z.number(),
+  moonAltitudeDeg: z.number(),
+  targets: z.record(z.string(), z.object({ moonSeparationDeg: z.number(), windows: z.array(z.tuple([z.string(), z.string()])) })),
+});
+const referenceSchema = z.object({
+  firstNight: z.string(),
+  nights: z.number(),
+  astropy: z.string(),
+  targets: z.array(z.object({ id: z.string(), raDeg: z.number(), decDeg: z.number() })),
+  sites: z.array(
+    z.object({
+      id: z.string(),
+      latitudeDeg: z.number(),
+      longitudeDeg: z.number(),
+      elevationM: z.number(),
+      timeZone: z.string(),
+      nights: z.array(refNight),
+    }),
+  ),
+});
+const fixture = new URL("../../../tests/fixtures/visibility-reference.json", import.meta.url);
+const ref = referenceSchema.parse(JSON.parse(readFileSync(fixture, "utf8")));
 
 const ms = (s: string | null) => (s === null ? null : Date.parse(s));
 

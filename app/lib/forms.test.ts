@@ -1,0 +1,28 @@
+// plainIssue: one field name per message, in words (issue 8: "dec: Dec: must…").
+import { describe, expect, it } from "vitest";
+import { plainIssue } from "./forms";
+
+describe("plainIssue", () => {
+  it("names the field once when the parser's label and the path were both put in front", () => {
+    expect(plainIssue("dec: Dec: must be in the range −90 ≤ Dec ≤ +90 degrees", { field: "dec", name: "Dec" })).toBe("Dec must be in the range −90 ≤ Dec ≤ +90 degrees");
+    expect(plainIssue("Dec: must be in the range −90 ≤ Dec ≤ +90 degrees", { field: "dec", name: "Dec" })).toBe("Dec must be in the range −90 ≤ Dec ≤ +90 degrees");
+    expect(plainIssue("RA: hours must be 0–23", { field: "ra", name: "RA" })).toBe("RA hours must be 0–23");
+    expect(plainIssue("Dec: not a declination (use ±dd:mm:ss.s)", { field: "target.dec", name: "Dec" })).toBe("Not a declination (use ±dd:mm:ss.s)");
+  });
+
+  it("turns API field ids into the form's words", () => {
+    expect(plainIssue("maxAirmass must be at most 10", { field: "maxAirmass", name: "Max air mass" })).toBe("Max air mass must be at most 10");
+    expect(plainIssue("give minAltitude or maxAirmass, not both", { field: "maxAirmass", name: "max air mass", names: { minAltitude: "min altitude" } })).toBe(
+      "Give min altitude or max air mass, not both",
+    );
+  });
+
+  it("says which field a bare message is about", () => {
+    expect(plainIssue("must be a calendar date YYYY-MM-DD", { field: "from", name: "First night" })).toBe("First night must be a calendar date YYYY-MM-DD");
+    expect(plainIssue("date is required (YYYY-MM-DD)", { field: "firstDate", name: "First date" })).toBe("First date is required (YYYY-MM-DD)");
+  });
+
+  it("leaves a message that already reads well alone", () => {
+    expect(plainIssue("Give the band of the magnitude.", { field: "band", name: "Band" })).toBe("Give the band of the magnitude.");
+  });
+});
