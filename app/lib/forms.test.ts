@@ -1,6 +1,6 @@
 // plainIssue: one field name per message, in words (issue 8: "dec: Dec: must…").
 import { describe, expect, it } from "vitest";
-import { plainIssue } from "./forms";
+import { issueLine, plainIssue } from "./forms";
 
 describe("plainIssue", () => {
   it("names the field once when the parser's label and the path were both put in front", () => {
@@ -24,5 +24,12 @@ describe("plainIssue", () => {
 
   it("leaves a message that already reads well alone", () => {
     expect(plainIssue("Give the band of the magnitude.", { field: "band", name: "Band" })).toBe("Give the band of the magnitude.");
+  });
+});
+
+describe("issueLine", () => {
+  it("puts the field in front only when the message does not name it already", () => {
+    expect(issueLine("dec", "Dec: must be in the range −90 ≤ Dec ≤ +90 degrees")).toBe("Dec must be in the range −90 ≤ Dec ≤ +90 degrees");
+    expect(issueLine("name", 'duplicate: "A" is already on line 2')).toBe('name: Duplicate: "A" is already on line 2');
   });
 });

@@ -41,7 +41,11 @@ export function plainIssue(message: string, opts: { field?: string; name?: strin
     const stripped = text.replace(prefix, "");
     if (stripped !== text) text = /^not\b/.test(stripped) ? stripped : /^required\b/.test(stripped) ? `${name} is ${stripped}` : `${name} ${stripped}`;
   }
-  const names: Record<string, string> = { ...opts.names, ...(leaf && name !== leaf ? { [leaf]: name } : {}) };
+  // the field's own id as the subject ("maxAirmass must …"); other ids wherever they stand
+  if (leaf && name !== leaf) text = text.replace(new RegExp(`^${escape(leaf)}(?![\\w])`), name);
+  const names: Record<string, string> = { ...opts.names };
+  // a camelCase id is no English word: safe to replace wherever it stands
+  if (/[A-Z]/.test(leaf) && name !== leaf) names[leaf] ??= name.toLowerCase();
   for (const id of Object.keys(names).sort((a, b) => b.length - a.length)) {
     text = text.replace(new RegExp(`(^|[^\\w.])${escape(id)}(?![\\w])`, "g"), (_m, before: string) => `${before}${names[id]}`);
   }
@@ -49,4 +53,11 @@ export function plainIssue(message: string, opts: { field?: string; name?: strin
   if (/^(must|should)\b/.test(text)) text = `${name} ${text}`;
   else if (/^date is required\b/.test(text) && name) text = text.replace(/^date/, name);
   return text.charAt(0).toUpperCase() + text.slice(1);
+}
+
+/** "field: message" for a list of problems, without naming the field twice (`dec: Dec: must…` → `Dec must…`). */
+export function issueLine(field: string, message: string): string {
+  const text = plainIssue(message, { field, name: field });
+  const leaf = field.split(".").pop() ?? field;
+  return !leaf || text.toLowerCase().startsWith(leaf.toLowerCase()) ? text : `${field}: ${text}`;
 }

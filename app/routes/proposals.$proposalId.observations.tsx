@@ -7,7 +7,7 @@ import { Field, inputProps } from "~/components/Field";
 import { fixed, useWorkspace } from "~/components/workspace";
 import { requireUser } from "~/lib/auth.server";
 import { moonCategories } from "~/lib/domain";
-import { fieldErrors } from "~/lib/forms";
+import { fieldErrors, issueLine } from "~/lib/forms";
 import { createObservation, deleteObservation, listObservations, updateObservation } from "~/lib/proposal-observations.server";
 import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
 import { listTargets } from "~/lib/proposal-targets.server";
@@ -138,7 +138,7 @@ function LiveSummary({ values, data: d }: { values: FormShape; data: Data }) {
       {"missing" in request ? (
         <p className="text-sm text-slate-600">{request.missing}</p>
       ) : answer?.error ? (
-        <p role="alert" className="text-sm text-red-800">{answer.issues?.length ? answer.issues.map((i) => `${i.path}: ${i.message}`).join("; ") : answer.error}</p>
+        <p role="alert" className="text-sm text-red-800">{answer.issues?.length ? answer.issues.map((i) => issueLine(i.path, i.message)).join("; ") : answer.error}</p>
       ) : answer?.exposureSeconds !== undefined ? (
         <dl className={`grid grid-cols-2 gap-x-4 gap-y-1 text-sm ${stale ? "opacity-60" : ""}`}>
           <dt className="text-slate-600">Exposure per frame</dt>

@@ -6,7 +6,7 @@ import { Field, inputProps } from "~/components/Field";
 import { fixed, useWorkspace } from "~/components/workspace";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
 import { requireUser } from "~/lib/auth.server";
-import { fieldErrors } from "~/lib/forms";
+import { fieldErrors, issueLine } from "~/lib/forms";
 import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
 import { createTarget, deleteTarget, importTargetsCsv, listTargets } from "~/lib/proposal-targets.server";
 import { updateTarget } from "~/lib/proposal-targets.server";
@@ -205,7 +205,7 @@ function CsvImport() {
                         <span className="text-emerald-800">accepted</span>
                       ) : (
                         <ul className="text-red-800">
-                          {r.problems.map((p, i) => <li key={i}><strong>{p.field}</strong>: {p.message}</li>)}
+                          {r.problems.map((p, i) => <li key={i}>{issueLine(p.field, p.message)}</li>)}
                         </ul>
                       )}
                     </td>

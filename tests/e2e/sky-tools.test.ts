@@ -56,7 +56,7 @@ describe("Sky tools", () => {
     const picker = page.locator("#vis-telescope");
     expect(await picker.inputValue()).toBe(String(telescopes[0].id));
     const options = await picker.locator("option").allTextContents();
-    expect(options).toEqual([...telescopes.map((t) => `${t.name} (${t.siteName}, ${t.apertureM} m)`), "Custom site (coordinates below)"]);
+    expect(options).toEqual([...telescopes.map((t) => `${t.name} · ${t.siteName}`), "Custom site (coordinates below)"]);
     expect(await page.locator("#vis-lat").inputValue()).toBe(String(telescopes[0].latitudeDeg));
     expect(await statusOf(page, "vis-status")).toBe("current");
 

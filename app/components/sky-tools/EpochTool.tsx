@@ -170,7 +170,7 @@ export function EpochTool({ defaults, initial, telescopes }: { defaults: EpochFo
       {movedP ? (
         <p className="rounded border border-dusk-400 bg-dusk-100 px-3 py-2 text-sm" role="status" data-testid="ep-moved">
           With your moved epochs: σ(μα*) {fmt(movedP.properMotionPrecisionMasPerYr.ra, 3)}, σ(μδ) {fmt(movedP.properMotionPrecisionMasPerYr.dec, 3)} mas/yr, σ(ϖ){" "}
-          {fmt(movedP.parallaxPrecisionMas, 3)} mas {movedP.determined ? "" : "(these dates cannot separate the parameters)"}.{" "}
+          {fmt(movedP.parallaxPrecisionMas, 3)} mas{movedP.determined ? "" : " (these dates cannot separate the parameters)"}.{" "}
           <button type="button" className="btn-quiet" onClick={() => setMoved(null)}>
             Back to the plan
           </button>

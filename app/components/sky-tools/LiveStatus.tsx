@@ -28,7 +28,7 @@ export function TelescopePicker({
   id: string;
   value: string;
   onChange: (v: string) => void;
-  telescopes: { id: number; name: string; siteName: string; apertureM: number }[];
+  telescopes: { id: number; name: string; siteName: string }[];
   error?: string;
   customLabel?: string;
 }) {
@@ -38,7 +38,7 @@ export function TelescopePicker({
       <select id={id} className="input" value={value} onChange={(e) => onChange(e.target.value)} aria-invalid={error ? true : undefined} aria-describedby={error ? `${id}-error` : undefined}>
         {telescopes.map((t) => (
           <option key={t.id} value={String(t.id)}>
-            {t.name} ({t.siteName}, {t.apertureM} m)
+            {t.name} · {t.siteName}
           </option>
         ))}
         <option value="custom">{customLabel}</option>

@@ -33,7 +33,9 @@ const referenceSchema = z.object({
   firstNight: z.string(),
   nights: z.number(),
   astropy: z.string(),
-  targets: z.array(z.object({ id: z.string(), raDeg: z.number(), decDeg: z.number() })),
+  targets: z.array(
+    z.object({ id: z.string(), raDeg: z.number(), decDeg: z.number(), pmRaCosDecMasPerYr: z.number().optional(), pmDecMasPerYr: z.number().optional() }).strict(),
+  ),
   sites: z.array(
     z.object({
       id: z.string(),
