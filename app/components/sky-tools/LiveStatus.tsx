@@ -33,7 +33,7 @@ export function TelescopePicker({
   customLabel?: string;
 }) {
   return (
-    <div className="col-span-2">
+    <div className="col-span-full sm:col-span-2">
       <label htmlFor={id}>Telescope</label>
       <select id={id} className="input" value={value} onChange={(e) => onChange(e.target.value)} aria-invalid={error ? true : undefined} aria-describedby={error ? `${id}-error` : undefined}>
         {telescopes.map((t) => (
