@@ -1,20 +1,19 @@
-// Serves the production build: `tsx app/cli/serve.ts` (the start command runs it for you).
-import { createHttpApp, loadBuild } from "./http-app";
-import { loadEnvFiles } from "./load-env";
-import { repoRoot } from "./services";
+// `npm run serve`: the production entry. It serves the built app (`npm run build` first) against
+// the services named by the environment. It reads no .env file (never .env.example), starts no
+// database or fake, runs no migration, and refuses to start with a missing or malformed variable
+// or with a secret published in .env.example — naming the variable, exit code 1.
+import { parseProductionEnv } from "../lib/env";
 
-loadEnvFiles();
-process.env.NODE_ENV ??= "production";
-const host = process.env.HOST ?? "127.0.0.1";
-const port = Number(process.env.PORT ?? 3000);
-
-const { build, clientDir } = await loadBuild(repoRoot);
-const app = createHttpApp({ build, clientDir, trustProxy: process.env.TRUST_PROXY === "1" });
-const server = app.listen(port, host, () => console.log(`[app] listening on http://${host}:${port}`));
-server.on("error", (error) => {
-  console.error(`[app] cannot listen on ${host}:${port}: ${error.message}`);
+if (process.env.NODE_ENV && process.env.NODE_ENV !== "production") {
+  console.error(`[serve] NODE_ENV is "${process.env.NODE_ENV}": npm run serve is the production entry (leave NODE_ENV unset or "production"; use npm start locally).`);
   process.exit(1);
-});
-for (const signal of ["SIGINT", "SIGTERM"] as const) {
-  process.on(signal, () => server.close(() => process.exit(0)));
 }
+process.env.NODE_ENV = "production";
+try {
+  parseProductionEnv(process.env);
+} catch (error) {
+  console.error(`[serve] ${error instanceof Error ? error.message : error}`);
+  process.exit(1);
+}
+const { serveBuild } = await import("./listen");
+await serveBuild();

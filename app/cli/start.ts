@@ -88,7 +88,7 @@ try {
     console.log("[start] building the app");
     const build = spawnSync(bin("react-router"), ["build"], { stdio: "inherit", cwd: repoRoot });
     if (build.status !== 0) throw new Error("The build failed.");
-    app = spawn(bin("tsx"), [path.join(repoRoot, "app/cli/serve.ts")], { stdio: "inherit", cwd: repoRoot });
+    app = spawn(bin("tsx"), [path.join(repoRoot, "app/cli/serve-local.ts")], { stdio: "inherit", cwd: repoRoot });
   }
   app.once("exit", (code) => {
     if (!stopping) {

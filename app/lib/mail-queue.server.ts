@@ -23,7 +23,7 @@ export function mailTransport() {
 
 /** Queues a message; it is sent by the worker, so a mail outage never loses it. */
 export async function enqueueMail(
-  message: { to: string; subject: string; text: string; html?: string; attachments?: MailAttachment[] },
+  message: { to: string; subject: string; text: string; html?: string; attachments?: MailAttachment[]; expiresAt?: Date },
   transaction?: Transaction,
 ) {
   const row = await OutgoingMail.create(
@@ -37,6 +37,7 @@ export async function enqueueMail(
       lastError: null,
       messageId: null,
       sentAt: null,
+      expiresAt: message.expiresAt ?? null,
     },
     { transaction },
   );
@@ -66,6 +67,10 @@ export async function drainMailQueue({ limit = 50, send = (m: SendMailOptions): 
       if (rows.length === 0) return "empty" as const;
       const mail = await OutgoingMail.findByPk(rows[0].id, { transaction });
       if (!mail) return "empty" as const;
+      if (mail.expiresAt && mail.expiresAt.getTime() <= Date.now()) {
+        await mail.update({ status: "failed", lastError: `expired at ${mail.expiresAt.toISOString()} before it could be sent` }, { transaction });
+        return "failed" as const;
+      }
       try {
         const info = await send({
           from: env.MAIL_FROM,
@@ -83,12 +88,15 @@ export async function drainMailQueue({ limit = 50, send = (m: SendMailOptions): 
         return "sent" as const;
       } catch (error) {
         const attempts = mail.attempts + 1;
+        const nextAttemptAt = new Date(Date.now() + retryDelayMs(attempts));
+        // A message with a lifetime (a sign-in code) is given up rather than retried past it.
+        const expires = mail.expiresAt !== null && nextAttemptAt.getTime() >= mail.expiresAt.getTime();
         await mail.update(
           {
             attempts,
-            lastError: error instanceof Error ? error.message : String(error),
-            status: attempts >= MAX_MAIL_ATTEMPTS ? "failed" : "pending",
-            nextAttemptAt: new Date(Date.now() + retryDelayMs(attempts)),
+            lastError: (error instanceof Error ? error.message : String(error)) + (expires ? " (given up: it would arrive after it expires)" : ""),
+            status: attempts >= MAX_MAIL_ATTEMPTS || expires ? "failed" : "pending",
+            nextAttemptAt,
           },
           { transaction },
         );

@@ -1,5 +1,6 @@
 // The team of a proposal: Co-Is invited by address (mailed through the queue), removed, and the
-// PI role handed over. Invitations are claimed when the invitee signs in with that address.
+// PI role handed over. An invitation to an existing account is theirs at once; one to a new address
+// is claimed when the invitee signs in with it (never by a read).
 import { writeAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
 import { enqueueMail } from "~/lib/mail-queue.server";
@@ -35,7 +36,11 @@ export async function inviteCoI({ user, proposalId, email }: { user: Actor; prop
     if ((await ProposalMember.count({ where: { proposalId }, transaction })) >= MAX_TEAM_SIZE) {
       throw new ProposalRefused(`A team has at most ${MAX_TEAM_SIZE} members.`, 400, "email");
     }
-    const member = await ProposalMember.create({ proposalId, userId: null, email: address, role: "coi", acceptedAt: null }, { transaction });
+    const account = await User.findOne({ where: { email: address }, transaction });
+    const member = await ProposalMember.create(
+      { proposalId, userId: account?.id ?? null, email: address, role: "coi", acceptedAt: account ? new Date() : null },
+      { transaction },
+    );
     const inviter = await User.findByPk(user.id, { transaction });
     const who = inviter?.name ? `${inviter.name} (${inviter.email})` : user.email;
     const link = new URL(`/proposals/${proposalId}`, env.APP_URL).toString();

@@ -1,6 +1,6 @@
 // The PI's proposals: every function takes one typed object and is scoped by the caller. A user
-// sees a proposal only through a membership (by user id, or by the invited address until the
-// first visit claims it); for anyone else the proposal does not exist (404, never 403).
+// sees a proposal only through a membership (by user id, or by the invited address until sign-in
+// claims it); for anyone else the proposal does not exist (404, never 403).
 import { data } from "react-router";
 import { Op, QueryTypes, type Transaction } from "sequelize";
 import type { SessionUser } from "~/lib/auth.server";
@@ -34,7 +34,7 @@ export function membershipWhere(user: Actor) {
   return { [Op.or]: [{ userId: user.id }, { userId: null, email: user.email.toLowerCase() }] };
 }
 
-/** Invitations to this address become the user's on their first visit. */
+/** Invitations to this address become the user's: called at sign-in, never by a loader. */
 export async function claimInvitations({ user }: { user: Actor }) {
   const [claimed] = await ProposalMember.update(
     { userId: user.id, acceptedAt: new Date() },
@@ -69,7 +69,6 @@ export async function getProposalForUser({
   lock?: boolean;
 }): Promise<Access> {
   if (!Number.isSafeInteger(proposalId) || proposalId <= 0) notFound();
-  if (!transaction) await claimInvitations({ user });
   const membership = await ProposalMember.findOne({ where: { proposalId, ...membershipWhere(user) }, transaction });
   if (!membership) notFound();
   const proposal = await Proposal.findByPk(proposalId, { transaction, lock: lock && transaction ? transaction.LOCK.UPDATE : undefined });
@@ -110,9 +109,8 @@ export type ProposalSummary = {
 };
 
 export async function listProposalsForUser({ user }: { user: Actor }): Promise<ProposalSummary[]> {
-  await claimInvitations({ user });
   const memberships = await ProposalMember.findAll({
-    where: { userId: user.id },
+    where: membershipWhere(user),
     include: [{ model: Proposal, as: "proposal", include: [{ model: Call, as: "call" }] }],
   });
   const ids = memberships.map((m) => m.proposalId);

@@ -20,6 +20,8 @@ export class OutgoingMail extends Model<InferAttributes<OutgoingMail>, InferCrea
   declare lastError: string | null;
   declare messageId: string | null;
   declare sentAt: Date | null;
+  /** After this the message is useless (a sign-in code): given up instead of retried. */
+  declare expiresAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -38,6 +40,7 @@ export class OutgoingMail extends Model<InferAttributes<OutgoingMail>, InferCrea
         lastError: DataTypes.TEXT,
         messageId: DataTypes.STRING(300),
         sentAt: DataTypes.DATE(3),
+        expiresAt: DataTypes.DATE(3),
         createdAt: DataTypes.DATE(3),
         updatedAt: DataTypes.DATE(3),
       },

@@ -11,7 +11,8 @@ import { PlannedEpoch } from "./PlannedEpoch";
 import { Proposal } from "./Proposal";
 import { ProposalMember } from "./ProposalMember";
 import { RoleGrant } from "./RoleGrant";
-import { SignInCode, SignInRequest } from "./SignIn";
+import { UserSession } from "./Session";
+import { RateLimitKey, SignInCode, SignInRequest } from "./SignIn";
 import { StoredFile } from "./StoredFile";
 import { Target } from "./Target";
 import { Telescope } from "./Telescope";
@@ -20,12 +21,14 @@ import { User } from "./User";
 for (const model of [
   User, RoleGrant, Telescope, Instrument, Filter, Call, CallOffer, Proposal, ProposalMember,
   Target, Observation, PlannedEpoch, StoredFile, OutgoingMail, AuditEntry, SignInRequest,
-  SignInCode, PaymentEvent,
+  SignInCode, PaymentEvent, UserSession, RateLimitKey,
 ]) {
   model.initModel(sequelize);
 }
 
 User.hasMany(RoleGrant, { foreignKey: "userId", as: "roleGrants" });
+User.hasMany(UserSession, { foreignKey: "userId", as: "sessions" });
+UserSession.belongsTo(User, { foreignKey: "userId", as: "user" });
 RoleGrant.belongsTo(User, { foreignKey: "userId", as: "user" });
 RoleGrant.belongsTo(User, { foreignKey: "grantedById", as: "grantedBy" });
 
@@ -64,5 +67,5 @@ AuditEntry.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" });
 export {
   sequelize, AuditEntry, Call, CallOffer, Filter, Instrument, Observation, OutgoingMail,
   PaymentEvent, PlannedEpoch, Proposal, ProposalMember, RoleGrant, SignInCode, SignInRequest,
-  StoredFile, Target, Telescope, User,
+  StoredFile, Target, Telescope, User, UserSession, RateLimitKey,
 };

@@ -12,8 +12,8 @@ import { useMemo, useState } from "react";
 import { data, useFetcher } from "react-router";
 import { requireRole } from "~/lib/auth.server";
 import { fieldErrors } from "~/lib/forms";
-import { roleChangeSchema } from "~/lib/schemas/roles";
-import { changeRole, listUsersWithRoles, RoleChangeRefused } from "~/lib/users.server";
+import { adminUserActionSchema } from "~/lib/schemas/roles";
+import { changeRole, listUsersWithRoles, RoleChangeRefused, signOutEverywhere } from "~/lib/users.server";
 import { grantableRoles, type GrantableRole } from "~/lib/domain";
 import type { Route } from "./+types/admin.users";
 
@@ -28,9 +28,13 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const actor = await requireRole(request, "admin");
-  const parsed = roleChangeSchema.safeParse(Object.fromEntries(await request.formData()));
+  const parsed = adminUserActionSchema.safeParse(Object.fromEntries(await request.formData()));
   if (!parsed.success) return data({ ok: false as const, errors: fieldErrors(parsed.error) }, { status: 400 });
   try {
+    if (parsed.data.intent === "sign-out-everywhere") {
+      const result = await signOutEverywhere({ actor, userId: parsed.data.userId });
+      return { ok: true as const, ...result, ...parsed.data };
+    }
     const result = await changeRole({ actor, ...parsed.data });
     return { ok: true as const, ...result, ...parsed.data };
   } catch (error) {
@@ -65,6 +69,36 @@ function RoleToggle({ user, role, self }: { user: UserRow; role: GrantableRole; 
         {role}
       </button>
       {error ? <span role="alert" className="ml-1 text-xs text-red-700">{error}</span> : null}
+    </fetcher.Form>
+  );
+}
+
+function SignOutEverywhere({ user }: { user: UserRow }) {
+  const fetcher = useFetcher<typeof action>();
+  const done = fetcher.data?.ok && "sessionsEnded" in fetcher.data ? fetcher.data : null;
+  const error = fetcher.data && !fetcher.data.ok ? Object.values(fetcher.data.errors)[0] : null;
+  const sessions = done ? 0 : user.activeSessions;
+  return (
+    <fetcher.Form
+      method="post"
+      className="flex flex-wrap items-center gap-2"
+      onSubmit={(event) => {
+        if (!window.confirm(`Sign ${user.email} out of every browser? They can sign in again with a new code.`)) event.preventDefault();
+      }}
+    >
+      <input type="hidden" name="userId" value={user.id} />
+      <input type="hidden" name="intent" value="sign-out-everywhere" />
+      <span className="text-xs text-slate-600">{sessions === 1 ? "1 session" : `${sessions} sessions`}</span>
+      <button
+        type="submit"
+        className="btn-quiet text-xs"
+        aria-label={`Sign ${user.email} out everywhere`}
+        disabled={fetcher.state !== "idle"}
+      >
+        Sign this person out everywhere
+      </button>
+      {done ? <span role="status" className="text-xs text-emerald-700">Signed out ({done.sessionsEnded} ended)</span> : null}
+      {error ? <span role="alert" className="text-xs text-red-700">{error}</span> : null}
     </fetcher.Form>
   );
 }
@@ -105,6 +139,10 @@ export default function AdminUsers({ loaderData }: Route.ComponentProps) {
           </div>
         ),
       }),
+      column.accessor("activeSessions", {
+        header: "Signed in",
+        cell: (info) => <SignOutEverywhere user={info.row.original} />,
+      }),
     ],
     [actorId],
   );
@@ -126,8 +164,8 @@ export default function AdminUsers({ loaderData }: Route.ComponentProps) {
       <div>
         <h1>People and roles</h1>
         <p className="mt-1 text-sm text-slate-600">
-          Every account can propose. Reviewer, chair and admin are granted separately; none implies another. Each change is
-          written to the audit log.
+          Every account can propose. Reviewer, chair and admin are granted separately; none implies another. Changing a
+          person&apos;s roles signs them out of every browser. Each change is written to the audit log.
         </p>
       </div>
       <div className="flex flex-wrap items-end gap-4">

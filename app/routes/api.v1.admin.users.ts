@@ -1,8 +1,8 @@
 import { data } from "react-router";
 import { requireRole } from "~/lib/auth.server";
 import { apiIssues } from "~/lib/forms";
-import { roleChangeSchema } from "~/lib/schemas/roles";
-import { changeRole, listUsersWithRoles, RoleChangeRefused } from "~/lib/users.server";
+import { adminUserActionSchema } from "~/lib/schemas/roles";
+import { changeRole, listUsersWithRoles, RoleChangeRefused, signOutEverywhere } from "~/lib/users.server";
 import type { Route } from "./+types/api.v1.admin.users";
 
 export async function loader({ request }: Route.LoaderArgs) {
@@ -10,7 +10,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   return data({ users: await listUsersWithRoles() });
 }
 
-/** POST `{ intent: "grant" | "revoke", userId, role }` as JSON. */
+/** POST `{ intent: "grant" | "revoke", userId, role }` or `{ intent: "sign-out-everywhere", userId }` as JSON. */
 export async function action({ request }: Route.ActionArgs) {
   const actor = await requireRole(request, "admin");
   let body: unknown;
@@ -19,9 +19,10 @@ export async function action({ request }: Route.ActionArgs) {
   } catch {
     return data({ error: "The body must be JSON.", issues: [{ path: "(body)", message: "Send a JSON object." }] }, { status: 400 });
   }
-  const parsed = roleChangeSchema.safeParse(body);
+  const parsed = adminUserActionSchema.safeParse(body);
   if (!parsed.success) return data(apiIssues(parsed.error), { status: 400 });
   try {
+    if (parsed.data.intent === "sign-out-everywhere") return data(await signOutEverywhere({ actor, userId: parsed.data.userId }));
     return data(await changeRole({ actor, ...parsed.data }));
   } catch (error) {
     if (error instanceof RoleChangeRefused) {

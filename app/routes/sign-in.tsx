@@ -2,16 +2,15 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import { useForm } from "react-hook-form";
 import { data, Form, redirect, useActionData, useNavigation, useSubmit } from "react-router";
 import { Field, inputProps } from "~/components/Field";
+import { getSessionUser } from "~/lib/auth.server";
 import {
   CODE_LIFETIME_SECONDS,
-  getSessionUser,
-  rateLimitMessage,
+  pendingCodeFor,
+  restartSignIn,
   safeRedirectTo,
   sendSignInCode,
-  totpStateFromRequest,
   verifySignInCode,
-  clientIp,
-} from "~/lib/auth.server";
+} from "~/lib/sign-in.server";
 import { fieldErrors } from "~/lib/forms";
 import { codeSchema, emailSchema } from "~/lib/schemas/auth";
 import { getSession, sessionStorage } from "~/lib/session.server";
@@ -25,14 +24,15 @@ export async function loader({ request }: Route.LoaderArgs) {
   const url = new URL(request.url);
   const redirectTo = safeRedirectTo(url.searchParams.get("redirectTo"));
   if (await getSessionUser(request)) throw redirect(redirectTo);
-  const totp = totpStateFromRequest(request);
+  // The address shown is the one the server mailed the code to, never one the browser sends.
+  const pending = await pendingCodeFor(request);
   const session = await getSession(request);
   const flash = session.get("flash");
   return data(
     {
-      step: totp.hasCode ? ("code" as const) : ("email" as const),
-      email: totp.email ?? "",
-      error: flash ?? totp.error ?? null,
+      step: pending?.usable ? ("code" as const) : ("email" as const),
+      email: pending?.email ?? "",
+      error: flash ?? null,
       redirectTo,
       minutes: CODE_LIFETIME_SECONDS / 60,
     },
@@ -40,37 +40,22 @@ export async function loader({ request }: Route.LoaderArgs) {
   );
 }
 
-/** The strategy reads the form itself, so it gets a fresh request with just its fields. */
-function strategyRequest(request: Request, fields: Record<string, string>) {
-  const headers = new Headers({ "Content-Type": "application/x-www-form-urlencoded" });
-  for (const name of ["cookie", "x-nightshare-client-ip", "host"]) {
-    const value = request.headers.get(name);
-    if (value) headers.set(name, value);
-  }
-  return new Request(request.url, { method: "POST", headers, body: new URLSearchParams(fields) });
-}
-
 export async function action({ request }: Route.ActionArgs) {
   const form = Object.fromEntries(await request.formData()) as Record<string, string>;
-  if (form.intent === "restart") {
-    throw redirect("/sign-in", { headers: { "Set-Cookie": "_totp=; Path=/; Max-Age=0; HttpOnly; SameSite=Lax" } });
-  }
+  if (form.intent === "restart") return restartSignIn(request);
   if (form.intent === "verify") {
     const parsed = codeSchema.safeParse(form);
     if (!parsed.success) return data({ errors: fieldErrors(parsed.error), values: form }, { status: 400 });
-    return verifySignInCode(strategyRequest(request, { code: parsed.data.code }));
+    return verifySignInCode(request, { code: parsed.data.code });
   }
   const parsed = emailSchema.safeParse(form);
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error), values: form }, { status: 400 });
   const email = parsed.data.email.toLowerCase();
-  const limited = await rateLimitMessage({ email, ip: clientIp(request) });
-  if (limited) {
-    return data(
-      { errors: { email: limited.message } as Record<string, string>, values: form },
-      { status: 429, headers: { "Retry-After": String(limited.retryAfterSeconds) } },
-    );
-  }
-  return sendSignInCode(strategyRequest(request, { email }), { email, redirectTo: parsed.data.redirectTo ?? "/" });
+  const limited = await sendSignInCode(request, { email, redirectTo: parsed.data.redirectTo ?? "/" });
+  return data(
+    { errors: { email: limited.message } as Record<string, string>, values: form },
+    { status: 429, headers: { "Retry-After": String(limited.retryAfterSeconds) } },
+  );
 }
 
 function EmailStep({ redirectTo, email }: { redirectTo: string; email: string }) {
@@ -126,12 +111,13 @@ function CodeStep({ email, minutes }: { email: string; minutes: number }) {
       </p>
       <Form method="post" noValidate className="space-y-4" onSubmit={handleSubmit((_, event) => submit(event?.target as HTMLFormElement))}>
         <input type="hidden" name="intent" value="verify" />
-        <Field label="Code from the e-mail" id="code" error={error}>
+        <Field label="Code from the e-mail" id="code" error={error} hint="Six letters and digits; upper or lower case both work.">
           <input
             autoComplete="one-time-code"
+            autoCapitalize="characters"
             autoFocus
             spellCheck={false}
-            maxLength={6}
+            maxLength={8}
             {...inputProps("code", error)}
             className="input font-mono text-lg tracking-[0.3em]"
             {...register("code")}

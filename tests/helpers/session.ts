@@ -1,14 +1,18 @@
-import { sessionStorage } from "~/lib/session.server";
+import { claimInvitations } from "~/lib/proposals.server";
+import { signedInCookie, startUserSession } from "~/lib/session.server";
 import { RoleGrant, User } from "~/models/index.server";
 import type { GrantableRole } from "~/lib/domain";
 
-/** A session cookie for the user with this address, as the app would set after sign-in. */
+/**
+ * A session cookie for the user with this address, as the app sets after sign-in: a server-side
+ * session row, the cookie holding only its token, and the user's invitations claimed.
+ */
 export async function sessionCookieFor(email: string): Promise<string> {
   const user = await User.findOne({ where: { email } });
   if (!user) throw new Error(`No user ${email} in the test database`);
-  const session = await sessionStorage.getSession();
-  session.set("userId", user.id);
-  return (await sessionStorage.commitSession(session)).split(";")[0];
+  await claimInvitations({ user });
+  const token = await startUserSession(user.id);
+  return (await signedInCookie(token)).split(";")[0];
 }
 
 let counter = 0;

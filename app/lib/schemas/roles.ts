@@ -6,3 +6,16 @@ export const roleChangeSchema = z.object({
   userId: z.coerce.number().int().positive("Choose a user."),
   role: z.enum(grantableRoles, "Choose reviewer, chair or admin."),
 });
+
+/** The admin's actions on one person: a role change, or ending all their sessions. */
+export const adminUserActionSchema = z.discriminatedUnion(
+  "intent",
+  [
+    roleChangeSchema,
+    z.object({
+      intent: z.literal("sign-out-everywhere"),
+      userId: z.coerce.number().int().positive("Choose a user."),
+    }),
+  ],
+  { error: "Choose grant, revoke or sign-out-everywhere." },
+);

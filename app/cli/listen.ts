@@ -1,0 +1,25 @@
+// Serves the built app (build/) on HOST:PORT until SIGINT/SIGTERM. Used by `npm run serve`
+// (production) and by the local `npm start` (through serve-local.ts).
+import { existsSync } from "node:fs";
+import path from "node:path";
+import { createHttpApp, loadBuild } from "./http-app";
+import { repoRoot } from "./services";
+
+export async function serveBuild() {
+  const host = process.env.HOST ?? "127.0.0.1";
+  const port = Number(process.env.PORT ?? 3000);
+  if (!existsSync(path.join(repoRoot, "build/server/index.js"))) {
+    console.error("[app] no build in build/: run `npm run build` first.");
+    process.exit(1);
+  }
+  const { build, clientDir } = await loadBuild(repoRoot);
+  const app = createHttpApp({ build, clientDir, trustProxy: process.env.TRUST_PROXY === "1" });
+  const server = app.listen(port, host, () => console.log(`[app] listening on http://${host}:${port}`));
+  server.on("error", (error) => {
+    console.error(`[app] cannot listen on ${host}:${port}: ${error.message}`);
+    process.exit(1);
+  });
+  for (const signal of ["SIGINT", "SIGTERM"] as const) {
+    process.on(signal, () => server.close(() => process.exit(0)));
+  }
+}
