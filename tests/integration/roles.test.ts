@@ -76,10 +76,12 @@ describe("the role matrix", () => {
     }
     const roles = (await RoleGrant.findAll({ where: { userId: target.user.id } })).map((g) => g.role).sort();
     expect(roles).toEqual(["chair", "reviewer"]);
-    expect((await agent.get("/admin").set("Cookie", target.cookie)).status).toBe(403);
+    // A role change ends the person's sessions: they sign in again (a fresh cookie) with the new roles.
+    expect((await agent.get("/admin").set("Cookie", await sessionCookieFor(target.email))).status).toBe(403);
     await agent.post("/admin/users").set("Cookie", cookies.admin).type("form").send(form({ intent: "revoke", userId: target.user.id, role: "chair" }));
-    expect((await agent.get("/committee").set("Cookie", target.cookie)).status).toBe(403);
-    expect((await agent.get("/review").set("Cookie", target.cookie)).status).toBe(200);
+    const afterRevoke = await sessionCookieFor(target.email);
+    expect((await agent.get("/committee").set("Cookie", afterRevoke)).status).toBe(403);
+    expect((await agent.get("/review").set("Cookie", afterRevoke)).status).toBe(200);
     const audit = await AuditEntry.findAll({ where: { entityType: "user", entityId: target.user.id }, order: [["id", "ASC"]] });
     expect(audit.map((a) => `${a.action}:${(a.details as { role: string }).role}`)).toEqual([
       "role.grant:reviewer",
