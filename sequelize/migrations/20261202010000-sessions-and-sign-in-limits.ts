@@ -23,11 +23,11 @@ export async function up({ context: qi }: { context: QueryInterface }) {
   await qi.createTable("rate_limit_keys", {
     lockKey: { type: DataTypes.STRING(320), allowNull: false, primaryKey: true },
   });
-  await qi.renameColumn("sign_in_codes", "failedAttempts", "attempts");
+  await qi.sequelize.query("ALTER TABLE sign_in_codes RENAME COLUMN failedAttempts TO attempts");
 }
 
 export async function down({ context: qi }: { context: QueryInterface }) {
-  await qi.renameColumn("sign_in_codes", "attempts", "failedAttempts");
+  await qi.sequelize.query("ALTER TABLE sign_in_codes RENAME COLUMN attempts TO failedAttempts");
   await qi.dropTable("rate_limit_keys");
   await qi.dropTable("sessions");
 }

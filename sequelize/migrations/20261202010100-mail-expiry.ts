@@ -6,5 +6,6 @@ export async function up({ context: qi }: { context: QueryInterface }) {
 }
 
 export async function down({ context: qi }: { context: QueryInterface }) {
-  await qi.removeColumn("outgoing_mail", "expiresAt");
+  // Raw SQL: Sequelize's removeColumn fails on the mariadb dialect.
+  await qi.sequelize.query("ALTER TABLE outgoing_mail DROP COLUMN expiresAt");
 }
