@@ -16,16 +16,12 @@ describe("sessions in the browser", () => {
 
     const page = await suite.browser.newPage();
     const errors = watchConsole(page);
-    const since = new Date().toISOString();
     await page.goto(`${suite.server.url}/sign-in`);
     await page.getByLabel("E-mail address").fill("admin@kestrel-ridge.example");
     await page.getByRole("button", { name: "Send me a code" }).click();
     await page.getByLabel("Code from the e-mail").waitFor();
-    let mail = await waitForMail("admin@kestrel-ridge.example", /sign-in code/);
-    while (mail.date < since) {
-      await new Promise((r) => setTimeout(r, 200));
-      mail = await waitForMail("admin@kestrel-ridge.example", /sign-in code/);
-    }
+    // The file starts with an empty mail catcher (appInBrowser), so this is the code just sent.
+    const mail = await waitForMail("admin@kestrel-ridge.example", /sign-in code/);
     await page.getByText("upper or lower case both work").waitFor();
     await screenshot(page, "sign-in-code-step");
     await page.getByLabel("Code from the e-mail").fill(codeFrom(mail).toLowerCase());
