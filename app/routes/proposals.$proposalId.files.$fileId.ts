@@ -17,6 +17,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       "Content-Length": String(file.sizeBytes),
       "Content-Disposition": `${inline ? "inline" : "attachment"}; filename="${ascii}"; filename*=UTF-8''${encodeURIComponent(file.filename)}`,
       "X-Content-Type-Options": "nosniff",
+      // Shown inline, the file is its own sandboxed origin: no scripts, no access to our cookies.
+      "Content-Security-Policy": "sandbox; default-src 'none'; img-src data:; style-src 'unsafe-inline'",
       "Cache-Control": "private, no-store",
       ETag: `"${file.sha256}"`,
     },
