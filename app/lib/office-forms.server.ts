@@ -1,7 +1,7 @@
 // How the office's actions answer: 400 with the field's message and what was typed, or a redirect.
 import { data } from "react-router";
 import type { z } from "zod";
-import { fieldErrors, type FieldErrors } from "./forms";
+import { fieldErrors, Refusal, type FieldErrors } from "./forms";
 import { OfficeRefusal } from "./office.server";
 
 export function formValues(formData: FormData) {
@@ -35,6 +35,7 @@ export async function attempt<R>(
       if (error.status === 404) throw data({ message: error.message }, { status: 404 });
       return refused(intent, values, { [error.field]: error.message }, rowId);
     }
+    if (error instanceof Refusal) return refused(intent, values, { [error.field ?? "form"]: error.message }, rowId);
     throw error;
   }
 }

@@ -1,5 +1,6 @@
 // Small helpers shared by the workspace's loaders and actions.
 import { data } from "react-router";
+import { Refusal } from "./forms";
 import { notFound, ProposalRefused } from "./proposals.server";
 
 /** The :proposalId of the URL as a number; anything else is a proposal that does not exist. */
@@ -13,6 +14,9 @@ export function proposalIdParam(params: { proposalId?: string }): number {
 export function refusalResponse<V>(error: unknown, values: V) {
   if (error instanceof ProposalRefused) {
     return data({ ok: false as const, errors: { [error.field]: error.message } as Record<string, string>, values }, { status: error.status });
+  }
+  if (error instanceof Refusal) {
+    return data({ ok: false as const, errors: { [error.field ?? "form"]: error.message } as Record<string, string>, values }, { status: error.status });
   }
   throw error;
 }

@@ -5,6 +5,7 @@ import { createHash } from "node:crypto";
 import { PDFArray, PDFDict, PDFDocument, PDFHexString, PDFName, PDFStream, PDFString, type PDFObject } from "pdf-lib";
 import { data } from "react-router";
 import { writeAudit } from "~/lib/audit.server";
+import { readForm } from "~/lib/forms";
 import { assertEditable, getProposalForUser, ProposalRefused, type Actor } from "~/lib/proposals.server";
 import { sequelize, StoredFile, User } from "~/models/index.server";
 
@@ -234,7 +235,7 @@ export async function getProposalFileForUser({ proposalId, fileId, user }: { pro
 export async function readLimitedFormData(request: Request, maxBytes: number): Promise<FormData | null> {
   const declared = Number(request.headers.get("Content-Length") ?? "NaN");
   if (Number.isFinite(declared) && declared > maxBytes) return null;
-  if (!request.body) return request.formData();
+  if (!request.body) return readForm(request);
   const reader = request.body.getReader();
   const chunks: Uint8Array[] = [];
   let total = 0;
@@ -254,5 +255,6 @@ export async function readLimitedFormData(request: Request, maxBytes: number): P
     body.set(c, offset);
     offset += c.byteLength;
   }
-  return new Request(request.url, { method: "POST", headers: { "Content-Type": request.headers.get("Content-Type") ?? "" }, body }).formData();
+  // a body that is not a well-formed form (JSON, a cut multipart) is a 400, not a 500
+  return readForm(new Request(request.url, { method: "POST", headers: { "Content-Type": request.headers.get("Content-Type") ?? "" }, body }));
 }

@@ -3,7 +3,7 @@
 // a message, never a silent 0.
 import { z } from "zod";
 import { moonCategories } from "~/lib/domain";
-import { isValidTimeZone, startOfDateInZone, zonedLocalToUtc } from "~/lib/zoned-time";
+import { canonicalTimeZone, isValidTimeZone, startOfDateInZone, zonedLocalToUtc } from "~/lib/zoned-time";
 
 interface NumberRule {
   min: number;
@@ -57,7 +57,8 @@ export const telescopeSchema = z.object({
     .string({ error: "Choose the site's time zone." })
     .trim()
     .min(1, "Choose the site's time zone.")
-    .refine(isValidTimeZone, "That is not an IANA time zone; pick one from the list, like America/Denver."),
+    .refine(isValidTimeZone, "That is not an IANA time zone; pick one from the list, like America/Denver.")
+    .transform((zone) => canonicalTimeZone(zone) ?? zone),
   apertureM: numberField("Aperture", { min: 0.05, max: 50, unit: "m" }),
   centralObstruction: numberField("Central obstruction", { min: 0, max: 0.9, unit: "of the diameter" }),
 });
