@@ -11,9 +11,22 @@ export const TIME_ZONE_MAX_LENGTH = 64;
 // at most this many small strings.
 const canonical = new Lru<string, string | null>(1024);
 
+// The runtime's canonical zones by lower-case name: a fixed set of a few hundred.
+let byLowerCase: Map<string, string> | null = null;
+function knownZone(timeZone: string): string | undefined {
+  if (!byLowerCase) {
+    const intl = Intl as typeof Intl & { supportedValuesOf?: (key: "timeZone") => string[] };
+    byLowerCase = new Map([...(intl.supportedValuesOf?.("timeZone") ?? []), "UTC"].map((z) => [z.toLowerCase(), z]));
+  }
+  return byLowerCase.get(timeZone.toLowerCase());
+}
+
 /** The canonical IANA name of a time zone, or null when it is not one. */
 export function canonicalTimeZone(timeZone: unknown): string | null {
   if (typeof timeZone !== "string" || timeZone === "" || timeZone.length > TIME_ZONE_MAX_LENGTH || timeZone !== timeZone.trim()) return null;
+  const known = knownZone(timeZone);
+  if (known !== undefined) return known;
+  // aliases (US/Eastern) and other spellings the runtime accepts: asked once, remembered
   const hit = canonical.get(timeZone);
   if (hit !== undefined) return hit;
   let name: string | null;
