@@ -1,4 +1,5 @@
 import { requireUser } from "~/lib/auth.server";
+import { idSchema } from "~/lib/forms";
 import { proposalIdParam } from "~/lib/proposal-routes.server";
 import { getProposalFileForUser } from "~/lib/science-case.server";
 import type { Route } from "./+types/proposals.$proposalId.files.$fileId";
@@ -7,7 +8,7 @@ import type { Route } from "./+types/proposals.$proposalId.files.$fileId";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const fileId = /^\d{1,10}$/.test(params.fileId) ? Number(params.fileId) : 0;
+  const fileId = idSchema("file").safeParse(params.fileId).data ?? 0;
   const file = await getProposalFileForUser({ proposalId, fileId, user });
   const inline = new URL(request.url).searchParams.get("inline") === "1";
   const ascii = file.filename.replace(/[^\x20-\x7e]/g, "_").replace(/["\\]/g, "_");

@@ -51,7 +51,7 @@ function startWorker(): Worker {
   });
 }
 
-class ComputePool {
+export class ComputePool {
   #slots: Slot[] = [];
   #queue: Job[] = [];
   #nextId = 1;
@@ -157,6 +157,15 @@ class ComputePool {
       slot.ready.then(() => {
         if (s.job === job) s.worker.postMessage({ id: job.id, task: job.task });
       });
+    }
+  }
+
+  /** Ends the pool's threads (tests; the server's threads are unref'd and end with it). */
+  close() {
+    for (const slot of this.#slots.splice(0)) void slot.worker.terminate();
+    for (const job of this.#queue.splice(0)) {
+      clearTimeout(job.timer);
+      job.reject(new Error("pool closed"));
     }
   }
 

@@ -114,7 +114,7 @@ export const MAX_SEMESTER_MONTHS = 13;
 
 /** The form field of one cell of the offered-hours grid. */
 export const offerField = (telescopeId: number, moon: string) => `offer.${telescopeId}.${moon}`;
-const offerPattern = new RegExp(`^offer\\.(\\d+)\\.(${moonCategories.join("|")})$`);
+const offerPattern = new RegExp(`^offer\\.([1-9]\\d{0,9})\\.(${moonCategories.join("|")})$`);
 const hoursField = numberField("Hours offered", { min: 0, max: 5000, unit: "h" });
 
 const dateField = (label: string) =>

@@ -2,7 +2,7 @@
 import { z } from "zod";
 import { parseDec, parseRa } from "~/lib/astro/coordinates";
 import { moonCategories } from "~/lib/domain";
-import { idSchema, TEXT_COLUMN_BYTES, utf8Bytes } from "~/lib/forms";
+import { idSchema, MAX_ID, TEXT_COLUMN_BYTES, utf8Bytes } from "~/lib/forms";
 import { ABSTRACT_WORD_LIMIT, scienceCategoryValues, SEMESTER_CODE, wordCount } from "~/lib/proposal-vocabulary";
 
 export const TARGET_BANDS = ["U", "B", "V", "R", "I"] as const;
@@ -54,7 +54,7 @@ export const newProposalSchema = z.object({
 
 export const overviewSchema = z
   .object({
-    version: z.coerce.number().int().min(0),
+    version: z.coerce.number({ error: "Reload the page: the form's version is missing." }).int("Reload the page: the form's version is missing.").min(0).max(MAX_ID),
     title,
     abstract,
     scienceCategory: z.union([z.enum(scienceCategoryValues, "Choose a science category from the list."), z.literal("")]).transform((v) => v || null),
@@ -101,8 +101,9 @@ export const targetSchema = z
       .union([z.string(), z.null()])
       .optional()
       .transform((v) => (v ?? "").trim() || null)
-      .refine((v) => v === null || v.length <= NOTES_MAX_CHARS, `Keep the notes under ${NOTES_MAX_CHARS.toLocaleString("en-GB")} characters.`)
-      .refine((v) => v === null || v.length > NOTES_MAX_CHARS || utf8Bytes(v) <= TEXT_COLUMN_BYTES, "The notes are too long to store; shorten them."),
+      // characters as a person counts them (code points), bytes as the column does
+      .refine((v) => v === null || (v.length <= NOTES_MAX_CHARS * 2 && [...v].length <= NOTES_MAX_CHARS), `Keep the notes under ${NOTES_MAX_CHARS.toLocaleString("en-GB")} characters.`)
+      .refine((v) => v === null || v.length > NOTES_MAX_CHARS * 2 || utf8Bytes(v) <= TEXT_COLUMN_BYTES, "The notes are too long to store; shorten them."),
   })
   .transform((value, ctx) => {
     const ra = parseRa(value.ra, "RA");

@@ -1,8 +1,9 @@
 import { z } from "zod";
 import { grantableRoles } from "~/lib/domain";
+import { idSchema } from "~/lib/forms";
 
 export const roleChangeSchema = z.object({
   intent: z.enum(["grant", "revoke"], "Choose grant or revoke."),
-  userId: z.coerce.number().int().positive("Choose a user."),
+  userId: idSchema("user", "Choose a user."),
   role: z.enum(grantableRoles, "Choose reviewer, chair or admin."),
 });
