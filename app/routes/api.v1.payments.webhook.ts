@@ -15,7 +15,9 @@ export async function action({ request }: Route.ActionArgs) {
       return data({ error: "Webhook signature rejected.", issues: [{ path: "stripe-signature", message: error.message }] }, { status: 400 });
     }
     if (error instanceof WebhookMalformed) return data({ error: "The event is malformed.", issues: error.issues }, { status: 400 });
-    throw error;
+    // e.g. the database is down: the sender retries on a 5xx, and gets JSON, never an HTML page
+    console.error("payment webhook failure", error);
+    return data({ error: "The event could not be recorded now; send it again later.", issues: [] }, { status: 503, headers: { "Retry-After": "30" } });
   }
 }
 
