@@ -2,7 +2,7 @@
 // workspace's and the office's actions, over-long text, JSON or broken multipart sent to a form
 // action, over-long proposal titles in the Co-I invitation's mail subject.
 import { beforeAll, describe, expect, it } from "vitest";
-import { Instrument, OutgoingMail } from "~/models/index.server";
+import { Instrument, OutgoingMail, Target } from "~/models/index.server";
 import { form, request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
 import { newUser } from "../helpers/session";
@@ -67,8 +67,10 @@ describe("over-long text", () => {
   });
 
   it("notes of 10 000 four-byte characters (40 kB) are stored", async () => {
-    const res = await post(`/proposals/${proposalId}/targets`, pi.cookie, { intent: "create", ...goodTarget, name: "Wide notes target", notes: "𝛼".repeat(10_000) });
+    const res = await post(`/proposals/${proposalId}/targets`, pi.cookie, { intent: "create", ...goodTarget, name: "Wide notes target", ra: "02:00:00", dec: "+05:00:00", notes: "𝛼".repeat(10_000) });
     expect(res.status).toBe(200);
+    const saved = await Target.findOne({ where: { proposalId, name: "Wide notes target" } });
+    expect([...(saved?.notes ?? "")].length).toBe(10_000);
   });
 
   it("a proposal title of 300 characters still sends the Co-I invitation, with a fitted subject", async () => {

@@ -34,7 +34,7 @@ export const RATE_LIMIT_PER_MINUTE = intEnv("SCIENCE_REQUESTS_PER_MINUTE", 600);
  * costs nights × targets, an epoch plan the nights of its baseline (the planner searches each)
  * plus one per epoch, an exposure or astrometry call 1 (astrometry: 1 per 50 epochs).
  */
-export const COST_BUDGET_PER_MINUTE = intEnv("SCIENCE_BUDGET_PER_MINUTE", 12_000);
+export const COST_BUDGET_PER_MINUTE = intEnv("SCIENCE_BUDGET_PER_MINUTE", 30_000);
 /** Visibility runs longer than this many nights go to the worker pool. */
 export const HEAVY_VISIBILITY_NIGHTS = 31;
 
