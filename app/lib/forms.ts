@@ -1,4 +1,5 @@
-import type { z } from "zod";
+import { data } from "react-router";
+import { z } from "zod";
 
 export type FieldErrors = Record<string, string>;
 
@@ -60,4 +61,65 @@ export function issueLine(field: string, message: string): string {
   const text = plainIssue(message, { field, name: field });
   const leaf = field.split(".").pop() ?? field;
   return !leaf || text.toLowerCase().startsWith(leaf.toLowerCase()) ? text : `${field}: ${text}`;
+}
+
+/**
+ * A refusal of bad input: `{ message, status, field? }`. Thrown by the parsing helpers below and
+ * turned into a field message (forms) or a JSON 4xx (API) by the responders.
+ */
+export class Refusal extends Error {
+  readonly status: number;
+  readonly field?: string;
+  constructor(message: string, { status = 400, field }: { status?: number; field?: string } = {}) {
+    super(message);
+    this.status = status;
+    this.field = field;
+  }
+}
+
+/** Ids are INT UNSIGNED columns; larger numbers are no id of ours. */
+export const MAX_ID = 4_294_967_295;
+
+/**
+ * A row id from a form, a query or a JSON body: a whole number 1…MAX_ID, given as a number or as
+ * decimal digits (so `abc`, `1e3`, `0x10`, `-1`, `NaN`, `Infinity` and `12abc` are all refused).
+ */
+export function idSchema(what = "id", message = `The ${what} must be a positive whole number.`) {
+  return z.preprocess(
+    (v) => (typeof v === "string" && /^\s*\d{1,12}\s*$/.test(v) ? Number(v) : v),
+    z.number({ error: message }).int({ error: message }).positive({ error: message }).max(MAX_ID, { error: message }),
+  );
+}
+
+/** `value` as an id, or a 400 Refusal naming the field. */
+export function parseId(value: unknown, field: string, what = field): number {
+  const r = idSchema(what).safeParse(value);
+  if (!r.success) throw new Refusal(r.error.issues[0]?.message ?? `The ${what} is not valid.`, { field });
+  return r.data;
+}
+
+/** Bytes of a string in UTF-8 (MariaDB's TEXT columns hold 65 535 bytes, not characters). */
+export function utf8Bytes(text: string) {
+  return new TextEncoder().encode(text).byteLength;
+}
+
+/** MariaDB TEXT: at most 65 535 bytes. */
+export const TEXT_COLUMN_BYTES = 65_535;
+
+const FORM_TYPES = /^(application\/x-www-form-urlencoded|multipart\/form-data)\s*(;|$)/i;
+
+/**
+ * The body of a form post, or a 400 page when it is none: JSON, text, or a broken multipart
+ * body sent to a form action is bad input, never a 500.
+ */
+export async function readForm(request: Request): Promise<FormData> {
+  const type = request.headers.get("Content-Type") ?? "";
+  if (!FORM_TYPES.test(type.trim())) {
+    throw data({ message: "This address takes a form (application/x-www-form-urlencoded or multipart/form-data)." }, { status: 400 });
+  }
+  try {
+    return await request.formData();
+  } catch {
+    throw data({ message: "The form could not be read: the body is not a well-formed form. Reload the page and send it again." }, { status: 400 });
+  }
 }

@@ -23,7 +23,17 @@ export function signInCodeMail({ code, link, minutes }: { code: string; link: st
   };
 }
 
+/** Subjects fit the outgoing_mail.subject column (300) and a mail reader's line: one line, ≤ 200 characters. */
+export const SUBJECT_MAX_CHARS = 200;
+
+/** One line, at most SUBJECT_MAX_CHARS characters, cut on a character (never inside a surrogate pair) with an ellipsis. */
+export function fitSubject(subject: string) {
+  const line = subject.replace(/[\r\n\t\u0000-\u001f\u007f]+/g, " ").replace(/\s+/g, " ").trim();
+  const chars = Array.from(line);
+  return chars.length <= SUBJECT_MAX_CHARS ? line : `${chars.slice(0, SUBJECT_MAX_CHARS - 1).join("").trimEnd()}…`;
+}
+
 export function plainMail({ subject, paragraphs, button }: { subject: string; paragraphs: string[]; button?: { label: string; href: string } }) {
   const text = [...paragraphs, ...(button ? [`${button.label}: ${button.href}`] : [])].join("\n\n");
-  return { subject, text, html: html(paragraphs, button) };
+  return { subject: fitSubject(subject), text, html: html(paragraphs, button) };
 }

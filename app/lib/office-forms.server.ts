@@ -1,7 +1,7 @@
 // How the office's actions answer: 400 with the field's message and what was typed, or a redirect.
 import { data } from "react-router";
 import type { z } from "zod";
-import { fieldErrors, type FieldErrors } from "./forms";
+import { fieldErrors, idSchema, Refusal, type FieldErrors } from "./forms";
 import { OfficeRefusal } from "./office.server";
 
 export function formValues(formData: FormData) {
@@ -35,14 +35,15 @@ export async function attempt<R>(
       if (error.status === 404) throw data({ message: error.message }, { status: 404 });
       return refused(intent, values, { [error.field]: error.message }, rowId);
     }
+    if (error instanceof Refusal) return refused(intent, values, { [error.field ?? "form"]: error.message }, rowId);
     throw error;
   }
 }
 
 export function idParam(value: string | undefined, what: string) {
-  const id = Number(value);
-  if (!Number.isInteger(id) || id <= 0) throw data({ message: `There is no ${what} at this address.` }, { status: 404 });
-  return id;
+  const id = idSchema(what).safeParse(value);
+  if (!id.success) throw data({ message: `There is no ${what} at this address.` }, { status: 404 });
+  return id.data;
 }
 
 export function unknownIntent() {

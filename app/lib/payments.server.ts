@@ -1,5 +1,6 @@
 import Stripe from "stripe";
 import { UniqueConstraintError } from "sequelize";
+import { z } from "zod";
 import { PaymentEvent, sequelize } from "~/models/index.server";
 import { env } from "./env.server";
 
@@ -15,13 +16,49 @@ export const stripe = new Stripe(env.STRIPE_SECRET_KEY, {
 
 export class WebhookRejected extends Error {}
 
-export function verifyWebhook(payload: string, signature: string | null): Stripe.Event {
+/** A signed body that is not an event we can record (400, with the field that is wrong). */
+export class WebhookMalformed extends Error {
+  constructor(readonly issues: { path: string; message: string }[]) {
+    super(issues.map((i) => `${i.path}: ${i.message}`).join("; "));
+  }
+}
+
+/** How far a signature's timestamp may be from our clock, in either direction. */
+export const WEBHOOK_TOLERANCE_SECONDS = 300;
+
+// What recordPaymentEvent needs of an event; the column sizes are those of payment_events.
+const eventShape = z.object({
+  id: z.string().min(1).max(100),
+  type: z.string().min(1).max(100),
+  data: z.object({ object: z.object({ id: z.string().max(100).optional() }).loose() }).loose(),
+}).loose();
+
+export function verifyWebhook(payload: string, signature: string | null, nowSeconds = Math.floor(Date.now() / 1000)): Stripe.Event {
   if (!signature) throw new WebhookRejected("Missing Stripe-Signature header.");
+  // The SDK only refuses timestamps too far in the past; a future one is refused here too.
+  const stamp = /(?:^|,)\s*t=(\d{1,12})(?:,|$)/.exec(signature);
+  if (stamp && Math.abs(nowSeconds - Number(stamp[1])) > WEBHOOK_TOLERANCE_SECONDS) {
+    throw new WebhookRejected(`Timestamp outside the tolerance zone (more than ${WEBHOOK_TOLERANCE_SECONDS} s from our clock).`);
+  }
+  let event: Stripe.Event;
   try {
-    return stripe.webhooks.constructEvent(payload, signature, env.STRIPE_WEBHOOK_SECRET, 300);
+    // Signature first (over the raw bytes), only then the body is read as JSON.
+    const check = stripe.webhooks.signature;
+    if (!check) throw new Error("The payment SDK has no signature check.");
+    check.verifyHeader(payload, signature, env.STRIPE_WEBHOOK_SECRET, WEBHOOK_TOLERANCE_SECONDS);
   } catch (error) {
     throw new WebhookRejected(error instanceof Error ? error.message : "Signature check failed.");
   }
+  try {
+    event = JSON.parse(payload) as Stripe.Event;
+  } catch {
+    throw new WebhookMalformed([{ path: "(body)", message: "the body is not valid JSON" }]);
+  }
+  const shape = eventShape.safeParse(event);
+  if (!shape.success) {
+    throw new WebhookMalformed(shape.error.issues.map((i) => ({ path: i.path.join(".") || "(body)", message: i.message })));
+  }
+  return event;
 }
 
 /** Records the event once; a repeated delivery of the same event id changes nothing. */

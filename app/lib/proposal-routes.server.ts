@@ -1,18 +1,22 @@
 // Small helpers shared by the workspace's loaders and actions.
 import { data } from "react-router";
+import { idSchema, Refusal } from "./forms";
 import { notFound, ProposalRefused } from "./proposals.server";
 
 /** The :proposalId of the URL as a number; anything else is a proposal that does not exist. */
 export function proposalIdParam(params: { proposalId?: string }): number {
-  const id = Number(params.proposalId);
-  if (!/^\d{1,10}$/.test(params.proposalId ?? "") || !Number.isSafeInteger(id) || id <= 0) notFound();
-  return id;
+  const id = idSchema("proposal").safeParse(params.proposalId);
+  if (!id.success) notFound();
+  return id.data;
 }
 
 /** A refusal from the data layer as the form's field error (what the user typed comes back too). */
 export function refusalResponse<V>(error: unknown, values: V) {
   if (error instanceof ProposalRefused) {
     return data({ ok: false as const, errors: { [error.field]: error.message } as Record<string, string>, values }, { status: error.status });
+  }
+  if (error instanceof Refusal) {
+    return data({ ok: false as const, errors: { [error.field ?? "form"]: error.message } as Record<string, string>, values }, { status: error.status });
   }
   throw error;
 }

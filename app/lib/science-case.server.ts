@@ -2,9 +2,10 @@
 // browser's content type), counted with pdf-lib against the call's page limit, and kept: every
 // upload is a new stored_files row, so earlier versions stay in the history.
 import { createHash } from "node:crypto";
-import { PDFDocument } from "pdf-lib";
+import { PDFArray, PDFDict, PDFDocument, PDFHexString, PDFName, PDFStream, PDFString, type PDFObject } from "pdf-lib";
 import { data } from "react-router";
 import { writeAudit } from "~/lib/audit.server";
+import { readForm } from "~/lib/forms";
 import { assertEditable, getProposalForUser, ProposalRefused, type Actor } from "~/lib/proposals.server";
 import { sequelize, StoredFile, User } from "~/models/index.server";
 
@@ -33,6 +34,66 @@ export function hasPdfHeader(bytes: Uint8Array) {
   return head.includes("%PDF-");
 }
 
+type ActiveKind = "JavaScript" | "a launch action" | "an embedded file" | "a javascript: link";
+
+const ACTIVE_KEYS: Record<string, ActiveKind> = {
+  "/JS": "JavaScript",
+  "/JavaScript": "JavaScript",
+  "/EmbeddedFile": "an embedded file",
+  "/EmbeddedFiles": "an embedded file",
+  "/EF": "an embedded file",
+  "/Launch": "a launch action",
+};
+const ACTIVE_ACTIONS: Record<string, ActiveKind> = {
+  "/JavaScript": "JavaScript",
+  "/Launch": "a launch action",
+  "/GoToE": "an embedded file",
+};
+
+function textOf(value: PDFObject | undefined): string | null {
+  if (value instanceof PDFString || value instanceof PDFHexString) return value.decodeText();
+  return null;
+}
+
+/**
+ * Every kind of active content in the PDF: each object of the file (pdf-lib has already
+ * unpacked object streams and decoded `#xx` escapes in names) is walked, dictionaries, arrays
+ * and stream dictionaries alike, so an action hidden in a page's annotation or in the
+ * document's open action is found wherever it sits.
+ */
+export function activeContentOf(doc: PDFDocument): ActiveKind[] {
+  const found = new Set<ActiveKind>();
+  const seen = new Set<PDFObject>();
+  const visit = (obj: PDFObject | undefined, depth: number) => {
+    if (!obj || depth > 64 || seen.has(obj)) return;
+    seen.add(obj);
+    if (obj instanceof PDFStream) return visit(obj.dict, depth + 1);
+    if (obj instanceof PDFArray) {
+      for (const item of obj.asArray()) visit(item, depth + 1);
+      return;
+    }
+    if (!(obj instanceof PDFDict)) return;
+    for (const [key, value] of obj.entries()) {
+      const name = key.asString();
+      if (ACTIVE_KEYS[name]) found.add(ACTIVE_KEYS[name]);
+      if (name === "/S" && value instanceof PDFName && ACTIVE_ACTIONS[value.asString()]) found.add(ACTIVE_ACTIONS[value.asString()]);
+      if (name === "/URI" || name === "/F") {
+        const uri = textOf(value);
+        // control characters and spaces are ignored by browsers before the scheme
+        if (uri !== null && /^javascript:/i.test(uri.replace(/[\u0000-\u0020]/g, ""))) found.add("a javascript: link");
+      }
+      visit(value, depth + 1);
+    }
+  };
+  for (const [, obj] of doc.context.enumerateIndirectObjects()) visit(obj, 0);
+  visit(doc.context.trailerInfo.Root, 0);
+  return [...found];
+}
+
+function listed(kinds: string[]) {
+  return kinds.length <= 1 ? kinds.join("") : `${kinds.slice(0, -1).join(", ")} and ${kinds[kinds.length - 1]}`;
+}
+
 /** Page count of an acceptable science case, or a refusal that says what is wrong. */
 export async function checkScienceCasePdf(bytes: Uint8Array, pageLimit: number): Promise<number> {
   if (bytes.byteLength === 0) throw refuse("The file is empty. Choose the PDF of the science case.");
@@ -51,6 +112,12 @@ export async function checkScienceCasePdf(bytes: Uint8Array, pageLimit: number):
       throw refuse("The PDF is encrypted or password-protected. Upload an unprotected copy, so the committee can read it and it can be bound into the proposal PDF.");
     }
     throw refuse("The file starts like a PDF but cannot be read: it may be damaged or cut short. Export it again and upload the new file.");
+  }
+  const active = activeContentOf(doc);
+  if (active.length > 0) {
+    throw refuse(
+      `The PDF contains ${listed(active)}, which could run on the reviewers' computers; such PDFs are not accepted. Export or print the science case to a plain PDF (without scripts, actions or attachments) and upload that file.`,
+    );
   }
   let pages: number;
   try {
@@ -168,7 +235,7 @@ export async function getProposalFileForUser({ proposalId, fileId, user }: { pro
 export async function readLimitedFormData(request: Request, maxBytes: number): Promise<FormData | null> {
   const declared = Number(request.headers.get("Content-Length") ?? "NaN");
   if (Number.isFinite(declared) && declared > maxBytes) return null;
-  if (!request.body) return request.formData();
+  if (!request.body) return readForm(request);
   const reader = request.body.getReader();
   const chunks: Uint8Array[] = [];
   let total = 0;
@@ -188,5 +255,6 @@ export async function readLimitedFormData(request: Request, maxBytes: number): P
     body.set(c, offset);
     offset += c.byteLength;
   }
-  return new Request(request.url, { method: "POST", headers: { "Content-Type": request.headers.get("Content-Type") ?? "" }, body }).formData();
+  // a body that is not a well-formed form (JSON, a cut multipart) is a 400, not a 500
+  return readForm(new Request(request.url, { method: "POST", headers: { "Content-Type": request.headers.get("Content-Type") ?? "" }, body }));
 }

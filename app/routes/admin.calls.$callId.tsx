@@ -8,6 +8,7 @@ import { getCall, observatoryTimeZone, updateCall } from "~/lib/office.server";
 import { formValues, handle, idParam, orNotFound } from "~/lib/office-forms.server";
 import { callSchema } from "~/lib/schemas/office";
 import type { Route } from "./+types/admin.calls.$callId";
+import { readForm } from "~/lib/forms";
 
 export function meta({ data }: Route.MetaArgs) {
   return [{ title: `Call ${data?.semesterCode ?? ""} · Observatory office · Nightshare` }];
@@ -23,7 +24,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const actor = await requireRole(request, "admin");
   const callId = idParam(params.callId, "call");
-  const values = formValues(await request.formData());
+  const values = formValues(await readForm(request));
   values.timeZone = await observatoryTimeZone();
   return handle({ intent: "update", values, schema: callSchema }, async (input) => {
     await updateCall({ actor, callId, values: input });

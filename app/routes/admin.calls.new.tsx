@@ -8,6 +8,7 @@ import { createCall, listCalls, observatoryTimeZone } from "~/lib/office.server"
 import { formValues, handle } from "~/lib/office-forms.server";
 import { callSchema } from "~/lib/schemas/office";
 import type { Route } from "./+types/admin.calls.new";
+import { readForm } from "~/lib/forms";
 
 export function meta() {
   return [{ title: "New call · Observatory office · Nightshare" }];
@@ -22,7 +23,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const actor = await requireRole(request, "admin");
-  const values = formValues(await request.formData());
+  const values = formValues(await readForm(request));
   // The wall clock is the observatory's, whatever the form says.
   values.timeZone = await observatoryTimeZone();
   return handle({ intent: "create", values, schema: callSchema }, async (input) => {

@@ -6,7 +6,8 @@ import { filterColumns, FilterRow } from "~/components/office/FilterRows";
 import { InstrumentForm } from "~/components/office/InstrumentForm";
 import { requireRole } from "~/lib/auth.server";
 import { createFilter, deleteFilter, deleteInstrument, getInstrument, updateFilter, updateInstrument } from "~/lib/office.server";
-import { attempt, formValues, handle, idParam, orNotFound, unknownIntent } from "~/lib/office-forms.server";
+import { idSchema, readForm } from "~/lib/forms";
+import { attempt, formValues, handle, idParam, orNotFound, refused, unknownIntent } from "~/lib/office-forms.server";
 import { filterSchema, instrumentSchema } from "~/lib/schemas/office";
 import type { Route } from "./+types/admin.instruments.$instrumentId";
 
@@ -23,10 +24,13 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const actor = await requireRole(request, "admin");
   const instrumentId = idParam(params.instrumentId, "instrument");
-  const formData = await request.formData();
+  const formData = await readForm(request);
   const intent = String(formData.get("intent") ?? "");
   const values = formValues(formData);
-  const filterId = Number(formData.get("filterId"));
+  const filterId = idSchema("filter id").safeParse(formData.get("filterId")).data ?? 0;
+  if ((intent === "updateFilter" || intent === "deleteFilter") && filterId === 0) {
+    return refused(intent, values, { form: "The filter id must be a positive whole number; reload the page." });
+  }
   switch (intent) {
     case "update":
       return handle({ intent, values, schema: instrumentSchema }, async (input) => {

@@ -10,6 +10,7 @@ import { attempt, formValues, handle, idParam, orNotFound, unknownIntent } from 
 import { instrumentSchema, telescopeSchema } from "~/lib/schemas/office";
 import { supportedTimeZones } from "~/lib/zoned-time";
 import type { Route } from "./+types/admin.telescopes.$telescopeId";
+import { readForm } from "~/lib/forms";
 
 export function meta({ data }: Route.MetaArgs) {
   return [{ title: `${data?.telescope.name ?? "Telescope"} · Observatory office · Nightshare` }];
@@ -24,7 +25,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const actor = await requireRole(request, "admin");
   const telescopeId = idParam(params.telescopeId, "telescope");
-  const formData = await request.formData();
+  const formData = await readForm(request);
   const intent = String(formData.get("intent") ?? "");
   const values = formValues(formData);
   switch (intent) {

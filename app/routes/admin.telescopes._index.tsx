@@ -8,6 +8,7 @@ import { formValues, handle, unknownIntent } from "~/lib/office-forms.server";
 import { telescopeSchema } from "~/lib/schemas/office";
 import { supportedTimeZones } from "~/lib/zoned-time";
 import type { Route } from "./+types/admin.telescopes._index";
+import { readForm } from "~/lib/forms";
 
 export function meta() {
   return [{ title: "Telescopes · Observatory office · Nightshare" }];
@@ -20,7 +21,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const actor = await requireRole(request, "admin");
-  const formData = await request.formData();
+  const formData = await readForm(request);
   if (formData.get("intent") !== "create") return unknownIntent();
   return handle({ intent: "create", values: formValues(formData), schema: telescopeSchema }, async (values) => {
     const id = await createTelescope({ actor, values });

@@ -11,7 +11,7 @@ import { SortableTable } from "~/components/SortableTable";
 import { useMemo, useState } from "react";
 import { data, useFetcher } from "react-router";
 import { requireRole } from "~/lib/auth.server";
-import { fieldErrors } from "~/lib/forms";
+import { fieldErrors, readForm } from "~/lib/forms";
 import { adminUserActionSchema } from "~/lib/schemas/roles";
 import { changeRole, listUsersWithRoles, RoleChangeRefused, signOutEverywhere } from "~/lib/users.server";
 import { grantableRoles, type GrantableRole } from "~/lib/domain";
@@ -28,7 +28,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const actor = await requireRole(request, "admin");
-  const parsed = adminUserActionSchema.safeParse(Object.fromEntries(await request.formData()));
+  const parsed = adminUserActionSchema.safeParse(Object.fromEntries(await readForm(request)));
   if (!parsed.success) return data({ ok: false as const, errors: fieldErrors(parsed.error) }, { status: 400 });
   try {
     if (parsed.data.intent === "sign-out-everywhere") {

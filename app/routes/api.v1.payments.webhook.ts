@@ -1,5 +1,5 @@
 import { data } from "react-router";
-import { recordPaymentEvent, verifyWebhook, WebhookRejected } from "~/lib/payments.server";
+import { recordPaymentEvent, verifyWebhook, WebhookMalformed, WebhookRejected } from "~/lib/payments.server";
 import type { Route } from "./+types/api.v1.payments.webhook";
 
 // Signed by the payment service, not by a user session: the signature is the guard.
@@ -14,7 +14,10 @@ export async function action({ request }: Route.ActionArgs) {
     if (error instanceof WebhookRejected) {
       return data({ error: "Webhook signature rejected.", issues: [{ path: "stripe-signature", message: error.message }] }, { status: 400 });
     }
-    throw error;
+    if (error instanceof WebhookMalformed) return data({ error: "The event is malformed.", issues: error.issues }, { status: 400 });
+    // e.g. the database is down: the sender retries on a 5xx, and gets JSON, never an HTML page
+    console.error("payment webhook failure", error);
+    return data({ error: "The event could not be recorded now; send it again later.", issues: [] }, { status: 503, headers: { "Retry-After": "30" } });
   }
 }
 

@@ -6,7 +6,7 @@ import { AbstractField } from "~/components/AbstractField";
 import { Field, inputProps } from "~/components/Field";
 import { utc } from "~/components/workspace";
 import { requireUser } from "~/lib/auth.server";
-import { fieldErrors } from "~/lib/forms";
+import { fieldErrors, readForm } from "~/lib/forms";
 import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
 import { scienceCategories, scienceCategoryLabel, upcomingSemesters } from "~/lib/proposal-vocabulary";
 import { getProposalForUser, overviewValues, updateOverview, type OverviewResult, type OverviewValues } from "~/lib/proposals.server";
@@ -22,7 +22,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const values = formValues(await request.formData());
+  const values = formValues(await readForm(request));
   const parsed = overviewSchema.safeParse(values);
   if (!parsed.success) return data({ ok: false as const, errors: fieldErrors(parsed.error), values, conflict: null }, { status: 400 });
   try {

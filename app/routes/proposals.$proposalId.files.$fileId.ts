@@ -1,4 +1,5 @@
 import { requireUser } from "~/lib/auth.server";
+import { idSchema } from "~/lib/forms";
 import { proposalIdParam } from "~/lib/proposal-routes.server";
 import { getProposalFileForUser } from "~/lib/science-case.server";
 import type { Route } from "./+types/proposals.$proposalId.files.$fileId";
@@ -7,7 +8,7 @@ import type { Route } from "./+types/proposals.$proposalId.files.$fileId";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const fileId = /^\d{1,10}$/.test(params.fileId) ? Number(params.fileId) : 0;
+  const fileId = idSchema("file").safeParse(params.fileId).data ?? 0;
   const file = await getProposalFileForUser({ proposalId, fileId, user });
   const inline = new URL(request.url).searchParams.get("inline") === "1";
   const ascii = file.filename.replace(/[^\x20-\x7e]/g, "_").replace(/["\\]/g, "_");
@@ -17,6 +18,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       "Content-Length": String(file.sizeBytes),
       "Content-Disposition": `${inline ? "inline" : "attachment"}; filename="${ascii}"; filename*=UTF-8''${encodeURIComponent(file.filename)}`,
       "X-Content-Type-Options": "nosniff",
+      // Shown inline, the file is its own sandboxed origin: no scripts, no access to our cookies.
+      "Content-Security-Policy": "sandbox; default-src 'none'; img-src data:; style-src 'unsafe-inline'",
       "Cache-Control": "private, no-store",
       ETag: `"${file.sha256}"`,
     },

@@ -7,7 +7,7 @@ import { Field, inputProps } from "~/components/Field";
 import { fixed, useWorkspace } from "~/components/workspace";
 import { requireUser } from "~/lib/auth.server";
 import { moonCategories } from "~/lib/domain";
-import { fieldErrors, issueLine } from "~/lib/forms";
+import { fieldErrors, issueLine, parseId, readForm } from "~/lib/forms";
 import { createObservation, deleteObservation, listObservations, updateObservation } from "~/lib/proposal-observations.server";
 import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
 import { listTargets } from "~/lib/proposal-targets.server";
@@ -25,18 +25,18 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const values = formValues(await request.formData()) as Record<string, string>;
+  const values = formValues(await readForm(request)) as Record<string, string>;
   const intent = values.intent;
   try {
     if (intent === "create" || intent === "update") {
       const parsed = observationSchema.safeParse(values);
       if (!parsed.success) return data({ ok: false as const, intent, errors: fieldErrors(parsed.error), values }, { status: 400 });
       if (intent === "create") await createObservation({ user, proposalId, input: parsed.data });
-      else await updateObservation({ user, proposalId, observationId: Number(values.observationId), input: parsed.data });
+      else await updateObservation({ user, proposalId, observationId: parseId(values.observationId, "form", "observation id"), input: parsed.data });
       return { ok: true as const, intent, message: intent === "create" ? "Observation added." : "Observation saved.", errors: {} as Record<string, string>, values };
     }
     if (intent === "delete") {
-      await deleteObservation({ user, proposalId, observationId: Number(values.observationId) });
+      await deleteObservation({ user, proposalId, observationId: parseId(values.observationId, "form", "observation id") });
       return { ok: true as const, intent, message: "Observation deleted.", errors: {} as Record<string, string>, values };
     }
     return data({ ok: false as const, intent, errors: { form: "Unknown action." } as Record<string, string>, values }, { status: 400 });

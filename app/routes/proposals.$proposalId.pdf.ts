@@ -12,6 +12,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       "Content-Disposition": `attachment; filename="${filename}"`,
       "Content-Length": String(bytes.byteLength),
       "Cache-Control": "private, no-store",
+      "X-Content-Type-Options": "nosniff",
+      "Content-Security-Policy": "sandbox; default-src 'none'",
     },
   });
 }

@@ -5,6 +5,7 @@ import { proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
 import { submissionChecklist, submitProposal } from "~/lib/proposal-submit.server";
 import { reopenProposal, withdrawProposal } from "~/lib/proposals.server";
 import type { Route } from "./+types/proposals.$proposalId.submit";
+import { readForm } from "~/lib/forms";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
@@ -15,7 +16,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const intent = String((await request.formData()).get("intent") ?? "");
+  const intent = String((await readForm(request)).get("intent") ?? "");
   try {
     if (intent === "submit") {
       const r = await submitProposal({ user, proposalId });

@@ -6,7 +6,7 @@ import { Field, inputProps } from "~/components/Field";
 import { fixed, useWorkspace } from "~/components/workspace";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
 import { requireUser } from "~/lib/auth.server";
-import { fieldErrors, issueLine } from "~/lib/forms";
+import { fieldErrors, issueLine, parseId, readForm } from "~/lib/forms";
 import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
 import { createTarget, deleteTarget, importTargetsCsv, listTargets } from "~/lib/proposal-targets.server";
 import { updateTarget } from "~/lib/proposal-targets.server";
@@ -24,7 +24,7 @@ const MAX_UPLOAD_BYTES = 2_000_000;
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const form = await request.formData();
+  const form = await readForm(request);
   const file = form.get("file");
   const values = formValues(form) as Record<string, string>;
   delete (values as Record<string, unknown>).file;
@@ -46,11 +46,11 @@ export async function action({ request, params }: Route.ActionArgs) {
       const parsed = targetSchema.safeParse(values);
       if (!parsed.success) return data({ ok: false as const, intent, errors: fieldErrors(parsed.error), values }, { status: 400 });
       if (intent === "create") await createTarget({ user, proposalId, input: parsed.data });
-      else await updateTarget({ user, proposalId, targetId: Number(values.targetId), input: parsed.data });
+      else await updateTarget({ user, proposalId, targetId: parseId(values.targetId, "form", "target id"), input: parsed.data });
       return { ok: true as const, intent, message: `${parsed.data.name} ${intent === "create" ? "added" : "saved"}.`, errors: {} as Record<string, string>, values };
     }
     if (intent === "delete") {
-      const { name, observations } = await deleteTarget({ user, proposalId, targetId: Number(values.targetId) });
+      const { name, observations } = await deleteTarget({ user, proposalId, targetId: parseId(values.targetId, "form", "target id") });
       return { ok: true as const, intent, message: `${name} deleted${observations ? ` with its ${observations} observation${observations === 1 ? "" : "s"}` : ""}.`, errors: {} as Record<string, string>, values };
     }
     return data({ ok: false as const, intent, errors: { form: "Unknown action." } as Record<string, string>, values }, { status: 400 });

@@ -5,7 +5,7 @@ import { data, redirect, useActionData, useFetcher } from "react-router";
 import { Field, inputProps } from "~/components/Field";
 import { useWorkspace } from "~/components/workspace";
 import { requireUser } from "~/lib/auth.server";
-import { fieldErrors } from "~/lib/forms";
+import { fieldErrors, readForm } from "~/lib/forms";
 import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
 import { handOverPi, inviteCoI, listTeam, removeMember } from "~/lib/proposal-team.server";
 import { memberRoleLabels } from "~/lib/proposal-vocabulary";
@@ -20,7 +20,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const values = formValues(await request.formData()) as Record<string, string>;
+  const values = formValues(await readForm(request)) as Record<string, string>;
   const intent = values.intent;
   try {
     if (intent === "invite") {

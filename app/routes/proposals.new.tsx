@@ -5,7 +5,7 @@ import { AbstractField } from "~/components/AbstractField";
 import { Field, inputProps } from "~/components/Field";
 import { utc } from "~/components/workspace";
 import { requireUser } from "~/lib/auth.server";
-import { fieldErrors } from "~/lib/forms";
+import { fieldErrors, readForm } from "~/lib/forms";
 import { formValues, refusalResponse } from "~/lib/proposal-routes.server";
 import { createProposal, openCalls } from "~/lib/proposals.server";
 import { newProposalSchema } from "~/lib/schemas/proposals";
@@ -25,7 +25,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireUser(request);
-  const values = formValues(await request.formData()) as Record<string, string>;
+  const values = formValues(await readForm(request)) as Record<string, string>;
   const parsed = newProposalSchema.safeParse(values);
   if (!parsed.success) return data({ ok: false as const, errors: fieldErrors(parsed.error), values }, { status: 400 });
   try {

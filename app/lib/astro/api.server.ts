@@ -1,10 +1,13 @@
 // The science API behind api.v1.visibility / exposure / astrometry / epoch-plan: validation,
-// telescope and instrument look-ups, a per-IP rate limit, and JSON errors (400/429, never 500).
+// telescope and instrument look-ups, a per-IP budget weighed by each request's cost, the heavy
+// computations in a worker pool, and JSON errors (400/429/503 with Retry-After, never 500).
 import { data } from "react-router";
 import type { z } from "zod";
 import { apiIssues } from "~/lib/forms";
+import { Lru } from "~/lib/lru";
 import { Filter, Instrument, Telescope } from "~/models/index.server";
-import { astrometryForDates, epochPrecisionMas, planEpochs, precisionForMovedEpochs } from "./astrometry";
+import { astrometryForDates, epochPrecisionMas, type FitPrecision, type Plan } from "./astrometry";
+import { computePool, PoolBusy, PoolTimeout } from "./compute-pool.server";
 import { computeExposure, type ExposureInput } from "./exposure";
 import { ZERO_POINTS, type Band } from "./photometry";
 import {
@@ -15,11 +18,28 @@ import {
   type EpochPlanBody,
   type ExposureBody,
 } from "./schemas";
-import { MOON_CATEGORY_THRESHOLDS, REFRACTION_MODEL, altitudeCurve, computeVisibility, type Limit, type Site } from "./visibility";
+import { MOON_CATEGORY_THRESHOLDS, REFRACTION_MODEL, type Limit, type Site } from "./visibility";
 import { AIRMASS_FORMULA } from "./airmass";
+import { runScienceTask } from "./science-tasks";
 
-export const RATE_LIMIT_PER_MINUTE = 600;
-const buckets = new Map<string, { start: number; count: number }>();
+const intEnv = (name: string, fallback: number) => {
+  const v = Number(process.env[name]);
+  return Number.isInteger(v) && v > 0 ? v : fallback;
+};
+
+/** Requests a minute from one address, whatever they cost. */
+export const RATE_LIMIT_PER_MINUTE = intEnv("SCIENCE_REQUESTS_PER_MINUTE", 600);
+/**
+ * Cost units a minute from one address. A unit is one night of one target: a visibility run
+ * costs nights × targets, an epoch plan the nights of its baseline (the planner searches each)
+ * plus one per epoch, an exposure or astrometry call 1 (astrometry: 1 per 50 epochs).
+ */
+export const COST_BUDGET_PER_MINUTE = intEnv("SCIENCE_BUDGET_PER_MINUTE", 30_000);
+/** Visibility runs longer than this many nights go to the worker pool. */
+export const HEAVY_VISIBILITY_NIGHTS = 31;
+
+// Bounded: at most this many addresses are remembered (the oldest-used forgotten first).
+const buckets = new Lru<string, { start: number; count: number; cost: number }>(10_000);
 
 type Issue = { path: string; message: string };
 
@@ -31,34 +51,69 @@ class BadInput extends Error {
 
 const noStore = { "Cache-Control": "no-store" };
 
-function rateLimited(request: Request): Response | null {
-  const ip = request.headers.get("x-nightshare-client-ip") ?? "unknown";
-  const now = Date.now();
-  const b = buckets.get(ip);
-  if (!b || now - b.start >= 60_000) {
-    buckets.set(ip, { start: now, count: 1 });
-    if (buckets.size > 10_000) for (const [k, v] of buckets) if (now - v.start >= 60_000) buckets.delete(k);
-    return null;
+/** Refused for the client's budget (429) or the server's load (503); both carry Retry-After. */
+class Refused extends Error {
+  constructor(readonly status: 429 | 503, message: string, readonly retryAfterSeconds: number) {
+    super(message);
   }
-  b.count++;
-  if (b.count <= RATE_LIMIT_PER_MINUTE) return null;
-  const retry = Math.ceil((b.start + 60_000 - now) / 1000);
-  return Response.json(
-    { error: `Too many requests: at most ${RATE_LIMIT_PER_MINUTE} a minute from one address.`, issues: [] },
-    { status: 429, headers: { ...noStore, "Retry-After": String(retry) } },
-  );
 }
 
-/** Wraps a handler: rate limit, zod issues → 400, unknown failures → 503 JSON (never an HTML 500). */
-async function guarded(request: Request, run: () => Promise<unknown>) {
-  const limited = rateLimited(request);
-  if (limited) return limited;
+function bucketOf(request: Request) {
+  const ip = request.headers.get("x-nightshare-client-ip") ?? "unknown";
+  const now = Date.now();
+  let b = buckets.get(ip);
+  if (!b || now - b.start >= 60_000) {
+    b = { start: now, count: 0, cost: 0 };
+    buckets.set(ip, b);
+  }
+  return { b, retry: Math.max(1, Math.ceil((b.start + 60_000 - now) / 1000)) };
+}
+
+function countRequest(request: Request) {
+  const { b, retry } = bucketOf(request);
+  b.count++;
+  if (b.count > RATE_LIMIT_PER_MINUTE) throw new Refused(429, `Too many requests: at most ${RATE_LIMIT_PER_MINUTE} a minute from one address.`, retry);
+}
+
+/** Charges the request's cost to the address's budget, or refuses it (nothing is charged then). */
+function charge(request: Request, cost: number) {
+  const { b, retry } = bucketOf(request);
+  if (cost > COST_BUDGET_PER_MINUTE) {
+    throw new BadInput([{ path: "(body)", message: `this request costs ${cost} units, more than the ${COST_BUDGET_PER_MINUTE} allowed a minute; ask for fewer nights or a shorter baseline` }]);
+  }
+  if (b.cost + cost > COST_BUDGET_PER_MINUTE) {
+    throw new Refused(
+      429,
+      `This address has used ${b.cost} of its ${COST_BUDGET_PER_MINUTE} computation units this minute; this request needs ${cost}. Try again later or ask for less.`,
+      retry,
+    );
+  }
+  b.cost += cost;
+}
+
+/** Runs a heavy task in the worker pool; a full queue or a timeout is a 503 with Retry-After. */
+async function inPool<T>(task: Parameters<ReturnType<typeof computePool>["run"]>[0]): Promise<T> {
   try {
+    return (await computePool().run(task)) as T;
+  } catch (error) {
+    if (error instanceof PoolBusy) throw new Refused(503, "The science workers are busy with other requests; try again shortly.", error.retryAfterSeconds);
+    if (error instanceof PoolTimeout) throw new Refused(503, "The computation took too long and was stopped; ask for fewer nights or a shorter baseline, or try again later.", error.retryAfterSeconds);
+    throw error;
+  }
+}
+
+/** Wraps a handler: request count, zod issues → 400, budget 429, load 503, unknown failures → 503 JSON (never an HTML 500). */
+async function guarded(request: Request, run: () => Promise<unknown>) {
+  try {
+    countRequest(request);
     return data(await run(), { headers: noStore });
   } catch (error) {
     if (error instanceof BadInput) return data({ error: "The request has invalid fields.", issues: error.issues }, { status: 400, headers: noStore });
+    if (error instanceof Refused) {
+      return data({ error: error.message, issues: [], retryAfterSeconds: error.retryAfterSeconds }, { status: error.status, headers: { ...noStore, "Retry-After": String(error.retryAfterSeconds) } });
+    }
     console.error("science API failure", error);
-    return data({ error: "The computation could not be completed; try again.", issues: [] }, { status: 503, headers: noStore });
+    return data({ error: "The computation could not be completed; try again.", issues: [] }, { status: 503, headers: { ...noStore, "Retry-After": "5" } });
   }
 }
 
@@ -116,16 +171,12 @@ export async function visibilityResponse(request: Request) {
         ? (await telescopeSite(q.telescope, "telescope")).site
         : { latitudeDeg: q.lat!, longitudeDeg: q.lon!, elevationM: q.elevation ?? 0, timeZone: q.timeZone ?? zoneFromLongitude(q.lon!) };
     const target = { raDeg: q.ra, decDeg: q.dec, pmRaCosDecMasPerYr: q.pmRa, pmDecMasPerYr: q.pmDec };
-    const result = computeVisibility({ site, target, from: q.from, nights: q.nights, limit: limitOf(q) });
-    const curve = q.night ? curveJson(site, target, q.night) : undefined;
-    return { ...result, conventions: CONVENTIONS, ...(curve ? { curve } : {}) };
+    // one target: nights × 1 (+1 for the altitude curve of one night)
+    charge(request, q.nights + (q.night ? 1 : 0));
+    const task = { kind: "visibility" as const, input: { site, target, from: q.from, nights: q.nights, limit: limitOf(q) }, night: q.night };
+    const result = q.nights > HEAVY_VISIBILITY_NIGHTS ? await inPool<Record<string, unknown>>(task) : (runScienceTask(task) as Record<string, unknown>);
+    return { ...result, conventions: CONVENTIONS };
   });
-}
-
-function curveJson(site: Site, target: { raDeg: number; decDeg: number }, date: string) {
-  const { night, points } = altitudeCurve(site, target, date, 10);
-  const iso = (t: number | null) => (t === null ? null : new Date(t).toISOString());
-  return { date, sunset: iso(night.sunset), sunrise: iso(night.sunrise), darkStart: iso(night.darkStart), darkEnd: iso(night.darkEnd), points };
 }
 
 async function exposureInput(b: ExposureBody): Promise<ExposureInput> {
@@ -181,6 +232,7 @@ async function exposureInput(b: ExposureBody): Promise<ExposureInput> {
 export async function exposureResponse(request: Request) {
   return guarded(request, async () => {
     const b = parse(exposureBodySchema, await jsonBody(request));
+    charge(request, 1);
     const input = await exposureInput(b);
     const r = computeExposure(input);
     return {
@@ -198,12 +250,19 @@ export async function exposureResponse(request: Request) {
 export async function astrometryResponse(request: Request) {
   return guarded(request, async () => {
     const b = parse(astrometryBodySchema, await jsonBody(request));
+    charge(request, Math.ceil(b.epochs.length / 50));
     const r = astrometryForDates({ raDeg: b.raDeg, decDeg: b.decDeg, epochs: b.epochs, positionalPrecisionMas: b.positionalPrecisionMas });
     if (!r.determined) {
       throw new BadInput([{ path: "epochs", message: "these epochs cannot separate position, proper motion and parallax (spread them over different dates)" }]);
     }
     return r;
   });
+}
+
+/** Nights of the baseline (the planner searches each) plus one per epoch asked for (60 when derived). */
+export function epochPlanCost(b: { baselineYears: number; epochs?: number; movedEpochs?: string[] }) {
+  const nights = Math.min(Math.round(b.baselineYears * 365.25) + 1, 366 * 6);
+  return nights + (b.epochs ?? 60) + (b.movedEpochs?.length ?? 0);
 }
 
 async function planInput(b: EpochPlanBody) {
@@ -221,20 +280,24 @@ async function planInput(b: EpochPlanBody) {
 export async function epochPlanResponse(request: Request) {
   return guarded(request, async () => {
     const b = parse(epochPlanBodySchema, await jsonBody(request));
+    charge(request, epochPlanCost(b));
     const { site, perEpoch, required } = await planInput(b);
     const target = { raDeg: b.target.ra, decDeg: b.target.dec, pmRaCosDecMasPerYr: b.target.pmRaCosDecMasPerYr, pmDecMasPerYr: b.target.pmDecMasPerYr };
-    const plan = planEpochs({
-      site,
-      target,
-      firstDate: b.firstDate,
-      baselineYears: b.baselineYears,
-      epochs: b.epochs,
-      required,
-      perEpochPrecisionMas: perEpoch,
-      limit: limitOf(b),
-      secondsPerEpoch: b.secondsPerEpoch,
+    const { plan, moved } = await inPool<{ plan: Plan; moved?: FitPrecision }>({
+      kind: "epochPlan",
+      input: {
+        site,
+        target,
+        firstDate: b.firstDate,
+        baselineYears: b.baselineYears,
+        epochs: b.epochs,
+        required,
+        perEpochPrecisionMas: perEpoch,
+        limit: limitOf(b),
+        secondsPerEpoch: b.secondsPerEpoch,
+      },
+      moved: b.movedEpochs ? { raDeg: target.raDeg, decDeg: target.decDeg, times: b.movedEpochs, perEpochPrecisionMas: perEpoch } : undefined,
     });
-    const moved = b.movedEpochs ? precisionForMovedEpochs(target.raDeg, target.decDeg, b.movedEpochs, perEpoch) : undefined;
     return { site, target, perEpochPrecisionMas: perEpoch, ...plan, ...(moved ? { movedPrecision: moved } : {}) };
   });
 }

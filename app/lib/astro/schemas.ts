@@ -3,6 +3,7 @@
 import { z } from "zod";
 import { parseDec, parseRa } from "./coordinates";
 import { BANDS } from "./photometry";
+import { canonicalTimeZone, TIME_ZONE_MAX_LENGTH } from "../time-zones";
 import { isIsoDate, isValidTimeZone } from "./time";
 
 const blankToUndefined = (v: unknown) => (v === "" || v === null ? undefined : typeof v === "string" ? Number(v.trim()) : v);
@@ -17,7 +18,7 @@ export function num(label: string, min: number, max: number, opts: { int?: boole
 
 const optionalNum = (label: string, min: number, max: number) => num(label, min, max).optional();
 
-export const raField = z.union([z.number(), z.string()], { error: "RA is required" }).transform((v, ctx) => {
+export const raField = z.union([z.number(), z.string().max(64, { error: "RA is too long" })], { error: "RA is required" }).transform((v, ctx) => {
   const r = parseRa(v, "RA");
   if (!r.ok) {
     ctx.addIssue({ code: "custom", message: r.message });
@@ -26,7 +27,7 @@ export const raField = z.union([z.number(), z.string()], { error: "RA is require
   return r.value;
 });
 
-export const decField = z.union([z.number(), z.string()], { error: "Dec is required" }).transform((v, ctx) => {
+export const decField = z.union([z.number(), z.string().max(64, { error: "Dec is too long" })], { error: "Dec is required" }).transform((v, ctx) => {
   const r = parseDec(v, "Dec");
   if (!r.ok) {
     ctx.addIssue({ code: "custom", message: r.message });
@@ -40,9 +41,14 @@ export const dateField = z
   .refine(isIsoDate, { error: "must be a calendar date YYYY-MM-DD" })
   .refine((d) => d >= "1900-01-01" && d <= "2199-12-31", { error: "must lie between 1900 and 2199" });
 
-export const timeZoneField = z.string().refine(isValidTimeZone, { error: "must be an IANA time zone, e.g. Europe/Madrid" });
+// Canonicalised ("europe/madrid" → "Europe/Madrid"), so the caches keyed by zone see one name per zone.
+export const timeZoneField = z
+  .string()
+  .max(TIME_ZONE_MAX_LENGTH, { error: "must be an IANA time zone, e.g. Europe/Madrid" })
+  .refine(isValidTimeZone, { error: "must be an IANA time zone, e.g. Europe/Madrid" })
+  .transform((zone) => canonicalTimeZone(zone) ?? zone);
 
-const idField = z.preprocess(blankToUndefined, z.number({ error: "must be a numeric id" }).int().positive());
+const idField = z.preprocess(blankToUndefined, z.number({ error: "must be a numeric id" }).int({ error: "must be a numeric id" }).positive({ error: "must be a numeric id" }).max(4_294_967_295, { error: "must be a numeric id" }));
 
 /** Query of GET /api/v1/visibility (also the Sky tools visibility form). */
 export const visibilityQuerySchema = z
@@ -156,7 +162,7 @@ export const epochPlanBodySchema = z
     minAltitude: optionalNum("minAltitude", 0, 89),
     maxAirmass: optionalNum("maxAirmass", 1, 10),
     secondsPerEpoch: optionalNum("secondsPerEpoch", 0, 86400),
-    movedEpochs: z.array(z.string().refine((s) => isIsoDate(s) || !Number.isNaN(Date.parse(s)), { error: "must be a date or an ISO time" })).max(60).optional(),
+    movedEpochs: z.array(z.string().max(40).refine((s) => isIsoDate(s) || !Number.isNaN(Date.parse(s)), { error: "must be a date or an ISO time" })).max(60).optional(),
   })
   .superRefine((b, ctx) => {
     if (!b.site && b.telescopeId === undefined) ctx.addIssue({ code: "custom", path: ["site"], message: "site or telescopeId is required" });

@@ -3,26 +3,24 @@
 export const DAY_MS = 86_400_000;
 export const J2000_UTC_MS = Date.UTC(2000, 0, 1, 12, 0, 0);
 
-const formatters = new Map<string, Intl.DateTimeFormat>();
+import { Lru } from "../lru";
+import { isValidTimeZone, requireTimeZone } from "../time-zones";
+
+export { isValidTimeZone };
+
+// One formatter per canonical zone (a spelling is canonicalised first), at most 128 kept.
+const formatters = new Lru<string, Intl.DateTimeFormat>(128);
 
 // `format` with a long offset name is ~30× faster than `formatToParts`, which matters when a
 // semester of nights is framed.
 function formatter(timeZone: string): Intl.DateTimeFormat {
-  let f = formatters.get(timeZone);
-  if (!f) {
-    f = new Intl.DateTimeFormat("en-GB", { timeZone, timeZoneName: "longOffset" });
-    formatters.set(timeZone, f);
-  }
-  return f;
+  const zone = requireTimeZone(timeZone);
+  return formatters.getOrSet(zone, () => new Intl.DateTimeFormat("en-GB", { timeZone: zone, timeZoneName: "longOffset" }));
 }
 
-export function isValidTimeZone(timeZone: string): boolean {
-  try {
-    formatter(timeZone);
-    return true;
-  } catch {
-    return false;
-  }
+/** Number of cached offset formatters (for tests). */
+export function offsetFormatterCount() {
+  return formatters.size;
 }
 
 /** Offset of local civil time from UTC at an instant, in ms (east positive). */

@@ -3,7 +3,7 @@
 // a message, never a silent 0.
 import { z } from "zod";
 import { moonCategories } from "~/lib/domain";
-import { isValidTimeZone, startOfDateInZone, zonedLocalToUtc } from "~/lib/zoned-time";
+import { canonicalTimeZone, isValidTimeZone, startOfDateInZone, zonedLocalToUtc } from "~/lib/zoned-time";
 
 interface NumberRule {
   min: number;
@@ -57,7 +57,8 @@ export const telescopeSchema = z.object({
     .string({ error: "Choose the site's time zone." })
     .trim()
     .min(1, "Choose the site's time zone.")
-    .refine(isValidTimeZone, "That is not an IANA time zone; pick one from the list, like America/Denver."),
+    .refine(isValidTimeZone, "That is not an IANA time zone; pick one from the list, like America/Denver.")
+    .transform((zone) => canonicalTimeZone(zone) ?? zone),
   apertureM: numberField("Aperture", { min: 0.05, max: 50, unit: "m" }),
   centralObstruction: numberField("Central obstruction", { min: 0, max: 0.9, unit: "of the diameter" }),
 });
@@ -113,7 +114,7 @@ export const MAX_SEMESTER_MONTHS = 13;
 
 /** The form field of one cell of the offered-hours grid. */
 export const offerField = (telescopeId: number, moon: string) => `offer.${telescopeId}.${moon}`;
-const offerPattern = new RegExp(`^offer\\.(\\d+)\\.(${moonCategories.join("|")})$`);
+const offerPattern = new RegExp(`^offer\\.([1-9]\\d{0,9})\\.(${moonCategories.join("|")})$`);
 const hoursField = numberField("Hours offered", { min: 0, max: 5000, unit: "h" });
 
 const dateField = (label: string) =>

@@ -2,9 +2,13 @@
 import { z } from "zod";
 import { parseDec, parseRa } from "~/lib/astro/coordinates";
 import { moonCategories } from "~/lib/domain";
+import { idSchema, MAX_ID, TEXT_COLUMN_BYTES, utf8Bytes } from "~/lib/forms";
 import { ABSTRACT_WORD_LIMIT, scienceCategoryValues, SEMESTER_CODE, wordCount } from "~/lib/proposal-vocabulary";
 
 export const TARGET_BANDS = ["U", "B", "V", "R", "I"] as const;
+
+/** Notes of a target (a TEXT column: 65 535 bytes; this many characters of any script fit). */
+export const NOTES_MAX_CHARS = 10_000;
 
 /** A number typed into a form (or sent as JSON); "" is "not given". */
 function numberField(label: string, opts: { min?: number; max?: number; int?: boolean; required?: boolean; exclusiveMin?: boolean } = {}) {
@@ -36,19 +40,21 @@ const abstract = z
   .trim()
   .max(20_000, "The abstract is far too long.")
   .superRefine((text, ctx) => {
+    // the column is a TEXT (65 535 bytes); 20 000 characters of 4-byte script would not fit
+    if (utf8Bytes(text) > TEXT_COLUMN_BYTES) ctx.addIssue({ code: "custom", message: "The abstract is too long to store; shorten it." });
     const words = wordCount(text);
     if (words > ABSTRACT_WORD_LIMIT) ctx.addIssue({ code: "custom", message: `The abstract has ${words} words; the limit is ${ABSTRACT_WORD_LIMIT}.` });
   });
 
 export const newProposalSchema = z.object({
-  callId: z.coerce.number({ error: "Choose a call." }).int().positive("Choose a call."),
+  callId: idSchema("call", "Choose a call."),
   title,
   abstract: abstract.optional().default(""),
 });
 
 export const overviewSchema = z
   .object({
-    version: z.coerce.number().int().min(0),
+    version: z.coerce.number({ error: "Reload the page: the form's version is missing." }).int("Reload the page: the form's version is missing.").min(0).max(MAX_ID),
     title,
     abstract,
     scienceCategory: z.union([z.enum(scienceCategoryValues, "Choose a science category from the list."), z.literal("")]).transform((v) => v || null),
@@ -75,7 +81,7 @@ export const inviteSchema = z.object({
     .pipe(z.email("Enter a valid e-mail address, like name@institute.example.")),
 });
 
-export const memberSchema = z.object({ memberId: z.coerce.number().int().positive("Choose a member.") });
+export const memberSchema = z.object({ memberId: idSchema("member", "Choose a member.") });
 
 export const targetSchema = z
   .object({
@@ -91,7 +97,13 @@ export const targetSchema = z
       .transform((v) => (v ?? "").trim().toUpperCase())
       .refine((v) => v === "" || (TARGET_BANDS as readonly string[]).includes(v), `The band is one of ${TARGET_BANDS.join(", ")}.`)
       .transform((v) => v || null),
-    notes: z.union([z.string(), z.null()]).optional().transform((v) => (v ?? "").trim() || null),
+    notes: z
+      .union([z.string(), z.null()])
+      .optional()
+      .transform((v) => (v ?? "").trim() || null)
+      // characters as a person counts them (code points), bytes as the column does
+      .refine((v) => v === null || (v.length <= NOTES_MAX_CHARS * 2 && [...v].length <= NOTES_MAX_CHARS), `Keep the notes under ${NOTES_MAX_CHARS.toLocaleString("en-GB")} characters.`)
+      .refine((v) => v === null || v.length > NOTES_MAX_CHARS * 2 || utf8Bytes(v) <= TEXT_COLUMN_BYTES, "The notes are too long to store; shorten them."),
   })
   .transform((value, ctx) => {
     const ra = parseRa(value.ra, "RA");
@@ -105,9 +117,9 @@ export type TargetInput = z.output<typeof targetSchema>;
 
 export const observationSchema = z
   .object({
-    targetId: z.coerce.number({ error: "Choose a target." }).int().positive("Choose a target."),
-    instrumentId: z.coerce.number({ error: "Choose an instrument." }).int().positive("Choose an instrument."),
-    filterId: z.coerce.number({ error: "Choose a filter." }).int().positive("Choose a filter."),
+    targetId: idSchema("target", "Choose a target."),
+    instrumentId: idSchema("instrument", "Choose an instrument."),
+    filterId: idSchema("filter", "Choose a filter."),
     mode: z.enum(["snr", "exposure"], "Choose an SNR goal or an exposure time."),
     snrGoal: numberField("SNR goal", { min: 0, max: 10_000, exclusiveMin: true }),
     exposureSeconds: numberField("exposure time", { min: 0, max: 7_200, exclusiveMin: true }),

@@ -1,9 +1,10 @@
 import { z } from "zod";
 import { grantableRoles } from "~/lib/domain";
+import { idSchema } from "~/lib/forms";
 
 export const roleChangeSchema = z.object({
   intent: z.enum(["grant", "revoke"], "Choose grant or revoke."),
-  userId: z.coerce.number().int().positive("Choose a user."),
+  userId: idSchema("user", "Choose a user."),
   role: z.enum(grantableRoles, "Choose reviewer, chair or admin."),
 });
 
@@ -14,7 +15,7 @@ export const adminUserActionSchema = z.discriminatedUnion(
     roleChangeSchema,
     z.object({
       intent: z.literal("sign-out-everywhere"),
-      userId: z.coerce.number().int().positive("Choose a user."),
+      userId: idSchema("user", "Choose a user."),
     }),
   ],
   { error: "Choose grant, revoke or sign-out-everywhere." },
