@@ -11,7 +11,7 @@ import {
   sendSignInCode,
   verifySignInCode,
 } from "~/lib/sign-in.server";
-import { fieldErrors } from "~/lib/forms";
+import { fieldErrors, readForm } from "~/lib/forms";
 import { codeSchema, emailSchema } from "~/lib/schemas/auth";
 import { getSession, sessionStorage } from "~/lib/session.server";
 import type { Route } from "./+types/sign-in";
@@ -41,7 +41,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  const form = Object.fromEntries(await request.formData()) as Record<string, string>;
+  const form = Object.fromEntries(await readForm(request)) as Record<string, string>;
   if (form.intent === "restart") return restartSignIn(request);
   if (form.intent === "verify") {
     const parsed = codeSchema.safeParse(form);

@@ -4,7 +4,7 @@ import { data, Form, redirect, useActionData, useSubmit } from "react-router";
 import { Field, inputProps } from "~/components/Field";
 import { writeAudit } from "~/lib/audit.server";
 import { requireUser, safeRedirectTo } from "~/lib/auth.server";
-import { fieldErrors } from "~/lib/forms";
+import { fieldErrors, readForm } from "~/lib/forms";
 import { profileSchema } from "~/lib/schemas/auth";
 import { User } from "~/models/index.server";
 import type { Route } from "./+types/welcome";
@@ -16,7 +16,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireUser(request);
-  const form = Object.fromEntries(await request.formData()) as Record<string, string>;
+  const form = Object.fromEntries(await readForm(request)) as Record<string, string>;
   const parsed = profileSchema.safeParse(form);
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error), values: form }, { status: 400 });
   await User.update(parsed.data, { where: { id: user.id } });
