@@ -9,7 +9,7 @@ import { env } from "./env.server";
  * answer at all (a frozen server). A migration that needs longer runs
  * `SET SESSION max_statement_time = 0` first.
  */
-export const DB_TIMEOUTS = { connectMs: 3_000, acquireMs: 5_000, queryMs: 8_000, socketMs: 10_000 } as const;
+export const DB_TIMEOUTS = { connectMs: 5_000, acquireMs: 8_000, queryMs: 10_000, socketMs: 12_000 } as const;
 
 // One Sequelize instance for the process.
 export const sequelize = new Sequelize({
@@ -26,6 +26,7 @@ export const sequelize = new Sequelize({
     queryTimeout: DB_TIMEOUTS.queryMs,
     socketTimeout: DB_TIMEOUTS.socketMs,
   },
-  pool: { max: 10, min: 0, idle: 5_000, acquire: DB_TIMEOUTS.acquireMs, evict: 1_000 },
+  // Idle connections leave the pool (10 s) before the socket timeout would cut them.
+  pool: { max: 10, min: 0, idle: 10_000, acquire: DB_TIMEOUTS.acquireMs, evict: 1_000 },
   define: { charset: "utf8mb4", collate: "utf8mb4_unicode_ci" },
 });
