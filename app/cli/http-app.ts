@@ -196,7 +196,7 @@ async function reactRouterRequest(req: ExpressRequest, res: ExpressResponse, han
   res.on("finish", () => (finished = true));
   res.on("close", () => finished || controller.abort());
   const url = new URL(`${req.protocol}://${requestHost(req)}${req.originalUrl}`);
-  const request = new Request(url.href, { method: req.method, headers, body: body ? new Uint8Array(body.buffer, body.byteOffset, body.byteLength) : undefined, signal: controller.signal });
+  const request = new Request(url.href, { method: req.method, headers, body: body ? new Uint8Array(body.buffer as ArrayBuffer, body.byteOffset, body.byteLength) : undefined, signal: controller.signal });
   const response = await handle(request);
   await sendResponse(req, res, response);
 }
