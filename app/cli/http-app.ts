@@ -80,7 +80,8 @@ export function createHttpApp({ build, clientDir, trustProxy = false, appUrl = p
       return void refuse(res, api, 403, message, reason);
     }
     if (api && !isJsonContentType(req.get("content-type"))) {
-      return void refuse(res, api, 415, "Send the body as JSON (Content-Type: application/json).", "Content-Type");
+      // 400 like any other bad input on the API (the field named is the header).
+      return void refuse(res, api, 400, "Send the body as JSON (Content-Type: application/json).", "Content-Type must be application/json", "content-type");
     }
     next();
   });
@@ -95,9 +96,9 @@ export function createHttpApp({ build, clientDir, trustProxy = false, appUrl = p
   return app;
 }
 
-function refuse(res: ExpressResponse, api: boolean, status: number, message: string, detail: string) {
+function refuse(res: ExpressResponse, api: boolean, status: number, message: string, detail: string, field = "(request)") {
   res.status(status).setHeader("Cache-Control", "no-store");
-  if (api) return res.json({ error: message, issues: [{ path: "(request)", message: detail }] });
+  if (api) return res.json({ error: message, issues: [{ path: field, message: detail }] });
   return res.type("html").send(refusalPage(status, message));
 }
 

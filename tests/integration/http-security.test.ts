@@ -71,15 +71,16 @@ describe("proxy trust", () => {
 });
 
 describe("cross-site requests", () => {
-  it("refuses a text/plain POST to an API route (415 JSON) and changes nothing", async () => {
+  it("refuses a text/plain POST to an API route (400 JSON naming the content type) and changes nothing", async () => {
     const target = await newUser();
     const res = await (await request())
       .post("/api/v1/admin/users")
       .set("Cookie", adminCookie)
       .set("Content-Type", "text/plain")
       .send(JSON.stringify({ intent: "grant", userId: target.user.id, role: "chair" }));
-    expect(res.status).toBe(415);
+    expect(res.status).toBe(400);
     expect(res.body.error).toMatch(/JSON/);
+    expect(res.body.issues).toEqual([{ path: "content-type", message: "Content-Type must be application/json" }]);
     expect(await RoleGrant.count({ where: { userId: target.user.id } })).toBe(0);
   });
 
@@ -256,9 +257,9 @@ describe("body limits", () => {
     const big = await (await request())
       .post("/proposals/1/science-case")
       .set("Cookie", pi.cookie)
-      .attach("file", Buffer.alloc(12 * MB, 1), { filename: "case.pdf", contentType: "application/pdf" });
+      .attach("file", Buffer.alloc(14 * MB, 1), { filename: "case.pdf", contentType: "application/pdf" });
     expect(big.status).toBe(413);
-    expect(big.text).toContain("the most this page takes");
+    expect(big.text).toContain("larger than 12 MB, the most this page takes");
     const small = await (await request()).post("/api/v1/exposure").send({ ...exposure, note: "x".repeat(900 * 1024) });
     expect(small.status).not.toBe(413);
   });

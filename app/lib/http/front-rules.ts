@@ -55,11 +55,14 @@ export function parseTrustProxy(value: string | undefined): { ok: true; value: T
 export const DEFAULT_BODY_LIMIT = 1024 * 1024;
 /** The multipart envelope around an uploaded file (headers, boundaries, other fields). */
 export const MULTIPART_MARGIN = 256 * 1024;
+export const SCIENCE_CASE_MARGIN = 2 * 1024 * 1024;
 /** A 2 MB target CSV (the import's own limit) URL-encoded can triple in size. */
 export const TARGET_IMPORT_BODY_LIMIT = 3 * 2_000_000 + MULTIPART_MARGIN;
 
 const bodyLimits: { pattern: RegExp; limit: number; what: string }[] = [
-  { pattern: /^\/proposals\/[^/]+\/science-case\/?$/, limit: SCIENCE_CASE_MAX_BYTES + MULTIPART_MARGIN, what: "a science-case upload" },
+  // 2 MB over the file limit: a file a little too large still reaches the route, which answers
+  // with its message next to the file field; only far larger bodies are cut here.
+  { pattern: /^\/proposals\/[^/]+\/science-case\/?$/, limit: SCIENCE_CASE_MAX_BYTES + SCIENCE_CASE_MARGIN, what: "a science-case upload" },
   { pattern: /^\/proposals\/[^/]+\/targets\/?$/, limit: TARGET_IMPORT_BODY_LIMIT, what: "a target import" },
 ];
 
