@@ -2,6 +2,7 @@
 // (production) and by the local `npm start` (through serve-local.ts).
 import { existsSync } from "node:fs";
 import path from "node:path";
+import { parseTrustProxy } from "../lib/http/front-rules";
 import { createHttpApp, loadBuild } from "./http-app";
 import { repoRoot } from "./services";
 
@@ -12,8 +13,13 @@ export async function serveBuild() {
     console.error("[app] no build in build/: run `npm run build` first.");
     process.exit(1);
   }
+  const trustProxy = parseTrustProxy(process.env.TRUST_PROXY);
+  if (!trustProxy.ok) {
+    console.error(`[app] TRUST_PROXY ${trustProxy.message}`);
+    process.exit(1);
+  }
   const { build, clientDir } = await loadBuild(repoRoot);
-  const app = createHttpApp({ build, clientDir, trustProxy: process.env.TRUST_PROXY === "1" });
+  const app = createHttpApp({ build, clientDir, trustProxy: trustProxy.value });
   const server = app.listen(port, host, () => console.log(`[app] listening on http://${host}:${port}`));
   server.on("error", (error) => {
     console.error(`[app] cannot listen on ${host}:${port}: ${error.message}`);

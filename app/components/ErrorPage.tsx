@@ -6,7 +6,9 @@ const messages: Record<number, { title: string; text: string }> = {
   403: { title: "Not for your account", text: "Your account does not hold the role this page needs." },
   404: { title: "Nothing here", text: "There is no page at this address. It may have moved, or the link is mistyped." },
   409: { title: "Changed meanwhile", text: "Someone else saved a newer version first." },
+  413: { title: "Too much at once", text: "What was sent is larger than this page takes. Nothing was saved; send less, or a smaller file." },
   429: { title: "Slow down a little", text: "Too many requests in a short time. Try again in a minute." },
+  503: { title: "Not available for a moment", text: "A service the portal needs is not answering. Try again in a few seconds; nothing you saved before is lost." },
 };
 
 /** One error page for every boundary: a clear message per status, a stack only in development. */

@@ -1,6 +1,7 @@
 // The environment's schema, pure: importing this module reads nothing. `env.server.ts` applies it
 // to process.env; the production entry (`app/cli/serve.ts`) also refuses the example secrets.
 import { z } from "zod";
+import { parseTrustProxy } from "./http/front-rules";
 
 const port = z.coerce.number().int().min(1).max(65535);
 
@@ -25,6 +26,16 @@ const schema = z.object({
   STRIPE_API_HOST: z.string().optional(),
   STRIPE_API_PORT: port.optional(),
   STRIPE_API_PROTOCOL: z.enum(["http", "https"]).default("https"),
+  // The number of reverse-proxy hops in front of the app, or their addresses/CIDR ranges.
+  TRUST_PROXY: z
+    .string()
+    .optional()
+    .transform((value, ctx) => {
+      const parsed = parseTrustProxy(value);
+      if (parsed.ok) return parsed.value;
+      ctx.addIssue({ code: "custom", message: parsed.message });
+      return z.NEVER;
+    }),
 });
 
 export type Env = z.infer<typeof schema>;
