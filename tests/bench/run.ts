@@ -1,6 +1,18 @@
 // `npm run bench`: prints timings; nothing here is asserted (timings are not tests).
+//   npm run bench               everything
+//   npm run bench -- pdf        one section (visibility, pdf, restart)
 import { runAstroBench } from "./astro";
+import { runPdfBench } from "./pdf";
 
+const only = process.argv[2];
+const want = (name: string) => !only || only === name;
 console.log(`Nightshare benchmarks — node ${process.version}, ${new Date().toISOString()}`);
-console.log("\n[visibility]");
-for (const line of runAstroBench()) console.log("  " + line);
+if (want("visibility")) {
+  console.log("\n[visibility]");
+  for (const line of runAstroBench()) console.log("  " + line);
+}
+if (want("pdf")) {
+  console.log("\n[proposal PDF and submission]");
+  for (const line of await runPdfBench()) console.log("  " + line);
+}
+process.exit(0);
