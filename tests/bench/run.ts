@@ -3,6 +3,7 @@
 //   npm run bench -- pdf        one section (visibility, pdf, restart)
 import { runAstroBench } from "./astro";
 import { runPdfBench } from "./pdf";
+import { runRestartBench } from "./restart";
 
 const only = process.argv[2];
 const want = (name: string) => !only || only === name;
@@ -14,5 +15,9 @@ if (want("visibility")) {
 if (want("pdf")) {
   console.log("\n[proposal PDF and submission]");
   for (const line of await runPdfBench()) console.log("  " + line);
+}
+if (want("restart")) {
+  console.log("\n[restart: npm start]");
+  for (const line of await runRestartBench()) console.log("  " + line);
 }
 process.exit(0);

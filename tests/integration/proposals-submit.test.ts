@@ -96,7 +96,8 @@ describe("submission", () => {
     const caught = await waitForMail(coi.email, new RegExp(`receipt: ${p.code}`));
     expect(caught.text).toContain("The attached PDF is the proposal");
     expect(caught.attachments).toHaveLength(1);
-    expect(caught.attachments?.[0]).toMatchObject({ contentType: "application/pdf", fileName: `${p.code}.pdf` });
+    expect(caught.attachments?.[0]).toMatchObject({ contentType: "application/pdf" });
+    expect((caught.attachments![0] as unknown as { filename: string }).filename).toBe(`${p.code}.pdf`); // maildev's field name
     const att = caught.attachments![0];
     const file = await fetch(`${testEnv.maildevUrl}/api/email/${caught.id}/attachment/${encodeURIComponent(att.generatedFileName ?? att.fileName)}`);
     expect(file.status).toBe(200);
