@@ -28,25 +28,46 @@ const RULE = rgb(0.8, 0.83, 0.87);
 type FontFace = { pdf: PDFFont; has: (cp: number) => boolean };
 type Family = FontFace[];
 
-type LoadedFont = { bytes: Uint8Array; has: (cp: number) => boolean };
+type Glyph = { id: number; codePoints: number[] };
+type Layout = { glyphs: Glyph[]; positions: unknown[] };
+type FontkitFont = { hasGlyphForCodePoint(cp: number): boolean; layout(text: string, features?: unknown): Layout; getGlyph(id: number, codePoints?: number[]): Glyph };
+type LoadedFont = { bytes: Uint8Array; layout: (text: string) => Layout; has: (cp: number) => boolean };
+const LAYOUTS_PER_FONT = 50_000;
+
+/**
+ * One parsed font per face for the whole process, used only to lay strings out (OpenType
+ * shaping, which pdf-lib runs for every width and every draw): each string's layout is
+ * remembered, up to LAYOUTS_PER_FONT strings. Each document still embeds its own instance, whose
+ * glyphs (and so the subset and the text mapping) are its own.
+ */
+function loadFont(bytes: Uint8Array): LoadedFont {
+  const font = fontkit.create(bytes as unknown as Buffer) as unknown as FontkitFont;
+  const seen = new Map<string, Layout>();
+  const known = new Map<number, boolean>();
+  return {
+    bytes,
+    layout: (text) => {
+      let run = seen.get(text);
+      if (!run) {
+        if (seen.size >= LAYOUTS_PER_FONT) seen.clear();
+        seen.set(text, (run = font.layout(text)));
+      }
+      return run;
+    },
+    has: (cp) => {
+      let v = known.get(cp);
+      if (v === undefined) known.set(cp, (v = font.hasGlyphForCodePoint(cp)));
+      return v;
+    },
+  };
+}
+
 let fontFiles: Record<string, LoadedFont> | null = null;
 /** The six faces, unpacked and parsed once per process. */
 function fonts() {
   if (!fontFiles) {
     const dir = path.join(path.dirname(createRequire(import.meta.url).resolve("@fontsource/source-sans-3/LICENSE")), "files");
-    const load = (name: string): LoadedFont => {
-      const bytes = woffToSfnt(new Uint8Array(readFileSync(path.join(dir, `source-sans-3-${name}-normal.woff`))));
-      const fk = fontkit.create(bytes as unknown as Buffer) as unknown as { hasGlyphForCodePoint(cp: number): boolean };
-      const known = new Map<number, boolean>();
-      return {
-        bytes,
-        has: (cp) => {
-          let v = known.get(cp);
-          if (v === undefined) known.set(cp, (v = fk.hasGlyphForCodePoint(cp)));
-          return v;
-        },
-      };
-    };
+    const load = (name: string) => loadFont(woffToSfnt(new Uint8Array(readFileSync(path.join(dir, `source-sans-3-${name}-normal.woff`)))));
     fontFiles = {
       regular: load("latin-400"),
       regularExt: load("latin-ext-400"),
@@ -59,15 +80,16 @@ function fonts() {
   return fontFiles;
 }
 
-type Layout = { glyphs: unknown[] };
-/** pdf-lib lays a string out for every width and every draw; remember each layout per font. */
-function memoiseLayout(font: PDFFont) {
-  const fk = (font as unknown as { embedder: { font: { layout(text: string, features?: unknown): Layout } } }).embedder.font;
-  const layout = fk.layout.bind(fk);
-  const seen = new Map<string, Layout>();
-  fk.layout = (text, features) => {
-    let run = seen.get(text);
-    if (!run) seen.set(text, (run = layout(text, features)));
+/** The document's font lays out through the shared layouts, with its own glyph objects. */
+function useSharedLayouts(pdf: PDFFont, shared: LoadedFont) {
+  const own = (pdf as unknown as { embedder: { font: FontkitFont } }).embedder.font;
+  const mine = new Map<string, Layout>();
+  own.layout = (text) => {
+    let run = mine.get(text);
+    if (!run) {
+      const s = shared.layout(text);
+      mine.set(text, (run = { glyphs: s.glyphs.map((g) => own.getGlyph(g.id, g.codePoints)), positions: s.positions }));
+    }
     return run;
   };
 }
@@ -76,10 +98,10 @@ async function family(doc: PDFDocument, names: string[]): Promise<Family> {
   const loaded = fonts();
   const out: Family = [];
   for (const name of names) {
-    const { bytes, has } = loaded[name];
-    const pdf = await doc.embedFont(bytes, { subset: true });
-    memoiseLayout(pdf);
-    out.push({ pdf, has });
+    const face = loaded[name];
+    const pdf = await doc.embedFont(face.bytes, { subset: true });
+    useSharedLayouts(pdf, face);
+    out.push({ pdf, has: face.has });
   }
   return out;
 }
