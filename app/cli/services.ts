@@ -225,7 +225,14 @@ export interface Supervised extends Service {
 export async function supervise(
   name: string,
   start: () => Promise<Service>,
-  { log = (line: string) => console.log(line), minDelayMs = 1_000, maxDelayMs = 30_000, stableMs = 60_000 } = {},
+  {
+    log = (line: string) => console.log(line),
+    minDelayMs = 1_000,
+    maxDelayMs = 30_000,
+    stableMs = 60_000,
+    // false while the caller shuts down (Ctrl-C reaches every child at once, before stop() is called)
+    shouldRestart = () => true,
+  } = {},
 ): Promise<Supervised> {
   let current = await start();
   let stopping = false;
@@ -240,7 +247,7 @@ export async function supervise(
     delay = Math.min(delay * 2, maxDelayMs);
     timer = setTimeout(() => {
       timer = null;
-      if (stopping) return;
+      if (stopping || !shouldRestart()) return;
       starting = start().then(
         async (service) => {
           if (stopping) return service.stop();
@@ -261,7 +268,7 @@ export async function supervise(
   const watch = (service: Service) => {
     const startedAt = Date.now();
     service.child.once("exit", (code, signal) => {
-      if (stopping) return;
+      if (stopping || !shouldRestart()) return;
       if (Date.now() - startedAt >= stableMs) delay = minDelayMs;
       log(`[supervisor] ${name} stopped (${signal ? `signal ${signal}` : `exit ${code}`}); starting it again in ${seconds(delay)}`);
       schedule();

@@ -52,6 +52,7 @@ try {
   await requireFree(Number(e.STRIPE_API_PORT), "the payment fake", "STRIPE_API_PORT");
 
   console.log(`[start] MariaDB (private instance, data in ${path.relative(repoRoot, dataDir) || "."}/mariadb), mail catcher and payment fake`);
+  const opts = { shouldRestart: () => !stopping };
   const pending = [
     supervise("MariaDB", () =>
       startMariaDb({
@@ -61,8 +62,9 @@ try {
         user: e.DATABASE_USER,
         password: e.DATABASE_PASSWORD,
       }),
+      opts,
     ),
-    supervise("the mail catcher", () => startMaildev({ smtpPort: Number(e.SMTP_PORT), webPort: Number(e.MAILDEV_WEB_PORT), logDir: dataDir })),
+    supervise("the mail catcher", () => startMaildev({ smtpPort: Number(e.SMTP_PORT), webPort: Number(e.MAILDEV_WEB_PORT), logDir: dataDir }), opts),
     supervise("the payment fake", () =>
       startPaymentFake({
         port: Number(e.STRIPE_API_PORT),
@@ -71,6 +73,7 @@ try {
         webhookUrl: new URL("/api/v1/payments/webhook", e.APP_URL).toString(),
         logDir: dataDir,
       }),
+      opts,
     ),
   ];
   const outcomes = await Promise.allSettled(pending);
@@ -108,7 +111,7 @@ try {
         spawn(process.execPath, ["--import", "tsx", path.join(repoRoot, "app/cli/serve.ts")], { stdio: "inherit", cwd: repoRoot });
     return childService("app", child);
   };
-  services.push(await supervise("the app", startApp));
+  services.push(await supervise("the app", startApp, opts));
 
   console.log(`
   Nightshare        ${e.APP_URL}

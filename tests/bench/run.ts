@@ -7,7 +7,11 @@ import { runRestartBench } from "./restart";
 
 const only = process.argv[2];
 const want = (name: string) => !only || only === name;
+import { availableParallelism, loadavg } from "node:os";
+
 console.log(`Nightshare benchmarks — node ${process.version}, ${new Date().toISOString()}`);
+// Figures are only comparable on a quiet machine: a load above the number of cores inflates them.
+console.log(`machine: ${availableParallelism()} cores, load average ${loadavg().map((l) => l.toFixed(1)).join(" / ")} (1/5/15 min)`);
 if (want("visibility")) {
   console.log("\n[visibility]");
   for (const line of runAstroBench()) console.log("  " + line);
