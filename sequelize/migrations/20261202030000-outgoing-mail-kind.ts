@@ -9,6 +9,6 @@ export async function up({ context: qi }: { context: QueryInterface }) {
 }
 
 export async function down({ context: qi }: { context: QueryInterface }) {
-  await qi.removeColumn("outgoing_mail", "payload");
-  await qi.removeColumn("outgoing_mail", "kind");
+  // Raw SQL: Sequelize 6's removeColumn trips over the MariaDB driver's result ("Cannot delete property 'meta'").
+  await qi.sequelize.query("ALTER TABLE outgoing_mail DROP COLUMN payload, DROP COLUMN kind");
 }
