@@ -231,7 +231,7 @@ export async function supervise(
     maxDelayMs = 30_000,
     stableMs = 60_000,
     // false while the caller shuts down (Ctrl-C reaches every child at once, before stop() is called)
-    shouldRestart = () => true,
+    shouldRestart = (): boolean => true,
   } = {},
 ): Promise<Supervised> {
   let current = await start();
