@@ -32,13 +32,31 @@ export async function freePort(): Promise<number> {
   });
 }
 
-async function waitFor(check: () => Promise<boolean>, what: string, timeoutMs = 20_000) {
+async function waitFor(check: () => Promise<boolean>, what: string, timeoutMs = 60_000) {
   const until = Date.now() + timeoutMs;
   while (Date.now() < until) {
     if (await check()) return;
     await new Promise((r) => setTimeout(r, 100));
   }
   throw new Error(`${what} did not become ready within ${timeoutMs / 1000} s`);
+}
+
+/** Waits for a child to become ready; if it exits first or never gets ready, it is stopped and this throws. */
+async function readyOrKill(child: ChildProcess, check: () => Promise<boolean>, what: string, timeoutMs = 60_000) {
+  let exited: string | null = null;
+  const onExit = (code: number | null, signal: string | null) => (exited = signal ? `signal ${signal}` : `exit ${code}`);
+  child.once("exit", onExit);
+  try {
+    await waitFor(async () => {
+      if (exited) throw new Error(`${what} stopped while starting (${exited})`);
+      return check();
+    }, what, timeoutMs);
+  } catch (error) {
+    if (child.exitCode === null && child.signalCode === null) child.kill("SIGKILL");
+    throw error;
+  } finally {
+    child.off("exit", onExit);
+  }
 }
 
 function portAccepts(port: number, host = "127.0.0.1"): Promise<boolean> {
@@ -125,7 +143,7 @@ export async function startMariaDb(options: MariaDbOptions): Promise<Service> {
     ],
     { stdio: ["ignore", out, out], env: { ...process.env, PATH: `${process.env.PATH}:/usr/sbin` } },
   );
-  await waitFor(() => portAccepts(port), "MariaDB");
+  await readyOrKill(child, () => portAccepts(port), "MariaDB");
   const sql = [
     `CREATE DATABASE IF NOT EXISTS \`${options.database}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;`,
     `CREATE USER IF NOT EXISTS '${options.user}'@'127.0.0.1' IDENTIFIED BY '${options.password}';`,
@@ -153,7 +171,7 @@ export async function startMaildev(options: { smtpPort: number; webPort: number;
     ],
     { stdio: ["ignore", out, out] },
   );
-  await waitFor(async () => {
+  await readyOrKill(child, async () => {
     try {
       const res = await fetch(`http://127.0.0.1:${options.webPort}/api/healthz`);
       return res.ok && (await portAccepts(options.smtpPort));
@@ -172,10 +190,12 @@ export async function startPaymentFake(options: {
   logDir: string;
 }) {
   const out = logFile(options.logDir, "payments-fake");
+  // node with tsx's loader rather than the tsx wrapper: one process, so that its exit frees the port.
   const child = spawn(
-    path.join(repoRoot, "node_modules/.bin/tsx"),
-    [path.join(repoRoot, "fakes/payments/server.ts")],
+    process.execPath,
+    ["--import", "tsx", path.join(repoRoot, "fakes/payments/server.ts")],
     {
+      cwd: repoRoot,
       stdio: ["ignore", out, out],
       env: {
         ...process.env,
@@ -187,8 +207,95 @@ export async function startPaymentFake(options: {
       },
     },
   );
-  await waitFor(() => portAccepts(options.port), "payment fake");
+  await readyOrKill(child, () => portAccepts(options.port), "payment fake");
   return stopper("payments-fake", child);
+}
+
+export interface Supervised extends Service {
+  /** How many times the child was started again after it stopped on its own. */
+  readonly restarts: number;
+}
+
+/**
+ * Keeps a service running: when its child stops without being asked to, it is started again
+ * after a back-off (1 s, 2 s, 4 s … at most 30 s; back to 1 s once a child has run for a
+ * minute), with a log line each time. `stop()` ends the supervision and the child. The first
+ * start is not retried: if a service cannot start at all, the caller hears about it.
+ */
+export async function supervise(
+  name: string,
+  start: () => Promise<Service>,
+  {
+    log = (line: string) => console.log(line),
+    minDelayMs = 1_000,
+    maxDelayMs = 30_000,
+    stableMs = 60_000,
+    // false while the caller shuts down (Ctrl-C reaches every child at once, before stop() is called)
+    shouldRestart = (): boolean => true,
+  } = {},
+): Promise<Supervised> {
+  let current = await start();
+  let stopping = false;
+  let delay = minDelayMs;
+  let restarts = 0;
+  let timer: NodeJS.Timeout | null = null;
+  let starting: Promise<void> | null = null;
+  const seconds = (ms: number) => `${ms / 1000} s`;
+
+  const schedule = () => {
+    const wait = delay;
+    delay = Math.min(delay * 2, maxDelayMs);
+    timer = setTimeout(() => {
+      timer = null;
+      if (stopping || !shouldRestart()) return;
+      starting = start().then(
+        async (service) => {
+          if (stopping) return service.stop();
+          current = service;
+          restarts++;
+          log(`[supervisor] ${name} is running again (restart ${restarts}, pid ${service.child.pid})`);
+          watch(service);
+        },
+        (error: unknown) => {
+          if (stopping) return;
+          log(`[supervisor] ${name} did not start again: ${error instanceof Error ? error.message : error}; next try in ${seconds(delay)}`);
+          schedule();
+        },
+      ).finally(() => (starting = null));
+    }, wait);
+  };
+
+  const watch = (service: Service) => {
+    const startedAt = Date.now();
+    service.child.once("exit", (code, signal) => {
+      if (stopping || !shouldRestart()) return;
+      if (Date.now() - startedAt >= stableMs) delay = minDelayMs;
+      log(`[supervisor] ${name} stopped (${signal ? `signal ${signal}` : `exit ${code}`}); starting it again in ${seconds(delay)}`);
+      schedule();
+    });
+  };
+  watch(current);
+
+  return {
+    name,
+    get child() {
+      return current.child;
+    },
+    get restarts() {
+      return restarts;
+    },
+    async stop() {
+      stopping = true;
+      if (timer) clearTimeout(timer);
+      if (starting) await starting;
+      await current.stop();
+    },
+  };
+}
+
+/** A child process as a Service (for the app itself), stopped with SIGTERM, then SIGKILL after 10 s. */
+export function childService(name: string, child: ChildProcess): Service {
+  return stopper(name, child);
 }
 
 export async function stopAll(services: Service[]) {

@@ -1,15 +1,20 @@
 // `npm start` (production build) and `npm run dev` (hot reload): starts the private MariaDB, the
-// mail catcher and the payment fake, migrates and seeds, then serves the app. Ctrl-C stops them all.
-import { spawn, spawnSync, type ChildProcess } from "node:child_process";
+// mail catcher and the payment fake (side by side), migrates and seeds, builds the app only when
+// a source file is newer than the last build, then serves it. Every child is supervised: one that
+// stops on its own is started again after a back-off, the others keep running. Ctrl-C stops them all.
+import { spawn } from "node:child_process";
 import path from "node:path";
+import { buildIsFresh, sourceState, writeBuildStamp } from "./build-stamp";
 import { loadEnvFiles } from "./load-env";
 import {
+  childService,
   isPortFree,
   repoRoot,
   startMaildev,
   startMariaDb,
   startPaymentFake,
   stopAll,
+  supervise,
   type Service,
 } from "./services";
 
@@ -18,19 +23,17 @@ process.env.NODE_ENV = dev ? "development" : "production";
 loadEnvFiles();
 
 const e = process.env as Record<string, string>;
-const dataDir = path.join(repoRoot, ".data");
+// NIGHTSHARE_DATA_DIR: where MariaDB's files and the service logs live (the restart benchmark uses its own).
+const dataDir = path.resolve(repoRoot, e.NIGHTSHARE_DATA_DIR ?? ".data");
 const services: Service[] = [];
-let app: ChildProcess | null = null;
 let stopping = false;
+const started = Date.now();
+const since = () => `${((Date.now() - started) / 1000).toFixed(1)} s`;
 
 async function shutdown(code = 0) {
   if (stopping) return;
   stopping = true;
   console.log("\n[start] stopping…");
-  if (app && app.exitCode === null) {
-    app.kill("SIGTERM");
-    await new Promise((r) => app!.once("exit", r));
-  }
   await stopAll(services);
   process.exit(code);
 }
@@ -48,27 +51,49 @@ try {
   await requireFree(Number(e.MAILDEV_WEB_PORT), "the mail catcher (web)", "MAILDEV_WEB_PORT");
   await requireFree(Number(e.STRIPE_API_PORT), "the payment fake", "STRIPE_API_PORT");
 
-  console.log("[start] MariaDB (private instance, data in .data/mariadb)");
-  services.push(
-    await startMariaDb({
-      dataDir: path.join(dataDir, "mariadb"),
-      port: Number(e.DATABASE_PORT),
-      database: e.DATABASE_NAME,
-      user: e.DATABASE_USER,
-      password: e.DATABASE_PASSWORD,
-    }),
-  );
-  console.log("[start] mail catcher and payment fake");
-  services.push(await startMaildev({ smtpPort: Number(e.SMTP_PORT), webPort: Number(e.MAILDEV_WEB_PORT), logDir: dataDir }));
-  services.push(
-    await startPaymentFake({
-      port: Number(e.STRIPE_API_PORT),
-      secretKey: e.STRIPE_SECRET_KEY,
-      webhookSecret: e.STRIPE_WEBHOOK_SECRET,
-      webhookUrl: new URL("/api/v1/payments/webhook", e.APP_URL).toString(),
-      logDir: dataDir,
-    }),
-  );
+  console.log(`[start] MariaDB (private instance, data in ${path.relative(repoRoot, dataDir) || "."}/mariadb), mail catcher and payment fake`);
+  const opts = { shouldRestart: () => !stopping };
+  const pending = [
+    supervise("MariaDB", () =>
+      startMariaDb({
+        dataDir: path.join(dataDir, "mariadb"),
+        port: Number(e.DATABASE_PORT),
+        database: e.DATABASE_NAME,
+        user: e.DATABASE_USER,
+        password: e.DATABASE_PASSWORD,
+      }),
+      opts,
+    ),
+    supervise("the mail catcher", () => startMaildev({ smtpPort: Number(e.SMTP_PORT), webPort: Number(e.MAILDEV_WEB_PORT), logDir: dataDir }), opts),
+    supervise("the payment fake", () =>
+      startPaymentFake({
+        port: Number(e.STRIPE_API_PORT),
+        secretKey: e.STRIPE_SECRET_KEY,
+        webhookSecret: e.STRIPE_WEBHOOK_SECRET,
+        webhookUrl: new URL("/api/v1/payments/webhook", e.APP_URL).toString(),
+        logDir: dataDir,
+      }),
+      opts,
+    ),
+  ];
+  const outcomes = await Promise.allSettled(pending);
+  for (const o of outcomes) if (o.status === "fulfilled") services.push(o.value);
+  const failed = outcomes.find((o) => o.status === "rejected");
+  if (failed) throw failed.reason;
+  console.log(`[start] services ready (${since()})`);
+
+  const bin = (name: string) => path.join(repoRoot, "node_modules/.bin", name);
+  // The build (when needed) runs beside the migrations: it does not touch the database.
+  const build = dev
+    ? Promise.resolve()
+    : buildIsFresh()
+      ? (console.log("[start] the build is newer than every source file: not rebuilding"), Promise.resolve())
+      : new Promise<void>((resolve, reject) => {
+          console.log("[start] building the app");
+          const before = sourceState();
+          const child = spawn(bin("react-router"), ["build"], { stdio: "inherit", cwd: repoRoot });
+          child.once("exit", (status) => (status === 0 ? (writeBuildStamp(before), resolve()) : reject(new Error("The build failed."))));
+        });
 
   console.log("[start] migrations and demo data");
   const { sequelize } = await import("../models/index.server");
@@ -77,25 +102,16 @@ try {
   const seeded = await createSeeder(sequelize).up();
   if (seeded.length) console.log(`[start] seeded: ${seeded.map((s) => s.name).join(", ")}`);
   await sequelize.close();
+  await build;
 
-  const bin = (name: string) => path.join(repoRoot, "node_modules/.bin", name);
-  if (dev) {
-    app = spawn(bin("react-router"), ["dev", "--host", e.HOST ?? "127.0.0.1", "--port", String(appPort), "--strictPort"], {
-      stdio: "inherit",
-      cwd: repoRoot,
-    });
-  } else {
-    console.log("[start] building the app");
-    const build = spawnSync(bin("react-router"), ["build"], { stdio: "inherit", cwd: repoRoot });
-    if (build.status !== 0) throw new Error("The build failed.");
-    app = spawn(bin("tsx"), [path.join(repoRoot, "app/cli/serve-local.ts")], { stdio: "inherit", cwd: repoRoot });
-  }
-  app.once("exit", (code) => {
-    if (!stopping) {
-      console.error(`[start] the app stopped (exit ${code}).`);
-      void shutdown(code ?? 1);
-    }
-  });
+  const startApp = async () => {
+    const child = dev
+      ? spawn(bin("react-router"), ["dev", "--host", e.HOST ?? "127.0.0.1", "--port", String(appPort), "--strictPort"], { stdio: "inherit", cwd: repoRoot })
+      : // The build is plain JavaScript; node loads the small TypeScript front through tsx's loader (one process).
+        spawn(process.execPath, ["--import", "tsx", path.join(repoRoot, "app/cli/serve-local.ts")], { stdio: "inherit", cwd: repoRoot });
+    return childService("app", child);
+  };
+  services.push(await supervise("the app", startApp, opts));
 
   console.log(`
   Nightshare        ${e.APP_URL}
@@ -109,7 +125,9 @@ try {
     chair@kestrel-ridge.example     chair of the TAC
     admin@kestrel-ridge.example     observatory office
 
-  Ctrl-C stops everything started here; the data stays in .data/.
+  A child that stops is started again (see the [supervisor] lines).
+  Ctrl-C stops everything started here; the data stays in ${path.relative(repoRoot, dataDir) || "."}/.
+  [start] ready in ${since()}
 `);
 } catch (error) {
   console.error(`[start] ${error instanceof Error ? error.message : error}`);

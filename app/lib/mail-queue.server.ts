@@ -1,8 +1,10 @@
+import { createHash } from "node:crypto";
 import nodemailer, { type SendMailOptions } from "nodemailer";
 import { QueryTypes, type Transaction } from "sequelize";
 import { OutgoingMail, sequelize } from "~/models/index.server";
-import type { MailAttachment } from "~/models/OutgoingMail";
+import type { MailAttachment, MailKind } from "~/models/OutgoingMail";
 import { env } from "./env.server";
+import { renderQueuedMail } from "./mail-renderers.server";
 
 export const MAX_MAIL_ATTEMPTS = 12;
 
@@ -21,9 +23,13 @@ export function mailTransport() {
   return transport;
 }
 
-/** Queues a message; it is sent by the worker, so a mail outage never loses it. */
+/**
+ * Queues a message; it is sent by the worker, so a mail outage never loses it. With `kind`, the
+ * worker renders the message when it sends (see mail-renderers.server.ts); subject and text are
+ * then what goes out if that rendering fails.
+ */
 export async function enqueueMail(
-  message: { to: string; subject: string; text: string; html?: string; attachments?: MailAttachment[]; expiresAt?: Date },
+  message: { to: string; subject: string; text: string; html?: string; attachments?: MailAttachment[]; kind?: MailKind; payload?: Record<string, unknown>; expiresAt?: Date },
   transaction?: Transaction,
 ) {
   const row = await OutgoingMail.create(
@@ -33,6 +39,8 @@ export async function enqueueMail(
       textBody: message.text,
       htmlBody: message.html ?? null,
       attachments: message.attachments ?? null,
+      kind: message.kind ?? null,
+      payload: message.payload ?? null,
       nextAttemptAt: new Date(),
       lastError: null,
       messageId: null,
@@ -52,12 +60,22 @@ export function retryDelayMs(attempts: number) {
 }
 
 /**
+ * The Message-ID of a queued row, the same on every attempt: a message sent again after a crash
+ * (accepted by the relay, not yet marked sent) is then recognisably the same message.
+ */
+export function messageIdFor(mail: { id: number; createdAt: Date }) {
+  const hash = createHash("sha256").update(`nightshare-outgoing-mail|${mail.id}|${mail.createdAt.getTime()}`).digest("hex").slice(0, 16);
+  return `<outgoing-mail-${mail.id}.${hash}@${new URL(env.APP_URL).hostname}>`;
+}
+
+/**
  * Sends the messages that are due, one row at a time. Each row is locked with
  * SKIP LOCKED inside its own transaction, so several app processes never send it twice.
  */
 export async function drainMailQueue({ limit = 50, send = (m: SendMailOptions): Promise<{ messageId?: string }> => transport.sendMail(m) } = {}) {
   let sent = 0;
   let failed = 0;
+  const memo = new Map<string, unknown>(); // shared by the renderers within one drain (one PDF per proposal)
   for (let i = 0; i < limit; i++) {
     const outcome = await sequelize.transaction(async (transaction) => {
       const rows = await sequelize.query<{ id: number }>(
@@ -72,19 +90,22 @@ export async function drainMailQueue({ limit = 50, send = (m: SendMailOptions): 
         return "failed" as const;
       }
       try {
+        const content = await renderQueuedMail(mail, memo);
+        const messageId = messageIdFor(mail);
         const info = await send({
           from: env.MAIL_FROM,
           to: mail.toAddress,
-          subject: mail.subject,
-          text: mail.textBody,
-          html: mail.htmlBody ?? undefined,
-          attachments: (mail.attachments ?? []).map((a) => ({
+          messageId,
+          subject: content.subject,
+          text: content.text,
+          html: content.html ?? undefined,
+          attachments: content.attachments.map((a) => ({
             filename: a.filename,
             contentType: a.contentType,
             content: Buffer.from(a.content, "base64"),
           })),
         });
-        await mail.update({ status: "sent", sentAt: new Date(), attempts: mail.attempts + 1, messageId: info?.messageId ?? null, lastError: null }, { transaction });
+        await mail.update({ status: "sent", sentAt: new Date(), attempts: mail.attempts + 1, messageId: info?.messageId ?? messageId, lastError: null }, { transaction });
         return "sent" as const;
       } catch (error) {
         const attempts = mail.attempts + 1;

@@ -1,7 +1,8 @@
 // The proposal PDF: a cover, technical pages (the feasibility sheet's tables, with the numbers
 // behind its charts) and the uploaded science case, with a header and page numbers throughout.
-// Set in Source Sans 3 from the @fontsource package that ships with the app (WOFF, embedded
-// and subset by pdf-lib with @pdf-lib/fontkit).
+// Set in Source Sans 3 from the @fontsource package that ships with the app (WOFF, unpacked to
+// TrueType once per process, embedded and subset by pdf-lib with @pdf-lib/fontkit). Speed: every
+// string is laid out (OpenType shaping) once per embedded font, not for every width check and draw.
 import { readFileSync } from "node:fs";
 import { createRequire } from "node:module";
 import path from "node:path";
@@ -14,6 +15,7 @@ import { scienceCategoryLabel } from "~/lib/proposal-vocabulary";
 import { latestScienceCaseBytes } from "~/lib/science-case.server";
 import { Call, Proposal, ProposalMember, User } from "~/models/index.server";
 import { proposalStatusLabels } from "~/lib/domain";
+import { woffToSfnt } from "~/lib/woff";
 
 const A4: [number, number] = [595.28, 841.89];
 const MARGIN = 50;
@@ -26,39 +28,99 @@ const RULE = rgb(0.8, 0.83, 0.87);
 type FontFace = { pdf: PDFFont; has: (cp: number) => boolean };
 type Family = FontFace[];
 
-let fontFiles: Record<string, Uint8Array> | null = null;
-function fontBytes() {
+type Glyph = { id: number; codePoints: number[] };
+type Layout = { glyphs: Glyph[]; positions: unknown[] };
+type FontkitFont = { hasGlyphForCodePoint(cp: number): boolean; layout(text: string, features?: unknown): Layout; getGlyph(id: number, codePoints?: number[]): Glyph };
+type LoadedFont = { bytes: Uint8Array; layout: (text: string) => Layout; has: (cp: number) => boolean };
+const LAYOUTS_PER_FONT = 50_000;
+
+/**
+ * One parsed font per face for the whole process, used only to lay strings out (OpenType
+ * shaping, which pdf-lib runs for every width and every draw): each string's layout is
+ * remembered, up to LAYOUTS_PER_FONT strings. Each document still embeds its own instance, whose
+ * glyphs (and so the subset and the text mapping) are its own.
+ */
+function loadFont(bytes: Uint8Array): LoadedFont {
+  const font = fontkit.create(bytes as unknown as Buffer) as unknown as FontkitFont;
+  const seen = new Map<string, Layout>();
+  const known = new Map<number, boolean>();
+  return {
+    bytes,
+    layout: (text) => {
+      let run = seen.get(text);
+      if (!run) {
+        if (seen.size >= LAYOUTS_PER_FONT) seen.clear();
+        seen.set(text, (run = font.layout(text)));
+      }
+      return run;
+    },
+    has: (cp) => {
+      let v = known.get(cp);
+      if (v === undefined) known.set(cp, (v = font.hasGlyphForCodePoint(cp)));
+      return v;
+    },
+  };
+}
+
+let fontFiles: Record<string, LoadedFont> | null = null;
+/** The six faces, unpacked and parsed once per process. */
+function fonts() {
   if (!fontFiles) {
     const dir = path.join(path.dirname(createRequire(import.meta.url).resolve("@fontsource/source-sans-3/LICENSE")), "files");
-    const read = (name: string) => new Uint8Array(readFileSync(path.join(dir, `source-sans-3-${name}-normal.woff`)));
+    const load = (name: string) => loadFont(woffToSfnt(new Uint8Array(readFileSync(path.join(dir, `source-sans-3-${name}-normal.woff`)))));
     fontFiles = {
-      regular: read("latin-400"),
-      regularExt: read("latin-ext-400"),
-      regularGreek: read("greek-400"),
-      bold: read("latin-600"),
-      boldExt: read("latin-ext-600"),
-      boldGreek: read("greek-600"),
+      regular: load("latin-400"),
+      regularExt: load("latin-ext-400"),
+      regularGreek: load("greek-400"),
+      bold: load("latin-600"),
+      boldExt: load("latin-ext-600"),
+      boldGreek: load("greek-600"),
     };
   }
   return fontFiles;
 }
 
+/** The document's font lays out through the shared layouts, with its own glyph objects. */
+function useSharedLayouts(pdf: PDFFont, shared: LoadedFont) {
+  const own = (pdf as unknown as { embedder: { font: FontkitFont } }).embedder.font;
+  const mine = new Map<string, Layout>();
+  own.layout = (text) => {
+    let run = mine.get(text);
+    if (!run) {
+      const s = shared.layout(text);
+      mine.set(text, (run = { glyphs: s.glyphs.map((g) => own.getGlyph(g.id, g.codePoints)), positions: s.positions }));
+    }
+    return run;
+  };
+}
+
 async function family(doc: PDFDocument, names: string[]): Promise<Family> {
-  const files = fontBytes();
+  const loaded = fonts();
   const out: Family = [];
   for (const name of names) {
-    const bytes = files[name];
-    const pdf = await doc.embedFont(bytes, { subset: true });
-    const fk = fontkit.create(bytes as unknown as Buffer) as unknown as { hasGlyphForCodePoint(cp: number): boolean };
-    out.push({ pdf, has: (cp) => fk.hasGlyphForCodePoint(cp) });
+    const face = loaded[name];
+    const pdf = await doc.embedFont(face.bytes, { subset: true });
+    useSharedLayouts(pdf, face);
+    out.push({ pdf, has: face.has });
   }
   return out;
 }
 
 const FALLBACK: Record<string, string> = { "≈": "~", "ϖ": "plx", "⁻": "-", "≤": "<=", "≥": ">=", "√": "sqrt ", "→": "->", "…": "...", "·": "·" };
 
+type Run = { text: string; font: PDFFont };
+const runCache = new WeakMap<Family, Map<string, Run[]>>();
+
 /** Splits text into runs, each set in the first face of the family that has its glyphs. */
-function runs(text: string, fam: Family): { text: string; font: PDFFont }[] {
+function runs(text: string, fam: Family): Run[] {
+  let cache = runCache.get(fam);
+  if (!cache) runCache.set(fam, (cache = new Map()));
+  let out = cache.get(text);
+  if (!out) cache.set(text, (out = splitRuns(text, fam)));
+  return out;
+}
+
+function splitRuns(text: string, fam: Family): Run[] {
   const out: { text: string; font: PDFFont }[] = [];
   for (const ch of text) {
     const cp = ch.codePointAt(0)!;
@@ -85,8 +147,12 @@ class Writer {
     readonly bold: Family,
   ) {}
 
+  private widths = new Map<string, number>();
   width(text: string, size: number, fam = this.regular) {
-    return runs(text, fam).reduce((w, r) => w + r.font.widthOfTextAtSize(r.text, size), 0);
+    const key = `${fam === this.bold ? "b" : "r"}${size}|${text}`;
+    let w = this.widths.get(key);
+    if (w === undefined) this.widths.set(key, (w = runs(text, fam).reduce((sum, r) => sum + r.font.widthOfTextAtSize(r.text, size), 0)));
+    return w;
   }
 
   text(text: string, x: number, y: number, size: number, opts: { bold?: boolean; color?: ReturnType<typeof rgb>; page?: PDFPage } = {}) {

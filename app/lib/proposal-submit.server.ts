@@ -1,13 +1,13 @@
 // Submission: a checklist computed on the server, then one transaction that gives the code
 // (NS-<semester>-<3 digits>, serial per call under a lock on the call's row), the state and the
-// audit entry; then the receipt with the proposal PDF to the PI and every Co-I.
-import { QueryTypes } from "sequelize";
+// audit entry and the receipt to the PI and every Co-I (queued in that same transaction; the mail
+// worker builds the proposal PDF when it sends, see proposal-receipt.server.ts).
+import { QueryTypes, type Transaction } from "sequelize";
 import { writeAudit } from "~/lib/audit.server";
-import { env } from "~/lib/env.server";
 import { computeFeasibilitySheet } from "~/lib/feasibility.server";
 import { enqueueMail } from "~/lib/mail-queue.server";
-import { plainMail } from "~/lib/mail-templates.server";
 import { buildProposalPdf } from "~/lib/proposal-pdf.server";
+import { receiptMail, type ReceiptPayload } from "~/lib/proposal-receipt.server";
 import { ABSTRACT_WORD_LIMIT, scienceCategoryLabel, wordCount } from "~/lib/proposal-vocabulary";
 import { latestScienceCase } from "~/lib/science-case.server";
 import { Observation, ProposalMember, sequelize, Target } from "~/models/index.server";
@@ -138,48 +138,31 @@ export async function submitProposal({ user, proposalId }: { user: Actor; propos
       { actorId: user.id, action: "proposal.submitted", entityType: "proposal", entityId: proposalId, proposalId, details: { code: proposal.code, keptCode } },
       transaction,
     );
-    return { code: proposal.code!, title: proposal.title, semesterCode: call.semesterCode, deadlineAt: call.deadlineAt, submittedAt: proposal.submittedAt };
+    const recipients = await queueReceipt({ user, proposalId, code: proposal.code!, title: proposal.title, semesterCode: call.semesterCode, deadlineAt: call.deadlineAt, submittedAt: proposal.submittedAt }, transaction);
+    return { code: proposal.code!, title: proposal.title, semesterCode: call.semesterCode, deadlineAt: call.deadlineAt, submittedAt: proposal.submittedAt, recipients };
   });
 
-  const receipt = await queueReceipt({ user, proposalId, ...submitted });
-  return { ...submitted, ...receipt };
+  // pdfAttached: the worker attaches the PDF when it sends (a link instead if the PDF fails).
+  return { ...submitted, pdfAttached: true };
 }
 
 /**
- * The receipt is queued after the submission commits, because the PDF must show the code that
- * the submission assigned (the PDF builder reads committed data). If the PDF cannot be built the
- * receipt still goes out, with the download link, and the failure is in the history.
+ * The receipt is queued in the submission's transaction, so a crash leaves both or neither. It
+ * is a mail row the worker renders when it sends: the PDF then shows the committed submission.
  */
-async function queueReceipt({ user, proposalId, code, title, semesterCode, deadlineAt, submittedAt }: { user: Actor; proposalId: number; code: string; title: string; semesterCode: string; deadlineAt: Date; submittedAt: Date | null }) {
-  let pdf: Uint8Array | null = null;
-  let pdfError: string | null = null;
-  try {
-    pdf = await buildProposalPdf({ proposalId });
-  } catch (error) {
-    pdfError = error instanceof Error ? error.message : String(error);
-    console.error("proposal PDF failed", error);
-  }
-  const members = await ProposalMember.findAll({ where: { proposalId } });
-  const link = new URL(`/proposals/${proposalId}/pdf`, env.APP_URL).toString();
-  const when = (d: Date | null) => (d ?? new Date()).toISOString().slice(0, 16).replace("T", " ");
-  const mail = plainMail({
-    subject: `Nightshare receipt: ${code} submitted`,
-    paragraphs: [
-      `The proposal ${code}, "${title}", was submitted to call ${semesterCode} on ${when(submittedAt)} UTC.`,
-      pdf ? "The attached PDF is the proposal as the time-allocation committee will read it: the cover, the technical pages with the feasibility sheet, and the science case." : `The PDF could not be attached this time; download it from Nightshare: ${link}`,
-      `The PI can withdraw it until the deadline, ${when(deadlineAt)} UTC, and reopen it as a draft to change it; it keeps its code.`,
-    ],
-    button: { label: "Download the proposal PDF", href: link },
-  });
-  const attachments = pdf ? [{ filename: `${code}.pdf`, contentType: "application/pdf", content: Buffer.from(pdf).toString("base64") }] : [];
-  await sequelize.transaction(async (transaction) => {
-    for (const m of members) await enqueueMail({ to: m.email, ...mail, attachments }, transaction);
-    await writeAudit(
-      { actorId: user.id, action: "proposal.receipt_queued", entityType: "proposal", entityId: proposalId, proposalId, details: { to: members.map((m) => m.email), pdfBytes: pdf?.byteLength ?? null, pdfError } },
-      transaction,
-    );
-  });
-  return { recipients: members.map((m) => m.email), pdfAttached: Boolean(pdf) };
+async function queueReceipt(
+  { user, proposalId, code, title, semesterCode, deadlineAt, submittedAt }: { user: Actor; proposalId: number; code: string; title: string; semesterCode: string; deadlineAt: Date; submittedAt: Date | null },
+  transaction: Transaction,
+) {
+  const members = await ProposalMember.findAll({ where: { proposalId }, transaction });
+  const payload: ReceiptPayload = { proposalId, code, title, semesterCode, deadlineAt: deadlineAt.toISOString(), submittedAt: submittedAt?.toISOString() ?? null };
+  const fallback = receiptMail(payload, false);
+  for (const m of members) await enqueueMail({ to: m.email, ...fallback, kind: "proposal-receipt", payload }, transaction);
+  await writeAudit(
+    { actorId: user.id, action: "proposal.receipt_queued", entityType: "proposal", entityId: proposalId, proposalId, details: { to: members.map((m) => m.email), pdf: "built when sent" } },
+    transaction,
+  );
+  return members.map((m) => m.email);
 }
 
 export async function proposalPdfForUser({ user, proposalId }: { user: Actor; proposalId: number }) {

@@ -7,6 +7,8 @@ export interface MailAttachment {
   content: string;
 }
 
+export type MailKind = "proposal-receipt";
+
 export class OutgoingMail extends Model<InferAttributes<OutgoingMail>, InferCreationAttributes<OutgoingMail>> {
   declare id: CreationOptional<number>;
   declare toAddress: string;
@@ -14,6 +16,9 @@ export class OutgoingMail extends Model<InferAttributes<OutgoingMail>, InferCrea
   declare textBody: string;
   declare htmlBody: string | null;
   declare attachments: MailAttachment[] | null;
+  /** A renderer the worker runs when it sends (`app/lib/mail-renderers.server.ts`); null: send as stored. */
+  declare kind: CreationOptional<MailKind | null>;
+  declare payload: CreationOptional<Record<string, unknown> | null>;
   declare status: CreationOptional<"pending" | "sent" | "failed">;
   declare attempts: CreationOptional<number>;
   declare nextAttemptAt: Date;
@@ -34,6 +39,8 @@ export class OutgoingMail extends Model<InferAttributes<OutgoingMail>, InferCrea
         textBody: { type: DataTypes.TEXT("medium"), allowNull: false },
         htmlBody: DataTypes.TEXT("medium"),
         attachments: DataTypes.JSON,
+        kind: DataTypes.STRING(40),
+        payload: DataTypes.JSON,
         status: { type: DataTypes.ENUM("pending", "sent", "failed"), allowNull: false, defaultValue: "pending" },
         attempts: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
         nextAttemptAt: { type: DataTypes.DATE(3), allowNull: false },

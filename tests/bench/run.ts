@@ -1,6 +1,26 @@
 // `npm run bench`: prints timings; nothing here is asserted (timings are not tests).
+//   npm run bench               everything
+//   npm run bench -- pdf        one section (visibility, pdf, restart)
+import { availableParallelism, loadavg } from "node:os";
 import { runAstroBench } from "./astro";
+import { runPdfBench } from "./pdf";
+import { runRestartBench } from "./restart";
 
+const only = process.argv[2];
+const want = (name: string) => !only || only === name;
 console.log(`Nightshare benchmarks — node ${process.version}, ${new Date().toISOString()}`);
-console.log("\n[visibility]");
-for (const line of runAstroBench()) console.log("  " + line);
+// Figures are only comparable on a quiet machine: a load above the number of cores inflates them.
+console.log(`machine: ${availableParallelism()} cores, load average ${loadavg().map((l) => l.toFixed(1)).join(" / ")} (1/5/15 min)`);
+if (want("visibility")) {
+  console.log("\n[visibility]");
+  for (const line of runAstroBench()) console.log("  " + line);
+}
+if (want("pdf")) {
+  console.log("\n[proposal PDF and submission]");
+  for (const line of await runPdfBench()) console.log("  " + line);
+}
+if (want("restart")) {
+  console.log("\n[restart: npm start]");
+  for (const line of await runRestartBench()) console.log("  " + line);
+}
+process.exit(0);

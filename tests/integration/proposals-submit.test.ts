@@ -1,8 +1,9 @@
 // Submission through HTTP: the checklist, refusals (incomplete, Co-I, deadline), codes per call
 // under concurrency, receipts with the PDF, read-only after submission, withdraw and reopen.
 import { beforeAll, describe, expect, it } from "vitest";
-import { AuditEntry, Call, OutgoingMail, Proposal, ProposalMember, Target, User } from "~/models/index.server";
+import { AuditEntry, Call, OutgoingMail, Proposal, ProposalMember, Target, User, sequelize } from "~/models/index.server";
 import { createProposal } from "~/lib/proposals.server";
+import { submitProposal } from "~/lib/proposal-submit.server";
 import { form, request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
 import { waitForMail } from "../helpers/maildev";
@@ -87,14 +88,16 @@ describe("submission", () => {
     expect(res.text).toContain(`Submitted as NS-${call.semesterCode}-001`);
     expect(await AuditEntry.findOne({ where: { proposalId, action: "proposal.submitted" } })).toMatchObject({ details: { code: p.code, keptCode: false } });
     for (const to of [pi.email, coi.email]) {
-      const mail = (await OutgoingMail.findOne({ where: { toAddress: to, subject: `Nightshare receipt: ${p.code} submitted` } }))!;
-      expect(mail).not.toBeNull();
-      expect(mail.attachments).toHaveLength(1);
-      expect(mail.attachments![0]).toMatchObject({ filename: `${p.code}.pdf`, contentType: "application/pdf" });
-      expect(Buffer.from(mail.attachments![0].content, "base64").subarray(0, 5).toString()).toBe("%PDF-");
+      // Exactly one receipt row each, queued by the submission; the worker builds the PDF when it sends.
+      const rows = await OutgoingMail.findAll({ where: { toAddress: to, subject: `Nightshare receipt: ${p.code} submitted` } });
+      expect(rows).toHaveLength(1);
+      expect(rows[0]).toMatchObject({ kind: "proposal-receipt", payload: { proposalId, code: p.code }, attachments: null });
     }
     const caught = await waitForMail(coi.email, new RegExp(`receipt: ${p.code}`));
+    expect(caught.text).toContain("The attached PDF is the proposal");
+    expect(caught.attachments).toHaveLength(1);
     expect(caught.attachments?.[0]).toMatchObject({ contentType: "application/pdf" });
+    expect((caught.attachments![0] as unknown as { filename: string }).filename).toBe(`${p.code}.pdf`); // maildev's field name
     const att = caught.attachments![0];
     const file = await fetch(`${testEnv.maildevUrl}/api/email/${caught.id}/attachment/${encodeURIComponent(att.generatedFileName ?? att.fileName)}`);
     expect(file.status).toBe(200);
@@ -193,5 +196,36 @@ describe("the deadline", () => {
     expect(r.text).toContain("cannot be reopened");
     expect((await Proposal.findByPk(withdrawn))!.status).toBe("withdrawn");
     expect(await ProposalMember.count({ where: { proposalId: draft } })).toBe(1);
+  });
+});
+
+describe("the receipt and the submission share one transaction", () => {
+  const receiptRows = async (proposalId: number) =>
+    (await OutgoingMail.findAll({ where: { kind: "proposal-receipt" } })).filter((m) => (m.payload as { proposalId?: number } | null)?.proposalId === proposalId);
+
+  it("a failure after the receipt is queued leaves neither the submission nor the receipt", async () => {
+    const call = await testCall();
+    const { proposal } = await readyProposal({ user: pi.user, callId: call.id });
+    // The database refuses the audit entry written after the receipt rows, inside the same transaction.
+    await sequelize.query("DROP TRIGGER IF EXISTS test_fail_receipt_audit");
+    await sequelize.query(
+      `CREATE TRIGGER test_fail_receipt_audit BEFORE INSERT ON audit_log FOR EACH ROW
+       BEGIN IF NEW.action = 'proposal.receipt_queued' AND NEW.proposalId = ${proposal.id} THEN SIGNAL SQLSTATE '45000' SET MESSAGE_TEXT = 'injected failure after the receipt'; END IF; END`,
+    );
+    try {
+      await expect(submitProposal({ user: pi.user, proposalId: proposal.id })).rejects.toThrow(/injected failure/);
+    } finally {
+      await sequelize.query("DROP TRIGGER IF EXISTS test_fail_receipt_audit");
+    }
+    expect((await Proposal.findByPk(proposal.id))!).toMatchObject({ status: "draft", code: null, submittedAt: null });
+    expect(await receiptRows(proposal.id)).toHaveLength(0);
+    expect(await AuditEntry.count({ where: { proposalId: proposal.id, action: "proposal.submitted" } })).toBe(0);
+
+    // Without the failure, the same submission commits with exactly one receipt row for the PI.
+    const done = await submitProposal({ user: pi.user, proposalId: proposal.id });
+    const rows = await receiptRows(proposal.id);
+    expect(rows.map((r) => r.toAddress)).toEqual([pi.email]);
+    expect(rows[0].subject).toBe(`Nightshare receipt: ${done.code} submitted`);
+    expect((await Proposal.findByPk(proposal.id))!).toMatchObject({ status: "submitted", code: done.code });
   });
 });
