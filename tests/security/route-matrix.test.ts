@@ -138,6 +138,8 @@ describe("the role × route matrix", () => {
                 : isApi
                   ? agent.post(url).set("Origin", appOrigin()).set("Content-Type", "application/json").send(JSON.stringify({ intent: "matrix-probe" }))
                   : agent.post(url).set("Origin", appOrigin()).type("form").send("intent=matrix-probe");
+            // the app's own host and origin, as a browser posting one of the app's forms sends them
+            req.set("Host", new URL(appOrigin()).host);
             if (cookie) req.set("Cookie", cookie);
             const res = await req.redirects(0);
             const where = `${method} ${url} (${instance.label || route.key}) as ${person}: ${res.status} ${res.headers.location ?? ""} ${res.text?.slice(0, 160) ?? ""}`;
