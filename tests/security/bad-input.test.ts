@@ -22,40 +22,47 @@ async function send(path: string, init: { method?: string; body?: BodyInit | nul
   const headers: Record<string, string> = { Origin: base, ...(init.headers ?? {}) };
   if (init.type) headers["Content-Type"] = init.type;
   if (init.cookie) headers.Cookie = init.cookie;
-  const res = await fetch(`${base}${path}`, {
-    method: init.method ?? "POST",
-    body: init.body ?? undefined,
-    headers,
-    redirect: "manual",
-    // a ReadableStream body goes out chunked, without Content-Length
-    ...(init.body instanceof ReadableStream ? { duplex: "half" } : {}),
-  } as RequestInit);
-  const text = await res.text();
-  return { status: res.status, type: res.headers.get("content-type") ?? "", text };
+  try {
+    const res = await fetch(`${base}${path}`, {
+      method: init.method ?? "POST",
+      body: init.body ?? undefined,
+      headers,
+      redirect: "manual",
+      // a ReadableStream body goes out chunked, without Content-Length
+      ...(init.body instanceof ReadableStream ? { duplex: "half" } : {}),
+    } as RequestInit);
+    const text = await res.text();
+    return { status: res.status, type: res.headers.get("content-type") ?? "", text };
+  } catch (error) {
+    // the server dropped the connection instead of answering: status 0 fails every check below
+    const cause = (error as { cause?: { code?: string } }).cause;
+    return { status: 0, type: "", text: `no answer (${cause?.code ?? String(error)})` };
+  }
 }
 
 type Answer = Awaited<ReturnType<typeof send>>;
 const show = (a: Answer) => `${a.status} ${a.type} ${a.text.slice(0, 200)}`;
 
+// Soft: every input of a test is tried, and each refusal that went wrong is listed.
 function expect4xx(a: Answer, where: string) {
-  expect(a.status, `${where}: ${show(a)}`).toBeGreaterThanOrEqual(400);
-  expect(a.status, `${where}: ${show(a)}`).toBeLessThan(500);
+  expect.soft(a.status >= 400 && a.status < 500, `${where}: wanted a 4xx, got ${show(a)}`).toBe(true);
 }
 
 function expectNo5xx(a: Answer, where: string) {
-  expect(a.status, `${where}: ${show(a)}`).toBeLessThan(500);
+  expect.soft(a.status > 0 && a.status < 500, `${where}: wanted no 5xx, got ${show(a)}`).toBe(true);
 }
 
 /** A JSON API's 400: `{ error, issues: [{ path, message }] }`, with at least one issue. */
 function expectApiIssues(a: Answer, where: string) {
-  expect(a.type, `${where}: ${show(a)}`).toMatch(/application\/json/);
-  const body = JSON.parse(a.text) as { error?: unknown; issues?: { path?: unknown; message?: unknown }[] };
-  expect(typeof body.error, `${where}: ${a.text.slice(0, 200)}`).toBe("string");
-  expect(Array.isArray(body.issues) && body.issues.length > 0, `${where}: issues in ${a.text.slice(0, 200)}`).toBe(true);
-  for (const issue of body.issues!) {
-    expect(typeof issue.path, `${where}: ${JSON.stringify(issue)}`).toBe("string");
-    expect(typeof issue.message, `${where}: ${JSON.stringify(issue)}`).toBe("string");
+  let body: { error?: unknown; issues?: { path?: unknown; message?: unknown }[] } = {};
+  try {
+    body = JSON.parse(a.text);
+  } catch {
+    // not JSON: the checks below fail with the text
   }
+  const issues = Array.isArray(body.issues) ? body.issues : [];
+  const shaped = /application\/json/.test(a.type) && typeof body.error === "string" && issues.length > 0 && issues.every((i) => typeof i.path === "string" && typeof i.message === "string");
+  expect.soft(shaped, `${where}: wanted { error, issues: [{ path, message }] }, got ${show(a)}`).toBe(true);
 }
 
 async function expectAlive() {
@@ -318,9 +325,9 @@ describe("JSON API routes refuse hostile fields with a 400 naming them", () => {
         const where = `${route.path} ${c.label}`;
         const a = await send(route.path, { body: c.body, type: c.type, cookie, headers: route.sign && typeof c.body === "string" ? signed(c.body) : {} });
         expect4xx(a, where);
-        if (c.status) expect(a.status, `${where}: ${show(a)}`).toBe(c.status);
+        if (c.status) expect.soft(a.status, `${where}: ${show(a)}`).toBe(c.status);
         if (a.status === 400) expectApiIssues(a, where);
-        if (c.status === 413) expect(a.type, `${where}: the 413 is JSON`).toMatch(/application\/json/);
+        if (c.status === 413 && a.status === 413) expect.soft(a.type, `${where}: the 413 is JSON`).toMatch(/application\/json/);
       }
       await expectAlive();
     });
@@ -363,7 +370,7 @@ describe("ids in URLs", () => {
     for (const id of badIds) {
       for (const [path, cookie] of paths(encodeURIComponent(id))) {
         const got = await send(path, { method: "GET", cookie });
-        expect([400, 404], `GET ${path}: ${show(got)}`).toContain(got.status);
+        expect.soft([400, 404], `GET ${path}: ${show(got)}`).toContain(got.status);
         const posted = await send(path, { body: "intent=update", type: "application/x-www-form-urlencoded", cookie });
         expect4xx(posted, `POST ${path}`);
       }
@@ -377,10 +384,14 @@ describe("form actions refuse hostile fields and bodies with a 4xx", () => {
     it(`POST ${route.path().replace(/\d+/g, ":id")}: every intent × field × hostile value`, { timeout: 600_000 }, async () => {
       const path = route.path();
       const cookie = await cookieFor(route.who);
+      // the 100 000-element array is heavy to build and parse: once per intent, in its first id field (else its first field)
+      const fields = Object.entries(route.fields);
+      const arrayField = (fields.find(([, kind]) => kind === "id") ?? fields[0])[0];
       for (const intent of route.intents) {
-        for (const [field, kind] of Object.entries(route.fields)) {
+        for (const [field, kind] of fields) {
           for (const v of values) {
             if (v.form === undefined) continue;
+            if (Array.isArray(v.form) && field !== arrayField) continue;
             const where = `${path} intent=${intent} ${field} = ${v.label}`;
             const a = route.multipart
               ? await send(path, { body: multipartBody(intent, field, v.form), cookie })
@@ -410,7 +421,7 @@ describe("form actions refuse hostile fields and bodies with a 4xx", () => {
         const where = `${path} ${c.label}`;
         const a = await send(path, { body: c.body, type: c.type, cookie });
         expect4xx(a, where);
-        if (c.status) expect(a.status, `${where}: ${show(a)}`).toBe(c.status);
+        if (c.status) expect.soft(a.status, `${where}: ${show(a)}`).toBe(c.status);
       }
       await expectAlive();
     });
