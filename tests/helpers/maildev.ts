@@ -7,7 +7,15 @@ export interface CaughtMail {
   html?: string;
   to: { address: string }[];
   attachments?: { fileName: string; contentType: string; length: number; generatedFileName: string }[];
-  date: string;
+  /** the Date header (whole seconds; may be missing from the listing) */
+  date?: string;
+  /** when the mail catcher received it (milliseconds) */
+  time?: string;
+}
+
+/** When a message arrived: the catcher's receive time, else its Date header. */
+function arrival(m: CaughtMail) {
+  return new Date(m.time ?? m.date ?? 0).getTime();
 }
 
 export async function allMail(): Promise<CaughtMail[]> {
@@ -25,7 +33,7 @@ export async function mailIds(): Promise<Set<string>> {
 }
 
 export type MailWait = {
-  /** only messages dated at or after this time (the Date header has whole seconds, so this is compared by the second) */
+  /** only messages that arrived at or after this time (by the second when only the Date header is known) */
   since?: Date;
   /** never these messages (e.g. `await mailIds()` taken before the action that sends the mail) */
   exclude?: Set<string>;
@@ -40,7 +48,7 @@ export type MailWait = {
  */
 export async function waitForMail(address: string, subject: RegExp = /./, timeoutMs = 20_000, { since, exclude, pollMs = 250 }: MailWait = {}): Promise<CaughtMail> {
   const until = Date.now() + timeoutMs;
-  const sinceSecond = since ? Math.floor(since.getTime() / 1000) * 1000 : -Infinity;
+  const after = (m: CaughtMail) => !since || (m.time ? arrival(m) >= since.getTime() : arrival(m) >= Math.floor(since.getTime() / 1000) * 1000);
   for (;;) {
     const match = (await allMail())
       .filter(
@@ -48,9 +56,9 @@ export async function waitForMail(address: string, subject: RegExp = /./, timeou
           m.to.some((t) => t.address.toLowerCase() === address.toLowerCase()) &&
           subject.test(m.subject) &&
           !exclude?.has(m.id) &&
-          new Date(m.date).getTime() >= sinceSecond,
+          after(m),
       )
-      .sort((a, b) => b.date.localeCompare(a.date))[0];
+      .sort((a, b) => arrival(b) - arrival(a))[0];
     if (match) return match;
     if (Date.now() >= until) break;
     await new Promise((r) => setTimeout(r, pollMs));
