@@ -87,7 +87,7 @@ const values: { label: string; json?: unknown; raw?: string; form?: string | str
   { label: "-1", json: -1, form: "-1" },
   { label: "1e309", raw: "1e309", form: "1e309" },
   { label: "not a number", json: "abc", form: "abc" },
-  { label: `${HUGE_ARRAY_LENGTH}-element array`, json: Array.from({ length: HUGE_ARRAY_LENGTH }, () => 1), form: Array.from({ length: HUGE_ARRAY_LENGTH }, () => "1") },
+  { label: `${HUGE_ARRAY_LENGTH}-element array`, json: Array.from({ length: HUGE_ARRAY_LENGTH }, () => 1), form: Array.from({ length: HUGE_ARRAY_LENGTH }, () => "-1") }, // never a real id
   { label: "nested object", json: nested(1000) },
 ];
 
@@ -170,7 +170,7 @@ function signed(payload: string) {
 type Kind = "id" | "number" | "text";
 type FormRoute = { path: () => string; who: "anonymous" | "owner" | "admin" | "fresh"; intents: (string | undefined)[]; fields: Record<string, Kind>; multipart?: boolean };
 
-const ids = { proposal: 0, target: 0, telescope: 0, instrument: 0, call: 0, filter: 0 };
+const ids = { proposal: 0, target: 0, telescope: 0, instrument: 0, call: 0, filter: 0, filters: 0 };
 let owner = "";
 
 const officeTelescope: Record<string, Kind> = { name: "text", siteName: "text", latitudeDeg: "number", longitudeDeg: "number", elevationM: "number", timeZone: "text", apertureM: "number", centralObstruction: "number" };
@@ -189,11 +189,12 @@ const formRoutes: FormRoute[] = [
     fields: { version: "id", title: "text", abstract: "text", scienceCategory: "text", isMultiSemester: "text", semestersRequested: "text", isTargetOfOpportunity: "text" },
   },
   { path: () => `/proposals/${ids.proposal}/team`, who: "owner", intents: ["invite", "remove", "hand-over", "bogus"], fields: { email: "text", memberId: "id", intent: "text" } },
+  { path: () => `/proposals/${ids.proposal}/targets`, who: "owner", intents: ["import"], fields: { csv: "text" } },
   {
     path: () => `/proposals/${ids.proposal}/targets`,
     who: "owner",
-    intents: ["import", "create", "update", "delete"],
-    fields: { csv: "text", name: "text", ra: "number", dec: "number", pmra: "number", pmdec: "number", magnitude: "number", band: "text", notes: "text", targetId: "id" },
+    intents: ["create", "update", "delete"],
+    fields: { name: "text", ra: "number", dec: "number", pmra: "number", pmdec: "number", magnitude: "number", band: "text", notes: "text", targetId: "id" },
   },
   {
     path: () => `/proposals/${ids.proposal}/observations`,
@@ -221,8 +222,10 @@ const formRoutes: FormRoute[] = [
   { path: () => "/admin/users", who: "admin", intents: ["grant", "revoke"], fields: { userId: "id", role: "text", intent: "text" } },
   { path: () => "/admin/telescopes", who: "admin", intents: ["create"], fields: officeTelescope },
   // never "delete": that would remove the seeded telescope, instrument or call
-  { path: () => `/admin/telescopes/${ids.telescope}`, who: "admin", intents: ["update", "createInstrument", "bogus"], fields: { ...officeTelescope, ...officeInstrument } },
-  { path: () => `/admin/instruments/${ids.instrument}`, who: "admin", intents: ["update", "createFilter", "updateFilter", "deleteFilter"], fields: { ...officeInstrument, ...officeFilter } },
+  { path: () => `/admin/telescopes/${ids.telescope}`, who: "admin", intents: ["update", "bogus"], fields: officeTelescope },
+  { path: () => `/admin/telescopes/${ids.telescope}`, who: "admin", intents: ["createInstrument"], fields: officeInstrument },
+  { path: () => `/admin/instruments/${ids.instrument}`, who: "admin", intents: ["update"], fields: officeInstrument },
+  { path: () => `/admin/instruments/${ids.instrument}`, who: "admin", intents: ["createFilter", "updateFilter", "deleteFilter"], fields: officeFilter },
   { path: () => "/admin/calls/new", who: "admin", intents: [undefined], fields: officeCall },
   { path: () => `/admin/calls/${ids.call}`, who: "admin", intents: [undefined], fields: officeCall },
 ];
@@ -277,6 +280,7 @@ beforeAll(async () => {
   ids.telescope = (await Telescope.findOne({ order: [["id", "ASC"]] }))!.id;
   ids.instrument = (await Instrument.findOne({ order: [["id", "ASC"]] }))!.id;
   ids.filter = (await Filter.findOne({ where: { instrumentId: ids.instrument } }))?.id ?? 0;
+  ids.filters = await Filter.count();
   ids.call = call!.id;
   expect(await ProposalMember.count({ where: { proposalId: proposal.id } })).toBe(1);
 });
@@ -381,14 +385,16 @@ describe("ids in URLs", () => {
 
 describe("form actions refuse hostile fields and bodies with a 4xx", () => {
   for (const route of formRoutes) {
-    it(`POST ${route.path().replace(/\d+/g, ":id")}: every intent × field × hostile value`, { timeout: 600_000 }, async () => {
+    it(`POST ${route.path().replace(/\d+/g, ":id")} (${route.intents.map((i) => i ?? "—").join(", ")}): every field × hostile value`, { timeout: 600_000 }, async () => {
       const path = route.path();
       const cookie = await cookieFor(route.who);
       // the 100 000-element array is heavy to build and parse: once per intent, in its first id field (else its first field)
       const fields = Object.entries(route.fields);
       const arrayField = (fields.find(([, kind]) => kind === "id") ?? fields[0])[0];
-      for (const intent of route.intents) {
+      // every field under the first intent; under the others, the ids and the intent (what differs between intents)
+      for (const [n, intent] of route.intents.entries()) {
         for (const [field, kind] of fields) {
+          if (n > 0 && kind !== "id" && field !== "intent") continue;
           for (const v of values) {
             if (v.form === undefined) continue;
             if (Array.isArray(v.form) && field !== arrayField) continue;
@@ -407,6 +413,8 @@ describe("form actions refuse hostile fields and bodies with a 4xx", () => {
       await expectAlive();
     });
 
+    // the whole-body cases once per URL (some URLs have two lines above, one per group of intents)
+    if (formRoutes.findIndex((r) => r.path() === route.path()) !== formRoutes.indexOf(route)) continue;
     it(`POST ${route.path().replace(/\d+/g, ":id")}: JSON, text/plain, broken multipart and oversized bodies`, { timeout: 120_000 }, async () => {
       const path = route.path();
       const cookie = await cookieFor(route.who);
@@ -432,6 +440,7 @@ describe("form actions refuse hostile fields and bodies with a 4xx", () => {
     expect(await Target.findByPk(ids.target)).not.toBeNull();
     expect(await Telescope.findByPk(ids.telescope)).not.toBeNull();
     expect(await Instrument.findByPk(ids.instrument)).not.toBeNull();
+    expect(await Filter.count()).toBeGreaterThanOrEqual(ids.filters);
     expect(await User.findOne({ where: { email: "admin@kestrel-ridge.example" } })).not.toBeNull();
   });
 });
