@@ -14,6 +14,7 @@ command -v mariadbd >/dev/null 2>&1 || [ -x /usr/sbin/mariadbd ] || need="$need 
 command -v mariadb >/dev/null 2>&1 || need="$need mariadb-client-core"
 if [ "$1" = "--browser" ]; then
   command -v chromium >/dev/null 2>&1 || need="$need chromium"
+  command -v pdftotext >/dev/null 2>&1 || need="$need poppler-utils"
 fi
 
 if [ -n "$need" ]; then

@@ -22,6 +22,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
+  await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
   const values = formValues(await readForm(request));
   const parsed = overviewSchema.safeParse(values);
   if (!parsed.success) return data({ ok: false as const, errors: fieldErrors(parsed.error), values, conflict: null }, { status: 400 });

@@ -9,6 +9,7 @@ import { requireUser } from "~/lib/auth.server";
 import { moonCategories } from "~/lib/domain";
 import { fieldErrors, issueLine, parseId, readForm } from "~/lib/forms";
 import { createObservation, deleteObservation, listObservations, updateObservation } from "~/lib/proposal-observations.server";
+import { getProposalForUser } from "~/lib/proposals.server";
 import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
 import { listTargets } from "~/lib/proposal-targets.server";
 import { observationSchema } from "~/lib/schemas/proposals";
@@ -25,6 +26,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
+  await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
   const values = formValues(await readForm(request)) as Record<string, string>;
   const intent = values.intent;
   try {

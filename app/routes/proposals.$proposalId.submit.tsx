@@ -3,7 +3,7 @@ import { utc, useWorkspace } from "~/components/workspace";
 import { requireUser } from "~/lib/auth.server";
 import { proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
 import { submissionChecklist, submitProposal } from "~/lib/proposal-submit.server";
-import { reopenProposal, withdrawProposal } from "~/lib/proposals.server";
+import { getProposalForUser, reopenProposal, withdrawProposal } from "~/lib/proposals.server";
 import type { Route } from "./+types/proposals.$proposalId.submit";
 import { readForm } from "~/lib/forms";
 
@@ -16,6 +16,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
+  await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
   const intent = String((await readForm(request)).get("intent") ?? "");
   try {
     if (intent === "submit") {

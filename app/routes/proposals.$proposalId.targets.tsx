@@ -7,6 +7,7 @@ import { fixed, useWorkspace } from "~/components/workspace";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
 import { requireUser } from "~/lib/auth.server";
 import { fieldErrors, issueLine, parseId, readForm } from "~/lib/forms";
+import { getProposalForUser } from "~/lib/proposals.server";
 import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
 import { createTarget, deleteTarget, importTargetsCsv, listTargets } from "~/lib/proposal-targets.server";
 import { updateTarget } from "~/lib/proposal-targets.server";
@@ -24,6 +25,7 @@ const MAX_UPLOAD_BYTES = 2_000_000;
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
+  await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
   const form = await readForm(request);
   const file = form.get("file");
   const values = formValues(form) as Record<string, string>;

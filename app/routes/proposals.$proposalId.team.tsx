@@ -6,6 +6,7 @@ import { Field, inputProps } from "~/components/Field";
 import { useWorkspace } from "~/components/workspace";
 import { requireUser } from "~/lib/auth.server";
 import { fieldErrors, readForm } from "~/lib/forms";
+import { getProposalForUser } from "~/lib/proposals.server";
 import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
 import { handOverPi, inviteCoI, listTeam, removeMember } from "~/lib/proposal-team.server";
 import { memberRoleLabels } from "~/lib/proposal-vocabulary";
@@ -20,6 +21,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
+  await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
   const values = formValues(await readForm(request)) as Record<string, string>;
   const intent = values.intent;
   try {

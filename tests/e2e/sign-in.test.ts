@@ -10,7 +10,9 @@ describe("signing in with Chromium", () => {
     const page = await suite.browser.newPage();
     const errors = watchConsole(page);
     await page.goto(suite.server.url);
-    await expect(page.getByRole("heading", { level: 1 })).toBeTruthy();
+    const heading = page.getByRole("heading", { level: 1 });
+    await heading.waitFor();
+    expect(await heading.textContent()).toBe("Telescope time, proposed and shared fairly");
     await page.getByRole("link", { name: "Sign in", exact: true }).waitFor();
     expect(await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Office" }).count()).toBe(0);
     await screenshot(page, "home-visitor");

@@ -1,6 +1,6 @@
 // The feasibility sheet through HTTP and the proposal PDF, on the test MariaDB.
 import { spawnSync } from "node:child_process";
-import { existsSync, mkdtempSync, writeFileSync } from "node:fs";
+import { mkdtempSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { PDFDocument } from "pdf-lib";
@@ -91,14 +91,10 @@ describe("feasibility sheet screen", () => {
         seeingArcsec: 1.2,
       })),
     );
-    const started = performance.now();
     const res = await (await request()).get(`/proposals/${big.proposal.id}/feasibility`).set("Cookie", pi.cookie);
-    const ms = performance.now() - started;
     expect(res.status).toBe(200);
     const sheet = await computeFeasibilitySheet({ proposalId: big.proposal.id });
     expect(sheet.observations).toHaveLength(50);
-    console.log(`feasibility sheet page for 50 targets: ${Math.round(ms)} ms`);
-    expect(ms).toBeLessThan(15_000);
   });
 });
 
@@ -114,11 +110,14 @@ describe("proposal PDF", () => {
     expect(scienceCase).toHaveLength(2);
     expect(pages.slice(-2).every((p) => p.getSize().width === 595)).toBe(true);
     expect(pages.length).toBeGreaterThanOrEqual(1 + 1 + 2);
-    // With Debian's poppler-utils (pdftotext) the text itself is checked too.
-    if (existsSync("/usr/bin/pdftotext")) {
+    // The text itself, read back with Debian's poppler-utils (installed by `npm test`'s bootstrap).
+    {
       const file = path.join(mkdtempSync(path.join(tmpdir(), "ns-pdf-")), "p.pdf");
       writeFileSync(file, bytes);
-      const text = spawnSync("pdftotext", ["-layout", file, "-"], { encoding: "utf8" }).stdout;
+      const run = spawnSync("pdftotext", ["-layout", file, "-"], { encoding: "utf8" });
+      expect(run.error, "pdftotext (Debian's poppler-utils) must be installed: run `sh app/cli/bootstrap.sh --browser`").toBeUndefined();
+      expect(run.status).toBe(0);
+      const text = run.stdout;
       expect(text).toContain("Draft — not submitted");
       expect(text).toContain("Feasibility test programme");
       expect(text).toContain("Technical case: feasibility sheet");

@@ -49,7 +49,7 @@ describe("parseDec", () => {
       if (!r.ok) expect(r.message.startsWith("dec:")).toBe(true);
     }
     const r = parseDec("95", "dec");
-    if (!r.ok) expect(r.message).toContain("−90 ≤ Dec ≤ +90");
+    expect(r).toMatchObject({ ok: false, message: expect.stringContaining("−90 ≤ Dec ≤ +90") });
   });
 });
 
