@@ -30,16 +30,10 @@ const base: Omit<FeasibilityInput, "targets" | "observations"> = {
   ],
 };
 
-const target = (over: Partial<SheetTarget> & { id: number }): SheetTarget => ({
-  name: `Field ${over.id}`,
-  raDeg: 180,
-  decDeg: 30,
-  pmRaMasPerYr: null,
-  pmDecMasPerYr: null,
-  magnitude: 17,
-  band: "V",
-  ...over,
-});
+const target = (over: Partial<SheetTarget> & { id: number }): SheetTarget => {
+  const t = { name: `Field ${over.id}`, raDeg: 180, decDeg: 30, pmRaMasPerYr: null, pmDecMasPerYr: null, magnitude: 17, band: "V", ...over };
+  return { ...t, magnitudes: over.magnitudes ?? (t.magnitude !== null && t.band ? { [t.band]: t.magnitude } : {}) };
+};
 
 const observation = (over: Partial<SheetObservation> & { id: number; targetId: number }): SheetObservation => ({
   instrumentId: 10,

@@ -15,8 +15,10 @@ import {
   type EpochPlanBody,
   type ExposureBody,
 } from "./schemas";
-import { MOON_CATEGORY_THRESHOLDS, REFRACTION_MODEL, altitudeCurve, computeVisibility, type Limit, type Site } from "./visibility";
-import { AIRMASS_FORMULA } from "./airmass";
+import { MOON_CATEGORY_THRESHOLDS, MOON_TIME_RULE, REFRACTION_MODEL, altitudeCurve, computeVisibility, type Limit, type Site } from "./visibility";
+import { AIRMASS_FORMULA, airmass as airmassAt, altitudeForAirmass } from "./airmass";
+import { MOONLIGHT_MODEL, moonlitSky, type MoonlightResult } from "./moonlight";
+import { EXTINCTION, SKY_BRIGHTNESS } from "./photometry";
 
 export const RATE_LIMIT_PER_MINUTE = 600;
 const buckets = new Map<string, { start: number; count: number }>();
@@ -104,7 +106,8 @@ export const CONVENTIONS = {
   airmass: AIRMASS_FORMULA,
   twilight: "Sun's centre at −18°, geometric",
   moonCategoryThresholds: MOON_CATEGORY_THRESHOLDS,
-  moonCategoryRule: "by the Moon's illuminated fraction at the middle of the dark interval",
+  moonCategoryRule: MOON_TIME_RULE,
+  nightMoonCategory: "a night's moonCategory is that of the Moon's illuminated fraction at the middle of the dark interval",
 };
 
 export async function visibilityResponse(request: Request) {
@@ -128,7 +131,7 @@ function curveJson(site: Site, target: { raDeg: number; decDeg: number }, date: 
   return { date, sunset: iso(night.sunset), sunrise: iso(night.sunrise), darkStart: iso(night.darkStart), darkEnd: iso(night.darkEnd), points };
 }
 
-async function exposureInput(b: ExposureBody): Promise<ExposureInput> {
+async function exposureInput(b: ExposureBody): Promise<ExposureInput & { moonlight?: MoonlightResult }> {
   let telescope = b.telescope;
   let instrument = b.instrument;
   let zeroPointPhotons: number | undefined;
@@ -148,7 +151,8 @@ async function exposureInput(b: ExposureBody): Promise<ExposureInput> {
     if (!filter) throw new BadInput([{ path: "band", message: `instrument ${b.instrumentId} has no ${b.band} filter` }]);
     zeroPointPhotons = filter.zeroPointPhotons;
     extinction ??= filter.extinctionMagPerAirmass;
-    if (sky === undefined) {
+    if (sky === undefined && b.moon !== undefined) sky = filter.skyDarkMag; // the band's dark sky; moonlight added below
+    else if (sky === undefined) {
       const cat = b.moonCategory ?? "dark";
       sky = cat === "dark" ? filter.skyDarkMag : cat === "grey" ? filter.skyGreyMag : filter.skyBrightMag;
     }
@@ -163,10 +167,26 @@ async function exposureInput(b: ExposureBody): Promise<ExposureInput> {
   }
   if (!telescope) throw new BadInput([{ path: "telescope", message: "telescope or telescopeId is required" }]);
   if (!instrument) throw new BadInput([{ path: "instrument", message: "instrument or instrumentId is required" }]);
+  // Airmass from the target's altitude when only that is given (Kasten & Young), and the Moon's
+  // light added to the band's dark sky by Krisciunas & Schaefer (1991) when the Moon is given.
+  const airmass = b.airmass ?? airmassAt(b.targetAltitudeDeg as number);
+  let moonlight: MoonlightResult | undefined;
+  if (b.moon !== undefined) {
+    const band = b.band as Band;
+    moonlight = moonlitSky({
+      band,
+      darkZenithMag: sky ?? SKY_BRIGHTNESS[band].dark,
+      extinctionMagPerAirmass: extinction ?? EXTINCTION[band],
+      moon: b.moon,
+      targetAltitudeDeg: b.targetAltitudeDeg ?? altitudeForAirmass(airmass),
+    });
+    sky = moonlight.skyMagPerArcsec2;
+  }
   const common = {
     band: b.band as Band,
     magnitude: b.magnitude,
-    airmass: b.airmass,
+    airmass,
+    ...(moonlight ? { moonlight } : {}),
     seeingArcsec: b.seeingArcsec,
     skyMagPerArcsec2: sky,
     moonCategory: b.moonCategory,
@@ -185,6 +205,10 @@ export async function exposureResponse(request: Request) {
     const r = computeExposure(input);
     return {
       ...r,
+      airmass: input.airmass,
+      ...(input.moonlight
+        ? { sky: { model: MOONLIGHT_MODEL, darkSkyMagPerArcsec2: input.moonlight.darkSkyMagPerArcsec2, moonlightMagPerArcsec2: input.moonlight.moonlightMagPerArcsec2, terms: input.moonlight.terms } }
+        : { sky: { model: "the band's tabulated sky for the moon category (dark unless given)" } }),
       zeroPointPhotons: input.zeroPointPhotons ?? ZERO_POINTS[input.band].photonsPerSecondCm2,
       conventions: {
         equation: "SNR = N* / sqrt(N* + n_pix (N_sky + N_dark + RN²)) (Howell; Merline & Howell 1995)",

@@ -416,7 +416,8 @@ export function planEpochs(input: PlanInput): Plan {
   const N: Normal = new Float64Array(25);
   for (const c of chosen) addEpoch(N, c, ref, w);
   const trial: Normal = new Float64Array(25);
-  while (chosen.length < wanted && !(input.epochs === undefined && meets())) {
+  const fixedCount = spans !== null || input.epochs !== undefined;
+  while (chosen.length < wanted && !(!fixedCount && meets())) {
     let best: Candidate | null = null;
     let bestValue = Infinity;
     for (const c of candidates) {

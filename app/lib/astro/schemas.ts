@@ -93,7 +93,19 @@ export const exposureBodySchema = z
     magnitude: num("magnitude", -5, 35),
     snr: optionalNum("snr", 0.1, 100000),
     exposureSeconds: optionalNum("exposureSeconds", 0.001, 1e6),
-    airmass: num("airmass", 1, 10),
+    airmass: optionalNum("airmass", 1, 10),
+    targetAltitudeDeg: optionalNum("targetAltitudeDeg", 5.8, 90),
+    /** the Moon for the Krisciunas & Schaefer (1991) sky model */
+    moon: z
+      .object(
+        {
+          illumination: num("moon.illumination", 0, 1),
+          separationDeg: num("moon.separationDeg", 0, 180),
+          altitudeDeg: num("moon.altitudeDeg", -90, 90),
+        },
+        { error: "moon must be an object { illumination, separationDeg, altitudeDeg }" },
+      )
+      .optional(),
     seeingArcsec: num("seeingArcsec", 0.1, 10),
     skyMagPerArcsec2: optionalNum("skyMagPerArcsec2", 10, 25),
     moonCategory: z.enum(["dark", "grey", "bright"], { error: "moonCategory must be dark, grey or bright" }).optional(),
@@ -109,6 +121,15 @@ export const exposureBodySchema = z
     }
     if (b.skyMagPerArcsec2 !== undefined && b.moonCategory !== undefined) {
       ctx.addIssue({ code: "custom", path: ["skyMagPerArcsec2"], message: "give skyMagPerArcsec2 or moonCategory, not both" });
+    }
+    if (b.airmass === undefined && b.targetAltitudeDeg === undefined) {
+      ctx.addIssue({ code: "custom", path: ["airmass"], message: "give the airmass or the target's altitude (targetAltitudeDeg)" });
+    }
+    if (b.airmass !== undefined && b.targetAltitudeDeg !== undefined) {
+      ctx.addIssue({ code: "custom", path: ["targetAltitudeDeg"], message: "give the airmass or targetAltitudeDeg, not both" });
+    }
+    if (b.moon !== undefined && (b.skyMagPerArcsec2 !== undefined || b.moonCategory !== undefined)) {
+      ctx.addIssue({ code: "custom", path: ["moon"], message: "with moon the sky comes from the moonlight model: leave out skyMagPerArcsec2 and moonCategory" });
     }
     if (!b.telescope && b.telescopeId === undefined) ctx.addIssue({ code: "custom", path: ["telescope"], message: "telescope or telescopeId is required" });
     if (!b.instrument && b.instrumentId === undefined) ctx.addIssue({ code: "custom", path: ["instrument"], message: "instrument or instrumentId is required" });
