@@ -847,19 +847,29 @@ function astrometryPart(a: AstrometryArgs): { astrometry: NonNullable<Observatio
     const required = obs.requiredPmPrecisionMasPerYr;
     met = pm ? Math.max(pm.ra, pm.dec) <= required : false;
     if (!met && perEpochPrecision !== null) {
-      // What would meet it over the same baseline: the fewest epochs per semester that do.
-      let meets: number | null = null;
-      let reached: number | null = null;
-      for (let k = Math.max(1, source === "proposed" ? obs.epochsPerSemester + 1 : 1); k <= MAX_EPOCHS_PER_SEMESTER_TRIED; k++) {
-        if (k * semesters.length < 3) continue;
+      // What would meet it over the same baseline: the fewest epochs per semester that do
+      // (σ(μ) falls with the number of epochs: bisection between what is asked and the most tried).
+      const outcome = (k: number) => {
         const trial = planFor(k);
         const p = trial.precision.properMotionPrecisionMasPerYr;
-        const worst = trial.precision.determined ? Math.max(p.ra, p.dec) : Infinity;
-        if (trial.message) break; // the semesters' windows hold no more epochs
-        reached = worst;
-        if (worst <= required) {
-          meets = k;
-          break;
+        return { full: !trial.message, worst: trial.precision.determined ? Math.max(p.ra, p.dec) : Infinity };
+      };
+      let meets: number | null = null;
+      let reached: number | null = null;
+      let lo = Math.max(source === "proposed" ? obs.epochsPerSemester : 0, Math.ceil(3 / semesters.length) - 1);
+      let hi = MAX_EPOCHS_PER_SEMESTER_TRIED;
+      // the most epochs per semester the windows hold (a plan with a shortfall does not count)
+      while (hi > lo && !outcome(hi).full) hi = Math.max(lo, Math.floor((lo + hi) / 2));
+      if (hi > lo) {
+        const top = outcome(hi);
+        reached = top.worst;
+        if (top.worst <= required) {
+          while (hi - lo > 1) {
+            const mid = Math.floor((lo + hi) / 2);
+            if (outcome(mid).worst <= required) hi = mid;
+            else lo = mid;
+          }
+          meets = hi;
         }
       }
       const spanText = `the ${baselineYears}-year baseline (${semesters.map((s) => s.code).join(", ")})`;
