@@ -61,14 +61,14 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 type TargetRow = Route.ComponentProps["loaderData"]["targets"][number];
-const emptyTarget = { name: "", ra: "", dec: "", pmra: "", pmdec: "", mag_U: "", mag_B: "", mag_V: "", mag_R: "", mag_I: "", notes: "" };
+const emptyTarget = { name: "", ra: "", dec: "", pmra: "", pmdec: "", mag_U: "", mag_B: "", mag_V: "", mag_R: "", mag_I: "", magnitude: "", band: "", notes: "" };
 
 function formOf(t: TargetRow) {
   const s = (v: number | null | undefined) => (v === null || v === undefined ? "" : String(v));
   const m = t.magnitudes;
   return {
     name: t.name, ra: formatRa(t.raDeg, 4), dec: formatDec(t.decDeg, 3), pmra: s(t.pmRaMasPerYr), pmdec: s(t.pmDecMasPerYr),
-    mag_U: s(m.U), mag_B: s(m.B), mag_V: s(m.V), mag_R: s(m.R), mag_I: s(m.I), notes: t.notes ?? "",
+    mag_U: s(m.U), mag_B: s(m.B), mag_V: s(m.V), mag_R: s(m.R), mag_I: s(m.I), magnitude: "", band: "", notes: t.notes ?? "",
   };
 }
 

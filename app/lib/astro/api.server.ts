@@ -4,9 +4,9 @@ import { data } from "react-router";
 import type { z } from "zod";
 import { apiIssues } from "~/lib/forms";
 import { Filter, Instrument, Telescope } from "~/models/index.server";
-import { astrometryForDates, epochPrecisionMas, planEpochs, precisionForMovedEpochs } from "./astrometry";
+import { astrometryForDates, centroidPrecisionMas, epochPrecisionMas, planEpochs, precisionForMovedEpochs } from "./astrometry";
 import { computeExposure, type ExposureInput } from "./exposure";
-import { ZERO_POINTS, type Band } from "./photometry";
+import { EXTINCTION, SKY_BRIGHTNESS, ZERO_POINTS, type Band } from "./photometry";
 import {
   astrometryBodySchema,
   epochPlanBodySchema,
@@ -18,7 +18,6 @@ import {
 import { MOON_CATEGORY_THRESHOLDS, MOON_TIME_RULE, REFRACTION_MODEL, altitudeCurve, computeVisibility, type Limit, type Site } from "./visibility";
 import { AIRMASS_FORMULA, airmass as airmassAt, altitudeForAirmass } from "./airmass";
 import { MOONLIGHT_MODEL, moonlitSky, type MoonlightResult } from "./moonlight";
-import { EXTINCTION, SKY_BRIGHTNESS } from "./photometry";
 
 export const RATE_LIMIT_PER_MINUTE = 600;
 const buckets = new Map<string, { start: number; count: number }>();
@@ -257,8 +256,26 @@ export async function epochPlanResponse(request: Request) {
       perEpochPrecisionMas: perEpoch,
       limit: limitOf(b),
       secondsPerEpoch: b.secondsPerEpoch,
+      toleranceNights: b.toleranceNights,
     });
     const moved = b.movedEpochs ? precisionForMovedEpochs(target.raDeg, target.decDeg, b.movedEpochs, perEpoch) : undefined;
-    return { site, target, perEpochPrecisionMas: perEpoch, ...plan, ...(moved ? { movedPrecision: moved } : {}) };
+    // Is the per-epoch precision set by the instrument's floor? (only when it is built from fwhm, snr, frames, floor)
+    const photon = b.perEpochPrecisionMas === undefined ? centroidPrecisionMas(b.fwhmArcsec!, b.snr!) / Math.sqrt(b.frames ?? 1) : null;
+    const floorDominated = photon !== null && (b.floorMas ?? 0) >= photon;
+    const advice = [
+      ...(floorDominated
+        ? [`The per-epoch precision (${perEpoch.toFixed(2)} mas) is set by the systematic floor of ${b.floorMas} mas (photon noise alone gives ${photon!.toFixed(2)} mas): more frames or longer exposures cannot improve it; more epochs or a longer baseline can.`]
+        : []),
+      ...(plan.met === false ? [`The requirement is not met with ${plan.epochs.length} epochs over ${b.baselineYears} years${b.epochs === undefined ? " (the most that fit the windows, spread apart)" : ""}: a longer baseline or a better per-epoch precision is needed.`] : []),
+    ];
+    return {
+      site,
+      target,
+      perEpochPrecisionMas: perEpoch,
+      perEpoch: { photonPrecisionMas: photon, floorMas: b.floorMas ?? null, floorDominated },
+      advice,
+      ...plan,
+      ...(moved ? { movedPrecision: moved } : {}),
+    };
   });
 }

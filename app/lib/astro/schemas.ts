@@ -177,6 +177,7 @@ export const epochPlanBodySchema = z
     minAltitude: optionalNum("minAltitude", 0, 89),
     maxAirmass: optionalNum("maxAirmass", 1, 10),
     secondsPerEpoch: optionalNum("secondsPerEpoch", 0, 86400),
+    toleranceNights: z.preprocess(blankToUndefined, z.number({ error: "toleranceNights must be a number" }).int({ error: "toleranceNights must be a whole number" }).min(0, { error: "toleranceNights must be at least 0" }).max(60, { error: "toleranceNights must be at most 60" })).optional(),
     movedEpochs: z.array(z.string().refine((s) => isIsoDate(s) || !Number.isNaN(Date.parse(s)), { error: "must be a date or an ISO time" })).max(60).optional(),
   })
   .superRefine((b, ctx) => {
