@@ -341,6 +341,10 @@ const moonDone = new WeakSet<PreparedSite>();
  */
 export function ensureMoonTimes(prepared: PreparedSite): void {
   if (moonDone.has(prepared) || prepared.nights.length === 0) return;
+  if (prepared.nights.every((n) => n.moon)) {
+    moonDone.add(prepared); // a slice of an already prepared span
+    return;
+  }
   const { site, nights } = prepared;
   const t0 = nights[0].frameStart - MOON_GRID_MS;
   const t1 = nights[nights.length - 1].frameEnd + MOON_GRID_MS;
