@@ -10,5 +10,6 @@ export async function up({ context: qi }: { context: QueryInterface }) {
 }
 
 export async function down({ context: qi }: { context: QueryInterface }) {
-  await qi.removeColumn("targets", "magnitudes");
+  // raw: Sequelize's removeColumn trips over MariaDB's answer for a JSON column's check constraint
+  await qi.sequelize.query("ALTER TABLE targets DROP COLUMN magnitudes");
 }
