@@ -719,7 +719,7 @@ function astrometryPart(a: AstrometryArgs): { astrometry: NonNullable<Observatio
       site: telescope.site,
       target: astroTarget(target),
       firstDate: call.semesterStart,
-      baselineYears: span / 365.25,
+      baselineYears: (span - 1) / 365.25, // the planner then prepares exactly `span` nights, the same cached span
       perEpochPrecisionMas: perEpochPrecision as number,
       limit,
       perSemester: semesters.map((s) => ({ ...s, epochs: perSemester })),
