@@ -123,7 +123,7 @@ export const exposureBodySchema = z
       ctx.addIssue({ code: "custom", path: ["skyMagPerArcsec2"], message: "give skyMagPerArcsec2 or moonCategory, not both" });
     }
     if (b.airmass === undefined && b.targetAltitudeDeg === undefined) {
-      ctx.addIssue({ code: "custom", path: ["airmass"], message: "give the airmass or the target's altitude (targetAltitudeDeg)" });
+      ctx.addIssue({ code: "custom", path: ["airmass"], message: "give the air mass, or the target's altitude" });
     }
     if (b.airmass !== undefined && b.targetAltitudeDeg !== undefined) {
       ctx.addIssue({ code: "custom", path: ["targetAltitudeDeg"], message: "give the airmass or targetAltitudeDeg, not both" });
