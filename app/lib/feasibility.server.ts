@@ -3,6 +3,7 @@
 import { altitudeCurve } from "~/lib/astro/visibility";
 import { buildFeasibilitySheet, type FeasibilityInput, type FeasibilitySheet } from "~/lib/feasibility";
 import { Call, CallOffer, Filter, Instrument, Observation, PlannedEpoch, Proposal, Target, Telescope } from "~/models/index.server";
+import { magnitudesOf } from "~/models/Target";
 import { plainInstrument } from "./office.server";
 
 export type { FeasibilitySheet } from "~/lib/feasibility";
@@ -12,11 +13,12 @@ export class FeasibilityNotFound extends Error {}
 export async function loadFeasibilityInput({ proposalId }: { proposalId: number }): Promise<FeasibilityInput> {
   const proposal = await Proposal.findByPk(proposalId);
   if (!proposal) throw new FeasibilityNotFound(`No proposal ${proposalId}`);
-  const [call, targets, observations, telescopes] = await Promise.all([
+  const [call, targets, observations, telescopes, calls] = await Promise.all([
     Call.findByPk(proposal.callId, { include: [{ model: CallOffer, as: "offers" }] }),
     Target.findAll({ where: { proposalId }, order: [["id", "ASC"]] }),
     Observation.findAll({ where: { proposalId }, include: [{ model: PlannedEpoch, as: "epochs" }], order: [["id", "ASC"]] }),
     Telescope.findAll({ include: [{ model: Instrument, as: "instruments", include: [{ model: Filter, as: "filters" }] }] }),
+    Call.findAll({ attributes: ["semesterCode", "semesterStart", "semesterEnd"] }),
   ]);
   if (!call) throw new FeasibilityNotFound(`No call for proposal ${proposalId}`);
   const instruments = telescopes.flatMap((t) => t.instruments ?? []);
@@ -27,6 +29,10 @@ export async function loadFeasibilityInput({ proposalId }: { proposalId: number 
       semesterStart: call.semesterStart,
       semesterEnd: call.semesterEnd,
       offers: (call.offers ?? []).map((o) => ({ telescopeId: o.telescopeId, moonCategory: o.moonCategory, hoursOffered: o.hoursOffered })),
+      // the office's own dates for later semesters (the epoch planner's semesters)
+      laterSemesters: calls
+        .filter((c) => c.semesterStart > call.semesterEnd)
+        .map((c) => ({ code: c.semesterCode, start: c.semesterStart, end: c.semesterEnd })),
     },
     isMultiSemester: proposal.isMultiSemester,
     semestersRequested: proposal.semestersRequested ?? [call.semesterCode],
@@ -57,6 +63,7 @@ export async function loadFeasibilityInput({ proposalId }: { proposalId: number 
       decDeg: t.decDeg,
       pmRaMasPerYr: t.pmRaMasPerYr,
       pmDecMasPerYr: t.pmDecMasPerYr,
+      magnitudes: magnitudesOf(t),
       magnitude: t.magnitude,
       band: t.band,
     })),

@@ -1,4 +1,5 @@
 import { describe, expect, it } from "vitest";
+import { computeVisibility } from "./astro/visibility";
 import { buildFeasibilitySheet, type FeasibilityInput, type SheetObservation, type SheetTarget } from "./feasibility";
 
 // The invented Kestrel Ridge site and its 2.4 m imager, as the demo seed has them.
@@ -30,16 +31,10 @@ const base: Omit<FeasibilityInput, "targets" | "observations"> = {
   ],
 };
 
-const target = (over: Partial<SheetTarget> & { id: number }): SheetTarget => ({
-  name: `Field ${over.id}`,
-  raDeg: 180,
-  decDeg: 30,
-  pmRaMasPerYr: null,
-  pmDecMasPerYr: null,
-  magnitude: 17,
-  band: "V",
-  ...over,
-});
+const target = (over: Partial<SheetTarget> & { id: number }): SheetTarget => {
+  const t = { name: `Field ${over.id}`, raDeg: 180, decDeg: 30, pmRaMasPerYr: null, pmDecMasPerYr: null, magnitude: 17, band: "V", ...over };
+  return { ...t, magnitudes: over.magnitudes ?? (t.magnitude !== null && t.band ? { [t.band]: t.magnitude } : {}) };
+};
 
 const observation = (over: Partial<SheetObservation> & { id: number; targetId: number }): SheetObservation => ({
   instrumentId: 10,
@@ -109,13 +104,15 @@ describe("feasibility sheet", () => {
   it("blocks an astrometric plan that cannot reach the required precision", () => {
     const s = sheetFor(
       [target({ id: 1, magnitude: 18 })],
-      [observation({ id: 5, targetId: 1, snrGoal: 30, epochsPerSemester: 1, baselineYears: 1, requiredPmPrecisionMasPerYr: 0.01 })],
+      [observation({ id: 5, targetId: 1, snrGoal: 30, epochsPerSemester: 2, baselineYears: 1, requiredPmPrecisionMasPerYr: 0.01 })],
     );
     const a = s.observations[0].astrometry!;
     expect(a.source).toBe("proposed");
     expect(a.epochs.length).toBeGreaterThanOrEqual(3);
     expect(a.met).toBe(false);
     expect(blocking(s, 5).some((p) => /proper-motion precision of .* mas\/yr; 0.01 mas\/yr is required/.test(p.message))).toBe(true);
+    // and says that no number of epochs over this baseline gets there
+    expect(blocking(s, 5).some((p) => /no number of epochs per semester over the 1-year baseline \(2027A, 2027B\) meets it/.test(p.message))).toBe(true);
   });
 
   it("accepts an astrometric plan that reaches a modest precision, and counts its epochs per semester", () => {
@@ -177,5 +174,116 @@ describe("feasibility sheet", () => {
     expect(blocking(s, 9)[0].message).toMatch(/no magnitude/);
     expect(s.observations[0].exposure).toBeNull();
     expect(sheetFor([], []).problems[0]).toMatchObject({ severity: "blocking", message: expect.stringMatching(/no observations/) });
+  });
+
+  it("places exactly the epochs per semester asked for, inside each semester's dates (the office's own where a call exists)", () => {
+    // 2027B as the office set it (invented dates, not the six-month default): 15 Aug – 14 Feb
+    const laterSemesters = [{ code: "2027B", start: "2027-08-15", end: "2028-02-14" }];
+    const s = sheetFor(
+      [target({ id: 1, magnitude: 16 })],
+      [observation({ id: 11, targetId: 1, snrGoal: 100, epochsPerSemester: 2, baselineYears: 1.5, requiredPmPrecisionMasPerYr: 5 })],
+      { call: { ...base.call, laterSemesters } },
+    );
+    const a = s.observations[0].astrometry!;
+    expect(a.perSemester).toEqual([
+      { semesterCode: "2027A", epochs: 2, hours: expect.any(Number) },
+      { semesterCode: "2027B", epochs: 2, hours: expect.any(Number) },
+      { semesterCode: "2028A", epochs: 2, hours: expect.any(Number) },
+    ]);
+    const ranges: Record<string, [string, string]> = { "2027A": ["2027-02-01", "2027-07-31"], "2027B": ["2027-08-15", "2028-02-14"], "2028A": ["2028-02-15", "2028-08-14"] };
+    for (const e of a.epochs) {
+      const [from, to] = ranges[e.semesterCode];
+      expect(e.date >= from && e.date <= to).toBe(true);
+    }
+    const epochHours = s.observations[0].timePerEpoch.totalSeconds! / 3600;
+    expect(s.observations[0].epochsThisSemester).toBe(2);
+    expect(s.observations[0].requestedHoursThisSemester).toBeCloseTo(2 * epochHours, 3);
+    expect(s.totals.filter((t) => t.semesterCode === "2027B")[0].hours).toBeCloseTo(2 * epochHours, 2);
+  });
+
+  it("refuses fewer than 3 epochs in all instead of adding some silently", () => {
+    const s = sheetFor([target({ id: 1, magnitude: 16 })], [observation({ id: 12, targetId: 1, epochsPerSemester: 1, baselineYears: 1, requiredPmPrecisionMasPerYr: 5 })]);
+    expect(s.observations[0].astrometry!.epochs).toEqual([]);
+    expect(blocking(s, 12).some((p) => /1 epoch per semester over 2 semesters make 2; .* at least 3 epochs/.test(p.message))).toBe(true);
+  });
+
+  it("says how many epochs per semester would meet the requirement, and that many do", () => {
+    const first = sheetFor([target({ id: 1, magnitude: 16 })], [observation({ id: 13, targetId: 1, snrGoal: 100, epochsPerSemester: 2, baselineYears: 1, requiredPmPrecisionMasPerYr: 50 })]);
+    const reached = Math.max(...Object.values(first.observations[0].astrometry!.properMotionPrecisionMasPerYr!));
+    // ask for 20 % better than two epochs per semester give
+    const required = Math.round(reached * 0.8 * 1000) / 1000;
+    const s = sheetFor([target({ id: 1, magnitude: 16 })], [observation({ id: 13, targetId: 1, snrGoal: 100, epochsPerSemester: 2, baselineYears: 1, requiredPmPrecisionMasPerYr: required })]);
+    const message = blocking(s, 13).find((p) => /would meet it/.test(p.message))!.message;
+    const k = Number(/(\d+) epochs per semester \((\d+) in all\)/.exec(message)![1]);
+    expect(k).toBeGreaterThan(2);
+    const again = sheetFor([target({ id: 1, magnitude: 16 })], [observation({ id: 13, targetId: 1, snrGoal: 100, epochsPerSemester: k, baselineYears: 1, requiredPmPrecisionMasPerYr: required })]);
+    expect(again.observations[0].astrometry!.met).toBe(true);
+    const fewer = sheetFor([target({ id: 1, magnitude: 16 })], [observation({ id: 13, targetId: 1, snrGoal: 100, epochsPerSemester: k - 1, baselineYears: 1, requiredPmPrecisionMasPerYr: required })]);
+    expect(fewer.observations[0].astrometry!.met).toBe(false);
+  });
+
+  it("says when the instrument's floor sets the per-epoch precision, and that more frames cannot help", () => {
+    // photon part: 1200 mas / (2.3548 · 300) / √3 = 0.98 mas, below the 2.5 mas floor
+    const s = sheetFor([target({ id: 1, magnitude: 12 })], [observation({ id: 14, targetId: 1, snrGoal: 300, epochsPerSemester: 3, baselineYears: 1, requiredPmPrecisionMasPerYr: 5 })]);
+    const a = s.observations[0].astrometry!;
+    expect(a.photonPrecisionMas).toBeCloseTo(1200 / (2.3548 * 300) / Math.sqrt(3), 2);
+    expect(a.floorDominated).toBe(true);
+    expect(s.problems.some((p) => p.observationId === 14 && /systematic floor of 2.5 mas .* more frames or longer exposures cannot improve it; more epochs or a longer baseline can/.test(p.message))).toBe(true);
+    const faint = sheetFor([target({ id: 1, magnitude: 16 })], [observation({ id: 15, targetId: 1, snrGoal: 20, epochsPerSemester: 3, baselineYears: 1, requiredPmPrecisionMasPerYr: 50 })]);
+    expect(faint.observations[0].astrometry!.floorDominated).toBe(false);
+  });
+
+  it("gives each epoch a ±7-night window, counts its usable nights as the visibility API does, and flags fragile ones", () => {
+    // RA 12 h from +38.9° N: by late August the target sets in evening twilight; a long visit
+    // (20 frames) fits on fewer and fewer nights.
+    const obs = observation({
+      id: 16, targetId: 1, snrGoal: 50, framesPerEpoch: 20, baselineYears: 1, requiredPmPrecisionMasPerYr: 50, maxAirmass: 2,
+      epochs: [
+        { date: "2027-03-20", semesterCode: "2027A", status: "planned" },
+        { date: "2027-05-10", semesterCode: "2027A", status: "planned" },
+        { date: "2027-08-01", semesterCode: "2027B", status: "planned" },
+        { date: "2027-08-20", semesterCode: "2027B", status: "planned" },
+      ],
+    });
+    const s = sheetFor([target({ id: 1, magnitude: 16 })], [obs]);
+    const o = s.observations[0];
+    const visit = o.timePerEpoch.totalSeconds! / 3600;
+    for (const e of o.astrometry!.epochs) {
+      const from = new Date(Date.parse(`${e.date}T00:00:00Z`) - 7 * 86_400_000).toISOString().slice(0, 10);
+      const v = computeVisibility({ site, target: { raDeg: 180, decDeg: 30 }, from, nights: 15, limit: { maxAirmass: 2 } });
+      const usable = v.nights.filter((n) => n.observableHours >= visit).length;
+      expect(e.window).toEqual({ from, to: v.nights[14].date, usableNights: usable });
+      expect(e.fragile).toBe(usable < 3);
+    }
+    expect(o.astrometry!.epochs.find((e) => e.date === "2027-03-20")!.fragile).toBe(false);
+    expect(o.astrometry!.epochs.some((e) => e.fragile)).toBe(true);
+    expect(s.problems.some((p) => p.observationId === 16 && /is fragile: within ±7 nights/.test(p.message))).toBe(true);
+  });
+
+  it("uses the magnitude of the observation's band, and states the assumption when the band is missing", () => {
+    const s = sheetFor(
+      [target({ id: 1, magnitudes: { V: 16, R: 15.2 } }), target({ id: 2, raDeg: 181, magnitudes: { R: 15.2 } })],
+      [observation({ id: 17, targetId: 1, filterId: 100 }), observation({ id: 18, targetId: 2, filterId: 100 }), observation({ id: 19, targetId: 1, filterId: 101 })],
+    );
+    const byId = (id: number) => s.observations.find((o) => o.observationId === id)!;
+    expect(byId(17).magnitudeUsed).toEqual({ band: "V", magnitude: 16, assumed: false });
+    expect(byId(18).magnitudeUsed).toEqual({ band: "R", magnitude: 15.2, assumed: true });
+    // I has no magnitude on target 1: the nearest band it has is R
+    expect(byId(19).magnitudeUsed).toEqual({ band: "R", magnitude: 15.2, assumed: true });
+    const warnings = s.problems.filter((p) => p.severity === "warning").map((p) => p.message);
+    expect(warnings.some((m) => /Field 2 .*no V magnitude\. The exposure assumes V = R = 15\.2 \(colour V − R = 0\)/.test(m))).toBe(true);
+    expect(warnings.some((m) => /Field 1 \(KRO 2\.4 m, V\).*no V magnitude/.test(m))).toBe(false);
+  });
+
+  it("counts moon time by the Moon's altitude: usable dark hours include moonlit nights' hours after moonset", () => {
+    const s = sheetFor([target({ id: 1 })], [observation({ id: 20, targetId: 1, moonCategory: "dark" })]);
+    const v = s.observations[0].visibility;
+    // reference: the visibility API's per-night split for the same target and limit
+    const api = computeVisibility({ site, target: { raDeg: 180, decDeg: 30 }, from: "2027-02-01", nights: 181, limit: { maxAirmass: 1.6 } });
+    const darkSplit = api.nights.reduce((h, n) => h + n.hoursByMoonCategory.dark, 0);
+    const darkNights = api.nights.filter((n) => n.moonCategory === "dark").reduce((h, n) => h + n.observableHours, 0);
+    expect(v.usableHours).toBeCloseTo(darkSplit, 1);
+    expect(v.usableHours).toBeGreaterThan(darkNights + 5);
+    expect(v.byMoonCategory.dark + v.byMoonCategory.grey + v.byMoonCategory.bright).toBeCloseTo(v.observableHours, 1);
   });
 });

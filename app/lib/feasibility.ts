@@ -12,12 +12,26 @@
 // - Time per epoch = frames × (exposure + readout) + acquisition.
 // - An observation is astrometric when it has a baseline (years). Its epochs are the PI's
 //   planned epochs when there are any, otherwise a plan proposed by astro/astrometry.ts
-//   (epochs per semester × semesters in the baseline, placed by the planner).
+//   (exactly "epochs per semester" in each semester of the baseline — the call's semester and
+//   the ones after it, with the dates the office set where a call exists, else six-month steps —
+//   placed by the planner inside that semester's visibility windows).
+// - Moon time: every observable window is split at moonrise and moonset (astro/visibility.ts,
+//   MOON_TIME_RULE). An observation asking for dark time may use the dark hours only; grey: dark
+//   and grey hours; bright: all hours.
+// - Magnitudes per band: the exposure uses the target's magnitude in the observation's band.
+//   When the target has none in that band, the nearest band it has is used with colour 0 and a
+//   warning says so; with no magnitude at all, nothing is assumed.
 
 import { AIRMASS_FORMULA, airmass } from "./astro/airmass";
 import {
+  EPOCH_TOLERANCE_NIGHTS,
+  FRAGILE_BELOW_NIGHTS,
+  centroidPrecisionMas,
   epochPrecisionMas,
   fitPrecision,
+  roundNoNegativeZero,
+  semesterSequence,
+  type SemesterSpan,
   parallaxFactors,
   planEpochs,
   semesterOf,
@@ -29,7 +43,10 @@ import { BANDS, type Band } from "./astro/photometry";
 import { DAY_MS, dayNumber } from "./astro/time";
 import {
   MOON_CATEGORY_THRESHOLDS,
+  MOON_TIME_RULE,
   REFRACTION_MODEL,
+  darkHoursByMoon,
+  ensureMoonTimes,
   TWILIGHT_ALTITUDE_DEG,
   limitAltitude,
   prepareSiteNights,
@@ -75,6 +92,8 @@ export type SheetTarget = {
   decDeg: number;
   pmRaMasPerYr: number | null;
   pmDecMasPerYr: number | null;
+  /** magnitudes by band (band → magnitude); `magnitude`/`band` are the first of them */
+  magnitudes: Record<string, number>;
   magnitude: number | null;
   band: string | null;
 };
@@ -94,6 +113,8 @@ export type SheetObservation = {
   maxAirmass: number;
   seeingArcsec: number;
   epochs: SheetEpoch[];
+  /** ± nights in which an epoch may be taken (default EPOCH_TOLERANCE_NIGHTS) */
+  epochToleranceNights?: number;
 };
 export type FeasibilityInput = {
   proposalId: number;
@@ -102,6 +123,8 @@ export type FeasibilityInput = {
     semesterStart: string;
     semesterEnd: string;
     offers: { telescopeId: number; moonCategory: MoonCategory; hoursOffered: number }[];
+    /** dates of later semesters where the office has set up their calls (code, start, end) */
+    laterSemesters?: SemesterSpan[];
   };
   isMultiSemester: boolean;
   semestersRequested: string[];
@@ -117,7 +140,16 @@ export type FeasibilityInput = {
 
 export type Problem = { severity: "blocking" | "warning"; message: string; targetId?: number; observationId?: number };
 
-export type SheetNight = { date: string; moonCategory: MoonCategory; moonIllumination: number; darkHours: number };
+export type SheetNight = {
+  date: string;
+  moonCategory: MoonCategory;
+  moonIllumination: number;
+  darkHours: number;
+  moonrise: string | null;
+  moonset: string | null;
+  /** the dark interval split at moonrise and moonset */
+  darkHoursByMoonCategory: Record<MoonCategory, number>;
+};
 
 export type ObservationSheet = {
   observationId: number;
@@ -134,8 +166,9 @@ export type ObservationSheet = {
   visibility: {
     observableHours: number;
     byMoonCategory: Record<MoonCategory, number>;
-    /** hours on nights this observation may use (its moon category or darker) */
+    /** hours of this observation's moon category or darker, split at moonrise and moonset */
     usableHours: number;
+    /** nights with some usable hours */
     usableNights: number;
     darkHours: number;
     bestMonths: { month: string; observableHours: number }[];
@@ -184,11 +217,22 @@ export type ObservationSheet = {
   /** epochs counted in the call's semester */
   epochsThisSemester: number;
   requestedHoursThisSemester: number;
+  /** which band's magnitude the exposure used, and whether it is the observation's own */
+  magnitudeUsed: { band: string; magnitude: number; assumed: boolean } | null;
   astrometry: null | {
     baselineYears: number;
     source: "planned" | "proposed";
     perEpochPrecisionMas: number | null;
+    /** photon-noise part of the per-epoch precision and the instrument's floor (mas) */
+    photonPrecisionMas: number | null;
+    floorMas: number;
+    floorDominated: boolean;
     requiredPmPrecisionMasPerYr: number | null;
+    /** epochs per semester asked for, and per semester placed */
+    epochsPerSemester: number;
+    toleranceNights: number;
+    /** what would meet the requirement over the same baseline, when it is not met */
+    advice: string[];
     properMotionPrecisionMasPerYr: { ra: number; dec: number } | null;
     parallaxPrecisionMas: number | null;
     determined: boolean;
@@ -201,6 +245,9 @@ export type ObservationSheet = {
       parallaxFactorDec: number;
       observableHours: number | null;
       inWindow: boolean | null;
+      /** ± tolerance nights around the epoch and how many of them have time for the visit */
+      window: { from: string; to: string; usableNights: number } | null;
+      fragile: boolean;
     }[];
     perSemester: { semesterCode: string; epochs: number; hours: number }[];
     parallaxCurve: { date: string; ra: number; dec: number }[];
@@ -216,6 +263,7 @@ export type FeasibilitySheet = {
   computedAt: string;
   conventions: {
     moonCategoryThresholds: typeof MOON_CATEGORY_THRESHOLDS;
+    moonTimeRule: string;
     twilightAltitudeDeg: number;
     refraction: string;
     airmassFormula: string;
@@ -234,6 +282,7 @@ export type FeasibilitySheet = {
     pmDecMasPerYr: number | null;
     magnitude: number | null;
     band: string | null;
+    magnitudes: Record<string, number>;
     observationIds: number[];
   }[];
   totals: { telescopeId: number; telescopeName: string; semesterCode: string; moonCategory: MoonCategory; hours: number; offeredHours: number | null }[];
@@ -252,9 +301,25 @@ export const TIGHT_FRACTION = 0.5;
 export const LONG_FRAME_SECONDS = 1800;
 
 const r = (x: number, digits = 2) => Math.round(x * 10 ** digits) / 10 ** digits;
+const splitRounded = (x: Record<MoonCategory, number>, digits: number) => ({ dark: r(x.dark, digits), grey: r(x.grey, digits), bright: r(x.bright, digits) });
 
 export function nightsInSemester(start: string, end: string): number {
   return dayNumber(end) - dayNumber(start) + 1;
+}
+
+/**
+ * The magnitude an exposure in `band` uses: the target's own in that band, else the one in the
+ * nearest band it has (by effective wavelength, U B V R I), flagged as assumed (colour 0).
+ */
+export function magnitudeFor(magnitudes: Record<string, number>, band: string): { band: string; magnitude: number; assumed: boolean } | null {
+  if (Number.isFinite(magnitudes[band])) return { band, magnitude: magnitudes[band], assumed: false };
+  const order = BANDS as string[];
+  const at = order.indexOf(band);
+  const have = Object.keys(magnitudes).filter((b) => Number.isFinite(magnitudes[b]));
+  if (have.length === 0) return null;
+  const distance = (b: string) => (at < 0 || order.indexOf(b) < 0 ? 99 : Math.abs(order.indexOf(b) - at));
+  const nearest = [...have].sort((a, b) => distance(a) - distance(b) || order.indexOf(a) - order.indexOf(b))[0];
+  return { band: nearest, magnitude: magnitudes[nearest], assumed: true };
 }
 
 function asBand(band: string): Band {
@@ -333,6 +398,7 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
 
     // Visibility over the call's semester (site nights prepared once, cached across targets).
     const prepared = prepareSiteNights(telescope.site, call.semesterStart, count);
+    ensureMoonTimes(prepared);
     if (!sites[telescope.id]) {
       sites[telescope.id] = {
         telescopeName: telescope.name,
@@ -342,6 +408,9 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
           moonCategory: n.moonCategory,
           moonIllumination: r(n.moonIllumination, 3),
           darkHours: n.darkStart !== null && n.darkEnd !== null ? r((n.darkEnd - n.darkStart) / 3_600_000, 3) : 0,
+          moonrise: n.moon?.moonrise != null ? new Date(n.moon.moonrise).toISOString() : null,
+          moonset: n.moon?.moonset != null ? new Date(n.moon.moonset).toISOString() : null,
+          darkHoursByMoonCategory: splitRounded(darkHoursByMoon(n), 3),
         })),
       };
     }
@@ -349,13 +418,19 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
     const rows = targetNights(prepared, astroTarget(target), minAltitudeDeg);
     const summary = summarise(rows);
     const allowed = (c: MoonCategory) => MOON_RANK[c] <= MOON_RANK[obs.moonCategory];
+    /** a night's observable hours in this observation's moon category or darker (split at moonrise/moonset) */
+    const usableOf = (row: TargetNight) => {
+      const split = row.hoursByMoonCategory as Record<MoonCategory, number>;
+      return (["dark", "grey", "bright"] as const).filter(allowed).reduce((sum, c) => sum + split[c], 0);
+    };
     let usableHours = 0;
     let usableNights = 0;
     let best: TargetNight | null = null;
     for (const row of rows) {
       if (row.observableHours > 0 && (!best || row.observableHours > best.observableHours)) best = row;
-      if (allowed(row.night.moonCategory) && row.observableHours > 0) {
-        usableHours += row.observableHours;
+      const h = usableOf(row);
+      if (h > 0) {
+        usableHours += h;
         usableNights += 1;
       }
     }
@@ -380,7 +455,8 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
         fullWellE: instrument.fullWellE,
       },
     };
-    if (target.magnitude === null) {
+    const used = magnitudeFor(target.magnitudes, filter.band);
+    if (used === null) {
       if (obs.snrGoal !== null) {
         problems.push({ severity: "blocking", ...where, message: `${label}: the target has no magnitude, so the exposure time for SNR ${obs.snrGoal} cannot be computed. Add its magnitude on the targets tab.` });
       } else {
@@ -389,7 +465,7 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
     } else if (obs.snrGoal === null && obs.exposureSeconds === null) {
       problems.push({ severity: "blocking", ...where, message: `${label}: give either an SNR goal or an exposure time.` });
     } else {
-      const magnitude = target.magnitude;
+      const magnitude = used.magnitude;
       const result =
         obs.snrGoal !== null
           ? computeExposure({ ...exposureBase, magnitude, snr: obs.snrGoal })
@@ -422,8 +498,12 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
         maxUnsaturatedSeconds: Number.isFinite(maxUnsaturatedSeconds) ? maxUnsaturatedSeconds : 1e9,
         mode: obs.snrGoal !== null ? "snr-goal" : "exposure-time",
       };
-      if (target.band && target.band !== filter.band) {
-        problems.push({ severity: "warning", ...where, message: `${label}: the magnitude is given in ${target.band} and used as is for ${filter.band} (no colour term).` });
+      if (used.assumed) {
+        problems.push({
+          severity: "warning",
+          ...where,
+          message: `${label}: the target has no ${filter.band} magnitude. The exposure assumes ${filter.band} = ${used.band} = ${used.magnitude} (colour ${filter.band} − ${used.band} = 0), which is wrong by the star's colour; add its ${filter.band} magnitude on the targets tab.`,
+        });
       }
       if (saturated) {
         // Blocking: a saturated star gives neither a centroid nor a flux. The fix is in the
@@ -461,124 +541,10 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
     let epochsThisSemester = obs.epochsPerSemester;
     const perSemesterEpochs = new Map<string, number>();
     if (obs.baselineYears !== null && obs.baselineYears > 0) {
-      const perEpochPrecision = exposure
-        ? epochPrecisionMas({ fwhmArcsec: obs.seeingArcsec, snr: exposure.snr, frames: obs.framesPerEpoch, floorMas: instrument.astrometricFloorMas })
-        : null;
-      const span = baselineNights(obs.baselineYears);
-      const longPrepared = prepareSiteNights(telescope.site, call.semesterStart, span);
-      const limit = { maxAirmass: obs.maxAirmass };
-      let epochs: NonNullable<ObservationSheet["astrometry"]>["epochs"] = [];
-      let precision: ReturnType<typeof fitPrecision> | null = null;
-      let met: boolean | null = null;
-      let parallaxCurve: { date: string; ra: number; dec: number }[] = [];
-      let message: string | undefined;
-      const source: "planned" | "proposed" = obs.epochs.length > 0 ? "planned" : "proposed";
-      if (source === "planned") {
-        const longRows = targetNights(longPrepared, astroTarget(target), minAltitudeDeg);
-        const first = dayNumber(call.semesterStart);
-        const fitEpochs: { time: number; sigmaMas: number }[] = [];
-        for (const e of [...obs.epochs].sort((a, b) => a.date.localeCompare(b.date))) {
-          const index = dayNumber(e.date) - first;
-          const row = index >= 0 && index < longRows.length ? longRows[index] : null;
-          const window = row && row.windows.length ? row.windows.reduce((a, b) => (b.end - b.start > a.end - a.start ? b : a)) : null;
-          const time = window ? (window.start + window.end) / 2 : dayNumber(e.date) * DAY_MS + DAY_MS;
-          const f = parallaxFactors(target.raDeg, target.decDeg, time);
-          const inWindow = row ? row.observableHours >= Math.max(epochHours, 0.01) : null;
-          epochs.push({
-            date: e.date,
-            semesterCode: e.semesterCode,
-            status: e.status,
-            parallaxFactorRa: r(f.ra, 4),
-            parallaxFactorDec: r(f.dec, 4),
-            observableHours: row ? r(row.observableHours, 2) : null,
-            inWindow,
-          });
-          if (index < 0) {
-            problems.push({ severity: "blocking", ...where, message: `${label}: the epoch on ${e.date} is before the semester starts (${call.semesterStart}).` });
-          } else if (!row) {
-            problems.push({ severity: "warning", ...where, message: `${label}: the epoch on ${e.date} lies beyond the ${obs.baselineYears}-year baseline.` });
-          } else if (!inWindow) {
-            problems.push({
-              severity: "blocking",
-              ...where,
-              message:
-                row.observableHours === 0
-                  ? `${label}: on ${e.date} the target is not above airmass ${obs.maxAirmass} in the dark, so that epoch cannot be observed.`
-                  : `${label}: on ${e.date} the target is observable for ${r(row.observableHours, 2)} h, less than the ${r(epochHours, 2)} h the epoch needs.`,
-            });
-          } else if (!allowed(row.night.moonCategory)) {
-            problems.push({ severity: "warning", ...where, message: `${label}: ${e.date} is a ${row.night.moonCategory} night, brighter than the ${obs.moonCategory} time asked for.` });
-          }
-          if (perEpochPrecision !== null) fitEpochs.push({ time, sigmaMas: perEpochPrecision });
-          perSemesterEpochs.set(e.semesterCode, (perSemesterEpochs.get(e.semesterCode) ?? 0) + 1);
-        }
-        if (fitEpochs.length) precision = fitPrecision(target.raDeg, target.decDeg, fitEpochs);
-        for (let d = 0; d < span; d += 7) {
-          const date = longPrepared.nights[d].date;
-          const f = parallaxFactors(target.raDeg, target.decDeg, dayNumber(date) * DAY_MS);
-          parallaxCurve.push({ date, ra: r(f.ra, 4), dec: r(f.dec, 4) });
-        }
-      } else if (perEpochPrecision !== null) {
-        const semesters = Math.max(1, Math.round(obs.baselineYears * 2));
-        const plan = cachedPlan({
-          site: telescope.site,
-          target: astroTarget(target),
-          firstDate: call.semesterStart,
-          baselineYears: obs.baselineYears,
-          perEpochPrecisionMas: perEpochPrecision,
-          limit,
-          epochs: Math.max(3, obs.epochsPerSemester * semesters),
-          ...(obs.requiredPmPrecisionMasPerYr !== null ? { required: { properMotionMasPerYr: obs.requiredPmPrecisionMasPerYr } } : {}),
-          secondsPerEpoch: totalSeconds ?? 0,
-          minWindowHours: Math.max(epochHours, 0.25),
-        });
-        precision = plan.epochs.length ? plan.precision : null;
-        message = plan.message;
-        epochs = plan.epochs.map((e) => ({
-          date: e.date,
-          semesterCode: e.semester,
-          status: "planned" as const,
-          parallaxFactorRa: r(e.parallaxFactors.ra, 4),
-          parallaxFactorDec: r(e.parallaxFactors.dec, 4),
-          observableHours: r(e.altitudeWindowHours, 2),
-          inWindow: true,
-        }));
-        for (const e of plan.epochs) perSemesterEpochs.set(e.semester, (perSemesterEpochs.get(e.semester) ?? 0) + 1);
-        parallaxCurve = plan.parallaxCurve.map((p) => ({ date: p.date, ra: r(p.ra, 4), dec: r(p.dec, 4) }));
-        if (plan.message) problems.push({ severity: "blocking", ...where, message: `${label}: ${plan.message}` });
-      }
-      const pm = precision?.determined ? precision.properMotionPrecisionMasPerYr : null;
-      if (obs.requiredPmPrecisionMasPerYr !== null) {
-        met = pm ? Math.max(pm.ra, pm.dec) <= obs.requiredPmPrecisionMasPerYr : false;
-        if (!met && perEpochPrecision !== null) {
-          problems.push({
-            severity: "blocking",
-            ...where,
-            message: pm
-              ? `${label}: the epochs reach a proper-motion precision of ${r(Math.max(pm.ra, pm.dec), 3)} mas/yr; ${obs.requiredPmPrecisionMasPerYr} mas/yr is required. Add epochs, frames or baseline.`
-              : `${label}: the epochs cannot determine the proper motion and parallax (at least 3 well-spread epochs are needed); ${obs.requiredPmPrecisionMasPerYr} mas/yr is required.`,
-          });
-        }
-      } else {
-        problems.push({ severity: "warning", ...where, message: `${label}: no required proper-motion precision is given, so the epoch plan cannot be checked against what the science needs.` });
-      }
+      const part = astrometryPart({ obs, target, instrument, telescope, call, exposure, totalSeconds, epochHours, minAltitudeDeg, label, where, problems, allowed });
+      astrometry = part.astrometry;
+      for (const [code, n] of part.perSemesterEpochs) perSemesterEpochs.set(code, n);
       epochsThisSemester = perSemesterEpochs.get(call.semesterCode) ?? 0;
-      astrometry = {
-        baselineYears: obs.baselineYears,
-        source,
-        perEpochPrecisionMas: perEpochPrecision === null ? null : r(perEpochPrecision, 3),
-        requiredPmPrecisionMasPerYr: obs.requiredPmPrecisionMasPerYr,
-        properMotionPrecisionMasPerYr: pm ? { ra: r(pm.ra, 4), dec: r(pm.dec, 4) } : null,
-        parallaxPrecisionMas: precision?.determined && precision.parallaxPrecisionMas !== null ? r(precision.parallaxPrecisionMas, 4) : null,
-        determined: Boolean(precision?.determined),
-        met,
-        epochs,
-        perSemester: [...perSemesterEpochs.entries()]
-          .sort((a, b) => a[0].localeCompare(b[0]))
-          .map(([semesterCode, n]) => ({ semesterCode, epochs: n, hours: r(n * epochHours, 3) })),
-        parallaxCurve,
-        ...(message ? { message } : {}),
-      };
       for (const [semesterCode, n] of perSemesterEpochs) addTotal(telescope, semesterCode, obs.moonCategory, n * epochHours);
     } else {
       const semesters = input.isMultiSemester && input.semestersRequested.length ? input.semestersRequested : [call.semesterCode];
@@ -629,6 +595,7 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
       timePerEpoch,
       epochsThisSemester,
       requestedHoursThisSemester: r(requestedHoursThisSemester, 3),
+      magnitudeUsed: used,
       astrometry,
     });
   }
@@ -657,6 +624,7 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
     computedAt: new Date().toISOString(),
     conventions: {
       moonCategoryThresholds: MOON_CATEGORY_THRESHOLDS,
+      moonTimeRule: MOON_TIME_RULE,
       twilightAltitudeDeg: TWILIGHT_ALTITUDE_DEG,
       refraction: REFRACTION_MODEL,
       airmassFormula: AIRMASS_FORMULA,
@@ -675,6 +643,7 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
       pmDecMasPerYr: t.pmDecMasPerYr,
       magnitude: t.magnitude,
       band: t.band,
+      magnitudes: t.magnitudes,
       observationIds: observations.filter((o) => o.targetId === t.id).map((o) => o.observationId),
     })),
     totals: totalRows,
@@ -691,3 +660,259 @@ export const blockingProblems = (sheet: Pick<FeasibilitySheet, "problems">) => s
 
 /** Epoch semester codes the same way the planner assigns them. */
 export { semesterOf };
+
+// ---------------------------------------------------------------------------------------------
+// Astrometry part of one observation: the PI's epochs or a plan with exactly "epochs per
+// semester" in each semester of the baseline; per-epoch windows (± tolerance nights); what
+// limits the precision and what would meet the requirement.
+
+/** Semesters of a baseline: the call's own and the next ones, round(years × 2) in all. */
+export function baselineSemesters(call: FeasibilityInput["call"], baselineYears: number): SemesterSpan[] {
+  const count = Math.max(1, Math.round(baselineYears * 2));
+  return semesterSequence({ code: call.semesterCode, start: call.semesterStart, end: call.semesterEnd }, count, call.laterSemesters ?? []);
+}
+
+/** Largest number of epochs per semester the advice tries before saying none can. */
+export const MAX_EPOCHS_PER_SEMESTER_TRIED = 20;
+
+type AstrometryArgs = {
+  obs: SheetObservation;
+  target: SheetTarget;
+  instrument: SheetInstrument;
+  telescope: SheetTelescope;
+  call: FeasibilityInput["call"];
+  exposure: ObservationSheet["exposure"];
+  totalSeconds: number | null;
+  epochHours: number;
+  minAltitudeDeg: number;
+  label: string;
+  where: { targetId: number; observationId: number };
+  problems: Problem[];
+  allowed: (c: MoonCategory) => boolean;
+};
+
+function astrometryPart(a: AstrometryArgs): { astrometry: NonNullable<ObservationSheet["astrometry"]>; perSemesterEpochs: Map<string, number> } {
+  const { obs, target, instrument, telescope, call, exposure, totalSeconds, epochHours, minAltitudeDeg, label, where, problems, allowed } = a;
+  const baselineYears = obs.baselineYears as number;
+  const tolerance = obs.epochToleranceNights ?? EPOCH_TOLERANCE_NIGHTS;
+  const floorMas = instrument.astrometricFloorMas;
+  const photonPrecision = exposure ? centroidPrecisionMas(obs.seeingArcsec, exposure.snr) / Math.sqrt(obs.framesPerEpoch) : null;
+  const perEpochPrecision = exposure
+    ? epochPrecisionMas({ fwhmArcsec: obs.seeingArcsec, snr: exposure.snr, frames: obs.framesPerEpoch, floorMas })
+    : null;
+  const floorDominated = photonPrecision !== null && floorMas >= photonPrecision;
+  const semesters = baselineSemesters(call, baselineYears);
+  const lastNight = semesters[semesters.length - 1].end;
+  const span = Math.min(dayNumber(lastNight) - dayNumber(call.semesterStart) + 1, 366 * 6);
+  const longPrepared = prepareSiteNights(telescope.site, call.semesterStart, span);
+  const limit = { maxAirmass: obs.maxAirmass };
+  const perSemesterEpochs = new Map<string, number>();
+  const advice: string[] = [];
+  let epochs: NonNullable<ObservationSheet["astrometry"]>["epochs"] = [];
+  let precision: ReturnType<typeof fitPrecision> | null = null;
+  let parallaxCurve: { date: string; ra: number; dec: number }[] = [];
+  let message: string | undefined;
+  const source: "planned" | "proposed" = obs.epochs.length > 0 ? "planned" : "proposed";
+  const pf = (x: number) => roundNoNegativeZero(x, 4);
+  const planFor = (perSemester: number) =>
+    cachedPlan({
+      site: telescope.site,
+      target: astroTarget(target),
+      firstDate: call.semesterStart,
+      baselineYears: (span - 1) / 365.25, // the planner then prepares exactly `span` nights, the same cached span
+      perEpochPrecisionMas: perEpochPrecision as number,
+      limit,
+      perSemester: semesters.map((s) => ({ ...s, epochs: perSemester })),
+      ...(obs.requiredPmPrecisionMasPerYr !== null ? { required: { properMotionMasPerYr: obs.requiredPmPrecisionMasPerYr } } : {}),
+      secondsPerEpoch: totalSeconds ?? 0,
+      minWindowHours: Math.max(epochHours, 0.25),
+      toleranceNights: tolerance,
+    });
+
+  if (source === "planned") {
+    const longRows = targetNights(longPrepared, astroTarget(target), minAltitudeDeg);
+    const first = dayNumber(call.semesterStart);
+    const visit = Math.max(epochHours, 0.01);
+    const fitEpochs: { time: number; sigmaMas: number }[] = [];
+    for (const e of [...obs.epochs].sort((x, y) => x.date.localeCompare(y.date))) {
+      const index = dayNumber(e.date) - first;
+      const row = index >= 0 && index < longRows.length ? longRows[index] : null;
+      const window = row && row.windows.length ? row.windows.reduce((x, y) => (y.end - y.start > x.end - x.start ? y : x)) : null;
+      const time = window ? (window.start + window.end) / 2 : dayNumber(e.date) * DAY_MS + DAY_MS;
+      const f = parallaxFactors(target.raDeg, target.decDeg, time);
+      const inWindow = row ? row.observableHours >= visit : null;
+      let tolWindow: { from: string; to: string; usableNights: number } | null = null;
+      if (row) {
+        const lo = Math.max(0, index - tolerance);
+        const hi = Math.min(longRows.length - 1, index + tolerance);
+        let usableNights = 0;
+        for (let k = lo; k <= hi; k++) if (longRows[k].observableHours >= visit) usableNights++;
+        tolWindow = { from: longRows[lo].night.date, to: longRows[hi].night.date, usableNights };
+      }
+      const fragile = tolWindow !== null && tolWindow.usableNights < FRAGILE_BELOW_NIGHTS;
+      epochs.push({
+        date: e.date,
+        semesterCode: e.semesterCode,
+        status: e.status,
+        parallaxFactorRa: pf(f.ra),
+        parallaxFactorDec: pf(f.dec),
+        observableHours: row ? r(row.observableHours, 2) : null,
+        inWindow,
+        window: tolWindow,
+        fragile,
+      });
+      if (index < 0) {
+        problems.push({ severity: "blocking", ...where, message: `${label}: the epoch on ${e.date} is before the semester starts (${call.semesterStart}).` });
+      } else if (!row) {
+        problems.push({ severity: "warning", ...where, message: `${label}: the epoch on ${e.date} lies beyond the ${baselineYears}-year baseline.` });
+      } else if (!inWindow) {
+        problems.push({
+          severity: "blocking",
+          ...where,
+          message:
+            row.observableHours === 0
+              ? `${label}: on ${e.date} the target is not above airmass ${obs.maxAirmass} in the dark, so that epoch cannot be observed.`
+              : `${label}: on ${e.date} the target is observable for ${r(row.observableHours, 2)} h, less than the ${r(epochHours, 2)} h the epoch needs.`,
+        });
+      } else {
+        const split = row.hoursByMoonCategory as Record<MoonCategory, number>;
+        const usable = (["dark", "grey", "bright"] as const).filter(allowed).reduce((sum, c) => sum + split[c], 0);
+        if (usable < visit) {
+          problems.push({
+            severity: "warning",
+            ...where,
+            message: `${label}: on ${e.date} only ${r(usable, 2)} h of the window are ${obs.moonCategory === "dark" ? "dark" : "dark or grey"} time (Moon up and ${row.night.moonCategory}), less than the ${r(epochHours, 2)} h the epoch needs.`,
+          });
+        }
+      }
+      if (fragile && tolWindow) {
+        problems.push({
+          severity: "warning",
+          ...where,
+          message: `${label}: the epoch on ${e.date} is fragile: within ±${tolerance} nights (${tolWindow.from} to ${tolWindow.to}) only ${tolWindow.usableNights} night${tolWindow.usableNights === 1 ? " has" : "s have"} the ${r(epochHours, 2)} h the visit needs; one cloudy night may lose it.`,
+        });
+      }
+      if (perEpochPrecision !== null) fitEpochs.push({ time, sigmaMas: perEpochPrecision });
+      perSemesterEpochs.set(e.semesterCode, (perSemesterEpochs.get(e.semesterCode) ?? 0) + 1);
+    }
+    if (fitEpochs.length) precision = fitPrecision(target.raDeg, target.decDeg, fitEpochs);
+    for (let d = 0; d < span; d += 7) {
+      const date = longPrepared.nights[d].date;
+      const f = parallaxFactors(target.raDeg, target.decDeg, dayNumber(date) * DAY_MS);
+      parallaxCurve.push({ date, ra: pf(f.ra), dec: pf(f.dec) });
+    }
+  } else if (perEpochPrecision !== null) {
+    const total = obs.epochsPerSemester * semesters.length;
+    if (total < 3) {
+      message = `${obs.epochsPerSemester} epoch${obs.epochsPerSemester === 1 ? "" : "s"} per semester over ${semesters.length} semester${semesters.length === 1 ? "" : "s"} make ${total}; position, proper motion and parallax need at least 3 epochs.`;
+      problems.push({ severity: "blocking", ...where, message: `${label}: ${message}` });
+    } else {
+      const plan = planFor(obs.epochsPerSemester);
+      precision = plan.epochs.length ? plan.precision : null;
+      message = plan.message;
+      epochs = plan.epochs.map((e) => ({
+        date: e.date,
+        semesterCode: e.semester,
+        status: "planned" as const,
+        parallaxFactorRa: pf(e.parallaxFactors.ra),
+        parallaxFactorDec: pf(e.parallaxFactors.dec),
+        observableHours: r(e.altitudeWindowHours, 2),
+        inWindow: true,
+        window: e.window,
+        fragile: e.fragile,
+      }));
+      for (const s of semesters) perSemesterEpochs.set(s.code, 0);
+      for (const e of plan.epochs) perSemesterEpochs.set(e.semester, (perSemesterEpochs.get(e.semester) ?? 0) + 1);
+      parallaxCurve = plan.parallaxCurve.map((p) => ({ date: p.date, ra: pf(p.ra), dec: pf(p.dec) }));
+      if (plan.message) problems.push({ severity: "blocking", ...where, message: `${label}: ${plan.message}` });
+      for (const e of plan.epochs.filter((x) => x.fragile)) {
+        problems.push({
+          severity: "warning",
+          ...where,
+          message: `${label}: the proposed epoch on ${e.date} is fragile: within ±${tolerance} nights (${e.window.from} to ${e.window.to}) only ${e.window.usableNights} night${e.window.usableNights === 1 ? " has" : "s have"} the ${r(epochHours, 2)} h the visit needs.`,
+        });
+      }
+    }
+  }
+
+  if (floorDominated && photonPrecision !== null && perEpochPrecision !== null) {
+    const text = `the per-epoch precision (${r(perEpochPrecision, 2)} mas) is set by ${instrument.name}'s systematic floor of ${r(floorMas, 2)} mas (photon noise alone gives ${r(photonPrecision, 2)} mas): more frames or longer exposures cannot improve it; more epochs or a longer baseline can.`;
+    advice.push(text);
+    problems.push({ severity: "warning", ...where, message: `${label}: ${text}` });
+  }
+
+  const pm = precision?.determined ? precision.properMotionPrecisionMasPerYr : null;
+  let met: boolean | null = null;
+  if (obs.requiredPmPrecisionMasPerYr !== null) {
+    const required = obs.requiredPmPrecisionMasPerYr;
+    met = pm ? Math.max(pm.ra, pm.dec) <= required : false;
+    if (!met && perEpochPrecision !== null) {
+      // What would meet it over the same baseline: the fewest epochs per semester that do
+      // (σ(μ) falls with the number of epochs: bisection between what is asked and the most tried).
+      const outcome = (k: number) => {
+        const trial = planFor(k);
+        const p = trial.precision.properMotionPrecisionMasPerYr;
+        return { full: !trial.message, worst: trial.precision.determined ? Math.max(p.ra, p.dec) : Infinity };
+      };
+      let meets: number | null = null;
+      let reached: number | null = null;
+      let lo = Math.max(source === "proposed" ? obs.epochsPerSemester : 0, Math.ceil(3 / semesters.length) - 1);
+      let hi = MAX_EPOCHS_PER_SEMESTER_TRIED;
+      // the most epochs per semester the windows hold (a plan with a shortfall does not count)
+      while (hi > lo && !outcome(hi).full) hi = Math.max(lo, Math.floor((lo + hi) / 2));
+      if (hi > lo) {
+        const top = outcome(hi);
+        reached = top.worst;
+        if (top.worst <= required) {
+          while (hi - lo > 1) {
+            const mid = Math.floor((lo + hi) / 2);
+            if (outcome(mid).worst <= required) hi = mid;
+            else lo = mid;
+          }
+          meets = hi;
+        }
+      }
+      const spanText = `the ${baselineYears}-year baseline (${semesters.map((s) => s.code).join(", ")})`;
+      const how =
+        meets !== null
+          ? `${meets} epochs per semester (${meets * semesters.length} in all) over ${spanText} would meet it.`
+          : `no number of epochs per semester over ${spanText} meets it${reached !== null ? ` (the most that fit reach ${r(reached, 3)} mas/yr)` : ""}: a longer baseline${floorDominated ? "" : " or a better per-epoch precision"} is needed.`;
+      advice.push(how);
+      problems.push({
+        severity: "blocking",
+        ...where,
+        message: pm
+          ? `${label}: the epochs reach a proper-motion precision of ${r(Math.max(pm.ra, pm.dec), 3)} mas/yr; ${required} mas/yr is required. ${how}`
+          : `${label}: the epochs cannot determine the proper motion and parallax (at least 3 well-spread epochs are needed); ${required} mas/yr is required. ${how}`,
+      });
+    }
+  } else {
+    problems.push({ severity: "warning", ...where, message: `${label}: no required proper-motion precision is given, so the epoch plan cannot be checked against what the science needs.` });
+  }
+
+  return {
+    perSemesterEpochs,
+    astrometry: {
+      baselineYears,
+      source,
+      perEpochPrecisionMas: perEpochPrecision === null ? null : r(perEpochPrecision, 3),
+      photonPrecisionMas: photonPrecision === null ? null : r(photonPrecision, 3),
+      floorMas,
+      floorDominated,
+      requiredPmPrecisionMasPerYr: obs.requiredPmPrecisionMasPerYr,
+      epochsPerSemester: obs.epochsPerSemester,
+      toleranceNights: tolerance,
+      advice,
+      properMotionPrecisionMasPerYr: pm ? { ra: r(pm.ra, 4), dec: r(pm.dec, 4) } : null,
+      parallaxPrecisionMas: precision?.determined && precision.parallaxPrecisionMas !== null ? r(precision.parallaxPrecisionMas, 4) : null,
+      determined: Boolean(precision?.determined),
+      met,
+      epochs,
+      perSemester: [...perSemesterEpochs.entries()]
+        .sort((x, y) => x[0].localeCompare(y[0]))
+        .map(([semesterCode, n]) => ({ semesterCode, epochs: n, hours: r(n * epochHours, 3) })),
+      parallaxCurve,
+      ...(message ? { message } : {}),
+    },
+  };
+}

@@ -244,6 +244,8 @@ class Writer {
 }
 
 const f = (x: number | null | undefined, d = 1) => (x === null || x === undefined || !Number.isFinite(x) ? "—" : x.toFixed(d));
+/** fixed digits without a negative zero */
+const f0 = (x: number, d: number) => x.toFixed(d).replace(/^-(0\.?0*)$/, "$1");
 const big = (x: number) => (x >= 1e5 ? x.toExponential(2) : Math.round(x).toString());
 
 function technicalPages(w: Writer, sheet: FeasibilitySheet) {
@@ -251,7 +253,7 @@ function technicalPages(w: Writer, sheet: FeasibilitySheet) {
   w.heading(`Technical case: feasibility sheet for ${sheet.semesterCode}`);
   w.paragraph(
     `Computed ${sheet.computedAt.slice(0, 16).replace("T", " ")} UTC for the semester ${sheet.semesterStart} to ${sheet.semesterEnd}. ` +
-      `Darkness: Sun below ${sheet.conventions.twilightAltitudeDeg}°. Moon categories from the illuminated fraction at mid-darkness: dark below ${sheet.conventions.moonCategoryThresholds.darkBelow}, grey below ${sheet.conventions.moonCategoryThresholds.greyBelow}, bright otherwise. ` +
+      `Darkness: Sun below ${sheet.conventions.twilightAltitudeDeg}°. ${sheet.conventions.moonTimeRule} ` +
       `Airmass: ${sheet.conventions.airmassFormula}. Refraction: ${sheet.conventions.refraction}. Exposure: ${sheet.conventions.exposure}. Astrometry: ${sheet.conventions.centroid}. Time per epoch: ${sheet.conventions.timePerEpoch}.`,
     8.5,
     { color: GREY },
@@ -273,7 +275,7 @@ function technicalPages(w: Writer, sheet: FeasibilitySheet) {
       { label: "μδ (mas/yr)", width: 0.13, right: true },
       { label: "Magnitude", width: 0.14, right: true },
     ],
-    sheet.targets.map((t) => [t.name, formatRa(t.raDeg, 2), formatDec(t.decDeg, 1), f(t.pmRaMasPerYr, 2), f(t.pmDecMasPerYr, 2), t.magnitude === null ? "—" : `${t.magnitude}${t.band ? ` ${t.band}` : ""}`]),
+    sheet.targets.map((t) => [t.name, formatRa(t.raDeg, 2), formatDec(t.decDeg, 1), f(t.pmRaMasPerYr, 2), f(t.pmDecMasPerYr, 2), Object.entries(t.magnitudes ?? {}).map(([b, m]) => `${b} ${m}`).join(", ") || "—"]),
   );
 
   w.heading("Visibility (observable hours above the airmass limit, in astronomical darkness)", 11);
@@ -431,7 +433,7 @@ function technicalPages(w: Writer, sheet: FeasibilitySheet) {
           { label: "Observable (h)", width: 0.18, right: true },
           { label: "Status", width: 0.22 },
         ],
-        a.epochs.map((e) => [e.date, e.semesterCode, e.parallaxFactorRa.toFixed(3), e.parallaxFactorDec.toFixed(3), f(e.observableHours, 2), e.inWindow === false ? "outside window" : e.status]),
+        a.epochs.map((e) => [e.date, e.semesterCode, f0(e.parallaxFactorRa, 3), f0(e.parallaxFactorDec, 3), f(e.observableHours, 2), e.inWindow === false ? "outside window" : e.fragile ? `${e.status}, fragile` : e.status]),
       );
     }
   }

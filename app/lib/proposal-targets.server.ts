@@ -5,6 +5,7 @@ import { writeAudit } from "~/lib/audit.server";
 import type { TargetInput } from "~/lib/schemas/proposals";
 import { DUPLICATE_RADIUS_ARCSEC, parseTargetCsv, type CsvReport, type CsvRowResult } from "~/lib/target-csv";
 import { Observation, sequelize, Target } from "~/models/index.server";
+import { magnitudesOf } from "~/models/Target";
 import { assertEditable, getProposalForUser, ProposalRefused, type Actor } from "./proposals.server";
 
 export const MAX_TARGETS = 1_000;
@@ -16,6 +17,8 @@ export type TargetRow = {
   decDeg: number;
   pmRaMasPerYr: number | null;
   pmDecMasPerYr: number | null;
+  /** band → magnitude */
+  magnitudes: Record<string, number>;
   magnitude: number | null;
   band: string | null;
   notes: string | null;
@@ -41,6 +44,7 @@ export async function targetRows(proposalId: number, transaction?: Transaction):
     decDeg: t.decDeg,
     pmRaMasPerYr: t.pmRaMasPerYr,
     pmDecMasPerYr: t.pmDecMasPerYr,
+    magnitudes: magnitudesOf(t),
     magnitude: t.magnitude,
     band: t.band,
     notes: t.notes,
@@ -55,8 +59,7 @@ function columns(input: TargetInput) {
     decDeg: input.decDeg,
     pmRaMasPerYr: input.pmra,
     pmDecMasPerYr: input.pmdec,
-    magnitude: input.magnitude,
-    band: input.band,
+    magnitudes: input.magnitudes as Record<string, number>,
     notes: input.notes,
   };
 }

@@ -16,6 +16,18 @@ describe("target CSV import", () => {
     expect(b.target.magnitude).toBeNull();
   });
 
+  it("reads one magnitude per band from mag_<band> columns (any case), alongside the older magnitude,band pair", () => {
+    const report = parseTargetCsv("name,ra,dec,Mag_V,mag_r,MAG_I\nThree-band,10,10,16.2,15.8,15.1\nV only,11,11,17,,\nNone,12,12,,,");
+    expect(report.error).toBeUndefined();
+    const got = report.rows.map((r) => (r.ok ? r.target.magnitudes : null));
+    expect(got).toEqual([{ V: 16.2, R: 15.8, I: 15.1 }, { V: 17 }, {}]);
+    const pair = parseTargetCsv("name,ra,dec,mag_V,magnitude,band\nBoth,10,10,16.2,15.9,R\nClash,11,11,16.2,16.0,V");
+    expect(pair.rows[0].ok && pair.rows[0].target.magnitudes).toEqual({ V: 16.2, R: 15.9 });
+    expect(!pair.rows[1].ok && pair.rows[1].problems.map((p) => p.message)).toEqual(["The V magnitude is given twice (16 and 16.2): keep one."]);
+    const bad = parseTargetCsv("name,ra,dec,mag_V\nBright,10,10,very");
+    expect(!bad.rows[0].ok && bad.rows[0].problems[0].field).toBe("mag_V");
+  });
+
   it("refuses bad rows with line, field and reason, and keeps their text", () => {
     const csv = "name,ra,dec,magnitude,band\nGood,10.0,10.0,14,V\nBadRa,25:00:00,10,14,V\n,11.0,11.0,,\nNoBand,12,12,13,\nOddBand,13,13,13,Q";
     const report = parseTargetCsv(csv);

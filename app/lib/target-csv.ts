@@ -3,7 +3,10 @@
 import { angularSeparationDeg } from "~/lib/astro/coordinates";
 import { targetSchema, type TargetInput } from "~/lib/schemas/proposals";
 
-export const CSV_COLUMNS = ["name", "ra", "dec", "pmra", "pmdec", "magnitude", "band"] as const;
+/** Column names as written in the header (case, spaces and underscores do not matter). */
+export const CSV_COLUMNS = ["name", "ra", "dec", "pmra", "pmdec", "mag_U", "mag_B", "mag_V", "mag_R", "mag_I", "magnitude", "band"] as const;
+const normalise = (c: string) => c.toLowerCase().replace(/[\s_]/g, "");
+const KNOWN = new Map<string, string>(CSV_COLUMNS.map((c) => [normalise(c), c]));
 const REQUIRED = ["name", "ra", "dec"] as const;
 export const DUPLICATE_RADIUS_ARCSEC = 1;
 export const MAX_IMPORT_ROWS = 2_000;
@@ -49,10 +52,10 @@ function detectSeparator(header: string) {
 export function parseTargetCsv(text: string, existing: ExistingTarget[] = []): CsvReport {
   const lines = text.replace(/^\uFEFF/, "").split(/\r\n|\n|\r/);
   const headerIndex = lines.findIndex((l) => l.trim() !== "" && !l.trim().startsWith("#"));
-  if (headerIndex < 0) return { header: "", rows: [], error: "The CSV is empty: it needs a header row (name, ra, dec, pmra, pmdec, magnitude, band) and one row per target." };
+  if (headerIndex < 0) return { header: "", rows: [], error: "The CSV is empty: it needs a header row (name, ra, dec, and optionally pmra, pmdec, mag_V, mag_R … or magnitude, band) and one row per target." };
   const header = lines[headerIndex];
   const separator = detectSeparator(header);
-  const columns = splitCsvLine(header, separator).map((c) => c.toLowerCase().replace(/[\s_]/g, ""));
+  const columns = splitCsvLine(header, separator).map((c) => KNOWN.get(normalise(c)) ?? normalise(c));
   const unknown = columns.filter((c) => c !== "" && !(CSV_COLUMNS as readonly string[]).includes(c));
   const missing = REQUIRED.filter((c) => !columns.includes(c));
   if (missing.length || unknown.length) {
@@ -63,7 +66,7 @@ export function parseTargetCsv(text: string, existing: ExistingTarget[] = []): C
     return {
       header,
       rows: [],
-      error: `The header row (line ${headerIndex + 1}) has ${parts.join(" and ")}. Use: ${CSV_COLUMNS.join(", ")} (name, ra and dec are required).`,
+      error: `The header row (line ${headerIndex + 1}) has ${parts.join(" and ")}. Use: ${CSV_COLUMNS.join(", ")} (name, ra and dec are required; one mag_<band> column per band, or magnitude with band).`,
     };
   }
   const rows: CsvRowResult[] = [];

@@ -48,6 +48,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 }
 
 const fx = (x: number | null | undefined, d = 1) => (x === null || x === undefined || !Number.isFinite(x) ? "—" : x.toFixed(d));
+/** fixed digits without a negative zero ("-0.000" reads as a sign) */
+const f0 = (x: number, d: number) => x.toFixed(d).replace(/^-(0\.?0*)$/, "$1");
 const e = (x: number) => (x >= 1e5 ? x.toExponential(2) : x >= 100 ? Math.round(x).toLocaleString("en-GB") : x.toFixed(1));
 
 function NoiseTable({ exposure }: { exposure: NonNullable<ObservationSheet["exposure"]> }) {
@@ -127,7 +129,7 @@ function ObservationCard({ o, sheet, defaultOpen }: { o: ObservationSheet; sheet
             <h3 className="font-semibold text-night-900">Visibility in {sheet.semesterCode}</h3>
             <dl className="grid grid-cols-2 gap-x-6 gap-y-1 text-sm sm:grid-cols-4">
               <div><dt className="text-slate-500">Observable, all nights</dt><dd className="font-semibold">{hours(o.visibility.observableHours)}</dd></div>
-              <div><dt className="text-slate-500">dark / grey / bright</dt><dd>{fx(o.visibility.byMoonCategory.dark)} / {fx(o.visibility.byMoonCategory.grey)} / {fx(o.visibility.byMoonCategory.bright)} h</dd></div>
+              <div><dt className="text-slate-500" title="split at moonrise and moonset">dark / grey / bright (by the Moon's altitude)</dt><dd>{fx(o.visibility.byMoonCategory.dark)} / {fx(o.visibility.byMoonCategory.grey)} / {fx(o.visibility.byMoonCategory.bright)} h</dd></div>
               <div><dt className="text-slate-500">Usable in {o.moonCategory} time</dt><dd className="font-semibold">{hours(o.visibility.usableHours)} on {o.visibility.usableNights} nights</dd></div>
               <div><dt className="text-slate-500">Best months</dt><dd>{o.visibility.bestMonths.map((m) => `${m.month} (${fx(m.observableHours, 0)} h)`).join(", ") || "—"}</dd></div>
               <div><dt className="text-slate-500">Airmass limit → altitude</dt><dd>{o.maxAirmass} → {fx(o.minAltitudeDeg)}°</dd></div>
@@ -146,7 +148,7 @@ function ObservationCard({ o, sheet, defaultOpen }: { o: ObservationSheet; sheet
             {x ? (
               <>
                 <p className="text-sm">
-                  {x.mode === "snr-goal" ? "For the SNR goal" : "For the exposure given"}: <strong>{fx(x.exposureSeconds, 1)} s</strong> per frame gives <strong>SNR {fx(x.snr, 1)}</strong> on a magnitude {x.magnitude} star at airmass {x.airmass} (extinction {x.extinctionMagPerAirmass} mag/airmass), in an aperture of radius {fx(x.apertureRadiusArcsec, 2)}″ ({fx(x.pixels, 1)} pixels, {fx(100 * x.apertureFraction, 1)} % of the light).
+                  {x.mode === "snr-goal" ? "For the SNR goal" : "For the exposure given"}: <strong>{fx(x.exposureSeconds, 1)} s</strong> per frame gives <strong>SNR {fx(x.snr, 1)}</strong> on a {o.magnitudeUsed ? (o.magnitudeUsed.assumed ? `${o.band} = ${o.magnitudeUsed.band} = ${x.magnitude} (assumed, colour 0)` : `${o.band} = ${x.magnitude}`) : x.magnitude} star at airmass {x.airmass} (extinction {x.extinctionMagPerAirmass} mag/airmass), in an aperture of radius {fx(x.apertureRadiusArcsec, 2)}″ ({fx(x.pixels, 1)} pixels, {fx(100 * x.apertureFraction, 1)} % of the light).
                 </p>
                 <NoiseTable exposure={x} />
                 <p className={`text-sm ${x.saturated ? "font-semibold text-red-800" : ""}`}>
@@ -176,7 +178,13 @@ function ObservationCard({ o, sheet, defaultOpen }: { o: ObservationSheet; sheet
                 <strong>{a.properMotionPrecisionMasPerYr ? `${fx(a.properMotionPrecisionMasPerYr.ra, 3)} (α*) / ${fx(a.properMotionPrecisionMasPerYr.dec, 3)} (δ) mas/yr` : "not determined"}</strong>
                 {a.requiredPmPrecisionMasPerYr !== null ? `, ${a.requiredPmPrecisionMasPerYr} mas/yr required (${a.met ? "met" : "not met"})` : ""}; parallax precision{" "}
                 <strong>{a.parallaxPrecisionMas !== null ? `${fx(a.parallaxPrecisionMas, 3)} mas` : "not determined"}</strong>.
+                {" "}Asked: {a.epochsPerSemester} epoch{a.epochsPerSemester === 1 ? "" : "s"} per semester; each epoch may be taken within ±{a.toleranceNights} nights.
               </p>
+              {a.advice.length ? (
+                <ul className="list-disc pl-5 text-sm text-night-900">
+                  {a.advice.map((line) => <li key={line}>{line}</li>)}
+                </ul>
+              ) : null}
               {a.parallaxCurve.length ? (
                 <ClientOnly fallback={<ChartPlaceholder className="h-56 w-full" />}>
                   <ParallaxFactorChart curve={a.parallaxCurve} epochs={a.epochs} />
@@ -192,6 +200,7 @@ function ObservationCard({ o, sheet, defaultOpen }: { o: ObservationSheet; sheet
                       <th className="text-right">f(α*)</th>
                       <th className="text-right">f(δ)</th>
                       <th className="text-right">Observable</th>
+                      <th className="text-right" title="nights within the tolerance that have the time the visit needs">Usable nights</th>
                       <th>Status</th>
                     </tr>
                   </thead>
@@ -200,9 +209,10 @@ function ObservationCard({ o, sheet, defaultOpen }: { o: ObservationSheet; sheet
                       <tr key={ep.date} className={ep.inWindow === false ? "bg-red-50" : undefined}>
                         <td>{ep.date}</td>
                         <td>{ep.semesterCode}</td>
-                        <td className="text-right">{ep.parallaxFactorRa.toFixed(3)}</td>
-                        <td className="text-right">{ep.parallaxFactorDec.toFixed(3)}</td>
+                        <td className="text-right">{f0(ep.parallaxFactorRa, 3)}</td>
+                        <td className="text-right">{f0(ep.parallaxFactorDec, 3)}</td>
                         <td className="text-right">{ep.observableHours === null ? "—" : hours(ep.observableHours, 2)}</td>
+                        <td className="text-right">{ep.window ? `${ep.window.usableNights} in ±${a.toleranceNights}` : "—"}{ep.fragile ? <span className="ml-1 font-semibold text-amber-800">fragile</span> : null}</td>
                         <td>{ep.inWindow === false ? <span className="font-semibold text-red-800">outside window</span> : ep.status}</td>
                       </tr>
                     ))}
@@ -346,7 +356,7 @@ export default function FeasibilitySheetPage({ loaderData }: Route.ComponentProp
       <section className="text-xs text-slate-600">
         <h3 className="font-semibold text-slate-700">How the sheet is computed</h3>
         <ul className="mt-1 list-disc space-y-0.5 pl-5">
-          <li>Moon category of a night from the Moon's illuminated fraction at mid-darkness: dark below {c.moonCategoryThresholds.darkBelow * 100} %, grey below {c.moonCategoryThresholds.greyBelow * 100} %, bright otherwise. Dark time uses dark nights only; grey time dark or grey nights; bright time any night.</li>
+          <li>{c.moonTimeRule} Dark time uses the dark hours only; grey time dark or grey hours; bright time any hour. A night's single category (the charts' colours) is that of the illuminated fraction at mid-darkness: dark below {c.moonCategoryThresholds.darkBelow * 100} %, grey below {c.moonCategoryThresholds.greyBelow * 100} %, bright otherwise.</li>
           <li>Darkness: the Sun's centre below {c.twilightAltitudeDeg}°. Refraction: {c.refraction}. Airmass: {c.airmassFormula}.</li>
           <li>Exposure: {c.exposure}.</li>
           <li>Astrometry: {c.centroid}.</li>

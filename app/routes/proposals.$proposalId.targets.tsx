@@ -63,11 +63,20 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 type TargetRow = Route.ComponentProps["loaderData"]["targets"][number];
-const emptyTarget = { name: "", ra: "", dec: "", pmra: "", pmdec: "", magnitude: "", band: "", notes: "" };
+const emptyTarget = { name: "", ra: "", dec: "", pmra: "", pmdec: "", mag_U: "", mag_B: "", mag_V: "", mag_R: "", mag_I: "", magnitude: "", band: "", notes: "" };
 
 function formOf(t: TargetRow) {
-  const s = (v: number | null) => (v === null ? "" : String(v));
-  return { name: t.name, ra: formatRa(t.raDeg, 4), dec: formatDec(t.decDeg, 3), pmra: s(t.pmRaMasPerYr), pmdec: s(t.pmDecMasPerYr), magnitude: s(t.magnitude), band: t.band ?? "", notes: t.notes ?? "" };
+  const s = (v: number | null | undefined) => (v === null || v === undefined ? "" : String(v));
+  const m = t.magnitudes;
+  return {
+    name: t.name, ra: formatRa(t.raDeg, 4), dec: formatDec(t.decDeg, 3), pmra: s(t.pmRaMasPerYr), pmdec: s(t.pmDecMasPerYr),
+    mag_U: s(m.U), mag_B: s(m.B), mag_V: s(m.V), mag_R: s(m.R), mag_I: s(m.I), magnitude: "", band: "", notes: t.notes ?? "",
+  };
+}
+
+function magnitudesText(m: Record<string, number>) {
+  const parts = TARGET_BANDS.filter((b) => m[b] !== undefined).map((b) => `${b} ${m[b].toFixed(2)}`);
+  return parts.length ? parts.join(" · ") : "—";
 }
 
 function TargetForm({ editing, onDone }: { editing: TargetRow | null; onDone: () => void }) {
@@ -104,16 +113,14 @@ function TargetForm({ editing, onDone }: { editing: TargetRow | null; onDone: ()
         {field("dec", "Dec (ICRS, J2000)", "±dd:mm:ss or degrees", { spellCheck: false })}
         {field("pmra", "μα* (mas/yr)", "includes cos δ; optional", { inputMode: "decimal" })}
         {field("pmdec", "μδ (mas/yr)", "optional", { inputMode: "decimal" })}
-        <div className="grid grid-cols-2 gap-3">
-          {field("magnitude", "Magnitude", undefined, { inputMode: "decimal" })}
-          <Field label="Band" id="t-band" error={error("band")}>
-            <select {...(inputProps("t-band", error("band")) as object)} className="input" {...register("band")}>
-              <option value="">—</option>
-              {TARGET_BANDS.map((b) => <option key={b} value={b}>{b}</option>)}
-            </select>
-          </Field>
-        </div>
       </div>
+      <fieldset>
+        <legend className="text-sm font-semibold">Magnitudes (Vega), one per band you know</legend>
+        <p className="text-xs text-slate-600">An observation in a band left empty is computed from the nearest band given, and the feasibility sheet says so.</p>
+        <div className="mt-2 grid grid-cols-3 gap-3 sm:grid-cols-5">
+          {TARGET_BANDS.map((b) => <div key={b}>{field(`mag_${b}`, b, undefined, { inputMode: "decimal" })}</div>)}
+        </div>
+      </fieldset>
       {field("notes", "Notes", "optional: finding notes, priority…")}
       <div className="flex gap-2">
         <button type="submit" className="btn" disabled={fetcher.state !== "idle"}>{editing ? "Save the target" : "Add the target"}</button>
@@ -156,7 +163,7 @@ function CsvImport() {
             rows={8}
             spellCheck={false}
             className="input font-mono text-sm"
-            placeholder={"name,ra,dec,pmra,pmdec,magnitude,band\nField star 1,05:12:33.4,+21:04:12,1.2,-3.4,15.2,V"}
+            placeholder={"name,ra,dec,pmra,pmdec,mag_V,mag_R\nField star 1,05:12:33.4,+21:04:12,1.2,-3.4,15.2,14.8"}
             value={text}
             onChange={(e) => setText(e.target.value)}
             aria-invalid={error ? true : undefined}
@@ -252,7 +259,7 @@ export default function Targets({ loaderData }: Route.ComponentProps) {
         <table className="table-base">
           <thead>
             <tr>
-              <th>Name</th><th>RA</th><th>Dec</th><th className="text-right">μα* (mas/yr)</th><th className="text-right">μδ (mas/yr)</th><th className="text-right">Mag</th><th>Band</th><th className="text-right">Obs.</th>
+              <th>Name</th><th>RA</th><th>Dec</th><th className="text-right">μα* (mas/yr)</th><th className="text-right">μδ (mas/yr)</th><th>Magnitudes</th><th className="text-right">Obs.</th>
               {workspace.editable ? <th /> : null}
             </tr>
           </thead>
@@ -264,8 +271,7 @@ export default function Targets({ loaderData }: Route.ComponentProps) {
                 <td className="font-mono text-xs whitespace-nowrap">{formatDec(t.decDeg)}</td>
                 <td className="text-right tabular-nums">{fixed(t.pmRaMasPerYr, 2)}</td>
                 <td className="text-right tabular-nums">{fixed(t.pmDecMasPerYr, 2)}</td>
-                <td className="text-right tabular-nums">{fixed(t.magnitude, 2)}</td>
-                <td>{t.band ?? "—"}</td>
+                <td className="tabular-nums whitespace-nowrap">{magnitudesText(t.magnitudes)}</td>
                 <td className={`text-right tabular-nums ${t.observations ? "" : "text-amber-700"}`} title={t.observations ? undefined : "No observation yet"}>{t.observations}</td>
                 {workspace.editable ? (
                   <td className="whitespace-nowrap">
@@ -276,7 +282,7 @@ export default function Targets({ loaderData }: Route.ComponentProps) {
               </tr>
             ))}
             {targets.length === 0 ? (
-              <tr><td colSpan={9} className="py-6 text-center text-slate-500">No targets yet: add one below or import a CSV.</td></tr>
+              <tr><td colSpan={8} className="py-6 text-center text-slate-500">No targets yet: add one below or import a CSV.</td></tr>
             ) : null}
           </tbody>
         </table>

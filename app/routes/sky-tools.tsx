@@ -92,8 +92,8 @@ export default function SkyTools({ loaderData }: Route.ComponentProps) {
         </p>
         <ul className="grid gap-x-6 gap-y-1 text-xs text-slate-600 md:grid-cols-2">
           <li>
-            <b>Moon category</b> of a night, by the Moon's illuminated fraction at the middle of the dark interval: dark below{" "}
-            {MOON_CATEGORY_THRESHOLDS.darkBelow * 100} %, grey below {MOON_CATEGORY_THRESHOLDS.greyBelow * 100} %, bright otherwise.
+            <b>Moon time</b> is split at moonrise and moonset: dark while the Moon is below the horizon or less than{" "}
+            {MOON_CATEGORY_THRESHOLDS.darkBelow * 100} % lit, grey while up and {MOON_CATEGORY_THRESHOLDS.darkBelow * 100}–{MOON_CATEGORY_THRESHOLDS.greyBelow * 100} % lit, bright while up and at least {MOON_CATEGORY_THRESHOLDS.greyBelow * 100} % lit. A night's single category is that of its illuminated fraction at mid-darkness.
           </li>
           <li><b>Twilight</b>: astronomical, the Sun's centre 18° below the horizon (geometric). Times in UTC, with the site's local time beside them.</li>
           <li><b>Air mass</b>: {AIRMASS_FORMULA}, from the geometric altitude.</li>

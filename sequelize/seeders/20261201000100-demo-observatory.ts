@@ -16,14 +16,17 @@ export const site = {
 // 1e-9 erg s⁻¹ cm⁻² Å⁻¹, with effective wavelengths and FWHM bandwidths of Bessell 1990 (PASP 102,
 // 1181), turned into photons s⁻¹ cm⁻² over the band: N = f_λ · Δλ · λ / (h c).
 const bandValues = {
-  U: { fLambda: 4.175, lambdaA: 3600, widthA: 660, k: 0.5, sky: [22.0, 20.6, 18.4] },
-  B: { fLambda: 6.32, lambdaA: 4380, widthA: 940, k: 0.25, sky: [22.7, 21.6, 19.7] },
-  V: { fLambda: 3.631, lambdaA: 5450, widthA: 880, k: 0.14, sky: [21.8, 21.0, 19.6] },
-  R: { fLambda: 2.177, lambdaA: 6410, widthA: 1380, k: 0.1, sky: [20.9, 20.4, 19.3] },
-  I: { fLambda: 1.126, lambdaA: 7980, widthA: 1490, k: 0.06, sky: [19.9, 19.6, 19.0] },
+  U: { fLambda: 4.175, lambdaA: 3600, widthA: 660, k: 0.5, sky: [21.9, 20.2, 18.3] },
+  B: { fLambda: 6.32, lambdaA: 4380, widthA: 940, k: 0.25, sky: [22.5, 21.2, 19.5] },
+  V: { fLambda: 3.631, lambdaA: 5450, widthA: 880, k: 0.14, sky: [21.6, 20.7, 19.4] },
+  R: { fLambda: 2.177, lambdaA: 6410, widthA: 1380, k: 0.1, sky: [20.8, 20.1, 19.1] },
+  I: { fLambda: 1.126, lambdaA: 7980, widthA: 1490, k: 0.06, sky: [19.8, 19.4, 18.7] },
 } as const;
-// Extinction k (mag per airmass) and night-sky brightness (mag/arcsec², dark/grey/bright) are
-// typical values for a good continental site, from memory of common practice, not a measurement.
+// Extinction k (mag per airmass): typical values for a good continental site, from memory of
+// common practice, not a measurement. Night-sky brightness (mag/arcsec², zenith, dark/grey/bright):
+// Kestrel Ridge's own INVENTED values (the site is invented; they are neither measured nor copied
+// from any observatory's table), chosen to be plausible for a 2350 m continental site. The dark
+// value is the zenith dark sky that the Krisciunas & Schaefer moonlight model starts from.
 
 const hcErgAngstrom = 6.62607015e-27 * 2.99792458e18;
 

@@ -1,5 +1,6 @@
 // The PI's workspace through HTTP (the built app on the test MariaDB): access rules, overview
 // with optimistic locking, team, targets with CSV import, observations.
+import { magnitudesOf } from "~/models/Target";
 import { beforeAll, describe, expect, it } from "vitest";
 import { AuditEntry, Instrument, Observation, OutgoingMail, Proposal, ProposalMember, Target, Telescope, User } from "~/models/index.server";
 import { instrumentOptions } from "~/lib/proposal-observations.server";
@@ -333,6 +334,24 @@ describe("targets", () => {
     expect(samePlace.status).toBe(400);
     expect(samePlace.text).toContain("within 1″ of");
     expect(await Target.count({ where: { proposalId: id } })).toBe(1);
+  });
+
+  it("keeps one magnitude per band from the form and from CSV columns mag_<band>", async () => {
+    const id = (await createProposal({ user: pi.user, callId: call.id, title: "Magnitudes per band", abstract: "" })).id;
+    const ok = await post(`/proposals/${id}/targets`, pi.cookie, { intent: "create", name: "Two-band Field", ra: "140", dec: "12", mag_V: "16.4", mag_R: "15.9", notes: "" });
+    expect(ok.status).toBe(200);
+    const t = (await Target.findOne({ where: { proposalId: id, name: "Two-band Field" } }))!;
+    expect(magnitudesOf(t)).toEqual({ V: 16.4, R: 15.9 });
+    expect([t.magnitude, t.band]).toEqual([16.4, "V"]); // the mirror of the first band (U B V R I order)
+    const twice = await post(`/proposals/${id}/targets`, pi.cookie, { intent: "create", name: "Twice", ra: "141", dec: "12", mag_V: "16.4", magnitude: "16.0", band: "V" });
+    expect(twice.status).toBe(400);
+    expect(twice.text).toContain("The V magnitude is given twice");
+    const csv = await post(`/proposals/${id}/targets`, pi.cookie, { intent: "import", csv: "name,ra,dec,mag_B,mag_I\nCsv Field,142,12,17.2,15.1" });
+    expect(csv.status).toBe(200);
+    expect(magnitudesOf((await Target.findOne({ where: { proposalId: id, name: "Csv Field" } }))!)).toEqual({ B: 17.2, I: 15.1 });
+    // a writer that sets only the older pair (the demo seeder does) gets the one-band map
+    const old = await Target.create({ proposalId: id, name: "Old style", raDeg: 143, decDeg: 12, pmRaMasPerYr: null, pmDecMasPerYr: null, magnitude: 14.2, band: "R", notes: null });
+    expect(magnitudesOf((await Target.findByPk(old.id))!)).toEqual({ R: 14.2 });
   });
 
   it("edits and deletes a target (its observations go with it), audited", async () => {

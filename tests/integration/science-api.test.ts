@@ -123,6 +123,31 @@ describe("POST /api/v1/exposure", () => {
     expect(res.body.snr).toBeGreaterThan(10);
   });
 
+  it("takes the sky from the Krisciunas & Schaefer model when the Moon is given", async () => {
+    // Check value 19.6681 V mag/arcsec²: K&S (1991) eqs. 1–3, 15–21 written out by hand in Python
+    // (not with our module) for k = 0.15 and a dark zenith sky of 21.6 (the demo defaults for V),
+    // a 75 % lit Moon (α = 60°) 45° away at altitude 50°, the target at altitude 60°.
+    const { moonCategory: _drop, airmass: _a, ...rest } = exposureBody;
+    const res = await (await request())
+      .post("/api/v1/exposure")
+      .send({ ...rest, targetAltitudeDeg: 60, moon: { illumination: 0.75, separationDeg: 45, altitudeDeg: 50 } });
+    expect(res.status, JSON.stringify(res.body).slice(0, 300)).toBe(200);
+    expect(res.body.skyMagPerArcsec2).toBeCloseTo(19.6681, 3);
+    expect(res.body.sky.model).toMatch(/Krisciunas & Schaefer/);
+    // airmass from the altitude: Kasten & Young (1989) at z = 30°, by hand,
+    // 1 / (cos 30° + 0.50572 · 66.07995^−1.6364) = 1 / (0.866025 + 0.000532) = 1.15399
+    expect(res.body.airmass).toBeCloseTo(1.15399, 4);
+    // without the Moon: the band's dark sky
+    const dark = await (await request()).post("/api/v1/exposure").send({ ...rest, airmass: 1.2 });
+    expect(dark.body.skyMagPerArcsec2).toBe(21.6);
+    const refused = await (await request()).post("/api/v1/exposure").send({ ...rest, airmass: 1.2, moon: { illumination: 2, separationDeg: 45, altitudeDeg: 50 } });
+    expect(refused.status).toBe(400);
+    expect(refused.body.issues[0]).toMatchObject({ path: "moon.illumination", message: "moon.illumination must be at most 1" });
+    const both = await (await request()).post("/api/v1/exposure").send({ ...exposureBody, moon: { illumination: 0.5, separationDeg: 45, altitudeDeg: 50 } });
+    expect(both.status).toBe(400);
+    expect(both.body.issues.map((i: { path: string }) => i.path)).toContain("moon");
+  });
+
   it("answers bad input with 400 and zod issues, never 500", async () => {
     const agent = await request();
     const bad: unknown[] = [

@@ -6,10 +6,10 @@ import type { z } from "zod";
 import { apiIssues } from "~/lib/forms";
 import { Lru } from "~/lib/lru";
 import { Filter, Instrument, Telescope } from "~/models/index.server";
-import { astrometryForDates, epochPrecisionMas, type FitPrecision, type Plan } from "./astrometry";
+import { astrometryForDates, centroidPrecisionMas, epochPrecisionMas, type FitPrecision, type Plan } from "./astrometry";
 import { computePool, PoolBusy, PoolTimeout } from "./compute-pool.server";
 import { computeExposure, type ExposureInput } from "./exposure";
-import { ZERO_POINTS, type Band } from "./photometry";
+import { EXTINCTION, SKY_BRIGHTNESS, ZERO_POINTS, type Band } from "./photometry";
 import {
   astrometryBodySchema,
   epochPlanBodySchema,
@@ -18,8 +18,9 @@ import {
   type EpochPlanBody,
   type ExposureBody,
 } from "./schemas";
-import { MOON_CATEGORY_THRESHOLDS, REFRACTION_MODEL, type Limit, type Site } from "./visibility";
-import { AIRMASS_FORMULA } from "./airmass";
+import { MOON_CATEGORY_THRESHOLDS, MOON_TIME_RULE, REFRACTION_MODEL, type Limit, type Site } from "./visibility";
+import { AIRMASS_FORMULA, airmass as airmassAt, altitudeForAirmass } from "./airmass";
+import { MOONLIGHT_MODEL, moonlitSky, type MoonlightResult } from "./moonlight";
 import { runScienceTask } from "./science-tasks";
 
 const intEnv = (name: string, fallback: number) => {
@@ -159,7 +160,8 @@ export const CONVENTIONS = {
   airmass: AIRMASS_FORMULA,
   twilight: "Sun's centre at −18°, geometric",
   moonCategoryThresholds: MOON_CATEGORY_THRESHOLDS,
-  moonCategoryRule: "by the Moon's illuminated fraction at the middle of the dark interval",
+  moonCategoryRule: MOON_TIME_RULE,
+  nightMoonCategory: "a night's moonCategory is that of the Moon's illuminated fraction at the middle of the dark interval",
 };
 
 export async function visibilityResponse(request: Request) {
@@ -179,7 +181,7 @@ export async function visibilityResponse(request: Request) {
   });
 }
 
-async function exposureInput(b: ExposureBody): Promise<ExposureInput> {
+async function exposureInput(b: ExposureBody): Promise<ExposureInput & { moonlight?: MoonlightResult }> {
   let telescope = b.telescope;
   let instrument = b.instrument;
   let zeroPointPhotons: number | undefined;
@@ -199,7 +201,8 @@ async function exposureInput(b: ExposureBody): Promise<ExposureInput> {
     if (!filter) throw new BadInput([{ path: "band", message: `instrument ${b.instrumentId} has no ${b.band} filter` }]);
     zeroPointPhotons = filter.zeroPointPhotons;
     extinction ??= filter.extinctionMagPerAirmass;
-    if (sky === undefined) {
+    if (sky === undefined && b.moon !== undefined) sky = filter.skyDarkMag; // the band's dark sky; moonlight added below
+    else if (sky === undefined) {
       const cat = b.moonCategory ?? "dark";
       sky = cat === "dark" ? filter.skyDarkMag : cat === "grey" ? filter.skyGreyMag : filter.skyBrightMag;
     }
@@ -214,10 +217,26 @@ async function exposureInput(b: ExposureBody): Promise<ExposureInput> {
   }
   if (!telescope) throw new BadInput([{ path: "telescope", message: "telescope or telescopeId is required" }]);
   if (!instrument) throw new BadInput([{ path: "instrument", message: "instrument or instrumentId is required" }]);
+  // Airmass from the target's altitude when only that is given (Kasten & Young), and the Moon's
+  // light added to the band's dark sky by Krisciunas & Schaefer (1991) when the Moon is given.
+  const airmass = b.airmass ?? airmassAt(b.targetAltitudeDeg as number);
+  let moonlight: MoonlightResult | undefined;
+  if (b.moon !== undefined) {
+    const band = b.band as Band;
+    moonlight = moonlitSky({
+      band,
+      darkZenithMag: sky ?? SKY_BRIGHTNESS[band].dark,
+      extinctionMagPerAirmass: extinction ?? EXTINCTION[band],
+      moon: b.moon,
+      targetAltitudeDeg: b.targetAltitudeDeg ?? altitudeForAirmass(airmass),
+    });
+    sky = moonlight.skyMagPerArcsec2;
+  }
   const common = {
     band: b.band as Band,
     magnitude: b.magnitude,
-    airmass: b.airmass,
+    airmass,
+    ...(moonlight ? { moonlight } : {}),
     seeingArcsec: b.seeingArcsec,
     skyMagPerArcsec2: sky,
     moonCategory: b.moonCategory,
@@ -237,6 +256,10 @@ export async function exposureResponse(request: Request) {
     const r = computeExposure(input);
     return {
       ...r,
+      airmass: input.airmass,
+      ...(input.moonlight
+        ? { sky: { model: MOONLIGHT_MODEL, darkSkyMagPerArcsec2: input.moonlight.darkSkyMagPerArcsec2, moonlightMagPerArcsec2: input.moonlight.moonlightMagPerArcsec2, terms: input.moonlight.terms } }
+        : { sky: { model: "the band's tabulated sky for the moon category (dark unless given)" } }),
       zeroPointPhotons: input.zeroPointPhotons ?? ZERO_POINTS[input.band].photonsPerSecondCm2,
       conventions: {
         equation: "SNR = N* / sqrt(N* + n_pix (N_sky + N_dark + RN²)) (Howell; Merline & Howell 1995)",
@@ -295,9 +318,27 @@ export async function epochPlanResponse(request: Request) {
         perEpochPrecisionMas: perEpoch,
         limit: limitOf(b),
         secondsPerEpoch: b.secondsPerEpoch,
+        toleranceNights: b.toleranceNights,
       },
       moved: b.movedEpochs ? { raDeg: target.raDeg, decDeg: target.decDeg, times: b.movedEpochs, perEpochPrecisionMas: perEpoch } : undefined,
     });
-    return { site, target, perEpochPrecisionMas: perEpoch, ...plan, ...(moved ? { movedPrecision: moved } : {}) };
+    // Is the per-epoch precision set by the instrument's floor? (only when it is built from fwhm, snr, frames, floor)
+    const photon = b.perEpochPrecisionMas === undefined ? centroidPrecisionMas(b.fwhmArcsec!, b.snr!) / Math.sqrt(b.frames ?? 1) : null;
+    const floorDominated = photon !== null && (b.floorMas ?? 0) >= photon;
+    const advice = [
+      ...(floorDominated
+        ? [`The per-epoch precision (${perEpoch.toFixed(2)} mas) is set by the systematic floor of ${b.floorMas} mas (photon noise alone gives ${photon!.toFixed(2)} mas): more frames or longer exposures cannot improve it; more epochs or a longer baseline can.`]
+        : []),
+      ...(plan.met === false ? [`The requirement is not met with ${plan.epochs.length} epochs over ${b.baselineYears} years${b.epochs === undefined ? " (the most that fit the windows, spread apart)" : ""}: a longer baseline or a better per-epoch precision is needed.`] : []),
+    ];
+    return {
+      site,
+      target,
+      perEpochPrecisionMas: perEpoch,
+      perEpoch: { photonPrecisionMas: photon, floorMas: b.floorMas ?? null, floorDominated },
+      advice,
+      ...plan,
+      ...(moved ? { movedPrecision: moved } : {}),
+    };
   });
 }

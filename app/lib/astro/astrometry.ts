@@ -152,6 +152,12 @@ export function fitPrecision(raDeg: number, decDeg: number, epochs: Epoch[], par
 }
 
 /** The API's astrometry answer for epoch dates (`YYYY-MM-DD`, taken at 00:00 UTC). */
+/** −0 after rounding (e.g. −0.00004 to 4 digits) becomes 0. */
+export function roundNoNegativeZero(x: number, digits: number): number {
+  const v = Math.round(x * 10 ** digits) / 10 ** digits;
+  return v === 0 ? 0 : v;
+}
+
 export function astrometryForDates(a: { raDeg: number; decDeg: number; epochs: string[]; positionalPrecisionMas: number }) {
   const epochs = a.epochs.map((date) => {
     const time = dayNumber(date) * DAY_MS;
@@ -162,7 +168,7 @@ export function astrometryForDates(a: { raDeg: number; decDeg: number; epochs: s
     properMotionPrecisionMasPerYr: fit.properMotionPrecisionMasPerYr,
     parallaxPrecisionMas: fit.parallaxPrecisionMas as number,
     determined: fit.determined,
-    parallaxFactors: epochs.map((e) => ({ date: e.date, ra: e.factors.ra, dec: e.factors.dec })),
+    parallaxFactors: epochs.map((e) => ({ date: e.date, ra: noNegativeZero(e.factors.ra), dec: noNegativeZero(e.factors.dec) })),
   };
 }
 
@@ -176,6 +182,50 @@ export function semesterOf(date: string, rule: SemesterRule = DEFAULT_SEMESTERS)
   if (m >= rule.aStartMonth && m < rule.bStartMonth) return `${y}A`;
   return m >= rule.bStartMonth ? `${y}B` : `${y - 1}B`;
 }
+
+/** One semester of a plan: its code and first and last nights (local dates), as the office set them. */
+export type SemesterSpan = { code: string; start: string; end: string };
+
+function addMonths(date: string, months: number): string {
+  const y = Number(date.slice(0, 4));
+  const m = Number(date.slice(5, 7)) - 1 + months;
+  const d = date.slice(8, 10);
+  const yy = y + Math.floor(m / 12);
+  const mm = ((m % 12) + 12) % 12;
+  return `${yy}-${String(mm + 1).padStart(2, "0")}-${d}`;
+}
+
+function nextCode(code: string): string | null {
+  const m = /^(\d{4})([AB])$/.exec(code);
+  if (!m) return null;
+  return m[2] === "A" ? `${m[1]}B` : `${Number(m[1]) + 1}A`;
+}
+
+/**
+ * `count` consecutive semesters from `first` (the call's own). A later semester takes the dates
+ * of a call the office has set up for it (`known`) when there is one; otherwise it starts the day
+ * after the previous one ends and lasts six months.
+ */
+export function semesterSequence(first: SemesterSpan, count: number, known: SemesterSpan[] = []): SemesterSpan[] {
+  const out: SemesterSpan[] = [first];
+  for (let i = 1; i < count; i++) {
+    const prev = out[i - 1];
+    const code = nextCode(prev.code) ?? `${first.code}+${i}`;
+    const hit = known.find((k) => k.code === code);
+    if (hit) {
+      out.push(hit);
+      continue;
+    }
+    const start = addDays(prev.end, 1);
+    out.push({ code, start, end: addDays(addMonths(start, 6), -1) });
+  }
+  return out;
+}
+
+/** Default tolerance of a planned epoch: ± this many nights. */
+export const EPOCH_TOLERANCE_NIGHTS = 7;
+/** An epoch whose tolerance window has fewer usable nights than this is fragile (weather). */
+export const FRAGILE_BELOW_NIGHTS = 3;
 
 export type PlanInput = {
   site: Site;
@@ -194,9 +244,26 @@ export type PlanInput = {
   minWindowHours?: number;
   semesters?: SemesterRule;
   maxEpochs?: number;
+  /**
+   * Epochs per semester: the plan places exactly `epochs` in each listed semester (inside its
+   * dates and visibility windows); nights outside these semesters are not used. Overrides `epochs`.
+   */
+  perSemester?: (SemesterSpan & { epochs: number })[];
+  /** ± nights around each epoch in which it may be observed (default 7) */
+  toleranceNights?: number;
 };
 
-export type PlannedEpoch = { date: string; time: string; parallaxFactors: { ra: number; dec: number }; semester: string; altitudeWindowHours: number };
+export type PlannedEpoch = {
+  date: string;
+  time: string;
+  parallaxFactors: { ra: number; dec: number };
+  semester: string;
+  altitudeWindowHours: number;
+  /** the nights (± tolerance) in which this epoch may be taken, and how many of them have time for the visit */
+  window: { from: string; to: string; usableNights: number };
+  /** fewer than FRAGILE_BELOW_NIGHTS usable nights in the window */
+  fragile: boolean;
+};
 
 export type Plan = {
   epochs: PlannedEpoch[];
@@ -209,7 +276,7 @@ export type Plan = {
   message?: string;
 };
 
-type Candidate = { date: string; time: number; hours: number; f: { ra: number; dec: number } };
+type Candidate = { date: string; time: number; hours: number; f: { ra: number; dec: number }; index: number; semester: string | null };
 
 /** Normal matrix of the 5-parameter fit, 5×5 row-major. */
 type Normal = Float64Array;
@@ -263,15 +330,28 @@ export function planEpochs(input: PlanInput): Plan {
   const prepared = prepareSiteNights(input.site, input.firstDate, nights);
   const minAlt = limitAltitude(input.limit);
   const minHours = input.minWindowHours ?? 0.5;
-  const rows = targetNights(prepared, input.target, minAlt);
+  const rows = targetNights(prepared, input.target, minAlt, { moonSplit: false });
   const sigma = input.perEpochPrecisionMas;
+  const spans = input.perSemester?.filter((s) => s.epochs > 0) ?? null;
+  const semesterFor = (date: string) => (spans ? (spans.find((s) => date >= s.start && date <= s.end)?.code ?? null) : null);
   const candidates: Candidate[] = [];
-  for (const r of rows) {
-    if (r.observableHours < minHours) continue;
+  rows.forEach((r, index) => {
+    if (r.observableHours < minHours) return;
+    const semester = semesterFor(r.night.date);
+    if (spans && semester === null) return;
     const longest = r.windows.reduce((a, b) => (b.end - b.start > a.end - a.start ? b : a));
     const time = (longest.start + longest.end) / 2;
-    candidates.push({ date: r.night.date, time, hours: r.observableHours, f: parallaxFactors(input.target.raDeg, input.target.decDeg, time) });
-  }
+    candidates.push({ date: r.night.date, time, hours: r.observableHours, f: parallaxFactors(input.target.raDeg, input.target.decDeg, time), index, semester });
+  });
+  const visitHours = Math.max(minHours, (input.secondsPerEpoch ?? 0) / 3600);
+  const tolerance = input.toleranceNights ?? EPOCH_TOLERANCE_NIGHTS;
+  const windowOf = (index: number) => {
+    const lo = Math.max(0, index - tolerance);
+    const hi = Math.min(rows.length - 1, index + tolerance);
+    let usableNights = 0;
+    for (let k = lo; k <= hi; k++) if (rows[k].observableHours >= visitHours) usableNights++;
+    return { from: rows[lo].night.date, to: rows[hi].night.date, usableNights };
+  };
   const required =
     input.required === undefined
       ? null
@@ -279,12 +359,13 @@ export function planEpochs(input: PlanInput): Plan {
         ? input.required.properMotionMasPerYr
         : properMotionForVelocity(input.required.tangentialVelocityKmS, input.required.distancePc);
   const maxEpochs = input.maxEpochs ?? 60;
-  const wanted = input.epochs ?? maxEpochs;
+  const quota = new Map<string, number>(spans ? spans.map((s) => [s.code, s.epochs]) : []);
+  const wanted = spans ? spans.reduce((n, s) => n + s.epochs, 0) : (input.epochs ?? maxEpochs);
   const parallaxCurve = [];
   for (let d = 0; d < nights; d += 7) {
     const date = addDays(input.firstDate, d);
     const f = parallaxFactors(input.target.raDeg, input.target.decDeg, dayNumber(date) * DAY_MS);
-    parallaxCurve.push({ date, ra: f.ra, dec: f.dec });
+    parallaxCurve.push({ date, ra: noNegativeZero(f.ra), dec: noNegativeZero(f.dec) });
   }
   if (candidates.length < 3) {
     return {
@@ -299,8 +380,32 @@ export function planEpochs(input: PlanInput): Plan {
     };
   }
   const spanMs = candidates[candidates.length - 1].time - candidates[0].time;
-  const minGap = Math.max(3 * DAY_MS, Math.min(30 * DAY_MS, spanMs / (2 * Math.max(wanted, 3))));
-  const chosen: Candidate[] = [candidates[0], candidates[candidates.length - 1]];
+  const globalGap = Math.max(3 * DAY_MS, Math.min(30 * DAY_MS, spanMs / (2 * Math.max(wanted, 3))));
+  // With epochs per semester, the gap is set per semester from its own usable span.
+  const gapOf = new Map<string, number>();
+  if (spans) {
+    for (const s of spans) {
+      const mine = candidates.filter((c) => c.semester === s.code);
+      const span = mine.length ? mine[mine.length - 1].time - mine[0].time : 0;
+      gapOf.set(s.code, Math.max(DAY_MS, Math.min(globalGap, span / (2 * Math.max(s.epochs, 1)))));
+    }
+  }
+  const gap = (c: Candidate) => (c.semester !== null ? (gapOf.get(c.semester) ?? globalGap) : globalGap);
+  const open = (c: Candidate) => c.semester === null || (quota.get(c.semester) ?? 0) > 0;
+  const take = (c: Candidate) => {
+    if (c.semester !== null) quota.set(c.semester, (quota.get(c.semester) ?? 0) - 1);
+  };
+  const chosen: Candidate[] = [];
+  const firstAnchor = candidates.find(open);
+  if (firstAnchor) {
+    chosen.push(firstAnchor);
+    take(firstAnchor);
+  }
+  const lastAnchor = [...candidates].reverse().find((c) => open(c) && c !== firstAnchor && Math.abs(c.time - (firstAnchor?.time ?? -Infinity)) >= gap(c));
+  if (lastAnchor && chosen.length < wanted) {
+    chosen.push(lastAnchor);
+    take(lastAnchor);
+  }
   const meets = () => {
     const fit = fitPrecision(input.target.raDeg, input.target.decDeg, chosen.map((c) => ({ time: c.time, sigmaMas: sigma, factors: c.f })));
     const p = fit.properMotionPrecisionMasPerYr;
@@ -311,11 +416,13 @@ export function planEpochs(input: PlanInput): Plan {
   const N: Normal = new Float64Array(25);
   for (const c of chosen) addEpoch(N, c, ref, w);
   const trial: Normal = new Float64Array(25);
-  while (chosen.length < wanted && !(input.epochs === undefined && meets())) {
+  const fixedCount = spans !== null || input.epochs !== undefined;
+  while (chosen.length < wanted && !(!fixedCount && meets())) {
     let best: Candidate | null = null;
     let bestValue = Infinity;
     for (const c of candidates) {
-      if (chosen.some((x) => Math.abs(x.time - c.time) < minGap)) continue;
+      if (!open(c)) continue;
+      if (chosen.some((x) => Math.abs(x.time - c.time) < gap(c))) continue;
       trial.set(N);
       addEpoch(trial, c, ref, w);
       const v = objectiveOf(trial);
@@ -326,15 +433,27 @@ export function planEpochs(input: PlanInput): Plan {
     }
     if (!best) break;
     chosen.push(best);
+    take(best);
     addEpoch(N, best, ref, w);
   }
+  const shortfalls = spans ? spans.filter((s) => (quota.get(s.code) ?? 0) > 0).map((s) => ({ semester: s.code, asked: s.epochs, placed: s.epochs - (quota.get(s.code) ?? 0) })) : [];
   chosen.sort((a, b) => a.time - b.time);
   const precision = fitPrecision(input.target.raDeg, input.target.decDeg, chosen.map((c) => ({ time: c.time, sigmaMas: sigma, factors: c.f })));
   const semesters = new Map<string, number>();
+  if (spans) for (const s of spans) semesters.set(s.code, 0);
   const epochs = chosen.map((c) => {
-    const semester = semesterOf(c.date, input.semesters);
+    const semester = c.semester ?? semesterOf(c.date, input.semesters);
     semesters.set(semester, (semesters.get(semester) ?? 0) + 1);
-    return { date: c.date, time: new Date(c.time).toISOString(), parallaxFactors: c.f, semester, altitudeWindowHours: c.hours };
+    const window = windowOf(c.index);
+    return {
+      date: c.date,
+      time: new Date(c.time).toISOString(),
+      parallaxFactors: { ra: noNegativeZero(c.f.ra), dec: noNegativeZero(c.f.dec) },
+      semester,
+      altitudeWindowHours: c.hours,
+      window,
+      fragile: window.usableNights < FRAGILE_BELOW_NIGHTS,
+    };
   });
   const p = precision.properMotionPrecisionMasPerYr;
   return {
@@ -349,7 +468,17 @@ export function planEpochs(input: PlanInput): Plan {
     })),
     candidates: candidates.length,
     parallaxCurve,
+    ...(shortfalls.length
+      ? {
+          message: `Not every semester has room for the epochs asked: ${shortfalls.map((x) => `${x.semester} ${x.placed} of ${x.asked}`).join(", ")} (nights with at least ${Math.round(visitHours * 100) / 100} h above the limit in the dark, spread apart).`,
+        }
+      : {}),
   };
+}
+
+/** −0 becomes 0 (a parallax factor printed as "-0.000" reads as a sign error). */
+export function noNegativeZero(x: number): number {
+  return Object.is(x, -0) ? 0 : x;
 }
 
 /** Precision for epochs the PI has moved (ISO times or dates), at a per-epoch precision. */

@@ -41,17 +41,21 @@ export const ZERO_POINTS: Record<Band, ZeroPoint> = Object.fromEntries(
 export const ZERO_POINT_SOURCE = "Bessell, Castelli & Plez (1998), Table A2 (from memory)";
 
 /**
- * Typical zenith night-sky brightness (mag/arcsec²) at a good dark site by moon category.
- * Common practice, from memory of observatory handbooks; real skies vary by ±0.5 mag with
- * solar activity, zenith distance and the Moon's distance from the field.
+ * Zenith night-sky brightness (mag/arcsec²) by moon category used when an instrument's filter
+ * gives none: the invented demo site's own INVENTED values (the same as the Kestrel Ridge seed),
+ * not measured and not copied from any observatory's table. Real skies vary by ±0.5 mag with
+ * solar activity, zenith distance and the Moon's distance from the field; with the Moon's
+ * position given, astro/moonlight.ts models the moonlit sky instead.
  */
 export const SKY_BRIGHTNESS: Record<Band, Record<"dark" | "grey" | "bright", number>> = {
-  U: { dark: 22.0, grey: 20.5, bright: 18.5 },
-  B: { dark: 22.7, grey: 21.4, bright: 19.4 },
-  V: { dark: 21.8, grey: 20.8, bright: 19.6 },
-  R: { dark: 20.9, grey: 20.2, bright: 19.3 },
-  I: { dark: 19.9, grey: 19.5, bright: 18.8 },
+  U: { dark: 21.9, grey: 20.2, bright: 18.3 },
+  B: { dark: 22.5, grey: 21.2, bright: 19.5 },
+  V: { dark: 21.6, grey: 20.7, bright: 19.4 },
+  R: { dark: 20.8, grey: 20.1, bright: 19.1 },
+  I: { dark: 19.8, grey: 19.4, bright: 18.7 },
 };
+
+export const SKY_BRIGHTNESS_SOURCE = "the invented demo site's own values (not measured, not copied from any observatory)";
 
 /** Typical extinction coefficients k (mag/airmass) at a good high site; common practice, from memory. */
 export const EXTINCTION: Record<Band, number> = { U: 0.55, B: 0.25, V: 0.15, R: 0.1, I: 0.06 };

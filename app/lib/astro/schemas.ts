@@ -99,7 +99,19 @@ export const exposureBodySchema = z
     magnitude: num("magnitude", -5, 35),
     snr: optionalNum("snr", 0.1, 100000),
     exposureSeconds: optionalNum("exposureSeconds", 0.001, 1e6),
-    airmass: num("airmass", 1, 10),
+    airmass: optionalNum("airmass", 1, 10),
+    targetAltitudeDeg: optionalNum("targetAltitudeDeg", 5.8, 90),
+    /** the Moon for the Krisciunas & Schaefer (1991) sky model */
+    moon: z
+      .object(
+        {
+          illumination: num("moon.illumination", 0, 1),
+          separationDeg: num("moon.separationDeg", 0, 180),
+          altitudeDeg: num("moon.altitudeDeg", -90, 90),
+        },
+        { error: "moon must be an object { illumination, separationDeg, altitudeDeg }" },
+      )
+      .optional(),
     seeingArcsec: num("seeingArcsec", 0.1, 10),
     skyMagPerArcsec2: optionalNum("skyMagPerArcsec2", 10, 25),
     moonCategory: z.enum(["dark", "grey", "bright"], { error: "moonCategory must be dark, grey or bright" }).optional(),
@@ -115,6 +127,15 @@ export const exposureBodySchema = z
     }
     if (b.skyMagPerArcsec2 !== undefined && b.moonCategory !== undefined) {
       ctx.addIssue({ code: "custom", path: ["skyMagPerArcsec2"], message: "give skyMagPerArcsec2 or moonCategory, not both" });
+    }
+    if (b.airmass === undefined && b.targetAltitudeDeg === undefined) {
+      ctx.addIssue({ code: "custom", path: ["airmass"], message: "give the air mass, or the target's altitude" });
+    }
+    if (b.airmass !== undefined && b.targetAltitudeDeg !== undefined) {
+      ctx.addIssue({ code: "custom", path: ["targetAltitudeDeg"], message: "give the airmass or targetAltitudeDeg, not both" });
+    }
+    if (b.moon !== undefined && (b.skyMagPerArcsec2 !== undefined || b.moonCategory !== undefined)) {
+      ctx.addIssue({ code: "custom", path: ["moon"], message: "with moon the sky comes from the moonlight model: leave out skyMagPerArcsec2 and moonCategory" });
     }
     if (!b.telescope && b.telescopeId === undefined) ctx.addIssue({ code: "custom", path: ["telescope"], message: "telescope or telescopeId is required" });
     if (!b.instrument && b.instrumentId === undefined) ctx.addIssue({ code: "custom", path: ["instrument"], message: "instrument or instrumentId is required" });
@@ -162,6 +183,7 @@ export const epochPlanBodySchema = z
     minAltitude: optionalNum("minAltitude", 0, 89),
     maxAirmass: optionalNum("maxAirmass", 1, 10),
     secondsPerEpoch: optionalNum("secondsPerEpoch", 0, 86400),
+    toleranceNights: z.preprocess(blankToUndefined, z.number({ error: "toleranceNights must be a number" }).int({ error: "toleranceNights must be a whole number" }).min(0, { error: "toleranceNights must be at least 0" }).max(60, { error: "toleranceNights must be at most 60" })).optional(),
     movedEpochs: z.array(z.string().max(40).refine((s) => isIsoDate(s) || !Number.isNaN(Date.parse(s)), { error: "must be a date or an ISO time" })).max(60).optional(),
   })
   .superRefine((b, ctx) => {

@@ -197,3 +197,68 @@ describe("edge cases", () => {
     expect(points.every((p) => p.sunAltDeg < 30)).toBe(true);
   });
 });
+
+describe("moon time split at moonrise and moonset (geometric altitude of the Moon's centre 0°)", () => {
+  // An invented site at 55° N, 5° E (open sea, no observatory), on 2027-08-12: a waxing Moon,
+  // 84 % lit, low in the south-west, sets 52 min after astronomical dusk in a 2.8 h dark interval.
+  const NORTH: Site = { latitudeDeg: 55.0, longitudeDeg: 5.0, elevationM: 50, timeZone: "Europe/Amsterdam" };
+
+  it("a bright Moon that sets soon after dusk leaves most of the night dark", () => {
+    const v = computeVisibility({ site: NORTH, target: { raDeg: 90, decDeg: 80 }, from: "2027-08-12", nights: 1, limit: { minAltitudeDeg: 20 } });
+    const n = v.nights[0];
+    const obs = observer(NORTH);
+    // Reference: astronomy-engine's SearchAltitude for the Moon's centre at 0° (no refraction, no
+    // semidiameter), the same definition; SearchRiseSet (upper limb, refracted) sets ~10 min later.
+    const ref = Astro.SearchAltitude(Astro.Body.Moon, obs, -1, new Date("2027-08-12T12:00:00Z"), 1, 0)!;
+    const riseSet = Astro.SearchRiseSet(Astro.Body.Moon, obs, -1, new Date("2027-08-12T12:00:00Z"), 1)!;
+    expect(Math.abs(Date.parse(n.moonset!) - ref.date.getTime())).toBeLessThan(60_000);
+    expect((riseSet.date.getTime() - Date.parse(n.moonset!)) / 60_000).toBeGreaterThan(5);
+    expect((riseSet.date.getTime() - Date.parse(n.moonset!)) / 60_000).toBeLessThan(15);
+    // the Moon's illuminated fraction from astronomy-engine's Illumination (phase_fraction) at mid-darkness
+    const mid = (Date.parse(n.darkStart!) + Date.parse(n.darkEnd!)) / 2;
+    const k = Astro.Illumination(Astro.Body.Moon, new Date(mid)).phase_fraction;
+    expect(k).toBeGreaterThan(0.7);
+    expect(n.moonCategory).toBe("bright"); // the night's single category, from the phase
+    // a circumpolar target: its window is the whole dark interval
+    const bright = (Date.parse(n.moonset!) - Date.parse(n.darkStart!)) / 3_600_000;
+    const dark = (Date.parse(n.darkEnd!) - Date.parse(n.moonset!)) / 3_600_000;
+    expect(n.hoursByMoonCategory.bright).toBeCloseTo(bright, 3);
+    expect(n.hoursByMoonCategory.dark).toBeCloseTo(dark, 3);
+    expect(n.hoursByMoonCategory.grey).toBe(0);
+    expect(n.hoursByMoonCategory.dark).toBeGreaterThan(2 * n.hoursByMoonCategory.bright);
+    expect(v.summary.byMoonCategory.dark).toBeCloseTo(n.hoursByMoonCategory.dark, 2);
+  });
+
+  it("moonrise and moonset agree with astronomy-engine's SearchAltitude(Moon, 0°) within 2 s over a year, and the split hours add up", () => {
+    for (const site of [MID, SOUTH, SUBARCTIC]) {
+      const v = computeVisibility({ site, target: { raDeg: 201.7, decDeg: -12.3 }, from: "2027-02-01", nights: 365, limit: { maxAirmass: 2 } });
+      const obs = observer(site);
+      const prepared = prepareSiteNights(site, "2027-02-01", 365);
+      let worst = 0;
+      let events = 0;
+      v.nights.forEach((n, i) => {
+        const frame = prepared.nights[i];
+        for (const [dir, ours] of [[+1, n.moonrise], [-1, n.moonset]] as const) {
+          const a = Astro.SearchAltitude(Astro.Body.Moon, obs, dir, new Date(frame.frameStart), (frame.frameEnd - frame.frameStart) / 86_400_000, 0);
+          const ref = a && a.date.getTime() < frame.frameEnd ? a.date.getTime() : null;
+          expect(ours === null).toBe(ref === null);
+          if (ours !== null && ref !== null) {
+            worst = Math.max(worst, Math.abs(Date.parse(ours) - ref) / 1000);
+            events++;
+          }
+        }
+        const s = n.hoursByMoonCategory;
+        expect(s.dark + s.grey + s.bright).toBeCloseTo(n.observableHours, 3);
+        const d = n.darkHoursByMoonCategory;
+        const darkHours = n.darkStart && n.darkEnd ? (Date.parse(n.darkEnd) - Date.parse(n.darkStart)) / 3_600_000 : 0;
+        expect(d.dark + d.grey + d.bright).toBeCloseTo(darkHours, 3);
+        // grey or bright hours only while the Moon is lit enough for them
+        if (n.moon.illumination < MOON_CATEGORY_THRESHOLDS.darkBelow) expect(s.grey + s.bright).toBe(0);
+      });
+      expect(events).toBeGreaterThan(600);
+      expect(worst).toBeLessThan(2);
+      const sum = v.summary.byMoonCategory;
+      expect(sum.dark + sum.grey + sum.bright).toBeCloseTo(v.summary.observableHours, 1);
+    }
+  });
+});

@@ -27,13 +27,22 @@ export type Site = { latitudeDeg: number; longitudeDeg: number; elevationM: numb
 
 export type MoonCategory = "dark" | "grey" | "bright";
 
-/** Moon category of a night from the Moon's illuminated fraction at the middle of the dark interval. */
+/**
+ * Moon categories. Time counts as dark while the Moon's centre is below the horizon (geometric
+ * altitude < 0°) or its illuminated fraction is below `darkBelow`; grey while it is up and lit
+ * `darkBelow`–`greyBelow`; bright while it is up and lit at least `greyBelow`. The fraction is
+ * the night's, at mid-darkness (it changes by < 0.06 within a night). A night's single
+ * `moonCategory` is the category of its illuminated fraction at mid-darkness.
+ */
 export const MOON_CATEGORY_THRESHOLDS = {
   /** dark when the illuminated fraction is below this */
   darkBelow: 0.35,
   /** grey when below this (and not dark); bright otherwise */
   greyBelow: 0.7,
 } as const;
+
+export const MOON_TIME_RULE =
+  "Moon time is split at moonrise and moonset: dark while the Moon's centre is below the horizon (geometric altitude < 0°) or it is less than 35 % lit; grey while it is up and 35–70 % lit; bright while it is up and at least 70 % lit (illuminated fraction at mid-darkness).";
 
 export const TWILIGHT_ALTITUDE_DEG = -18;
 export const REFRACTION_MODEL = "none (geometric altitudes) for targets and twilight; sunset/sunrise with 34′ horizontal refraction scaled by air density";
@@ -66,6 +75,8 @@ export type SiteNight = {
   moonIllumination: number;
   moonAltitudeDeg: number;
   moonCategory: MoonCategory;
+  /** Moon-up intervals inside the frame, moonrise and moonset in the frame; filled by `ensureMoonTimes` */
+  moon?: MoonTimes;
   /** topocentric Moon direction, equator of date */
   moonDir: Vec3;
   /** EQJ → equator of date at refTime */
@@ -306,6 +317,142 @@ function moonAt(t: number, rotation: Matrix, sunVec: Vec3, observer: Astro.Obser
   };
 }
 
+export type MoonTimes = {
+  /** first instant in the frame at which the Moon's centre rises through geometric altitude 0° */
+  moonrise: number | null;
+  /** first instant in the frame at which it sets through 0° */
+  moonset: number | null;
+  /** intervals of the frame during which the Moon's centre is above the horizon */
+  up: Interval[];
+};
+
+const MOON_GRID_MS = 6 * 3_600_000;
+const MOON_SCAN_MS = 20 * 60_000;
+const moonDone = new WeakSet<PreparedSite>();
+
+/**
+ * Fills `night.moon` (moonrise, moonset, Moon-up intervals) for every night of a prepared site,
+ * once. The geocentric Moon (astronomy-engine GeoMoon, rotated to the equator of date) is sampled
+ * every 6 h and interpolated quadratically (error < 1″); the observer's geocentric position
+ * follows astronomy-engine's `terra` (same ellipsoid) at the interpolated sidereal time; the
+ * altitude is that of the Moon's centre, topocentric and geometric. Crossings: a 20-min scan
+ * for sign changes, then regula falsi to < 1 s. Checked against astronomy-engine's
+ * SearchAltitude(Moon, …, 0°) in visibility.test.ts.
+ */
+export function ensureMoonTimes(prepared: PreparedSite): void {
+  if (moonDone.has(prepared) || prepared.nights.length === 0) return;
+  if (prepared.nights.every((n) => n.moon)) {
+    moonDone.add(prepared); // a slice of an already prepared span
+    return;
+  }
+  const { site, nights } = prepared;
+  const t0 = nights[0].frameStart - MOON_GRID_MS;
+  const t1 = nights[nights.length - 1].frameEnd + MOON_GRID_MS;
+  const grid: { t: number; v: Vec3 }[] = [];
+  for (let t = t0; t <= t1 + MOON_GRID_MS; t += MOON_GRID_MS) {
+    const m = Astro.GeoMoon(new Astro.AstroTime(utDays(t)));
+    const night = nights[Math.min(nights.length - 1, Math.max(0, Math.floor((t - nights[0].frameStart) / DAY_MS)))];
+    grid.push({ t, v: apply(night.rotation, [m.x, m.y, m.z]) });
+  }
+  const phi = site.latitudeDeg * DEG;
+  const F = 0.996647180302104; // astronomy-engine's EARTH_FLATTENING (polar / equatorial radius)
+  const c = 1 / Math.hypot(Math.cos(phi), F * Math.sin(phi));
+  const hKm = site.elevationM / 1000;
+  const ach = (EARTH_RADIUS_KM * c + hKm) / Astro.KM_PER_AU;
+  const ash = (EARTH_RADIUS_KM * F * F * c + hKm) / Astro.KM_PER_AU;
+  const cosPhi = Math.cos(phi);
+  const sinPhi = Math.sin(phi);
+  // sidereal time from the nearest night's reference (linear in time; nutation drifts < 0.01″/h)
+  const nightAt = (t: number) => nights[Math.min(nights.length - 1, Math.max(0, Math.floor((t - nights[0].frameStart) / DAY_MS)))];
+  const altitude = (t: number): number => {
+    const k = Math.min(Math.max(Math.round((t - t0) / MOON_GRID_MS), 1), grid.length - 2);
+    const a = grid[k - 1];
+    const b = grid[k];
+    const g = grid[k + 1];
+    const x = lagrange3(t, a.t, b.t, g.t, a.v[0], b.v[0], g.v[0]);
+    const y = lagrange3(t, a.t, b.t, g.t, a.v[1], b.v[1], g.v[1]);
+    const z = lagrange3(t, a.t, b.t, g.t, a.v[2], b.v[2], g.v[2]);
+    const n = nightAt(t);
+    const theta = (n.gastDeg + SIDEREAL_RATE_DEG_PER_DAY * ((t - n.gastTime) / DAY_MS) + site.longitudeDeg) * DEG;
+    const cosT = Math.cos(theta);
+    const sinT = Math.sin(theta);
+    const tx = x - ach * cosPhi * cosT;
+    const ty = y - ach * cosPhi * sinT;
+    const tz = z - ash * sinPhi;
+    const up = cosPhi * cosT * tx + cosPhi * sinT * ty + sinPhi * tz;
+    return Math.asin(up / Math.sqrt(tx * tx + ty * ty + tz * tz)) * RAD;
+  };
+  const crossing = (lo: number, hi: number, flo: number, fhi: number): number => {
+    let a = lo;
+    let b = hi;
+    let fa = flo;
+    let fb = fhi;
+    for (let i = 0; i < 40 && b - a > 500; i++) {
+      const m = Math.min(Math.max(a + ((b - a) * fa) / (fa - fb), a + (b - a) * 0.05), a + (b - a) * 0.95);
+      const fm = altitude(m);
+      if (fm === 0) return m;
+      if (Math.sign(fm) === Math.sign(fa)) {
+        a = m;
+        fa = fm;
+      } else {
+        b = m;
+        fb = fm;
+      }
+    }
+    return a + ((b - a) * fa) / (fa - fb);
+  };
+  for (const night of nights) {
+    const start = night.frameStart;
+    const end = night.frameEnd;
+    let moonrise: number | null = null;
+    let moonset: number | null = null;
+    const up: Interval[] = [];
+    let prevT = start;
+    let prevA = altitude(start);
+    let upSince: number | null = prevA >= 0 ? start : null;
+    for (let t = Math.min(start + MOON_SCAN_MS, end); ; t = Math.min(t + MOON_SCAN_MS, end)) {
+      const alt = altitude(t);
+      if ((prevA < 0) !== (alt < 0)) {
+        const tc = crossing(prevT, t, prevA, alt);
+        if (alt >= 0) {
+          moonrise ??= tc;
+          upSince = tc;
+        } else {
+          moonset ??= tc;
+          if (upSince !== null) up.push({ start: upSince, end: tc });
+          upSince = null;
+        }
+      }
+      prevT = t;
+      prevA = alt;
+      if (t >= end) break;
+    }
+    if (upSince !== null) up.push({ start: upSince, end });
+    night.moon = { moonrise, moonset, up };
+  }
+  moonDone.add(prepared);
+}
+
+/** Hours of each moon category inside the given intervals of one night (see MOON_CATEGORY_THRESHOLDS). */
+export function hoursByMoon(night: SiteNight, intervals: Interval[]): Record<MoonCategory, number> {
+  const out: Record<MoonCategory, number> = { dark: 0, grey: 0, bright: 0 };
+  const upCategory = moonCategory(night.moonIllumination);
+  const up = night.moon?.up;
+  if (!up) throw new Error("moon times not computed: call ensureMoonTimes(prepared) first");
+  for (const w of intervals) {
+    const total = (w.end - w.start) / 3_600_000;
+    let moonUp = 0;
+    for (const u of up) {
+      const lo = Math.max(u.start, w.start);
+      const hi = Math.min(u.end, w.end);
+      if (hi > lo) moonUp += (hi - lo) / 3_600_000;
+    }
+    out[upCategory] += moonUp;
+    out.dark += total - moonUp;
+  }
+  return out;
+}
+
 const cache = new Map<string, PreparedSite>();
 const CACHE_SIZE = 64;
 
@@ -448,11 +595,19 @@ export type TargetNight = {
   windows: Interval[];
   observableHours: number;
   moonSeparationDeg: number;
+  /** observable hours split at moonrise and moonset (null when asked for `moonSplit: false`) */
+  hoursByMoonCategory: Record<MoonCategory, number> | null;
 };
 
-/** Per-night windows for one target over prepared nights (numbers only; the fast path). */
-export function targetNights(prepared: PreparedSite, target: Target, minAltitudeDeg: number): TargetNight[] {
+/**
+ * Per-night windows for one target over prepared nights (numbers only; the fast path). With
+ * `moonSplit` (the default) each night's hours are also split by moon category at moonrise and
+ * moonset; the epoch planner, which needs windows only, turns it off.
+ */
+export function targetNights(prepared: PreparedSite, target: Target, minAltitudeDeg: number, opts: { moonSplit?: boolean } = {}): TargetNight[] {
   const site = prepared.site;
+  const moonSplit = opts.moonSplit ?? true;
+  if (moonSplit) ensureMoonTimes(prepared);
   const sinLat = Math.sin(site.latitudeDeg * DEG);
   const cosLat = Math.cos(site.latitudeDeg * DEG);
   const sinH0 = Math.sin(minAltitudeDeg * DEG);
@@ -497,7 +652,7 @@ export function targetNights(prepared: PreparedSite, target: Target, minAltitude
       }
       for (const w of windows) hours += (w.end - w.start) / 3_600_000;
     }
-    out[i] = { night, windows, observableHours: hours, moonSeparationDeg };
+    out[i] = { night, windows, observableHours: hours, moonSeparationDeg, hoursByMoonCategory: moonSplit ? hoursByMoon(night, windows) : null };
   }
   return out;
 }
@@ -513,7 +668,15 @@ export type NightJson = {
   windows: { start: string; end: string }[];
   observableHours: number;
   moon: { illumination: number; altitudeDeg: number; separationDeg: number };
+  /** the category of the Moon's illuminated fraction at mid-darkness */
   moonCategory: MoonCategory;
+  /** first moonrise / moonset (Moon's centre through geometric altitude 0°) between the Sun's transits framing the night */
+  moonrise: string | null;
+  moonset: string | null;
+  /** the observable hours split at moonrise and moonset */
+  hoursByMoonCategory: Record<MoonCategory, number>;
+  /** the dark interval (Sun below −18°) split the same way */
+  darkHoursByMoonCategory: Record<MoonCategory, number>;
 };
 
 export type VisibilityJson = {
@@ -534,6 +697,14 @@ export type SemesterSummary = {
 
 const round = (x: number, digits: number) => Math.round(x * 10 ** digits) / 10 ** digits;
 
+/** The dark interval of a night split by moon category (hours). */
+export function darkHoursByMoon(night: SiteNight): Record<MoonCategory, number> {
+  return night.darkStart === null || night.darkEnd === null
+    ? { dark: 0, grey: 0, bright: 0 }
+    : hoursByMoon(night, [{ start: night.darkStart, end: night.darkEnd }]);
+}
+
+/** Semester summary; `byMoonCategory` sums the hours split at moonrise and moonset. */
 export function summarise(rows: TargetNight[]): SemesterSummary {
   const byMoonCategory: Record<MoonCategory, number> = { dark: 0, grey: 0, bright: 0 };
   const months = new Map<string, number>();
@@ -541,7 +712,11 @@ export function summarise(rows: TargetNight[]): SemesterSummary {
   let dark = 0;
   for (const r of rows) {
     total += r.observableHours;
-    byMoonCategory[r.night.moonCategory] += r.observableHours;
+    const split = r.hoursByMoonCategory;
+    if (!split) throw new Error("summarise needs rows computed with the moon split");
+    byMoonCategory.dark += split.dark;
+    byMoonCategory.grey += split.grey;
+    byMoonCategory.bright += split.bright;
     const month = r.night.date.slice(0, 7);
     months.set(month, (months.get(month) ?? 0) + r.observableHours);
     if (r.night.darkStart !== null && r.night.darkEnd !== null) dark += (r.night.darkEnd - r.night.darkStart) / 3_600_000;
@@ -563,6 +738,8 @@ export function summarise(rows: TargetNight[]): SemesterSummary {
     hoursPerNight: rows.map((r) => ({ date: r.night.date, hours: round(r.observableHours, 3), moonCategory: r.night.moonCategory })),
   };
 }
+
+const roundSplit = (x: Record<MoonCategory, number>, digits: number) => ({ dark: round(x.dark, digits), grey: round(x.grey, digits), bright: round(x.bright, digits) });
 
 export type VisibilityInput = { site: Site; target: Target; from: string; nights: number; limit: Limit };
 
@@ -589,6 +766,10 @@ export function computeVisibility(input: VisibilityInput): VisibilityJson {
         separationDeg: round(r.moonSeparationDeg, 2),
       },
       moonCategory: r.night.moonCategory,
+      moonrise: iso(r.night.moon?.moonrise ?? null),
+      moonset: iso(r.night.moon?.moonset ?? null),
+      hoursByMoonCategory: roundSplit(r.hoursByMoonCategory as Record<MoonCategory, number>, 4),
+      darkHoursByMoonCategory: roundSplit(darkHoursByMoon(r.night), 4),
     })),
     summary: summarise(rows),
   };

@@ -97,6 +97,12 @@ export const targetSchema = z
       .transform((v) => (v ?? "").trim().toUpperCase())
       .refine((v) => v === "" || (TARGET_BANDS as readonly string[]).includes(v), `The band is one of ${TARGET_BANDS.join(", ")}.`)
       .transform((v) => v || null),
+    // one magnitude per band (form fields and CSV columns mag_U … mag_I); `magnitude` + `band` is the older single pair
+    mag_U: numberField("U magnitude", { min: -2, max: 30 }),
+    mag_B: numberField("B magnitude", { min: -2, max: 30 }),
+    mag_V: numberField("V magnitude", { min: -2, max: 30 }),
+    mag_R: numberField("R magnitude", { min: -2, max: 30 }),
+    mag_I: numberField("I magnitude", { min: -2, max: 30 }),
     notes: z
       .union([z.string(), z.null()])
       .optional()
@@ -106,12 +112,25 @@ export const targetSchema = z
       .refine((v) => v === null || v.length > NOTES_MAX_CHARS * 2 || utf8Bytes(v) <= TEXT_COLUMN_BYTES, "The notes are too long to store; shorten them."),
   })
   .transform((value, ctx) => {
+    const magnitudes: Partial<Record<(typeof TARGET_BANDS)[number], number>> = {};
+    for (const b of TARGET_BANDS) {
+      const m = value[`mag_${b}`];
+      if (m !== null) magnitudes[b] = m;
+    }
+    if (value.magnitude !== null && value.band) {
+      const band = value.band as (typeof TARGET_BANDS)[number];
+      const other = magnitudes[band];
+      if (other !== undefined && other !== value.magnitude) {
+        ctx.addIssue({ code: "custom", path: ["magnitude"], message: `The ${band} magnitude is given twice (${value.magnitude} and ${other}): keep one.` });
+      }
+      magnitudes[band] = value.magnitude;
+    }
     const ra = parseRa(value.ra, "RA");
     const dec = parseDec(value.dec, "Dec");
     if (!ra.ok) ctx.addIssue({ code: "custom", path: ["ra"], message: ra.message });
     if (!dec.ok) ctx.addIssue({ code: "custom", path: ["dec"], message: dec.message });
     if (value.magnitude !== null && !value.band) ctx.addIssue({ code: "custom", path: ["band"], message: "Give the band of the magnitude." });
-    return { ...value, raDeg: ra.ok ? ra.value : NaN, decDeg: dec.ok ? dec.value : NaN };
+    return { ...value, magnitudes, raDeg: ra.ok ? ra.value : NaN, decDeg: dec.ok ? dec.value : NaN };
   });
 export type TargetInput = z.output<typeof targetSchema>;
 
