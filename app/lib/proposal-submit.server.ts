@@ -1,5 +1,5 @@
 // Submission: a checklist computed on the server, then one transaction that gives the code
-// (NS-<semester>-<3 digits>, serial per call under a lock on the call's row), the state and the
+// (`014/27A`: the serial per call, given under a lock on the call's row, then the short semester), the state and the
 // audit entry; then the receipt with the proposal PDF to the PI and every Co-I.
 import { QueryTypes } from "sequelize";
 import { writeAudit } from "~/lib/audit.server";
@@ -8,16 +8,14 @@ import { computeFeasibilitySheet } from "~/lib/feasibility.server";
 import { enqueueMail } from "~/lib/mail-queue.server";
 import { plainMail } from "~/lib/mail-templates.server";
 import { buildProposalPdf } from "~/lib/proposal-pdf.server";
-import { ABSTRACT_WORD_LIMIT, scienceCategoryLabel, wordCount } from "~/lib/proposal-vocabulary";
+import { ABSTRACT_WORD_LIMIT, codeForFileName, proposalCode, scienceCategoryLabel, wordCount } from "~/lib/proposal-vocabulary";
 import { latestScienceCase } from "~/lib/science-case.server";
 import { Observation, ProposalMember, sequelize, Target } from "~/models/index.server";
 import { assertPi, deadlinePassed, getProposalForUser, ProposalRefused, type Access, type Actor } from "./proposals.server";
 
 export type ChecklistItem = { key: string; label: string; ok: boolean; detail: string; href?: string };
 
-export function proposalCode(semesterCode: string, serial: number) {
-  return `NS-${semesterCode}-${String(serial).padStart(3, "0")}`;
-}
+export { proposalCode };
 
 export async function submissionChecklist({ user, proposalId, access: given }: { user: Actor; proposalId: number; access?: Access }) {
   const access = given ?? (await getProposalForUser({ proposalId, user }));
@@ -171,7 +169,7 @@ async function queueReceipt({ user, proposalId, code, title, semesterCode, deadl
     ],
     button: { label: "Download the proposal PDF", href: link },
   });
-  const attachments = pdf ? [{ filename: `${code}.pdf`, contentType: "application/pdf", content: Buffer.from(pdf).toString("base64") }] : [];
+  const attachments = pdf ? [{ filename: `${codeForFileName(code)}.pdf`, contentType: "application/pdf", content: Buffer.from(pdf).toString("base64") }] : [];
   await sequelize.transaction(async (transaction) => {
     for (const m of members) await enqueueMail({ to: m.email, ...mail, attachments }, transaction);
     await writeAudit(
@@ -185,6 +183,6 @@ async function queueReceipt({ user, proposalId, code, title, semesterCode, deadl
 export async function proposalPdfForUser({ user, proposalId }: { user: Actor; proposalId: number }) {
   const { proposal } = await getProposalForUser({ proposalId, user });
   const bytes = await buildProposalPdf({ proposalId });
-  return { bytes, filename: `${proposal.code ?? `nightshare-draft-${proposal.id}`}.pdf` };
+  return { bytes, filename: `${proposal.code ? codeForFileName(proposal.code) : `nightshare-draft-${proposal.id}`}.pdf` };
 }
 
