@@ -27,6 +27,12 @@ type FontFace = { pdf: PDFFont; has: (cp: number) => boolean };
 type Family = FontFace[];
 
 let fontFiles: Record<string, Uint8Array> | null = null;
+/** Total rows of the requested-time tables: the call's semester first, each later one, then all together. */
+function semesterTotals(sheet: FeasibilitySheet): [string, string, string][] {
+  const rows = sheet.requestedHoursBySemester.map((s): [string, string, string] => [s.semesterCode, s.callSemester ? "Total, call's semester" : "Total, later semester", f(s.hours, 2)]);
+  return rows.length > 1 ? [...rows, ["", "All semesters together", f(sheet.requestedHours, 2)]] : rows;
+}
+
 function fontBytes() {
   if (!fontFiles) {
     const dir = path.join(path.dirname(createRequire(import.meta.url).resolve("@fontsource/source-sans-3/LICENSE")), "files");
@@ -321,7 +327,7 @@ function technicalPages(w: Writer, sheet: FeasibilitySheet) {
     ],
     [
       ...sheet.totals.map((t) => [t.semesterCode, t.telescopeName, t.moonCategory, f(t.hours, 2), t.offeredHours === null ? "—" : f(t.offeredHours, 0)]),
-      ["", "Total", "", f(sheet.requestedHours, 2), ""],
+      ...semesterTotals(sheet).map(([semester, label, hours]) => [semester, label, "", hours, ""]),
     ],
   );
 
@@ -434,7 +440,7 @@ export async function buildProposalPdf({ proposalId }: { proposalId: number }): 
       { label: "Moon category", width: 0.25 },
       { label: "Hours", width: 0.25, right: true },
     ],
-    [...sheet.totals.map((t) => [t.semesterCode, t.telescopeName, t.moonCategory, f(t.hours, 2)]), ["", "Total", "", f(sheet.requestedHours, 2)]],
+    [...sheet.totals.map((t) => [t.semesterCode, t.telescopeName, t.moonCategory, f(t.hours, 2)]), ...semesterTotals(sheet).map(([semester, label, hours]) => [semester, label, "", hours])],
     9.5,
   );
   const blocking = sheet.problems.filter((p) => p.severity === "blocking").length;

@@ -32,7 +32,7 @@ export async function submissionChecklist({ user, proposalId, access: given }: {
   ].filter(Boolean);
   items.push({
     key: "overview",
-    label: "Overview complete",
+    label: "Summary complete",
     ok: overviewGaps.length === 0,
     detail: overviewGaps.length ? `Missing: ${overviewGaps.join(", ")}.` : `${words} words in the abstract; ${scienceCategoryLabel(proposal.scienceCategory)}.`,
     href: base,
@@ -57,9 +57,11 @@ export async function submissionChecklist({ user, proposalId, access: given }: {
   });
 
   let requestedHours: number | null = null;
+  let requestedHoursBySemester: { semesterCode: string; hours: number; callSemester: boolean }[] = [];
   try {
     const sheet = await computeFeasibilitySheet({ proposalId });
     requestedHours = sheet.requestedHours;
+    requestedHoursBySemester = sheet.requestedHoursBySemester;
     const blocking = sheet.problems.filter((p) => p.severity === "blocking");
     const warnings = sheet.problems.length - blocking.length;
     items.push({
@@ -68,7 +70,7 @@ export async function submissionChecklist({ user, proposalId, access: given }: {
       ok: blocking.length === 0,
       detail: blocking.length
         ? `${blocking.length} blocking: ${blocking.slice(0, 3).map((p) => p.message).join(" · ")}${blocking.length > 3 ? " …" : ""}`
-        : `${sheet.requestedHours.toFixed(1)} h requested${warnings ? `; ${warnings} warning${warnings === 1 ? "" : "s"} to read` : ""}.`,
+        : `${sheet.requestedHoursThisSemester.toFixed(1)} h requested in ${call.semesterCode}${sheet.requestedHours > sheet.requestedHoursThisSemester ? ` and ${(sheet.requestedHours - sheet.requestedHoursThisSemester).toFixed(1)} h in later semesters` : ""}${warnings ? `; ${warnings} warning${warnings === 1 ? "" : "s"} to read` : ""}.`,
       href: `${base}/feasibility`,
     });
   } catch (error) {
@@ -98,7 +100,7 @@ export async function submissionChecklist({ user, proposalId, access: given }: {
   });
 
   const ready = proposal.status === "draft" && items.every((i) => i.ok);
-  return { items, ready, requestedHours, access };
+  return { items, ready, requestedHours, requestedHoursBySemester, access };
 }
 
 export async function submitProposal({ user, proposalId }: { user: Actor; proposalId: number }) {

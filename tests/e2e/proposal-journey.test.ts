@@ -37,7 +37,7 @@ describe("a PI's proposal, from sign-in to receipt", () => {
     const base = page.url();
 
     await page.getByLabel("Science category").selectOption("clusters-astrometry");
-    await page.getByRole("button", { name: "Save the overview" }).click();
+    await page.getByRole("button", { name: "Save the summary" }).click();
     await page.getByText(/^Saved at/).waitFor();
     await screenshot(page, "journey-03-overview");
 

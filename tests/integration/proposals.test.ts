@@ -213,7 +213,7 @@ describe("overview with optimistic locking", () => {
     expect(first.status).toBe(200);
     const second = await (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ version: String(version), ...values({ title: "Title typed in the stale form" }) }));
     expect(second.status).toBe(409);
-    expect(second.text).toContain("Someone saved the overview while you were editing");
+    expect(second.text).toContain("Someone saved the summary while you were editing");
     expect(second.text).toContain("Title typed in the stale form");
     expect(second.text).toContain("Title saved first");
     expect((await Proposal.findByPk(id))!.title).toBe("Title saved first");
