@@ -271,7 +271,7 @@ export async function withdrawProposal({ user, proposalId }: { user: Actor; prop
     proposal.status = "withdrawn";
     await proposal.save({ transaction });
     // The whole team hears of it, in the same transaction (through the mail queue).
-    const members = await ProposalMember.findAll({ where: { proposalId }, transaction });
+    const members = await ProposalMember.findAll({ where: { proposalId }, order: [["id", "ASC"]], transaction });
     const by = await User.findByPk(user.id, { transaction });
     const name = proposal.code ? `${proposal.code}, "${proposal.title}"` : `"${proposal.title}"`;
     const mail = plainMail({
@@ -319,7 +319,7 @@ export async function deleteDraft({ user, proposalId }: { user: Actor; proposalI
     if (proposal.code) {
       throw new ProposalRefused(`This proposal was submitted once as ${proposal.code}, so it stays on record; withdraw it instead.`, 409);
     }
-    const members = await ProposalMember.findAll({ where: { proposalId }, transaction });
+    const members = await ProposalMember.findAll({ where: { proposalId }, order: [["id", "ASC"]], transaction });
     await proposal.destroy({ transaction });
     await writeAudit(
       {

@@ -4,13 +4,14 @@ import { data, redirect } from "react-router";
 import { requireUser } from "~/lib/auth.server";
 import { proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
 import { submitProposal } from "~/lib/proposal-submit.server";
-import { deleteDraft, reopenProposal, withdrawProposal } from "~/lib/proposals.server";
+import { deleteDraft, getProposalForUser, reopenProposal, withdrawProposal } from "~/lib/proposals.server";
 import type { Route } from "./+types/proposals.$proposalId.submit";
 import { readForm } from "~/lib/forms";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireUser(request);
-  return redirect(`/proposals/${proposalIdParam(params)}`);
+  const user = await requireUser(request);
+  const { proposal } = await getProposalForUser({ proposalId: proposalIdParam(params), user });
+  return redirect(`/proposals/${proposal.id}`);
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
