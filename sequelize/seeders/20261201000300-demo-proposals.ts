@@ -566,4 +566,4 @@ export async function up({ context: sequelize }: { context: Sequelize }) {
 
 export async function down() {}
 
-export { demos as demoProposals };
+export { demos as demoProposals, scienceCasePdf };
