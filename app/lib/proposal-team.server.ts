@@ -59,7 +59,6 @@ export async function inviteCoI({ user, proposalId, email }: { user: Actor; prop
       { transaction },
     );
     const inviter = await User.findByPk(user.id, { transaction });
-    const account = await User.findOne({ where: { email: address }, transaction });
     const who = inviter?.name ? `${inviter.name} (${inviter.email})` : user.email;
     const link = new URL(`/proposals/${proposalId}`, env.APP_URL).toString();
     const mail = plainMail({
