@@ -26,14 +26,16 @@ export default [
       index("routes/proposals._index.tsx"),
       route("new", "routes/proposals.new.tsx"),
       route(":proposalId", "routes/proposals.$proposalId.tsx", [
+        // tabs in their order: Summary · Targets · Observations · Feasibility sheet · Science case · Team · Change log
         index("routes/proposals.$proposalId._index.tsx"),
-        route("team", "routes/proposals.$proposalId.team.tsx"),
         route("targets", "routes/proposals.$proposalId.targets.tsx"),
         route("observations", "routes/proposals.$proposalId.observations.tsx"),
         route("feasibility", "routes/proposals.$proposalId.feasibility.tsx"),
         route("science-case", "routes/proposals.$proposalId.science-case.tsx"),
-        route("history", "routes/proposals.$proposalId.history.tsx"),
-        route("submit", "routes/proposals.$proposalId.submit.tsx"),
+        route("team", "routes/proposals.$proposalId.team.tsx"),
+        route("change-log", "routes/proposals.$proposalId.change-log.tsx"),
+        // the readiness strip's actions (send, withdraw, reopen, delete); a GET goes to the summary
+        route("submit", "routes/proposals.$proposalId.submit.ts"),
       ]),
     ]),
     route("calls", "routes/calls._index.tsx"),

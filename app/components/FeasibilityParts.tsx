@@ -54,7 +54,8 @@ export function ProblemsList({ problems, empty = "No problems found: nothing blo
   );
 }
 
-export function TotalsTable({ sheet }: { sheet: Pick<FeasibilitySheet, "totals" | "requestedHours" | "semesterCode"> }) {
+export function TotalsTable({ sheet }: { sheet: Pick<FeasibilitySheet, "totals" | "requestedHours" | "semesterCode" | "requestedHoursBySemester"> }) {
+  const bySemester = sheet.requestedHoursBySemester ?? [{ semesterCode: sheet.semesterCode, hours: sheet.requestedHours, callSemester: true }];
   if (!sheet.totals.length) return <p className="text-sm text-slate-600">No time requested yet.</p>;
   return (
     <table className="table-base">
@@ -79,13 +80,22 @@ export function TotalsTable({ sheet }: { sheet: Pick<FeasibilitySheet, "totals" 
         ))}
       </tbody>
       <tfoot>
-        <tr>
-          <td colSpan={3} className="px-3 py-2 font-semibold">
-            Total requested
-          </td>
-          <td className="px-3 py-2 text-right font-semibold">{hours(sheet.requestedHours, 2)}</td>
-          <td />
-        </tr>
+        {bySemester.map((s) => (
+          <tr key={s.semesterCode}>
+            <td colSpan={3} className="px-3 py-2 font-semibold">
+              {s.callSemester ? `Requested in ${s.semesterCode}, the call's semester` : `Requested in ${s.semesterCode}, a later semester`}
+            </td>
+            <td className="px-3 py-2 text-right font-semibold">{hours(s.hours, 2)}</td>
+            <td />
+          </tr>
+        ))}
+        {bySemester.length > 1 ? (
+          <tr>
+            <td colSpan={3} className="px-3 py-2 text-slate-600">All semesters together</td>
+            <td className="px-3 py-2 text-right text-slate-600">{hours(sheet.requestedHours, 2)}</td>
+            <td />
+          </tr>
+        ) : null}
       </tfoot>
     </table>
   );

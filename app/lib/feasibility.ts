@@ -285,7 +285,13 @@ export type FeasibilitySheet = {
     magnitudes: Record<string, number>;
     observationIds: number[];
   }[];
+  /** per telescope, semester and moon category; the call's own semester first, then the later ones in order */
   totals: { telescopeId: number; telescopeName: string; semesterCode: string; moonCategory: MoonCategory; hours: number; offeredHours: number | null }[];
+  /** hours asked for in each semester, the call's own first (always present), then the later ones */
+  requestedHoursBySemester: { semesterCode: string; hours: number; callSemester: boolean }[];
+  /** hours asked for in the call's own semester */
+  requestedHoursThisSemester: number;
+  /** all semesters together */
   requestedHours: number;
   problems: Problem[];
 };
@@ -604,7 +610,13 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
     call.offers.find((o) => o.telescopeId === telescopeId && o.moonCategory === moon)?.hoursOffered ?? null;
   const totalRows = [...totals.values()]
     .map((t) => ({ ...t, hours: r(t.hours, 2), offeredHours: t.semesterCode === call.semesterCode ? offered(t.telescopeId, t.moonCategory) : null }))
-    .sort((a, b) => a.semesterCode.localeCompare(b.semesterCode) || a.telescopeName.localeCompare(b.telescopeName) || MOON_RANK[a.moonCategory] - MOON_RANK[b.moonCategory]);
+    .sort(
+      (a, b) =>
+        Number(b.semesterCode === call.semesterCode) - Number(a.semesterCode === call.semesterCode) ||
+        a.semesterCode.localeCompare(b.semesterCode) ||
+        a.telescopeName.localeCompare(b.telescopeName) ||
+        MOON_RANK[a.moonCategory] - MOON_RANK[b.moonCategory],
+    );
   for (const t of totalRows) {
     if (t.offeredHours !== null && t.hours > t.offeredHours) {
       problems.push({ severity: "warning", message: `${t.hours} h of ${t.moonCategory} time on ${t.telescopeName} are requested in ${t.semesterCode}; the call offers ${t.offeredHours} h in all.` });
@@ -614,6 +626,9 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
     totalRows.reduce((s, t) => s + t.hours, 0),
     2,
   );
+  const bySemester = new Map<string, number>([[call.semesterCode, 0]]);
+  for (const t of totalRows) bySemester.set(t.semesterCode, (bySemester.get(t.semesterCode) ?? 0) + t.hours);
+  const requestedHoursBySemester = [...bySemester.entries()].map(([semesterCode, hours]) => ({ semesterCode, hours: r(hours, 2), callSemester: semesterCode === call.semesterCode }));
 
   problems.sort((a, b) => (a.severity === b.severity ? 0 : a.severity === "blocking" ? -1 : 1));
   return {
@@ -647,6 +662,8 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
       observationIds: observations.filter((o) => o.targetId === t.id).map((o) => o.observationId),
     })),
     totals: totalRows,
+    requestedHoursBySemester,
+    requestedHoursThisSemester: requestedHoursBySemester[0].hours,
     requestedHours,
     problems,
   };

@@ -28,6 +28,12 @@ const RULE = rgb(0.8, 0.83, 0.87);
 type FontFace = { pdf: PDFFont; has: (cp: number) => boolean };
 type Family = FontFace[];
 
+/** Total rows of the requested-time tables: the call's semester first, each later one, then all together. */
+function semesterTotals(sheet: FeasibilitySheet): [string, string, string][] {
+  const rows = sheet.requestedHoursBySemester.map((s): [string, string, string] => [s.semesterCode, s.callSemester ? "Total, call's semester" : "Total, later semester", f(s.hours, 2)]);
+  return rows.length > 1 ? [...rows, ["", "All semesters together", f(sheet.requestedHours, 2)]] : rows;
+}
+
 type Glyph = { id: number; codePoints: number[] };
 type Layout = { glyphs: Glyph[]; positions: unknown[] };
 type FontkitFont = { hasGlyphForCodePoint(cp: number): boolean; layout(text: string, features?: unknown): Layout; getGlyph(id: number, codePoints?: number[]): Glyph };
@@ -389,7 +395,7 @@ function technicalPages(w: Writer, sheet: FeasibilitySheet) {
     ],
     [
       ...sheet.totals.map((t) => [t.semesterCode, t.telescopeName, t.moonCategory, f(t.hours, 2), t.offeredHours === null ? "—" : f(t.offeredHours, 0)]),
-      ["", "Total", "", f(sheet.requestedHours, 2), ""],
+      ...semesterTotals(sheet).map(([semester, label, hours]) => [semester, label, "", hours, ""]),
     ],
   );
 
@@ -502,7 +508,7 @@ export async function buildProposalPdf({ proposalId }: { proposalId: number }): 
       { label: "Moon category", width: 0.25 },
       { label: "Hours", width: 0.25, right: true },
     ],
-    [...sheet.totals.map((t) => [t.semesterCode, t.telescopeName, t.moonCategory, f(t.hours, 2)]), ["", "Total", "", f(sheet.requestedHours, 2)]],
+    [...sheet.totals.map((t) => [t.semesterCode, t.telescopeName, t.moonCategory, f(t.hours, 2)]), ...semesterTotals(sheet).map(([semester, label, hours]) => [semester, label, "", hours])],
     9.5,
   );
   const blocking = sheet.problems.filter((p) => p.severity === "blocking").length;

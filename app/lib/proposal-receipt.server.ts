@@ -7,6 +7,7 @@ import { env } from "~/lib/env.server";
 import { plainMail } from "~/lib/mail-templates.server";
 import { buildProposalPdf } from "~/lib/proposal-pdf.server";
 import type { RenderedMail } from "./mail-renderers.server";
+import { codeForFileName } from "~/lib/proposal-vocabulary";
 
 export type ReceiptPayload = {
   proposalId: number;
@@ -59,6 +60,6 @@ export async function renderProposalReceipt(payload: Record<string, unknown>, me
     subject: mail.subject,
     text: mail.text,
     html: mail.html,
-    attachments: pdf ? [{ filename: `${p.code}.pdf`, contentType: "application/pdf", content: Buffer.from(pdf).toString("base64") }] : [],
+    attachments: pdf ? [{ filename: `${codeForFileName(p.code)}.pdf`, contentType: "application/pdf", content: Buffer.from(pdf).toString("base64") }] : [],
   };
 }

@@ -1,5 +1,5 @@
 // Submission: a checklist computed on the server, then one transaction that gives the code
-// (NS-<semester>-<3 digits>, serial per call under a lock on the call's row), the state and the
+// (`014/27A`: the serial per call, given under a lock on the call's row, then the short semester), the state and the
 // audit entry and the receipt to the PI and every Co-I (queued in that same transaction; the mail
 // worker builds the proposal PDF when it sends, see proposal-receipt.server.ts).
 import { QueryTypes, type Transaction } from "sequelize";
@@ -8,16 +8,14 @@ import { computeFeasibilitySheet } from "~/lib/feasibility.server";
 import { enqueueMail } from "~/lib/mail-queue.server";
 import { buildProposalPdf } from "~/lib/proposal-pdf.server";
 import { receiptMail, type ReceiptPayload } from "~/lib/proposal-receipt.server";
-import { ABSTRACT_WORD_LIMIT, scienceCategoryLabel, wordCount } from "~/lib/proposal-vocabulary";
+import { ABSTRACT_WORD_LIMIT, codeForFileName, proposalCode, scienceCategoryLabel, wordCount } from "~/lib/proposal-vocabulary";
 import { latestScienceCase } from "~/lib/science-case.server";
 import { Observation, ProposalMember, sequelize, Target } from "~/models/index.server";
 import { assertPi, deadlinePassed, getProposalForUser, ProposalRefused, type Access, type Actor } from "./proposals.server";
 
 export type ChecklistItem = { key: string; label: string; ok: boolean; detail: string; href?: string };
 
-export function proposalCode(semesterCode: string, serial: number) {
-  return `NS-${semesterCode}-${String(serial).padStart(3, "0")}`;
-}
+export { proposalCode };
 
 export async function submissionChecklist({ user, proposalId, access: given }: { user: Actor; proposalId: number; access?: Access }) {
   const access = given ?? (await getProposalForUser({ proposalId, user }));
@@ -34,7 +32,7 @@ export async function submissionChecklist({ user, proposalId, access: given }: {
   ].filter(Boolean);
   items.push({
     key: "overview",
-    label: "Overview complete",
+    label: "Summary complete",
     ok: overviewGaps.length === 0,
     detail: overviewGaps.length ? `Missing: ${overviewGaps.join(", ")}.` : `${words} words in the abstract; ${scienceCategoryLabel(proposal.scienceCategory)}.`,
     href: base,
@@ -59,9 +57,11 @@ export async function submissionChecklist({ user, proposalId, access: given }: {
   });
 
   let requestedHours: number | null = null;
+  let requestedHoursBySemester: { semesterCode: string; hours: number; callSemester: boolean }[] = [];
   try {
     const sheet = await computeFeasibilitySheet({ proposalId });
     requestedHours = sheet.requestedHours;
+    requestedHoursBySemester = sheet.requestedHoursBySemester;
     const blocking = sheet.problems.filter((p) => p.severity === "blocking");
     const warnings = sheet.problems.length - blocking.length;
     items.push({
@@ -70,7 +70,7 @@ export async function submissionChecklist({ user, proposalId, access: given }: {
       ok: blocking.length === 0,
       detail: blocking.length
         ? `${blocking.length} blocking: ${blocking.slice(0, 3).map((p) => p.message).join(" · ")}${blocking.length > 3 ? " …" : ""}`
-        : `${sheet.requestedHours.toFixed(1)} h requested${warnings ? `; ${warnings} warning${warnings === 1 ? "" : "s"} to read` : ""}.`,
+        : `${sheet.requestedHoursThisSemester.toFixed(1)} h requested in ${call.semesterCode}${sheet.requestedHours > sheet.requestedHoursThisSemester ? ` and ${(sheet.requestedHours - sheet.requestedHoursThisSemester).toFixed(1)} h in later semesters` : ""}${warnings ? `; ${warnings} warning${warnings === 1 ? "" : "s"} to read` : ""}.`,
       href: `${base}/feasibility`,
     });
   } catch (error) {
@@ -100,7 +100,7 @@ export async function submissionChecklist({ user, proposalId, access: given }: {
   });
 
   const ready = proposal.status === "draft" && items.every((i) => i.ok);
-  return { items, ready, requestedHours, access };
+  return { items, ready, requestedHours, requestedHoursBySemester, access };
 }
 
 export async function submitProposal({ user, proposalId }: { user: Actor; proposalId: number }) {
@@ -168,6 +168,6 @@ async function queueReceipt(
 export async function proposalPdfForUser({ user, proposalId }: { user: Actor; proposalId: number }) {
   const { proposal } = await getProposalForUser({ proposalId, user });
   const bytes = await buildProposalPdf({ proposalId });
-  return { bytes, filename: `${proposal.code ?? `nightshare-draft-${proposal.id}`}.pdf` };
+  return { bytes, filename: `${proposal.code ? codeForFileName(proposal.code) : `nightshare-draft-${proposal.id}`}.pdf` };
 }
 

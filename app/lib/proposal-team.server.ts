@@ -10,20 +10,37 @@ import { assertEditable, assertPi, getProposalForUser, ProposalRefused, type Act
 
 export const MAX_TEAM_SIZE = 60;
 
-export type TeamMember = { id: number; email: string; name: string | null; institution: string | null; role: "pi" | "coi"; joined: boolean; isYou: boolean };
+export type TeamMember = {
+  id: number;
+  email: string;
+  name: string | null;
+  institution: string | null;
+  role: "pi" | "coi";
+  joined: boolean;
+  /** invited by an address that already has an account (name and institution come from it) */
+  hasAccount: boolean;
+  isYou: boolean;
+};
 
 export async function listTeam({ user, proposalId }: { user: Actor; proposalId: number }): Promise<TeamMember[]> {
   await getProposalForUser({ proposalId, user });
   const members = await ProposalMember.findAll({ where: { proposalId }, include: [{ model: User, as: "user" }], order: [["role", "DESC"], ["id", "ASC"]] });
-  return members.map((m) => ({
-    id: m.id,
-    email: m.email,
-    name: m.user?.name ?? null,
-    institution: m.user?.institution ?? null,
-    role: m.role,
-    joined: m.userId !== null,
-    isYou: m.userId === user.id,
-  }));
+  // An invited address that already has an account shows that account's name at once.
+  const pending = members.filter((m) => m.userId === null).map((m) => m.email);
+  const accounts = new Map(pending.length ? (await User.findAll({ where: { email: pending } })).map((u) => [u.email.toLowerCase(), u]) : []);
+  return members.map((m) => {
+    const account = m.user ?? accounts.get(m.email.toLowerCase()) ?? null;
+    return {
+      id: m.id,
+      email: m.email,
+      name: account?.name ?? null,
+      institution: account?.institution ?? null,
+      role: m.role,
+      joined: m.userId !== null,
+      hasAccount: account !== null,
+      isYou: m.userId === user.id,
+    };
+  });
 }
 
 export async function inviteCoI({ user, proposalId, email }: { user: Actor; proposalId: number; email: string }) {
@@ -54,8 +71,8 @@ export async function inviteCoI({ user, proposalId, email }: { user: Actor; prop
       button: { label: "Open the proposal", href: link },
     });
     await enqueueMail({ to: address, ...mail }, transaction);
-    await writeAudit({ actorId: user.id, action: "member.invited", entityType: "proposal_member", entityId: member.id, proposalId, details: { email: address, role: "coi" } }, transaction);
-    return member;
+    await writeAudit({ actorId: user.id, action: "member.invited", entityType: "proposal_member", entityId: member.id, proposalId, details: { email: address, role: "coi", name: account?.name ?? null } }, transaction);
+    return { member, name: account?.name ?? null, institution: account?.institution ?? null };
   });
 }
 

@@ -45,3 +45,21 @@ export function upcomingSemesters(first: string, count = 4) {
 }
 
 export const memberRoleLabels = { pi: "PI", coi: "Co-I" } as const;
+
+/** 2027A → 27A: the short semester of proposal codes. */
+export function shortSemester(semesterCode: string) {
+  return SEMESTER_CODE.test(semesterCode) ? semesterCode.slice(2) : semesterCode;
+}
+
+/**
+ * Nightshare's proposal code: the serial within the call first, zero-padded to three digits,
+ * then the short semester — `014/27A`, read "proposal 14 of 27A".
+ */
+export function proposalCode(semesterCode: string, serial: number) {
+  return `${String(serial).padStart(3, "0")}/${shortSemester(semesterCode)}`;
+}
+
+/** The code as it may stand in a file name: `014/27A` → `014-27A`. */
+export function codeForFileName(code: string) {
+  return code.replaceAll("/", "-");
+}

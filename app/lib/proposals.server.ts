@@ -5,6 +5,9 @@ import { data } from "react-router";
 import { Op, QueryTypes, type Transaction } from "sequelize";
 import type { SessionUser } from "~/lib/auth.server";
 import { writeAudit } from "~/lib/audit.server";
+import { env } from "~/lib/env.server";
+import { enqueueMail } from "~/lib/mail-queue.server";
+import { plainMail } from "~/lib/mail-templates.server";
 import type { ProposalStatus } from "~/lib/domain";
 import { upcomingSemesters } from "~/lib/proposal-vocabulary";
 import type { z } from "zod";
@@ -267,7 +270,23 @@ export async function withdrawProposal({ user, proposalId }: { user: Actor; prop
     const from = proposal.status;
     proposal.status = "withdrawn";
     await proposal.save({ transaction });
-    await writeAudit({ actorId: user.id, action: "proposal.withdrawn", entityType: "proposal", entityId: proposalId, proposalId, details: { from, code: proposal.code } }, transaction);
+    // The whole team hears of it, in the same transaction (through the mail queue).
+    const members = await ProposalMember.findAll({ where: { proposalId }, order: [["id", "ASC"]], transaction });
+    const by = await User.findByPk(user.id, { transaction });
+    const name = proposal.code ? `${proposal.code}, "${proposal.title}"` : `"${proposal.title}"`;
+    const mail = plainMail({
+      subject: `Nightshare: ${proposal.code ?? "the draft"} "${proposal.title}" was withdrawn`,
+      paragraphs: [
+        `${by?.name ? `${by.name} (${by.email})` : user.email}, the PI, withdrew the proposal ${name} from call ${call.semesterCode} on ${new Date().toISOString().slice(0, 16).replace("T", " ")} UTC.`,
+        `The committee will not read it. Until the deadline, ${call.deadlineAt.toISOString().slice(0, 16).replace("T", " ")} UTC, the PI can reopen it as a draft${proposal.code ? ` (it keeps the code ${proposal.code})` : ""} and submit it again.`,
+      ],
+      button: { label: "Open the proposal", href: new URL(`/proposals/${proposalId}`, env.APP_URL).toString() },
+    });
+    for (const m of members) await enqueueMail({ to: m.email, ...mail }, transaction);
+    await writeAudit(
+      { actorId: user.id, action: "proposal.withdrawn", entityType: "proposal", entityId: proposalId, proposalId, details: { from, code: proposal.code, told: members.map((m) => m.email) } },
+      transaction,
+    );
     return proposal;
   });
 }
@@ -283,6 +302,37 @@ export async function reopenProposal({ user, proposalId }: { user: Actor; propos
     await proposal.save({ transaction });
     await writeAudit({ actorId: user.id, action: "proposal.reopened", entityType: "proposal", entityId: proposalId, proposalId, details: { code: proposal.code } }, transaction);
     return proposal;
+  });
+}
+
+/**
+ * The PI deletes a draft that was never submitted (no code), with everything in it. The audit
+ * entry outlives the proposal: it keeps the title and the team, without the proposal id (the
+ * proposal's own change log goes with it).
+ */
+export async function deleteDraft({ user, proposalId }: { user: Actor; proposalId: number }) {
+  return sequelize.transaction(async (transaction) => {
+    const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
+    assertPi(access, "delete the draft");
+    const { proposal, call } = access;
+    if (!["draft", "withdrawn"].includes(proposal.status)) throw new ProposalRefused(`A proposal that is ${proposal.status.replace("_", " ")} cannot be deleted.`, 409);
+    if (proposal.code) {
+      throw new ProposalRefused(`This proposal was submitted once as ${proposal.code}, so it stays on record; withdraw it instead.`, 409);
+    }
+    const members = await ProposalMember.findAll({ where: { proposalId }, order: [["id", "ASC"]], transaction });
+    await proposal.destroy({ transaction });
+    await writeAudit(
+      {
+        actorId: user.id,
+        action: "proposal.deleted",
+        entityType: "proposal",
+        entityId: proposalId,
+        proposalId: null,
+        details: { title: proposal.title, callId: call.id, semesterCode: call.semesterCode, status: proposal.status, team: members.map((m) => m.email) },
+      },
+      transaction,
+    );
+    return { title: proposal.title };
   });
 }
 

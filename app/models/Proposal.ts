@@ -12,7 +12,7 @@ export { proposalStatuses, type ProposalStatus };
 export class Proposal extends Model<InferAttributes<Proposal>, InferCreationAttributes<Proposal>> {
   declare id: CreationOptional<number>;
   declare callId: ForeignKey<Call["id"]>;
-  /** NS-<semester>-<3 digits>, given at first submission */
+  /** `014/27A` (serial within the call, short semester), given at first submission; unique per (callId, serial) */
   declare code: CreationOptional<string | null>;
   declare serial: CreationOptional<number | null>;
   declare title: string;
@@ -36,7 +36,7 @@ export class Proposal extends Model<InferAttributes<Proposal>, InferCreationAttr
     Proposal.init(
       {
         id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
-        code: { type: DataTypes.STRING(20), allowNull: true, unique: true },
+        code: { type: DataTypes.STRING(20), allowNull: true },
         serial: { type: DataTypes.INTEGER, allowNull: true },
         title: { type: DataTypes.STRING(300), allowNull: false },
         abstract: { type: DataTypes.TEXT, allowNull: false },

@@ -134,7 +134,7 @@ function CallCard({ call, now }: { call: PublicCall; now: string }) {
           Charges:{" "}
           {call.accessFeePerHourCents ? `${money(call.accessFeePerHourCents, call.currency)} per allocated hour for institutions outside the consortium` : null}
           {call.accessFeePerHourCents && call.pageChargeCents ? "; " : null}
-          {call.pageChargeCents ? `page charge ${money(call.pageChargeCents, call.currency)}` : null}.
+          {call.pageChargeCents ? `page charge ${money(call.pageChargeCents, call.currency)} per page of the programme's data-release paper in the observatory's publication` : null}.
         </p>
       ) : null}
     </article>

@@ -66,7 +66,7 @@ function ConflictPanel({ conflict, onKeepMine, onTakeSaved }: { conflict: Confli
   const saved = describe(conflict.saved);
   return (
     <section role="alert" aria-labelledby="conflict-title" className="rounded-lg border border-amber-400 bg-amber-50 p-4">
-      <h2 id="conflict-title">Someone saved the overview while you were editing</h2>
+      <h2 id="conflict-title">Someone saved the summary while you were editing</h2>
       <p className="mt-1 text-sm text-slate-700">
         {conflict.savedBy ?? "A team member"} saved it at {utc(conflict.savedAt)}. Nothing is lost: your version is still in the form below. Compare, then keep yours (it replaces theirs) or take theirs.
       </p>
@@ -188,7 +188,7 @@ function OverviewForm({ values, version, semesters, callSemester, editable, mine
         </fieldset>
         {editable ? (
           <div className="flex items-center gap-3">
-            <button type="submit" className="btn" disabled={saving}>{saving ? "Saving…" : "Save the overview"}</button>
+            <button type="submit" className="btn" disabled={saving}>{saving ? "Saving…" : "Save the summary"}</button>
             {actionData?.ok ? <span role="status" className="text-sm text-emerald-700">Saved at {utc(actionData.savedAt)}.</span> : null}
           </div>
         ) : null}

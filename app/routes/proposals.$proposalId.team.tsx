@@ -28,8 +28,9 @@ export async function action({ request, params }: Route.ActionArgs) {
     if (intent === "invite") {
       const parsed = inviteSchema.safeParse(values);
       if (!parsed.success) return data({ ok: false as const, intent, errors: fieldErrors(parsed.error), values }, { status: 400 });
-      await inviteCoI({ user, proposalId, email: parsed.data.email });
-      return { ok: true as const, intent, message: `Invitation sent to ${parsed.data.email.toLowerCase()}.`, errors: {} as Record<string, string>, values: {} as Record<string, string> };
+      const invited = await inviteCoI({ user, proposalId, email: parsed.data.email });
+      const who = invited.name ? `${invited.name}${invited.institution ? ` (${invited.institution})` : ""} at ${parsed.data.email.toLowerCase()}` : parsed.data.email.toLowerCase();
+      return { ok: true as const, intent, message: `Invitation sent to ${who}.`, errors: {} as Record<string, string>, values: {} as Record<string, string> };
     }
     if (intent === "remove" || intent === "hand-over") {
       const parsed = memberSchema.safeParse(values);
@@ -123,7 +124,7 @@ export default function Team({ loaderData }: Route.ComponentProps) {
                 <td>{m.email}</td>
                 <td>{m.institution ?? <span className="text-slate-400">—</span>}</td>
                 <td className="font-semibold">{memberRoleLabels[m.role]}</td>
-                <td>{m.joined ? "signed in" : <span className="text-amber-800">invited, not signed in yet</span>}</td>
+                <td>{m.joined ? "signed in" : <span className="text-amber-800">{m.hasAccount ? "invited; has an account, not opened yet" : "invited, not signed in yet"}</span>}</td>
                 {workspace.editable ? <td><MemberActions member={m} isPi={workspace.isPi} /></td> : null}
               </tr>
             ))}

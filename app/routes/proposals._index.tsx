@@ -25,14 +25,16 @@ export function meta() {
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const [proposals, calls] = await Promise.all([listProposalsForUser({ user }).then(withRequestedHours), openCalls()]);
-  return { proposals, calls };
+  // after "Delete draft" in a workspace, the list says what went
+  const deleted = new URL(request.url).searchParams.get("deleted")?.slice(0, 300) ?? null;
+  return { proposals, calls, deleted };
 }
 
 type Row = Awaited<ReturnType<typeof loader>>["proposals"][number];
 const column = createColumnHelper<Row>();
 
 export default function MyProposals({ loaderData }: Route.ComponentProps) {
-  const { proposals, calls } = loaderData;
+  const { proposals, calls, deleted } = loaderData;
   const [sorting, setSorting] = useState<SortingState>([{ id: "lastChangeAt", desc: true }]);
   const [globalFilter, setGlobalFilter] = useState("");
   const [status, setStatus] = useState<"" | ProposalStatus>("");
@@ -53,12 +55,24 @@ export default function MyProposals({ loaderData }: Route.ComponentProps) {
           </span>
         ),
       }),
-      column.accessor((p) => p.requestedHours ?? -1, {
-        id: "requestedHours",
-        header: "Requested hours",
+      column.accessor((p) => p.requestedHoursThisSemester ?? -1, {
+        id: "requestedHoursThisSemester",
+        header: "Hours, call's semester",
         cell: (info) => {
-          const h = info.row.original.requestedHours;
+          const h = info.row.original.requestedHoursThisSemester;
           return h === null ? <span className="text-red-700" title="The feasibility sheet could not be computed">?</span> : <span className="tabular-nums">{h.toFixed(1)}</span>;
+        },
+      }),
+      column.accessor((p) => p.requestedHoursBySemester.filter((s) => !s.callSemester).reduce((sum, s) => sum + s.hours, 0), {
+        id: "laterSemesters",
+        header: "Later semesters",
+        cell: (info) => {
+          const later = info.row.original.requestedHoursBySemester.filter((s) => !s.callSemester);
+          return later.length ? (
+            <span className="whitespace-nowrap tabular-nums">{later.map((s) => `${s.semesterCode} ${s.hours.toFixed(1)} h`).join(" · ")}</span>
+          ) : (
+            <span className="text-slate-400">—</span>
+          );
         },
       }),
       column.accessor("lastChangeAt", { header: "Last change", cell: (info) => <span className="whitespace-nowrap">{utc(info.getValue())}</span> }),
@@ -88,6 +102,7 @@ export default function MyProposals({ loaderData }: Route.ComponentProps) {
           <p className="text-sm text-slate-600">No call is open at the moment.</p>
         )}
       </div>
+      {deleted ? <p role="status" className="rounded-md border border-emerald-300 bg-emerald-50 px-4 py-2 text-sm text-emerald-900">The draft “{deleted}” was deleted.</p> : null}
       {proposals.length === 0 ? (
         <div className="card text-slate-700">
           <p>You have no proposals yet.</p>

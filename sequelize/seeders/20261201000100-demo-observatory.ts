@@ -1,16 +1,78 @@
-// The invented Kestrel Ridge Observatory: one site (coordinates of our own choosing, not a real
-// observatory's), a 2.4 m and a 1.0 m telescope with one CCD imager each, and calls 2027A and 2027B.
+// The invented Kestrel Ridge Observatory: one site, a 2.4 m and a 1.0 m telescope with one CCD
+// imager each, and three calls placed relative to the day the demo is seeded (see demoCallPlan).
+//
+// The site. The Kestrel Ridge Consortium is invented; its office is seated in the United Kingdom
+// (an invented office in a real country), so its charges are in pounds sterling and its numbers
+// are written the British way (1,234.5; £950). Its telescopes stand on a ridge of the main crest
+// of the Sierra de Gredos in central Spain (40.26° N, 5.21° W): the crest runs at 2,000–2,590 m
+// there, so 2,350 m is plausible for a saddle of the ridge. Checked from memory against the major
+// observatory sites we know (Roque de los Muchachos and Teide in the Canaries, Calar Alto, Sierra
+// Nevada, Javalambre, Pic du Midi, Mauna Kea, Kitt Peak, Mount Graham, Apache Point, the Chilean
+// sites, Siding Spring, Sutherland, Mount Abu, Hanle, Xinglong): the nearest of them, Javalambre,
+// is more than 300 km away; no observatory stands on that crest.
 import type { Sequelize } from "sequelize";
 import { Call, CallOffer, Filter, Instrument, Telescope } from "~/models/index.server";
-import { addDays, max } from "date-fns";
+import { addDays } from "date-fns";
 
 export const site = {
   siteName: "Kestrel Ridge",
-  latitudeDeg: 38.9124,
-  longitudeDeg: -112.5407,
+  latitudeDeg: 40.2618,
+  longitudeDeg: -5.2093,
   elevationM: 2350,
-  timeZone: "America/Denver",
+  timeZone: "Europe/Madrid",
 };
+
+/** Where the consortium is seated decides the currency of its calls. */
+export const consortium = { seat: "United Kingdom", currency: "gbp", accessFeePerHourCents: 82_000, pageChargeCents: 15_000 };
+
+const DAY = 86_400_000;
+
+function semesterCodeOf(date: Date) {
+  const y = date.getUTCFullYear();
+  const m = date.getUTCMonth() + 1;
+  return m >= 2 && m < 8 ? `${y}A` : m >= 8 ? `${y}B` : `${y - 1}B`;
+}
+
+function nextSemester(code: string) {
+  const y = Number(code.slice(0, 4));
+  return code.endsWith("A") ? `${y}B` : `${y + 1}A`;
+}
+
+function semesterDates(code: string) {
+  const y = Number(code.slice(0, 4));
+  return code.endsWith("A") ? { semesterStart: `${y}-02-01`, semesterEnd: `${y}-07-31` } : { semesterStart: `${y}-08-01`, semesterEnd: `${y + 1}-01-31` };
+}
+
+const day = (d: Date) => new Date(Date.UTC(d.getUTCFullYear(), d.getUTCMonth(), d.getUTCDate(), 23, 59));
+
+/**
+ * The three calls of the demo, relative to the seeding day, so that a newcomer always finds every
+ * stage: the semester now running (its call long closed, its proposals decided), the next
+ * semester (its call past its deadline, the proposals submitted and waiting for review), and the
+ * one after (its call open, deadline 45 days ahead, always before that semester starts).
+ */
+export function demoCallPlan(now = new Date()) {
+  const running = semesterCodeOf(now);
+  const review = nextSemester(running);
+  const open = nextSemester(review);
+  const make = (semesterCode: string, opensAt: Date, deadlineAt: Date) => ({
+    semesterCode,
+    title: `Call for proposals ${semesterCode}`,
+    opensAt,
+    deadlineAt,
+    ...semesterDates(semesterCode),
+    pageLimit: 4,
+    currency: consortium.currency,
+    accessFeePerHourCents: consortium.accessFeePerHourCents,
+    pageChargeCents: consortium.pageChargeCents,
+  });
+  const runningStart = new Date(`${semesterDates(running).semesterStart}T00:00:00Z`);
+  return {
+    running: make(running, new Date(runningStart.getTime() - 150 * DAY), day(new Date(runningStart.getTime() - 75 * DAY))),
+    review: make(review, new Date(now.getTime() - 80 * DAY), day(new Date(now.getTime() - 10 * DAY))),
+    open: make(open, new Date(now.getTime() - 5 * DAY), day(addDays(now, 45))),
+  };
+}
 
 // Zero points: Bessell, Castelli & Plez 1998 (A&A 333, 231), table A2, f_λ at magnitude 0 in
 // 1e-9 erg s⁻¹ cm⁻² Å⁻¹, with effective wavelengths and FWHM bandwidths of Bessell 1990 (PASP 102,
@@ -67,33 +129,8 @@ const telescopes = [
 
 export async function up({ context: sequelize }: { context: Sequelize }) {
   await sequelize.transaction(async (transaction) => {
-    const now = new Date();
-    const calls = [
-      {
-        semesterCode: "2027A",
-        title: "Call for proposals 2027A",
-        opensAt: new Date("2026-10-15T00:00:00Z"),
-        deadlineAt: max([new Date("2027-01-15T23:59:00Z"), addDays(now, 30)]),
-        semesterStart: "2027-02-01",
-        semesterEnd: "2027-07-31",
-        pageLimit: 4,
-        currency: "eur",
-        accessFeePerHourCents: 95_000,
-        pageChargeCents: 18_000,
-      },
-      {
-        semesterCode: "2027B",
-        title: "Call for proposals 2027B",
-        opensAt: new Date("2027-04-01T00:00:00Z"),
-        deadlineAt: max([new Date("2027-06-15T23:59:00Z"), addDays(now, 60)]),
-        semesterStart: "2027-08-01",
-        semesterEnd: "2028-01-31",
-        pageLimit: 4,
-        currency: "eur",
-        accessFeePerHourCents: 95_000,
-        pageChargeCents: 18_000,
-      },
-    ];
+    const plan = demoCallPlan();
+    const calls = [plan.running, plan.review, plan.open];
     const callRows = [];
     for (const values of calls) {
       const [call] = await Call.findOrCreate({ where: { semesterCode: values.semesterCode }, defaults: values, transaction });

@@ -11,6 +11,7 @@ import { testEnv } from "../helpers/env";
 import { waitForMail } from "../helpers/maildev";
 import { signInInBrowser } from "../helpers/sign-in-browser";
 import { pdfWithPages } from "../integration/proposals-fixtures";
+import { demoCallPlan } from "../../sequelize/seeders/20261201000100-demo-observatory";
 
 describe("a PI's proposal, from sign-in to receipt", () => {
   const suite = appInBrowser();
@@ -25,7 +26,8 @@ describe("a PI's proposal, from sign-in to receipt", () => {
     await page.getByRole("heading", { name: "My proposals" }).waitFor();
     await screenshot(page, "journey-01-my-proposals");
 
-    await page.goto(`${suite.server.url}/proposals/new?call=2027A`);
+    const openCall = demoCallPlan().open.semesterCode;
+    await page.goto(`${suite.server.url}/proposals/new?call=${openCall}`);
     await page.getByRole("button", { name: "Create the draft" }).click();
     await page.getByText("Give the proposal a title of at least 5 characters.").waitFor();
     await page.getByLabel("Title").fill("Tangential motions in the Brackfell cluster field");
@@ -37,7 +39,7 @@ describe("a PI's proposal, from sign-in to receipt", () => {
     const base = page.url();
 
     await page.getByLabel("Science category").selectOption("clusters-astrometry");
-    await page.getByRole("button", { name: "Save the overview" }).click();
+    await page.getByRole("button", { name: "Save the summary" }).click();
     await page.getByText(/^Saved at/).waitFor();
     await screenshot(page, "journey-03-overview");
 
@@ -105,19 +107,21 @@ describe("a PI's proposal, from sign-in to receipt", () => {
     await page.getByText(/3 pages/).first().waitFor();
     await screenshot(page, "journey-09-science-case");
 
-    await page.getByRole("link", { name: "Submit", exact: true }).click();
+    // the readiness strip above the tabs holds the send button
+    await page.getByText("Ready to send").waitFor();
     await screenshot(page, "journey-10-checklist");
-    await page.getByRole("button", { name: "Submit the proposal" }).click();
-    await page.getByText(/Submitted as NS-2027A-\d{3}/).first().waitFor();
-    const code = (await page.getByText(/Submitted as NS-2027A-\d{3}/).first().textContent())!.match(/NS-2027A-\d{3}/)![0];
+    await page.getByRole("button", { name: "Send the proposal" }).click();
+    const sent = new RegExp(`Submitted as (\\d{3}/${openCall.slice(2)})`);
+    await page.getByText(sent).first().waitFor();
+    const code = (await page.getByText(sent).first().textContent())!.match(sent)![1];
     await screenshot(page, "journey-11-submitted");
 
-    const receipt = await waitForMail(pi, new RegExp(`receipt: ${code}`), 30_000);
+    const receipt = await waitForMail(pi, new RegExp(`receipt: ${code.replace("/", "\\/")}`), 30_000);
     const attachment = receipt.attachments![0];
     expect(attachment.contentType).toBe("application/pdf");
     const file = await fetch(`${testEnv.maildevUrl}/api/email/${receipt.id}/attachment/${encodeURIComponent(attachment.generatedFileName ?? attachment.fileName)}`);
     expect(Buffer.from(await file.arrayBuffer()).subarray(0, 5).toString()).toBe("%PDF-");
-    await waitForMail("colleague@brackwater.example", new RegExp(`receipt: ${code}`), 30_000);
+    await waitForMail("colleague@brackwater.example", new RegExp(`receipt: ${code.replace("/", "\\/")}`), 30_000);
     // the app's own pages logged no error (the mail catcher's UI is not ours)
     expect(errors).toEqual([]);
     await page.goto(`${testEnv.maildevUrl}/#/email/${receipt.id}`);
@@ -126,7 +130,7 @@ describe("a PI's proposal, from sign-in to receipt", () => {
     await page.getByText(attachment.generatedFileName ?? attachment.fileName).first().waitFor();
     await screenshot(page, "journey-12-receipt-in-maildev");
 
-    await page.goto(`${base}/history`);
+    await page.goto(`${base}/change-log`);
     await page.getByText(`Submitted the proposal as ${code}.`).waitFor();
     await screenshot(page, "journey-13-history");
     await page.close();

@@ -1,6 +1,7 @@
 import { QueryTypes } from "sequelize";
 import { afterAll, describe, expect, it } from "vitest";
-import { Call, Filter, RoleGrant, Telescope, User, sequelize } from "~/models/index.server";
+import { Op } from "sequelize";
+import { Call, Filter, Observation, Proposal, RoleGrant, Target, Telescope, User, sequelize } from "~/models/index.server";
 import { createMigrator, createSeeder } from "../../sequelize/migrator";
 
 async function tables() {
@@ -54,8 +55,7 @@ describe("migrations on MariaDB", () => {
     const first = await counts();
     expect(first.telescopes).toBe(2);
     expect(first.filters).toBe(10);
-    // 2027A (open) and 2027B (announced), and the demo's closed 2026B for the decided proposals.
-    expect((await Call.findAll()).map((c) => c.semesterCode).sort()).toEqual(expect.arrayContaining(["2027A", "2027B"]));
+    expect(first.calls).toBeGreaterThanOrEqual(3);
     // Run every seeder again, bypassing the record of what ran: each one is idempotent on its own.
     await sequelize.query("DELETE FROM seed_runs");
     await createSeeder(sequelize).up();
@@ -71,9 +71,50 @@ describe("migrations on MariaDB", () => {
     expect(await roles("admin@kestrel-ridge.example")).toEqual(["admin"]);
   });
 
-  it("keep the 2027A call open with a deadline in the future", async () => {
-    const call = await Call.findOne({ where: { semesterCode: "2027A" } });
-    expect(call!.opensAt.getTime()).toBeLessThan(Date.now());
-    expect(call!.deadlineAt.getTime()).toBeGreaterThan(Date.now());
+  it("place the demo calls around today: the running semester decided, the next one past its deadline with sent proposals, the one after open", async () => {
+    const now = new Date();
+    const today = now.toISOString().slice(0, 10);
+    const calls = await Call.findAll({ where: { title: { [Op.like]: "Call for proposals %" } }, order: [["semesterStart", "ASC"]] });
+    const running = calls.find((c) => c.semesterStart <= today && today <= c.semesterEnd)!;
+    expect(running, "a call for the semester running today").toBeDefined();
+    const after = calls.filter((c) => c.semesterStart > running.semesterEnd);
+    const [review, open] = after;
+    expect(running.deadlineAt.getTime()).toBeLessThan(now.getTime());
+    expect(review.deadlineAt.getTime()).toBeLessThan(now.getTime());
+    expect(open.opensAt.getTime()).toBeLessThan(now.getTime());
+    expect(open.deadlineAt.getTime()).toBeGreaterThan(now.getTime());
+    expect(open.deadlineAt.toISOString().slice(0, 10) < open.semesterStart).toBe(true);
+    const states = async (callId: number) => new Set((await Proposal.findAll({ where: { callId } })).map((p) => p.status));
+    const decided = await states(running.id);
+    expect([...decided].every((s) => ["accepted", "waitlisted", "declined"].includes(s))).toBe(true);
+    expect(decided.has("accepted")).toBe(true);
+    expect(await Proposal.count({ where: { callId: review.id, status: "submitted" } })).toBeGreaterThanOrEqual(5);
+    expect(await Proposal.count({ where: { callId: review.id, status: "draft" } })).toBe(0);
+    expect(await Proposal.count({ where: { callId: open.id, status: "draft" } })).toBeGreaterThanOrEqual(3);
+    // every code is serial/short semester, e.g. 014/27A
+    for (const p of await Proposal.findAll({ where: { code: { [Op.ne]: null } }, include: [{ model: Call, as: "call" }] })) {
+      expect(p.code).toBe(`${String(p.serial).padStart(3, "0")}/${p.call!.semesterCode.slice(2)}`);
+    }
+  });
+
+  it("hold one survey of 500 fields led by the demo PI, one observation each", async () => {
+    const survey = await Proposal.findOne({ where: { title: { [Op.like]: "The Wren Survey%" } } });
+    expect(survey).not.toBeNull();
+    expect(await Target.count({ where: { proposalId: survey!.id } })).toBe(500);
+    expect(await Observation.count({ where: { proposalId: survey!.id } })).toBe(500);
+    expect(survey!.abstract).toContain("500");
+  });
+
+  it("turn stored NS-<semester>-NNN codes into serial/short semester", async () => {
+    const migrator = createMigrator(sequelize);
+    const [last] = (await migrator.executed()).filter((m) => m.name.startsWith("20261202050000"));
+    expect(last).toBeDefined();
+    await migrator.down({ to: last.name });
+    const coded = (await Proposal.findOne({ where: { code: { [Op.ne]: null } }, include: [{ model: Call, as: "call" }] }))!;
+    await sequelize.query("UPDATE proposals SET code = :code WHERE id = :id", { replacements: { code: `NS-${coded.call!.semesterCode}-${String(coded.serial).padStart(3, "0")}`, id: coded.id } });
+    await migrator.up();
+    const [row] = await sequelize.query<{ code: string }>("SELECT code FROM proposals WHERE id = :id", { replacements: { id: coded.id }, type: QueryTypes.SELECT });
+    expect(row.code).toBe(`${String(coded.serial).padStart(3, "0")}/${coded.call!.semesterCode.slice(2)}`);
+    expect(row.code).toMatch(/^\d{3}\/\d{2}[AB]$/);
   });
 });

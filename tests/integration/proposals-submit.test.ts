@@ -11,6 +11,9 @@ import { testEnv } from "../helpers/env";
 import { newUser, sessionCookieFor } from "../helpers/session";
 import { readyProposal, testCall } from "./proposals-fixtures";
 
+/** 014/27A for serial 14 of 2027A: the serial first, then the short semester (written out here, not by the code under test). */
+const code = (semesterCode: string, serial: number) => `${String(serial).padStart(3, "0")}/${semesterCode.slice(2)}`;
+
 type Person = Awaited<ReturnType<typeof newUser>>;
 let pi: Person;
 
@@ -37,7 +40,7 @@ describe("the checklist", () => {
   it("shows what is missing on an empty draft and refuses to submit it, saying why", async () => {
     const call = await testCall();
     const p = await createProposal({ user: pi.user, callId: call.id, title: "Empty draft for the checklist", abstract: "" });
-    const page = await (await request()).get(`/proposals/${p.id}/submit`).set("Cookie", pi.cookie);
+    const page = await (await request()).get(`/proposals/${p.id}`).set("Cookie", pi.cookie);
     expect(page.status).toBe(200);
     expect(page.text).toContain("Missing: an abstract, a science category.");
     expect(page.text).toContain("No target yet.");
@@ -53,7 +56,7 @@ describe("the checklist", () => {
     const call = await testCall();
     const { proposal } = await readyProposal({ user: pi.user, callId: call.id });
     await Target.create({ proposalId: proposal.id, name: "Forgotten Field", raDeg: 200, decDeg: 20, pmRaMasPerYr: null, pmDecMasPerYr: null, magnitude: 15, band: "V", notes: null });
-    const page = await (await request()).get(`/proposals/${proposal.id}/submit`).set("Cookie", pi.cookie);
+    const page = await (await request()).get(`/proposals/${proposal.id}`).set("Cookie", pi.cookie);
     expect(page.text).toContain("No observation yet for Forgotten Field.");
     expect((await post(`/proposals/${proposal.id}/submit`, pi.cookie, { intent: "submit" })).status).toBe(409);
   });
@@ -75,17 +78,18 @@ describe("submission", () => {
     expect((await Proposal.findByPk(proposalId))!.status).toBe("draft");
   });
 
-  it("the PI submits: code NS-<semester>-001, state, time, audit, and a receipt with the PDF to PI and Co-I", async () => {
-    const page = await (await request()).get(`/proposals/${proposalId}/submit`).set("Cookie", pi.cookie);
-    expect(page.text).not.toContain("The items marked ! must be done first.");
+  it("the PI submits: code 001/<short semester>, state, time, audit, and a receipt with the PDF to PI and Co-I", async () => {
+    const page = await (await request()).get(`/proposals/${proposalId}`).set("Cookie", pi.cookie);
+    expect(page.text).toContain("Ready to send");
+    expect(page.text).not.toContain("still missing before it can be sent");
     const res = await post(`/proposals/${proposalId}/submit`, pi.cookie, { intent: "submit" });
     expect(res.status).toBe(200);
     const p = (await Proposal.findByPk(proposalId))!;
-    expect(p.code).toBe(`NS-${call.semesterCode}-001`);
+    expect(p.code).toBe(code(call.semesterCode, 1));
     expect(p.serial).toBe(1);
     expect(p.status).toBe("submitted");
     expect(p.submittedAt).toBeInstanceOf(Date);
-    expect(res.text).toContain(`Submitted as NS-${call.semesterCode}-001`);
+    expect(res.text).toContain(`Submitted as ${code(call.semesterCode, 1)}`);
     expect(await AuditEntry.findOne({ where: { proposalId, action: "proposal.submitted" } })).toMatchObject({ details: { code: p.code, keptCode: false } });
     for (const to of [pi.email, coi.email]) {
       // Exactly one receipt row each, queued by the submission; the worker builds the PDF when it sends.
@@ -93,7 +97,7 @@ describe("submission", () => {
       expect(rows).toHaveLength(1);
       expect(rows[0]).toMatchObject({ kind: "proposal-receipt", payload: { proposalId, code: p.code }, attachments: null });
     }
-    const caught = await waitForMail(coi.email, new RegExp(`receipt: ${p.code}`));
+    const caught = await waitForMail(coi.email, new RegExp(`receipt: ${p.code!.replace("/", "\\/")}`));
     expect(caught.text).toContain("The attached PDF is the proposal");
     expect(caught.attachments).toHaveLength(1);
     expect(caught.attachments?.[0]).toMatchObject({ contentType: "application/pdf" });
@@ -128,7 +132,7 @@ describe("submission", () => {
     });
     expect(res.status).toBe(200);
     expect(res.headers["content-type"]).toBe("application/pdf");
-    expect(res.headers["content-disposition"]).toContain(`NS-${call.semesterCode}-001.pdf`);
+    expect(res.headers["content-disposition"]).toContain(`${code(call.semesterCode, 1).replace("/", "-")}.pdf`);
     expect((res.body as Buffer).subarray(0, 5).toString()).toBe("%PDF-");
     const stranger = await newUser();
     expect((await (await request()).get(`/proposals/${proposalId}/pdf`).set("Cookie", stranger.cookie)).status).toBe(404);
@@ -143,17 +147,17 @@ describe("submission", () => {
     expect((await post(`/proposals/${proposalId}/submit`, coi.cookie, { intent: "reopen" })).status).toBe(403);
     const reopen = await post(`/proposals/${proposalId}/submit`, pi.cookie, { intent: "reopen" });
     expect(reopen.status).toBe(200);
-    expect((await Proposal.findByPk(proposalId))!).toMatchObject({ status: "draft", code: `NS-${call.semesterCode}-001` });
+    expect((await Proposal.findByPk(proposalId))!).toMatchObject({ status: "draft", code: code(call.semesterCode, 1) });
     // a second proposal of the same call takes the next serial meanwhile
     const other = (await readyProposal({ user: pi.user, callId: call.id, title: "Second programme of the call" })).proposal.id;
     expect((await post(`/proposals/${other}/submit`, pi.cookie, { intent: "submit" })).status).toBe(200);
-    expect((await Proposal.findByPk(other))!.code).toBe(`NS-${call.semesterCode}-002`);
+    expect((await Proposal.findByPk(other))!.code).toBe(code(call.semesterCode, 2));
     const again = await post(`/proposals/${proposalId}/submit`, pi.cookie, { intent: "submit" });
     expect(again.status).toBe(200);
-    expect((await Proposal.findByPk(proposalId))!).toMatchObject({ status: "submitted", code: `NS-${call.semesterCode}-001`, serial: 1 });
+    expect((await Proposal.findByPk(proposalId))!).toMatchObject({ status: "submitted", code: code(call.semesterCode, 1), serial: 1 });
     expect(await AuditEntry.findOne({ where: { proposalId, action: "proposal.submitted" }, order: [["id", "DESC"]] })).toMatchObject({ details: { keptCode: true } });
-    const history = await (await request()).get(`/proposals/${proposalId}/history`).set("Cookie", coi.cookie);
-    expect(history.text).toContain("Withdrew the proposal.");
+    const history = await (await request()).get(`/proposals/${proposalId}/change-log`).set("Cookie", coi.cookie);
+    expect(history.text).toContain(`Withdrew the proposal; the team was told by e-mail (${pi.email}, ${coi.email})`);
     expect(history.text).toContain("Reopened the proposal as a draft.");
     expect(history.text).toContain("(it kept its code)");
   });
@@ -167,7 +171,7 @@ describe("two submissions racing for a code", () => {
     const results = await Promise.all([post(`/proposals/${a}/submit`, pi.cookie, { intent: "submit" }), post(`/proposals/${b}/submit`, pi.cookie, { intent: "submit" })]);
     expect(results.map((r) => r.status)).toEqual([200, 200]);
     const codes = (await Proposal.findAll({ where: { id: [a, b] } })).map((p) => p.code).sort();
-    expect(codes).toEqual([`NS-${call.semesterCode}-001`, `NS-${call.semesterCode}-002`]);
+    expect(codes).toEqual([code(call.semesterCode, 1), code(call.semesterCode, 2)]);
   });
 });
 
@@ -181,7 +185,7 @@ describe("the deadline", () => {
     expect((await post(`/proposals/${withdrawn}/submit`, pi.cookie, { intent: "withdraw" })).status).toBe(200);
     await call.update({ deadlineAt: new Date(Date.now() - 60_000) });
 
-    const page = await (await request()).get(`/proposals/${draft}/submit`).set("Cookie", pi.cookie);
+    const page = await (await request()).get(`/proposals/${draft}`).set("Cookie", pi.cookie);
     expect(page.text).toContain("The deadline passed on");
     const s = await post(`/proposals/${draft}/submit`, pi.cookie, { intent: "submit" });
     expect(s.status).toBe(409);

@@ -44,7 +44,15 @@ describe("access: a user who is not on the team finds nothing", () => {
     observationId = (await Observation.findOne({ where: { proposalId } }))!.id;
   });
 
-  const pages = ["", "/team", "/targets", "/observations", "/feasibility", "/science-case", "/history", "/submit", "/pdf"];
+  const pages = ["", "/team", "/targets", "/observations", "/feasibility", "/science-case", "/change-log", "/pdf"];
+  it("GET /proposals/:id/submit (the strip's action address) leads the PI to the summary, and is a 404 for a stranger", async () => {
+    const path = `/proposals/${proposalId}/submit`;
+    const mine = await (await request()).get(path).set("Cookie", pi.cookie);
+    expect(mine.status).toBe(302);
+    expect(mine.headers.location).toBe(`/proposals/${proposalId}`);
+    expect((await (await request()).get(path).set("Cookie", stranger.cookie)).status).toBe(404);
+  });
+
   for (const page of pages) {
     it(`GET /proposals/:id${page}: 200 for the PI, 404 for a stranger, sign-in for the anonymous`, async () => {
       const path = `/proposals/${proposalId}${page}`;
@@ -214,7 +222,7 @@ describe("overview with optimistic locking", () => {
     expect(first.status).toBe(200);
     const second = await (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ version: String(version), ...values({ title: "Title typed in the stale form" }) }));
     expect(second.status).toBe(409);
-    expect(second.text).toContain("Someone saved the overview while you were editing");
+    expect(second.text).toContain("Someone saved the summary while you were editing");
     expect(second.text).toContain("Title typed in the stale form");
     expect(second.text).toContain("Title saved first");
     expect((await Proposal.findByPk(id))!.title).toBe("Title saved first");
@@ -497,7 +505,7 @@ describe("a proposal with 50 targets", () => {
     const targets = await Target.findAll({ where: { proposalId: id } });
     expect(targets).toHaveLength(50);
     await Observation.bulkCreate(targets.map((t) => ({ proposalId: id, targetId: t.id, instrumentId: option.instrumentId, filterId: option.filters.find((f) => f.band === "V")!.id, snrGoal: 50, exposureSeconds: null, baselineYears: null, requiredPmPrecisionMasPerYr: null, framesPerEpoch: 3, epochsPerSemester: 1 })));
-    for (const path of [`/proposals/${id}/targets`, `/proposals/${id}/observations`, `/proposals/${id}/submit`, `/proposals/${id}/feasibility`, `/api/v1/proposals/${id}`, "/proposals"]) {
+    for (const path of [`/proposals/${id}/targets`, `/proposals/${id}/observations`, `/proposals/${id}`, `/proposals/${id}/feasibility`, `/api/v1/proposals/${id}`, "/proposals"]) {
       const res = await (await request()).get(path).set("Cookie", pi.cookie);
       expect(res.status, path).toBe(200);
     }

@@ -2,7 +2,7 @@ import { utc } from "~/components/workspace";
 import { requireUser } from "~/lib/auth.server";
 import { proposalIdParam } from "~/lib/proposal-routes.server";
 import { proposalHistory, type HistoryEntry } from "~/lib/proposals.server";
-import type { Route } from "./+types/proposals.$proposalId.history";
+import type { Route } from "./+types/proposals.$proposalId.change-log";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
@@ -56,7 +56,7 @@ function describeEntry(e: HistoryEntry): string {
     case "proposal.receipt_queued":
       return `Receipt queued to ${((d.to as string[]) ?? []).join(", ")}${d.pdfError ? ` without the PDF (${s("pdfError")})` : " with the proposal PDF"}.`;
     case "proposal.withdrawn":
-      return "Withdrew the proposal.";
+      return `Withdrew the proposal${Array.isArray(d.told) && d.told.length ? `; the team was told by e-mail (${(d.told as string[]).join(", ")})` : ""}.`;
     case "proposal.reopened":
       return "Reopened the proposal as a draft.";
     default:
@@ -65,7 +65,7 @@ function describeEntry(e: HistoryEntry): string {
   }
 }
 
-export default function History({ loaderData }: Route.ComponentProps) {
+export default function ChangeLog({ loaderData }: Route.ComponentProps) {
   const { entries } = loaderData;
   return (
     <div className="space-y-3">
