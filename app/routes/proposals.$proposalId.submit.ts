@@ -17,6 +17,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
+  await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
   const intent = String((await readForm(request)).get("intent") ?? "");
   const ok = (message: string) => ({ ok: true as const, intent, message, errors: {} as Record<string, string> });
   try {

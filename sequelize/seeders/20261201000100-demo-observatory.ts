@@ -3,13 +3,10 @@
 //
 // The site. The Kestrel Ridge Consortium is invented; its office is seated in the United Kingdom
 // (an invented office in a real country), so its charges are in pounds sterling and its numbers
-// are written the British way (1,234.5; £950). Its telescopes stand on a ridge of the main crest
-// of the Sierra de Gredos in central Spain (40.26° N, 5.21° W): the crest runs at 2,000–2,590 m
-// there, so 2,350 m is plausible for a saddle of the ridge. Checked from memory against the major
-// observatory sites we know (Roque de los Muchachos and Teide in the Canaries, Calar Alto, Sierra
-// Nevada, Javalambre, Pic du Midi, Mauna Kea, Kitt Peak, Mount Graham, Apache Point, the Chilean
-// sites, Siding Spring, Sutherland, Mount Abu, Hanle, Xinglong): the nearest of them, Javalambre,
-// is more than 300 km away; no observatory stands on that crest.
+// are written the British way (1,234.5; £950). Its telescopes stand at coordinates of our own
+// choosing on a mountain crest of the Iberian interior (40.26° N, 5.21° W) that runs at about
+// 2,000–2,600 m there, so 2,350 m is plausible for a saddle of the ridge. Checked from memory
+// against the major observatory sites: none stands on that crest, the nearest is over 300 km away.
 import type { Sequelize } from "sequelize";
 import { Call, CallOffer, Filter, Instrument, Telescope } from "~/models/index.server";
 import { addDays } from "date-fns";
