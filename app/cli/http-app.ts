@@ -219,9 +219,9 @@ async function sendResponse(req: ExpressRequest, res: ExpressResponse, response:
   res.statusMessage = response.statusText;
   res.status(response.status);
   for (const [key, value] of response.headers.entries()) {
-    // A route's own policy (e.g. a sandbox for uploaded files) replaces the default one.
-    if (key === "content-security-policy") res.removeHeader(key);
-    res.append(key, value);
+    // A route's own security headers (e.g. a sandbox for uploaded files) replace the defaults.
+    if (key === "set-cookie") res.append(key, value);
+    else res.setHeader(key, value);
   }
   // Nothing said to a signed-in browser may sit in a shared or back-button cache.
   if (req.headers.cookie || response.headers.has("set-cookie")) res.setHeader("Cache-Control", "private, no-store");

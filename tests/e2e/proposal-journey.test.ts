@@ -85,7 +85,7 @@ describe("a PI's proposal, from sign-in to receipt", () => {
 
     await page.getByRole("link", { name: "Feasibility sheet", exact: true }).click();
     await page.waitForURL(/\/feasibility$/);
-    await page.getByRole("heading", { name: "Feasibility sheet for 2027A" }).waitFor();
+    await page.getByRole("heading", { name: `Feasibility sheet for ${openCall}` }).waitFor();
     await page.getByRole("heading", { name: "Requested time" }).waitFor();
     // one row per observation, showing back the coordinates typed into the CSV and a time > 0
     const sheetTable = page

@@ -1,5 +1,6 @@
 // An astronomer's view of the science: magnitudes per band on the targets tab, and the
 // feasibility sheet's moon-time rule, epochs per semester and epoch windows on a demo proposal.
+import { demoCallPlan } from "../../sequelize/seeders/20261201000100-demo-observatory";
 import { describe, expect, it } from "vitest";
 import { Proposal, Target } from "~/models/index.server";
 import { magnitudesOf } from "~/models/Target";
@@ -15,7 +16,7 @@ describe("science on screen", () => {
     const errors = watchConsole(page);
     await signInInBrowser(page, suite.server.url, "pi@kestrel-ridge.example");
 
-    await page.goto(`${suite.server.url}/proposals/new?call=2027A`);
+    await page.goto(`${suite.server.url}/proposals/new?call=${demoCallPlan().open.semesterCode}`);
     await page.getByLabel("Title").fill("Two bands for one field star");
     await page.getByLabel("Abstract").fill("A draft to check that a target keeps its magnitudes in two bands.");
     await page.getByRole("button", { name: "Create the draft" }).click();

@@ -425,12 +425,12 @@ describe("calls", () => {
     callId = row!.id;
     const year = Number(code.slice(0, 4));
     // The zone the form claims is ignored: the wall clock is the observatory's (the demo's
-    // America/Denver). tz database fact: Denver keeps MDT = UTC−6 from the second Sunday of
-    // March to the first Sunday of November (the US rule since 2007), so September and
-    // mid-October times are 6 hours behind UTC.
-    expect(zone).toBe("America/Denver");
-    expect(row!.opensAt.toISOString()).toBe(`${year - 1}-09-01T15:00:00.000Z`);
-    expect(row!.deadlineAt.toISOString()).toBe(`${year - 1}-10-15T23:00:00.000Z`);
+    // Europe/Madrid). tz database fact: Madrid keeps CEST = UTC+2 from the last Sunday of March
+    // to the last Sunday of October (the EU rule since 1996), so 1 September and mid-October
+    // (before the 25th, the earliest possible last Sunday) are 2 hours ahead of UTC.
+    expect(zone).toBe("Europe/Madrid");
+    expect(row!.opensAt.toISOString()).toBe(`${year - 1}-09-01T07:00:00.000Z`);
+    expect(row!.deadlineAt.toISOString()).toBe(`${year - 1}-10-15T15:00:00.000Z`);
     expect(row!.accessFeePerHourCents).toBe(95_000);
     expect(row!.pageChargeCents).toBe(18_050);
     const offers = (row!.offers ?? []).map((o) => [o.telescopeId, o.moonCategory, o.hoursOffered]).sort();
@@ -511,7 +511,7 @@ describe("calls", () => {
     expect(res.status).toBe(302);
     const row = await Call.findByPk(callId, { include: [{ model: CallOffer, as: "offers" }] });
     expect(row!.pageLimit).toBe(6);
-    expect(row!.deadlineAt.toISOString()).toBe(`${year - 1}-10-20T18:00:00.000Z`); // 12:00 MDT (UTC−6, as above)
+    expect(row!.deadlineAt.toISOString()).toBe(`${year - 1}-10-20T10:00:00.000Z`); // 12:00 CEST (UTC+2, as above)
     expect(row!.offers!.find((o) => o.telescopeId === t.id && o.moonCategory === "bright")?.hoursOffered).toBe(120);
     const audit = await lastAudit("call.updated", callId);
     const details = audit?.details as { changes: Record<string, [unknown, unknown]>; offers: [Record<string, number>, Record<string, number>] };
@@ -534,7 +534,7 @@ describe("calls", () => {
     expect(res.text).toContain(html(`The deadline must come before the semester starts (${year}-02-01).`));
     expect(res.text).toContain('id="call-update-deadlineAt-error"');
     expectKept(res.text, "deadlineAt", `${year}-03-01T12:00`);
-    expect((await Call.findByPk(callId))!.deadlineAt.toISOString()).toBe(`${year - 1}-10-20T18:00:00.000Z`);
+    expect((await Call.findByPk(callId))!.deadlineAt.toISOString()).toBe(`${year - 1}-10-20T10:00:00.000Z`);
   });
 
   it("an edit may not take another call's semester code", async () => {

@@ -101,7 +101,7 @@ describe("submission", () => {
     expect(caught.text).toContain("The attached PDF is the proposal");
     expect(caught.attachments).toHaveLength(1);
     expect(caught.attachments?.[0]).toMatchObject({ contentType: "application/pdf" });
-    expect((caught.attachments![0] as unknown as { filename: string }).filename).toBe(`${p.code}.pdf`); // maildev's field name
+    expect((caught.attachments![0] as unknown as { filename: string }).filename).toBe(`${p.code!.replace("/", "-")}.pdf`); // maildev's field name
     const att = caught.attachments![0];
     const file = await fetch(`${testEnv.maildevUrl}/api/email/${caught.id}/attachment/${encodeURIComponent(att.generatedFileName ?? att.fileName)}`);
     expect(file.status).toBe(200);

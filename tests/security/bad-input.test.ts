@@ -1,6 +1,7 @@
 // The bad-input corpus (issue 7, items 8 and 9): hostile values in every field of every API route
 // and form action, wrong content types, malformed and oversized bodies. Each answer is a 4xx,
 // never a 5xx; JSON 400s name the fields; the server is alive afterwards.
+import { demoCallPlan } from "../../sequelize/seeders/20261201000100-demo-observatory";
 import { createServer, type Server } from "node:http";
 import type { AddressInfo } from "node:net";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -272,7 +273,7 @@ beforeAll(async () => {
   // a draft of a fresh PI, with a target and a call open now, so that nothing seeded is touched
   const pi = await newUser({ name: "Bad Input PI" });
   owner = pi.cookie;
-  const call = await Call.findOne({ where: { semesterCode: "2027A" } });
+  const call = await Call.findOne({ where: { semesterCode: demoCallPlan().open.semesterCode } });
   const proposal = await createProposal({ user: { id: pi.user.id, email: pi.email, roles: [] } as never, callId: call!.id, title: "A proposal for hostile input", abstract: "" });
   ids.proposal = proposal.id;
   const target = await Target.create({ proposalId: proposal.id, name: goodTarget.name, raDeg: 196.33, decDeg: 22.17, pmRaMasPerYr: null, pmDecMasPerYr: null, magnitude: 15.5, band: "V", notes: null } as never);
@@ -363,7 +364,7 @@ describe("ids in URLs", () => {
       [`/proposals/${id}/observations`, pi],
       [`/proposals/${id}/feasibility`, pi],
       [`/proposals/${id}/science-case`, pi],
-      [`/proposals/${id}/history`, pi],
+      [`/proposals/${id}/change-log`, pi],
       [`/proposals/${id}/submit`, pi],
       [`/proposals/${id}/pdf`, pi],
       [`/proposals/${id}/files/${id}`, pi],

@@ -1,5 +1,6 @@
 // Shared by the security suite: every URL pattern of app/routes.ts, the demo people, and the
 // seeded ids the parameterised patterns are tried with.
+import { demoCallPlan } from "../../sequelize/seeders/20261201000100-demo-observatory";
 import routes from "~/routes";
 import { Call, Instrument, Proposal, ProposalMember, StoredFile, Telescope, User } from "~/models/index.server";
 import { ensureDatabase } from "../helpers/db";
@@ -79,7 +80,7 @@ export type SeededIds = Awaited<ReturnType<typeof seededIds>>;
 export async function seededIds() {
   await ensureDatabase();
   const a = await proposalByTitle("Internal kinematics of the Brannock Field 2 association");
-  const b = await proposalByTitle("Surface photometry of spring dwarf galaxies");
+  const b = await proposalByTitle("Surface photometry of two dwarf galaxies");
   const members = async (id: number) => ProposalMember.findAll({ where: { proposalId: id } });
   for (const [p, pi, coi] of [[a, demo.pi, demo.coi], [b, demo.stranger, demo.coi]] as const) {
     const emails = (await members(p.id)).map((m) => m.email.toLowerCase());
@@ -90,7 +91,7 @@ export async function seededIds() {
   }
   const telescope = await Telescope.findOne({ order: [["id", "ASC"]] });
   const instrument = await Instrument.findOne({ order: [["id", "ASC"]] });
-  const call = await Call.findOne({ where: { semesterCode: "2027A" } });
+  const call = await Call.findOne({ where: { semesterCode: demoCallPlan().open.semesterCode } });
   return {
     proposalA: a.id,
     proposalB: b.id,

@@ -50,7 +50,7 @@ const expectations: Record<string, Rule> = {
   "/proposals/:proposalId/observations": { get: "member", post: "member" },
   "/proposals/:proposalId/feasibility": { get: "member", post: "none" },
   "/proposals/:proposalId/science-case": { get: "member", post: "member" },
-  "/proposals/:proposalId/history": { get: "member", post: "none" },
+  "/proposals/:proposalId/change-log": { get: "member", post: "none" },
   "/proposals/:proposalId/submit": { get: "member", post: "member" },
   "/calls": { get: "anyone", post: "none" },
   "/admin?index": { get: "admin", post: "none" },
