@@ -6,12 +6,14 @@ import { ServerRouter, type EntryContext, type HandleErrorFunction, isRouteError
 import { env } from "./lib/env.server";
 import { databaseFailed, NONCE_HEADER } from "./lib/http/request-state";
 import { isDatabaseUnavailable, RETRY_AFTER_SECONDS } from "./lib/http/service-errors";
+import { startHousekeeping } from "./lib/housekeeping.server";
 import { startMailWorker } from "./lib/mail-queue.server";
 
 export const streamTimeout = 5_000;
 
 // The outgoing-mail worker lives in the server process (SKIP LOCKED keeps several processes apart).
 if (env.MAIL_WORKER === "on") startMailWorker();
+if (env.NODE_ENV !== "test") startHousekeeping();
 
 /**
  * Logs like React Router's default, and marks a request whose loader or action hit an

@@ -28,8 +28,11 @@ export const WEBHOOK_TOLERANCE_SECONDS = 300;
 
 // What recordPaymentEvent needs of an event; the column sizes are those of payment_events.
 const eventShape = z.object({
-  id: z.string().min(1).max(100),
-  type: z.string().min(1).max(100),
+  id: z.string().regex(/^evt_[A-Za-z0-9_]{1,96}$/, "an event id is evt_ followed by letters, digits or _ (at most 100 characters)"),
+  object: z.literal("event", "must be \"event\""),
+  type: z.string().regex(/^[a-z_]+(\.[a-z_]+)+$/, "an event type is dotted lower-case words, like checkout.session.completed").max(100),
+  created: z.number().int().positive().max(1e11, "must be a Unix time in seconds"),
+  livemode: z.boolean().optional(),
   data: z.object({ object: z.object({ id: z.string().max(100).optional() }).loose() }).loose(),
 }).loose();
 

@@ -5,6 +5,10 @@ import type { Route } from "./+types/api.v1.payments.webhook";
 // Signed by the payment service, not by a user session: the signature is the guard.
 export async function action({ request }: Route.ActionArgs) {
   if (request.method !== "POST") return data({ error: "Use POST." }, { status: 405 });
+  // The payment service always sends JSON; anything else is refused before the body is read.
+  if (!/^application\/json\s*(;|$)/i.test(request.headers.get("Content-Type") ?? "")) {
+    return data({ error: "The webhook takes application/json.", issues: [{ path: "content-type", message: "must be application/json" }] }, { status: 400 });
+  }
   const payload = await request.text();
   try {
     const event = verifyWebhook(payload, request.headers.get("stripe-signature"));

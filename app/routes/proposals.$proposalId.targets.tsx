@@ -34,7 +34,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   try {
     if (intent === "import") {
       let csv = values.csv ?? "";
-      if (csv.trim() === "" && file instanceof File && file.size > 0) {
+      if (typeof csv === "string" && csv.trim() === "" && file instanceof File && file.size > 0) {
         if (file.size > MAX_UPLOAD_BYTES) return data({ ok: false as const, intent, errors: { csv: "That file is larger than 2 MB; split it." } as Record<string, string>, values }, { status: 400 });
         csv = await file.text();
       }

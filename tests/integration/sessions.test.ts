@@ -1,5 +1,6 @@
 import supertest from "supertest";
 import { beforeAll, describe, expect, it } from "vitest";
+import { sweep } from "~/lib/housekeeping.server";
 import { sha256 } from "~/lib/session.server";
 import { AuditEntry, User, UserSession } from "~/models/index.server";
 import { form, testApp } from "../helpers/app";
@@ -117,6 +118,18 @@ describe("server-side sessions", () => {
     const old = await newUser();
     await UserSession.update({ expiresAt: new Date(Date.now() - 1000) }, { where: { id: (await rowOf(old.cookie))!.id } });
     expect(await status(old.cookie)).toBe(401);
+  });
+
+  it("the housekeeping sweep removes sessions nobody will present again, and keeps live ones", async () => {
+    const abandoned = await newUser();
+    const live = await newUser();
+    const abandonedId = (await rowOf(abandoned.cookie))!.id;
+    await UserSession.update({ lastSeenAt: new Date(Date.now() - 13 * 3600_000) }, { where: { id: abandonedId } });
+    const swept = await sweep();
+    expect(swept.sessions).toBeGreaterThanOrEqual(1);
+    expect(await UserSession.findByPk(abandonedId)).toBeNull();
+    expect(await rowOf(live.cookie)).not.toBeNull();
+    expect(await status(live.cookie)).toBe(200);
   });
 
   it("notes activity at most once a minute, not on every request", async () => {

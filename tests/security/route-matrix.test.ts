@@ -51,7 +51,7 @@ const expectations: Record<string, Rule> = {
   "/proposals/:proposalId/feasibility": { get: "member", post: "none" },
   "/proposals/:proposalId/science-case": { get: "member", post: "member" },
   "/proposals/:proposalId/change-log": { get: "member", post: "none" },
-  "/proposals/:proposalId/submit": { get: "member", post: "member" },
+  "/proposals/:proposalId/submit": { get: "member", post: "member", getOk: 302 }, // a GET goes to the summary
   "/calls": { get: "anyone", post: "none" },
   "/admin?index": { get: "admin", post: "none" },
   "/admin/users": { get: "admin", post: "admin" },
