@@ -16,6 +16,7 @@ import { latestScienceCaseBytes } from "~/lib/science-case.server";
 import { Call, Proposal, ProposalMember, User } from "~/models/index.server";
 import { proposalStatusLabels } from "~/lib/domain";
 import { woffToSfnt } from "~/lib/woff";
+import { breaksBefore, headingHeight, linesLeadHeight, tableLeadHeight } from "~/lib/pdf-layout";
 
 const A4: [number, number] = [595.28, 841.89];
 const MARGIN = 50;
@@ -143,7 +144,7 @@ function splitRuns(text: string, fam: Family): Run[] {
   return out;
 }
 
-class Writer {
+export class Writer {
   page!: PDFPage;
   y = 0;
   pages: PDFPage[] = [];
@@ -176,8 +177,14 @@ class Writer {
     this.y = A4[1] - MARGIN - 14;
   }
 
+  readonly foot = MARGIN + 10;
   ensure(height: number) {
-    if (this.y - height < MARGIN + 10) this.newPage();
+    if (breaksBefore(this.y, height, this.foot)) this.newPage();
+  }
+
+  /** What a table of `bodyRows` rows at `size` needs on its first page (its header and first rows). */
+  tableLead(bodyRows: number, size = 8.5) {
+    return tableLeadHeight(size * 1.55, bodyRows);
   }
 
   wrap(text: string, size: number, maxWidth: number, bold = false): string[] {
@@ -206,8 +213,9 @@ class Writer {
     this.y -= opts.gap ?? 4;
   }
 
-  heading(text: string, size = 13) {
-    this.ensure(size * 3);
+  /** A heading, kept with what follows: `keepNext` points of it (default two 10-pt lines) must fit below. */
+  heading(text: string, size = 13, keepNext = linesLeadHeight(10 * 1.35)) {
+    this.ensure(headingHeight(size) + keepNext);
     this.y -= 6;
     this.text(text, MARGIN, this.y, size, { bold: true });
     this.y -= size * 0.6;
@@ -236,10 +244,10 @@ class Writer {
       drawRow(columns.map((c) => c.label), true);
       this.page.drawLine({ start: { x: MARGIN, y: this.y + rowHeight - 3 }, end: { x: A4[0] - MARGIN, y: this.y + rowHeight - 3 }, thickness: 0.5, color: RULE });
     };
-    this.ensure(rowHeight * 3);
+    this.ensure(tableLeadHeight(rowHeight, rows.length));
     header();
     for (const row of rows) {
-      if (this.y - rowHeight < MARGIN + 10) {
+      if (breaksBefore(this.y, rowHeight, this.foot)) {
         this.newPage();
         header();
       }
@@ -271,7 +279,7 @@ function technicalPages(w: Writer, sheet: FeasibilitySheet) {
     w.paragraph(`${p.severity === "blocking" ? "BLOCKING" : "warning"} · ${p.message}`, 9, { color: p.severity === "blocking" ? RED : AMBER, gap: 1 });
   }
 
-  w.heading("Targets", 11);
+  w.heading("Targets", 11, w.tableLead(sheet.targets.length));
   w.table(
     [
       { label: "Target", width: 0.3 },
@@ -284,7 +292,7 @@ function technicalPages(w: Writer, sheet: FeasibilitySheet) {
     sheet.targets.map((t) => [t.name, formatRa(t.raDeg, 2), formatDec(t.decDeg, 1), f(t.pmRaMasPerYr, 2), f(t.pmDecMasPerYr, 2), Object.entries(t.magnitudes ?? {}).map(([b, m]) => `${b} ${m}`).join(", ") || "—"]),
   );
 
-  w.heading("Visibility (observable hours above the airmass limit, in astronomical darkness)", 11);
+  w.heading("Visibility (observable hours above the airmass limit, in astronomical darkness)", 11, w.tableLead(sheet.observations.length));
   w.table(
     [
       { label: "Target", width: 0.2 },
@@ -313,7 +321,7 @@ function technicalPages(w: Writer, sheet: FeasibilitySheet) {
   // The numbers behind the hours-per-night chart, summed by month.
   const months = [...new Set(Object.values(sheet.sites).flatMap((s) => s.nights.map((n) => n.date.slice(0, 7))))].sort();
   if (sheet.observations.length && months.length) {
-    w.heading("Hours per night, summed by month (the chart's numbers)", 11);
+    w.heading("Hours per night, summed by month (the chart's numbers)", 11, w.tableLead(sheet.observations.length));
     const share = 0.75 / months.length;
     w.table(
       [{ label: "Target · band", width: 0.25 }, ...months.map((m) => ({ label: m, width: share, right: true }))],
@@ -326,7 +334,7 @@ function technicalPages(w: Writer, sheet: FeasibilitySheet) {
     );
   }
 
-  w.heading("Exposure and signal-to-noise per frame, with the noise breakdown (variances in e⁻²)", 11);
+  w.heading("Exposure and signal-to-noise per frame, with the noise breakdown (variances in e⁻²)", 11, w.tableLead(sheet.observations.length));
   w.table(
     [
       { label: "Target · band", width: 0.19 },
@@ -360,7 +368,7 @@ function technicalPages(w: Writer, sheet: FeasibilitySheet) {
     }),
   );
 
-  w.heading("Time per epoch and time requested", 11);
+  w.heading("Time per epoch and time requested", 11, w.tableLead(sheet.observations.length));
   w.table(
     [
       { label: "Target · band", width: 0.24 },
@@ -384,7 +392,7 @@ function technicalPages(w: Writer, sheet: FeasibilitySheet) {
     ]),
   );
 
-  w.heading("Requested hours per telescope, moon category and semester", 11);
+  w.heading("Requested hours per telescope, moon category and semester", 11, w.tableLead(sheet.totals.length + 1));
   w.table(
     [
       { label: "Semester", width: 0.15 },
@@ -401,7 +409,7 @@ function technicalPages(w: Writer, sheet: FeasibilitySheet) {
 
   const astrometric = sheet.observations.filter((o) => o.astrometry);
   if (astrometric.length) {
-    w.heading("Astrometric epochs and the precision they reach", 11);
+    w.heading("Astrometric epochs and the precision they reach", 11, w.tableLead(astrometric.length));
     w.table(
       [
         { label: "Target · band", width: 0.22 },
@@ -429,6 +437,8 @@ function technicalPages(w: Writer, sheet: FeasibilitySheet) {
     );
     for (const o of astrometric) {
       const a = o.astrometry!;
+      // the bold caption stays with its table's header and first rows
+      w.ensure(9.5 * 1.35 * 2 + 2 + w.tableLead(a.epochs.length));
       w.paragraph(`${o.targetName} · ${o.band}: epochs and their parallax factors (the parallax-factor chart's points)`, 9.5, { bold: true, gap: 2 });
       w.table(
         [
@@ -445,6 +455,14 @@ function technicalPages(w: Writer, sheet: FeasibilitySheet) {
   }
 }
 
+/** A writer on `doc` in the shipped fonts (exported for the layout tests). */
+export async function newWriter(doc: PDFDocument) {
+  doc.registerFontkit(fontkit);
+  const regular = await family(doc, ["regular", "regularExt", "regularGreek"]);
+  const bold = await family(doc, ["bold", "boldExt", "boldGreek"]);
+  return new Writer(doc, regular, bold);
+}
+
 export async function buildProposalPdf({ proposalId }: { proposalId: number }): Promise<Uint8Array> {
   const proposal = await Proposal.findByPk(proposalId, {
     include: [
@@ -457,10 +475,7 @@ export async function buildProposalPdf({ proposalId }: { proposalId: number }): 
   const [sheet, scienceCase] = await Promise.all([computeFeasibilitySheet({ proposalId }), latestScienceCaseBytes({ proposalId })]);
 
   const doc = await PDFDocument.create();
-  doc.registerFontkit(fontkit);
-  const regular = await family(doc, ["regular", "regularExt", "regularGreek"]);
-  const bold = await family(doc, ["bold", "boldExt", "boldGreek"]);
-  const w = new Writer(doc, regular, bold);
+  const w = await newWriter(doc);
   const codeLabel = proposal.code ?? "draft";
   doc.setTitle(`${proposal.code ?? "Draft"}: ${proposal.title}`);
   doc.setSubject(`Nightshare proposal for call ${call.semesterCode}`);
@@ -500,7 +515,7 @@ export async function buildProposalPdf({ proposalId }: { proposalId: number }): 
     `${sheet.targets.length} target${sheet.targets.length === 1 ? "" : "s"}, ${sheet.observations.length} observation${sheet.observations.length === 1 ? "" : "s"}`,
   ].filter(Boolean) as string[];
   w.paragraph(facts.join(" · "), 9.5, { color: GREY });
-  w.heading("Requested time", 11);
+  w.heading("Requested time", 11, w.tableLead(sheet.totals.length + 1, 9.5));
   w.table(
     [
       { label: "Semester", width: 0.15 },
