@@ -4,7 +4,7 @@ import { describe, expect, it } from "vitest";
 import { offsetFormatterCount, zoneOffsetMs } from "./astro/time";
 import { Lru } from "./lru";
 import { canonicalTimeZone, timeZoneCacheSize } from "./time-zones";
-import { formatInZone, zonedLocalToUtc } from "./zoned-time";
+import { formatInZone, utcToZonedLocal, zonedLocalToUtc } from "./zoned-time";
 
 /** The n-th of the 2^k capitalisations of `name` (letters only are flipped). */
 function variant(name: string, n: number) {
@@ -60,5 +60,17 @@ describe("Lru", () => {
     expect(lru.has("b")).toBe(false);
     expect(lru.has("a")).toBe(true);
     expect(lru.size).toBe(2);
+  });
+});
+
+describe("the call form's wall-clock text: YYYY-MM-DD HH:MM, or with a T", () => {
+  it("reads both separators as the same instant and writes the space form", () => {
+    // 13:00 in Amsterdam on 2027-01-15 is CET, UTC+1 (tz database, europe file): 12:00 UTC
+    const instant = Date.UTC(2027, 0, 15, 12);
+    expect(zonedLocalToUtc("2027-01-15 13:00", "Europe/Amsterdam")?.getTime()).toBe(instant);
+    expect(zonedLocalToUtc("2027-01-15T13:00", "Europe/Amsterdam")?.getTime()).toBe(instant);
+    expect(zonedLocalToUtc("2027-01-15  13:00", "Europe/Amsterdam")).toBeNull();
+    expect(zonedLocalToUtc("15/01/2027 13:00", "Europe/Amsterdam")).toBeNull();
+    expect(utcToZonedLocal(new Date(instant), "Europe/Amsterdam")).toBe("2027-01-15 13:00");
   });
 });

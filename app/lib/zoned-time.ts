@@ -13,7 +13,7 @@ export function supportedTimeZones(): string[] {
   return intl.supportedValuesOf ? [...intl.supportedValuesOf("timeZone"), "UTC"].filter((z, i, all) => all.indexOf(z) === i) : ["UTC"];
 }
 
-const localPattern = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})(?::(\d{2}))?$/;
+const localPattern = /^(\d{4})-(\d{2})-(\d{2})[T ](\d{2}):(\d{2})(?::(\d{2}))?$/;
 
 /** "2027-01-15T17:00" read as a wall-clock time in `timeZone` → the UTC instant; null if malformed. */
 export function zonedLocalToUtc(local: string, timeZone: string): Date | null {
@@ -28,9 +28,9 @@ export function zonedLocalToUtc(local: string, timeZone: string): Date | null {
   return new Date(zoned.getTime());
 }
 
-/** A UTC instant as the `datetime-local` value of the wall clock in `timeZone`. */
+/** A UTC instant as the wall clock in `timeZone`, "YYYY-MM-DD HH:MM" (the call form's text inputs). */
 export function utcToZonedLocal(instant: Date | string, timeZone: string) {
-  return format(new TZDate(new Date(instant).getTime(), requireTimeZone(timeZone)), "yyyy-MM-dd'T'HH:mm");
+  return format(new TZDate(new Date(instant).getTime(), requireTimeZone(timeZone)), "yyyy-MM-dd HH:mm");
 }
 
 /** "2027-01-15 17:00 MST" style, for showing an instant in a zone. */

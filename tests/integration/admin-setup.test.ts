@@ -417,6 +417,19 @@ describe("calls", () => {
     const page = await get("/admin/calls/new");
     expect(page.status).toBe(200);
     expect(page.text).toContain(`(${zone})`);
+    // ISO text inputs, not the browser's locale-formatted date pickers
+    expect(page.text).not.toMatch(/type="(date|datetime-local)"/);
+    for (const name of ["opensAt", "deadlineAt"]) {
+      const input = new RegExp(`<input[^>]*name="${name}"[^>]*>`).exec(page.text)?.[0] ?? "";
+      expect(input, name).toContain('type="text"');
+      expect(input, name).toContain('placeholder="YYYY-MM-DD HH:MM"');
+      expect(input, name).toContain('pattern="\\d{4}-\\d{2}-\\d{2}[T ]\\d{2}:\\d{2}"');
+    }
+    for (const name of ["semesterStart", "semesterEnd"]) {
+      const input = new RegExp(`<input[^>]*name="${name}"[^>]*>`).exec(page.text)?.[0] ?? "";
+      expect(input, name).toContain('type="text"');
+      expect(input, name).toContain('placeholder="YYYY-MM-DD"');
+    }
     const res = await post("/admin/calls/new", call({ timeZone: "Pacific/Kiritimati" }));
     expect(res.status).toBe(302);
     expect(res.headers.location).toBe(`/admin/calls?saved=${code}`);
@@ -507,7 +520,8 @@ describe("calls", () => {
   it("an admin edits a call: dates, page limit and the grid; the audit entry has before and after", async () => {
     const t = telescopes[0];
     const year = Number(code.slice(0, 4));
-    const res = await post(`/admin/calls/${callId}`, call({ deadlineAt: `${year - 1}-10-20T12:00`, pageLimit: "6", [`offer.${t.id}.bright`]: "120" }));
+    // typed with a space between date and time (the form's placeholder); "T" works as well (above)
+    const res = await post(`/admin/calls/${callId}`, call({ deadlineAt: `${year - 1}-10-20 12:00`, pageLimit: "6", [`offer.${t.id}.bright`]: "120" }));
     expect(res.status).toBe(302);
     const row = await Call.findByPk(callId, { include: [{ model: CallOffer, as: "offers" }] });
     expect(row!.pageLimit).toBe(6);
@@ -523,7 +537,7 @@ describe("calls", () => {
 
     const page = await get(`/admin/calls/${callId}`);
     expect(page.status).toBe(200);
-    expectKept(page.text, "deadlineAt", `${year - 1}-10-20T12:00`);
+    expectKept(page.text, "deadlineAt", `${year - 1}-10-20 12:00`); // shown as every date is: YYYY-MM-DD HH:MM
     expectKept(page.text, `offer.${t.id}.bright`, "120");
   });
 

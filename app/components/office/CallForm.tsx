@@ -49,7 +49,12 @@ function ZonedDateTime({
       <input
         id={id}
         name={name}
-        type="datetime-local"
+        type="text"
+        pattern="\d{4}-\d{2}-\d{2}[T ]\d{2}:\d{2}"
+        placeholder="YYYY-MM-DD HH:MM"
+        title="Date and time as YYYY-MM-DD HH:MM (24-hour clock)"
+        autoComplete="off"
+        maxLength={16}
         className="input"
         defaultValue={defaultValue}
         onChange={(e) => setValue(e.target.value)}
@@ -118,7 +123,13 @@ export function CallForm({
                 <input
                   id={id}
                   name={name}
-                  type="date"
+                  type="text"
+                  inputMode="numeric"
+                  pattern="\d{4}-\d{2}-\d{2}"
+                  placeholder="YYYY-MM-DD"
+                  title="Date as YYYY-MM-DD"
+                  autoComplete="off"
+                  maxLength={10}
                   className="input"
                   defaultValue={v(name) as string}
                   aria-invalid={errors[name] ? true : undefined}
