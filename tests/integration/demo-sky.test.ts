@@ -38,6 +38,12 @@ function tooClose(p: Point) {
   return catalogue.filter((o) => separationDeg(p, o) < 1).map((o) => `${p.name} (${p.ra.toFixed(2)}, ${p.dec.toFixed(2)}) is ${separationDeg(p, o).toFixed(2)}° from ${o.name}`);
 }
 
+// The invented targets of the astropy reference fixture (app/lib/astro/visibility-reference.test.ts).
+type FixtureTarget = { id: string; raDeg: number; decDeg: number; pmRaCosDecMasPerYr?: number; pmDecMasPerYr?: number };
+const fixtureTargets: FixtureTarget[] = JSON.parse(
+  readFileSync(new URL("../fixtures/visibility-reference.json", import.meta.url), "utf8"),
+).targets;
+
 const turned = (p: Point): Point => ({ ...p, name: `${p.name} turned by 12 h`, ra: (p.ra + 180) % 360 });
 const seedTargets: Point[] = demoProposals.flatMap((d) => d.targets.map((t) => ({ name: t.name, ra: t.ra, dec: t.dec })));
 
@@ -64,6 +70,12 @@ const famousMovers = [
   { name: "Van Maanen's Star", ra: 12.29, dec: 5.39, pmRa: 1231, pmDec: -2712 },
   { name: "Ross 128", ra: 176.94, dec: 0.8, pmRa: 607, pmDec: -1223 },
   { name: "Groombridge 34", ra: 4.6, dec: 44.02, pmRa: 2892, pmDec: 411 },
+  { name: "40 Eridani A", ra: 63.82, dec: -7.65, pmRa: -2240, pmDec: -3420 },
+  { name: "ε Indi", ra: 330.84, dec: -56.79, pmRa: 3961, pmDec: -2539 },
+  { name: "Teegarden's Star", ra: 43.25, dec: 16.88, pmRa: 3430, pmDec: -3810 },
+  { name: "Lacaille 9352", ra: 346.47, dec: -35.85, pmRa: 6768, pmDec: 1328 },
+  { name: "Gliese 1", ra: 1.38, dec: -37.36, pmRa: 5634, pmDec: -2337 },
+  { name: "μ Cassiopeiae", ra: 17.07, dec: 54.92, pmRa: 3422, pmDec: -1599 },
 ];
 
 describe("invented targets lie in empty sky (d3-celestial's Messier, NGC/IC and Hipparcos lists)", () => {
@@ -90,6 +102,25 @@ describe("invented targets lie in empty sky (d3-celestial's Messier, NGC/IC and 
 
   it("the invented targets of the tests and the sky tools' defaults", () => {
     expect(exampleTargets.flatMap(tooClose)).toEqual([]);
+  });
+
+  it("the targets of the astropy visibility fixture", () => {
+    expect(fixtureTargets.map((t) => t.id)).toEqual(["t1", "t2", "t3", "t4", "t5"]);
+    expect(fixtureTargets.flatMap((t) => tooClose({ name: `fixture ${t.id}`, ra: t.raDeg, dec: t.decDeg }))).toEqual([]);
+  });
+
+  it("the fast-moving fixture star neither sits beside nor moves like a famous high-proper-motion star", () => {
+    const movers = fixtureTargets.filter((t) => t.pmRaCosDecMasPerYr !== undefined || t.pmDecMasPerYr !== undefined);
+    expect(movers.map((t) => t.id)).toEqual(["t5"]);
+    for (const t of movers) {
+      const pmRa = t.pmRaCosDecMasPerYr ?? 0;
+      const pmDec = t.pmDecMasPerYr ?? 0;
+      for (const f of famousMovers) {
+        expect(separationDeg({ name: t.id, ra: t.raDeg, dec: t.decDeg }, f), `${t.id} near ${f.name}`).toBeGreaterThan(1);
+        // a motion within 400 mas/yr of a famous star's would read as that star's
+        expect(Math.hypot(pmRa - f.pmRa, pmDec - f.pmDec), `${t.id} moves like ${f.name}`).toBeGreaterThan(400);
+      }
+    }
   });
 
   it("no invented star moves like, or sits beside, a famous high-proper-motion star", () => {
