@@ -14,7 +14,7 @@ import { Call, CallReview, Proposal, ReviewAssignment, ReviewPanelMember, RoleGr
 import { pairKey } from "./conflicts";
 import { callFacts, type CallFacts } from "./facts.server";
 import { suggestAssignments } from "./suggest";
-import { CHAIR_REOPEN_DAYS, DEFAULT_PER_PROPOSAL } from "./vocabulary";
+import { CHAIR_REOPEN_DAYS, DEFAULT_PER_PROPOSAL, type ReviewStatus } from "./vocabulary";
 
 export type Chair = Pick<SessionUser, "id" | "email" | "roles">;
 
@@ -116,7 +116,7 @@ export async function reviewBoard({ callId }: { callId: number }) {
     assignmentId: a.id,
     proposalId: a.proposalId as number,
     reviewerId: a.reviewerId as number,
-    status: a.status,
+    status: a.status as ReviewStatus,
     committed: a.committedAt !== null,
     science: a.science,
     feasibility: a.feasibility,

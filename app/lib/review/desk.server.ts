@@ -114,7 +114,7 @@ export async function reviewForProposal({ user, proposalId, now = new Date() }: 
   const until = editableUntil(review, assignment);
   return {
     assignmentId: assignment.id,
-    status: assignment.status,
+    status: assignment.status as ReviewStatus,
     grade: gradeOf(assignment),
     submittedAt: assignment.submittedAt?.toISOString() ?? null,
     reviewDeadlineAt: review?.reviewDeadlineAt?.toISOString() ?? null,

@@ -76,5 +76,5 @@ export const reviewSetupSchema = z.object({
     .union([z.array(z.string()), z.string(), z.null()])
     .optional()
     .transform((v) => (Array.isArray(v) ? v : typeof v === "string" && v ? [v] : []))
-    .pipe(z.array(z.coerce.number().int().positive())),
+    .pipe(z.array(z.string().regex(/^\d{1,10}$/, "Choose the panel from the list.").transform(Number))),
 });
