@@ -128,7 +128,7 @@ export async function reviewForProposal({ user, proposalId, now = new Date() }: 
 function assertOpen(review: CallReview | null, a: ReviewAssignment, now: Date) {
   const until = editableUntil(review, a);
   if (!until) throw new ProposalRefused("The chair has not set the review deadline yet.", 409, "form");
-  if (now >= until) throw new ProposalRefused(`The review deadline passed on ${reviewDeadlineText(until)}; only the chair can reopen this review.`, 409, "form");
+  if (now >= until) throw new ProposalRefused(`The review deadline passed on ${reviewDeadlineText(until)}; only the chair can reopen this review.`, 400, "form");
 }
 
 /** Saves the grade as a draft, or submits it (the schema has checked the values). */
