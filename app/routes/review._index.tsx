@@ -1,5 +1,5 @@
 import { createColumnHelper, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
-import { useState } from "react";
+import { useEffect, useState } from "react";
 import { Link } from "react-router";
 import { Countdown } from "~/components/Countdown";
 import { SortableTable } from "~/components/SortableTable";
@@ -24,7 +24,9 @@ const column = createColumnHelper<DeskRow>();
 /** The deadline in the reader's own time zone (after hydration) and in UTC. */
 function LocalTime({ iso }: { iso: string }) {
   const [local, setLocal] = useState<string | null>(null);
-  if (typeof window !== "undefined" && local === null) queueMicrotask(() => setLocal(new Date(iso).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short", timeZoneName: "short" })));
+  useEffect(() => {
+    setLocal(new Date(iso).toLocaleString(undefined, { year: "numeric", month: "short", day: "numeric", hour: "2-digit", minute: "2-digit", timeZoneName: "short" }));
+  }, [iso]);
   return <span>{local ? `${local} · ` : ""}{formatUtc(iso)}</span>;
 }
 

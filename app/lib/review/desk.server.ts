@@ -86,7 +86,7 @@ export async function listMyAssignments({ user }: { user: Reviewer }): Promise<D
       assignmentId: a.id,
       proposalId: p.id,
       code: p.code,
-      title: a.status === "conflict" ? "(conflict declared)" : p.title,
+      title: p.title,
       category: p.scienceCategory,
       status: a.status,
       semesterCode: (a as ReviewAssignment & { call?: Call }).call?.semesterCode ?? "",
