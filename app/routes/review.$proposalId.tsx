@@ -194,7 +194,7 @@ export default function ReviewProposal({ loaderData }: Route.ComponentProps) {
                 {feasibility.observations.map((o) => (
                   <tr key={o.observationId}>
                     <td>{o.targetName}</td><td>{o.telescopeName} · {o.instrumentName}</td><td>{o.band}</td><td>{o.moonCategory}</td><td>{o.maxAirmass}</td>
-                    <td>{o.usableHours.toFixed(1)}</td><td>{o.exposureSeconds === null ? "—" : o.exposureSeconds.toFixed(0)}</td><td>{o.snr === null ? "—" : o.snr.toFixed(0)}{o.saturated ? " (saturates)" : ""}</td><td>{o.hours.toFixed(1)}</td>
+                    <td>{o.usableHours.toFixed(1)}</td><td>{o.exposureSeconds === null ? "—" : o.exposureSeconds.toFixed(o.exposureSeconds < 10 ? 1 : 0)}</td><td>{o.snr === null ? "—" : o.snr.toFixed(0)}{o.saturated ? " (saturates)" : ""}</td><td>{o.hours.toFixed(1)}</td>
                   </tr>
                 ))}
               </tbody>
