@@ -9,8 +9,8 @@ import type { Route } from "./+types/api.v1.calls.$callId.review.assignments";
  * replaces the call's assignments in one transaction; a conflicted pair is a 400 naming it.
  */
 export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireRole(request, "chair");
   if (request.method !== "PUT") return methodNotAllowed("PUT");
+  const user = await requireRole(request, "chair");
   const callId = apiId(params.callId, "callId");
   const body = await apiBody(request, assignmentsSchema);
   const result = await apiAttempt(() => replaceAssignments({ actor: user, callId, pairs: body.assignments, commit: body.commit }));

@@ -6,8 +6,8 @@ import type { Route } from "./+types/api.v1.review.assignments.$assignmentId";
 
 /** PUT /api/v1/review/assignments/:assignmentId (reviewer): the grade, as a draft or submitted. */
 export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireRole(request, "reviewer");
   if (request.method !== "PUT") return methodNotAllowed("PUT");
+  const user = await requireRole(request, "reviewer");
   const assignmentId = apiId(params.assignmentId, "assignmentId");
   const values = await apiBody(request, gradeSchema);
   return json(await apiAttempt(() => saveGrade({ user, assignmentId, values })));

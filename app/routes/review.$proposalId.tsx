@@ -30,6 +30,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     ? {
         semesterCode: sheet.semesterCode,
         requestedHours: sheet.requestedHours,
+        requestedHoursBySemester: sheet.requestedHoursBySemester,
         totals: sheet.totals,
         problems: sheet.problems,
         conventions: sheet.conventions,

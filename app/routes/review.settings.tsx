@@ -18,7 +18,9 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireRole(request, "reviewer");
-  const values = formValues(await request.formData());
+  const form = await request.formData();
+  if (form.get("intent") !== "save") return data({ ok: false as const, errors: { form: "That button does nothing here; reload the page." } as Record<string, string> }, { status: 400 });
+  const values = formValues(form);
   const parsed = reviewerCategoriesSchema.safeParse(values);
   if (!parsed.success) return data({ ok: false as const, errors: fieldErrors(parsed.error) }, { status: 400 });
   await saveMyCategories({ user, categories: parsed.data.categories });
@@ -41,7 +43,7 @@ export default function ReviewSettings({ loaderData }: Route.ComponentProps) {
           </label>
         ))}
         {actionData && !actionData.ok ? <p className="field-error" role="alert">{actionData.errors.categories ?? Object.values(actionData.errors)[0]}</p> : null}
-        <button className="btn" disabled={navigation.state !== "idle"}>Save</button>
+        <button className="btn" name="intent" value="save" disabled={navigation.state !== "idle"}>Save</button>
       </Form>
     </div>
   );

@@ -209,6 +209,13 @@ describe("reviewer access: only assigned, non-conflicted proposals", () => {
     const api = await (await request()).get(`/api/v1/proposals/${mine.proposalId}`).set("Cookie", reviewer.cookie);
     expect(api.body.readOnly).toBe(true);
     expect(api.body.proposal.team[0]).toHaveProperty("institution");
+    // the inline science case may be framed by our own review page, and by nothing else
+    const inline = await (await request()).get(`/review/${mine.proposalId}/files/${fileId}?inline=1`).set("Cookie", reviewer.cookie);
+    expect(inline.headers["x-frame-options"]).toBe("SAMEORIGIN");
+    expect(inline.headers["content-security-policy"]).toContain("frame-ancestors 'self'");
+    const attached = await (await request()).get(`/review/${mine.proposalId}/files/${fileId}`).set("Cookie", reviewer.cookie);
+    expect(attached.headers["x-frame-options"]).toBe("DENY");
+    expect(page.headers["content-security-policy"]).toContain("frame-ancestors 'none'");
     const desk = await (await request()).get("/api/v1/review/assignments").set("Cookie", reviewer.cookie);
     expect(desk.body.assignments.map((a: { proposalId: number }) => a.proposalId)).toContain(mine.proposalId);
   });
