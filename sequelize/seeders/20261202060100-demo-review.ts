@@ -24,7 +24,7 @@ const biasByEmail: Record<string, number> = {
 };
 
 const openings = [
-  "The science goal is clearly stated and the sample is well matched to it.",
+  "The question is clearly stated and the sample is well matched to it.",
   "This is a focused programme with a sensible observing strategy.",
   "The case is interesting, although the link between the measurements and the stated goal could be sharper.",
   "The proposal addresses a question that the community has raised for some time.",

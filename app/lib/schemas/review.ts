@@ -22,7 +22,7 @@ function merit(label: string) {
 const flag = z.union([z.boolean(), z.string(), z.null()]).optional().transform((v) => v === true || v === "true" || v === "on" || v === "1");
 
 /**
- * The grade. A draft may be incomplete (what is given must still be valid); a submission needs
+ * The review's merits and comments. A draft may be incomplete (what is given must still be valid); a submission needs
  * every merit and a comment to the PI of at least 50 words.
  */
 export const gradeSchema = z
