@@ -8,11 +8,16 @@ import { databaseFailed, NONCE_HEADER } from "./lib/http/request-state";
 import { isDatabaseUnavailable, RETRY_AFTER_SECONDS } from "./lib/http/service-errors";
 import { startHousekeeping } from "./lib/housekeeping.server";
 import { startMailWorker } from "./lib/mail-queue.server";
+import { startReminderWorker } from "./lib/review/reminders.server";
 
 export const streamTimeout = 5_000;
 
 // The outgoing-mail worker lives in the server process (SKIP LOCKED keeps several processes apart).
-if (env.MAIL_WORKER === "on") startMailWorker();
+if (env.MAIL_WORKER === "on") {
+  startMailWorker();
+  // review reminders 3 days before a review deadline: idempotent, so a check per process is safe
+  startReminderWorker();
+}
 if (env.NODE_ENV !== "test") startHousekeeping();
 
 /**

@@ -10,6 +10,7 @@ import { createRequestHandler, type ServerBuild } from "react-router";
 import {
   bodyLimitFor,
   contentSecurityPolicy,
+  framedBySameOrigin,
   crossSiteReason,
   isApiPath,
   isJsonContentType,
@@ -54,9 +55,10 @@ export function createHttpApp({ build, clientDir, trustProxy = false, appUrl = p
     for (const name of Object.values(INTERNAL_HEADERS)) delete req.headers[name];
     const nonce = randomBytes(16).toString("base64");
     req.headers[INTERNAL_HEADERS.nonce] = nonce;
-    res.setHeader("Content-Security-Policy", contentSecurityPolicy({ nonce, formActionOrigins }));
+    const framed = framedBySameOrigin(req.method, req.path, req.query);
+    res.setHeader("Content-Security-Policy", contentSecurityPolicy({ nonce, formActionOrigins, frameAncestors: framed ? "'self'" : "'none'" }));
     res.setHeader("X-Content-Type-Options", "nosniff");
-    res.setHeader("X-Frame-Options", "DENY");
+    res.setHeader("X-Frame-Options", framed ? "SAMEORIGIN" : "DENY");
     res.setHeader("Referrer-Policy", "same-origin");
     res.setHeader("Cross-Origin-Opener-Policy", "same-origin");
     if (https) res.setHeader("Strict-Transport-Security", "max-age=31536000");

@@ -1,6 +1,7 @@
 import { sequelize } from "~/lib/db.server";
 import { AuditEntry } from "./AuditEntry";
 import { Call } from "./Call";
+import { CallReview } from "./CallReview";
 import { CallOffer } from "./CallOffer";
 import { Filter } from "./Filter";
 import { Instrument } from "./Instrument";
@@ -10,6 +11,9 @@ import { PaymentEvent } from "./PaymentEvent";
 import { PlannedEpoch } from "./PlannedEpoch";
 import { Proposal } from "./Proposal";
 import { ProposalMember } from "./ProposalMember";
+import { ReviewAssignment } from "./ReviewAssignment";
+import { ReviewerProfile } from "./ReviewerProfile";
+import { ReviewPanelMember } from "./ReviewPanelMember";
 import { RoleGrant } from "./RoleGrant";
 import { UserSession } from "./Session";
 import { RateLimitKey, SignInCode, SignInRequest } from "./SignIn";
@@ -22,6 +26,7 @@ for (const model of [
   User, RoleGrant, Telescope, Instrument, Filter, Call, CallOffer, Proposal, ProposalMember,
   Target, Observation, PlannedEpoch, StoredFile, OutgoingMail, AuditEntry, SignInRequest,
   SignInCode, PaymentEvent, UserSession, RateLimitKey,
+  CallReview, ReviewPanelMember, ReviewerProfile, ReviewAssignment,
 ]) {
   model.initModel(sequelize);
 }
@@ -61,6 +66,17 @@ Proposal.hasMany(StoredFile, { foreignKey: "proposalId", as: "files" });
 StoredFile.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" });
 StoredFile.belongsTo(User, { foreignKey: "uploadedById", as: "uploadedBy" });
 
+Call.hasOne(CallReview, { foreignKey: "callId", as: "review" });
+CallReview.belongsTo(Call, { foreignKey: "callId", as: "call" });
+ReviewPanelMember.belongsTo(Call, { foreignKey: "callId", as: "call" });
+ReviewPanelMember.belongsTo(User, { foreignKey: "reviewerId", as: "reviewer" });
+User.hasOne(ReviewerProfile, { foreignKey: "userId", as: "reviewerProfile" });
+ReviewerProfile.belongsTo(User, { foreignKey: "userId", as: "user" });
+ReviewAssignment.belongsTo(Call, { foreignKey: "callId", as: "call" });
+ReviewAssignment.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" });
+ReviewAssignment.belongsTo(User, { foreignKey: "reviewerId", as: "reviewer" });
+Proposal.hasMany(ReviewAssignment, { foreignKey: "proposalId", as: "reviewAssignments" });
+
 AuditEntry.belongsTo(User, { foreignKey: "actorId", as: "actor" });
 AuditEntry.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" });
 
@@ -68,4 +84,5 @@ export {
   sequelize, AuditEntry, Call, CallOffer, Filter, Instrument, Observation, OutgoingMail,
   PaymentEvent, PlannedEpoch, Proposal, ProposalMember, RoleGrant, SignInCode, SignInRequest,
   StoredFile, Target, Telescope, User, UserSession, RateLimitKey,
+  CallReview, ReviewPanelMember, ReviewerProfile, ReviewAssignment,
 };

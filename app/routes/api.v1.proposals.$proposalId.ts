@@ -4,16 +4,27 @@ import { computeFeasibilitySheet } from "~/lib/feasibility.server";
 import { listObservations } from "~/lib/proposal-observations.server";
 import { listTargets } from "~/lib/proposal-targets.server";
 import { listTeam } from "~/lib/proposal-team.server";
-import { getProposalForUser, overviewValues, workspaceHeader } from "~/lib/proposals.server";
+import { claimInvitations, getProposalForUser, membershipWhere, overviewValues, workspaceHeader } from "~/lib/proposals.server";
+import { committeeAccess, committeeReading } from "~/lib/review/read.server";
+import { ProposalMember } from "~/models/index.server";
 import type { Route } from "./+types/api.v1.proposals.$proposalId";
 
-/** GET /api/v1/proposals/:proposalId: one proposal of the user's, with its feasibility sheet. */
+/**
+ * GET /api/v1/proposals/:proposalId: one proposal of the user's, with its feasibility sheet; the chair
+ * and the proposal's non-conflicted reviewers get the committee's read-only view (team names and institutions).
+ */
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   if (!/^\d{1,10}$/.test(params.proposalId)) {
     return data({ error: "The request has invalid fields.", issues: [{ path: "proposalId", message: "must be a positive whole number" }] }, { status: 400 });
   }
   const proposalId = Number(params.proposalId);
+  await claimInvitations({ user });
+  const onTeam = await ProposalMember.findOne({ where: { proposalId, ...membershipWhere(user) }, attributes: ["id"] });
+  if (!onTeam && (user.roles.includes("chair") || user.roles.includes("reviewer"))) {
+    const reading = await committeeReading(await committeeAccess({ user, proposalId }));
+    return data({ ...reading, readOnly: true }, { headers: { "Cache-Control": "private, no-store" } });
+  }
   const access = await getProposalForUser({ proposalId, user });
   const [team, targets, { observations }] = await Promise.all([listTeam({ user, proposalId }), listTargets({ user, proposalId }), listObservations({ user, proposalId })]);
   let feasibilitySheet = null;

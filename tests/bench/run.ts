@@ -1,10 +1,11 @@
 // `npm run bench`: prints timings; nothing here is asserted (timings are not tests).
 //   npm run bench               everything
-//   npm run bench -- pdf        one section (visibility, pdf, restart)
+//   npm run bench -- pdf        one section (visibility, review, pdf, restart)
 import { availableParallelism, loadavg } from "node:os";
 import { runAstroBench } from "./astro";
 import { runPdfBench } from "./pdf";
 import { runRestartBench } from "./restart";
+import { runReviewBench } from "./review";
 
 const only = process.argv[2];
 const want = (name: string) => !only || only === name;
@@ -14,6 +15,10 @@ console.log(`machine: ${availableParallelism()} cores, load average ${loadavg().
 if (want("visibility")) {
   console.log("\n[visibility]");
   for (const line of runAstroBench()) console.log("  " + line);
+}
+if (want("review")) {
+  console.log("\n[review: reviewer suggestion]");
+  for (const line of runReviewBench()) console.log("  " + line);
 }
 if (want("pdf")) {
   console.log("\n[proposal PDF and submission]");

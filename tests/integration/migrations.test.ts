@@ -1,7 +1,7 @@
 import { QueryTypes } from "sequelize";
 import { afterAll, describe, expect, it } from "vitest";
 import { Op } from "sequelize";
-import { Call, Filter, Observation, Proposal, RoleGrant, Target, Telescope, User, sequelize } from "~/models/index.server";
+import { Call, Filter, Observation, Proposal, ReviewAssignment, RoleGrant, Target, Telescope, User, sequelize } from "~/models/index.server";
 import { createMigrator, createSeeder } from "../../sequelize/migrator";
 
 async function tables() {
@@ -88,7 +88,10 @@ describe("migrations on MariaDB", () => {
     const decided = await states(running.id);
     expect([...decided].every((s) => ["accepted", "waitlisted", "declined"].includes(s))).toBe(true);
     expect(decided.has("accepted")).toBe(true);
-    expect(await Proposal.count({ where: { callId: review.id, status: "submitted" } })).toBeGreaterThanOrEqual(5);
+    // the review seeder puts the sent proposals of that call in review, with assignments committed
+    expect(await Proposal.count({ where: { callId: review.id, status: "in_review" } })).toBeGreaterThanOrEqual(5);
+    expect(await Proposal.count({ where: { callId: review.id, status: "submitted" } })).toBe(0);
+    expect(await ReviewAssignment.count({ where: { callId: review.id, status: "submitted" } })).toBeGreaterThan(0);
     expect(await Proposal.count({ where: { callId: review.id, status: "draft" } })).toBe(0);
     expect(await Proposal.count({ where: { callId: open.id, status: "draft" } })).toBeGreaterThanOrEqual(3);
     // every code is serial/short semester, e.g. 014/27A

@@ -2,7 +2,7 @@
 // seeded ids the parameterised patterns are tried with.
 import { demoCallPlan } from "../../sequelize/seeders/20261201000100-demo-observatory";
 import routes from "~/routes";
-import { Call, Instrument, Proposal, ProposalMember, StoredFile, Telescope, User } from "~/models/index.server";
+import { Call, Instrument, Proposal, ProposalMember, ReviewAssignment, StoredFile, Telescope, User } from "~/models/index.server";
 import { ensureDatabase } from "../helpers/db";
 import { sessionCookieFor } from "../helpers/session";
 import { pdfWithPages } from "../integration/proposals-fixtures";
@@ -92,7 +92,11 @@ export async function seededIds() {
   const telescope = await Telescope.findOne({ order: [["id", "ASC"]] });
   const instrument = await Instrument.findOne({ order: [["id", "ASC"]] });
   const call = await Call.findOne({ where: { semesterCode: demoCallPlan().open.semesterCode } });
+  // a committed assignment of the demo reviewer (the review seeder makes them)
+  const reviewer = await User.findOne({ where: { email: demo.reviewer } });
+  const assignment = reviewer ? await ReviewAssignment.findOne({ where: { reviewerId: reviewer.id }, order: [["id", "ASC"]] }) : null;
   return {
+    assignmentId: assignment?.id ?? 4_000_000_000,
     proposalA: a.id,
     proposalB: b.id,
     fileA: await scienceCaseOf(a.id, demo.pi),

@@ -9,9 +9,11 @@ import { appOrigin, cookieOf, fill, flattenRoutes, people, seededIds, type Perso
 /**
  * anyone: no sign-in needed · signedIn: any account · member: PI or Co-I of that proposal (others
  * get 404, as if it did not exist) · reviewer/chair/admin: that role (others 403) · none: the
- * method is not offered (405 for everyone).
+ * method is not offered (405 for everyone) · committee: the chair and the proposal's assigned
+ * reviewers, for proposals past the draft stage; the seeded A and B are drafts, so every signed-in
+ * person gets 404 (the committee's own access is tested in tests/integration/review.test.ts).
  */
-type Who = "anyone" | "signedIn" | "member" | "reviewer" | "chair" | "admin" | "none";
+type Who = "anyone" | "signedIn" | "member" | "committee" | "reviewer" | "chair" | "admin" | "none";
 type Rule = {
   get: Who;
   post: Who;
@@ -33,6 +35,15 @@ const expectations: Record<string, Rule> = {
   "/api/v1/proposals/:proposalId": { get: "member", post: "none" },
   "/proposals/:proposalId/pdf": { get: "member", post: "none" },
   "/proposals/:proposalId/files/:fileId": { get: "member", post: "none" },
+  "/api/v1/calls/:callId/review": { get: "chair", post: "none" },
+  "/api/v1/calls/:callId/review/suggest": { get: "none", post: "chair" },
+  "/api/v1/calls/:callId/review/assignments": { get: "none", post: "none" }, // PUT (tested in review.test.ts)
+  "/api/v1/calls/:callId/reviews": { get: "chair", post: "none" },
+  "/api/v1/review/assignments": { get: "reviewer", post: "none" },
+  "/api/v1/review/assignments/:assignmentId": { get: "none", post: "none" }, // PUT (tested in review.test.ts)
+  "/api/v1/review/assignments/:assignmentId/conflict": { get: "none", post: "reviewer" }, // the probe body lacks a reason: 400
+  "/review/:proposalId/pdf": { get: "committee", post: "none" },
+  "/review/:proposalId/files/:fileId": { get: "committee", post: "none" },
   "/sign-in/link": { get: "anyone", post: "none", getOk: 302 }, // no token: back to /sign-in
   "/sign-out": { get: "anyone", post: "anyone", getOk: 302 },
   "/?index": { get: "anyone", post: "none" },
@@ -40,7 +51,11 @@ const expectations: Record<string, Rule> = {
   "/welcome": { get: "signedIn", post: "signedIn" },
   "/sky-tools": { get: "anyone", post: "none" },
   "/review": { get: "reviewer", post: "none" },
+  "/review/settings": { get: "reviewer", post: "reviewer" },
+  "/review/:proposalId": { get: "committee", post: "committee" },
   "/committee": { get: "chair", post: "none" },
+  "/committee/:callId": { get: "chair", post: "chair" },
+  "/committee/:callId/assignments": { get: "chair", post: "none" },
   "/proposals?index": { get: "signedIn", post: "none" },
   "/proposals/new": { get: "signedIn", post: "signedIn" },
   "/proposals/:proposalId": { get: "member", post: "none" },
@@ -83,7 +98,7 @@ function instancesOf(pattern: string, ids: SeededIds): Instance[] {
     ];
   }
   if (pattern === "/*") return [{ label: "unknown page", params: {}, members: [] }];
-  return [{ label: "", params: { telescopeId: ids.telescopeId, instrumentId: ids.instrumentId, callId: ids.callId }, members: [] }];
+  return [{ label: "", params: { telescopeId: ids.telescopeId, instrumentId: ids.instrumentId, callId: ids.callId, assignmentId: ids.assignmentId }, members: [] }];
 }
 
 type Expected = { kind: "allowed"; status?: number } | { kind: "signIn" } | { kind: "forbidden" } | { kind: "notFound" } | { kind: "notOffered" };
@@ -93,6 +108,7 @@ function expected(who: Who, person: Person, instance: Instance, okStatus?: numbe
   if (who === "anyone") return { kind: "allowed", status: okStatus };
   if (person === "anonymous") return { kind: "signIn" };
   if (who === "signedIn") return { kind: "allowed", status: okStatus };
+  if (who === "committee") return { kind: "notFound" };
   if (who === "member") return instance.members.includes(person) ? { kind: "allowed", status: okStatus } : { kind: "notFound" };
   return person === who ? { kind: "allowed", status: okStatus } : { kind: "forbidden" };
 }

@@ -118,7 +118,15 @@ export function crossSiteReason(headers: { origin?: string; secFetchSite?: strin
  * renders with this request's nonce. Styles allow inline `style` attributes (React and the chart
  * library set them). `form-action` lets a form post end on the payment service's page.
  */
-export function contentSecurityPolicy({ nonce, formActionOrigins = [] }: { nonce: string; formActionOrigins?: string[] }) {
+/**
+ * The one response our own pages may frame: a committee member's inline science case
+ * (`/review/:proposalId/files/:fileId?inline=1`, shown in the review page). Everything else stays unframeable.
+ */
+export function framedBySameOrigin(method: string, path: string, query: Record<string, unknown>) {
+  return method === "GET" && /^\/review\/\d{1,10}\/files\/\d{1,10}$/.test(path) && query.inline === "1";
+}
+
+export function contentSecurityPolicy({ nonce, formActionOrigins = [], frameAncestors = "'none'" }: { nonce: string; formActionOrigins?: string[]; frameAncestors?: string }) {
   return [
     "default-src 'self'",
     `script-src 'self' 'nonce-${nonce}'`,
@@ -129,7 +137,7 @@ export function contentSecurityPolicy({ nonce, formActionOrigins = [] }: { nonce
     "object-src 'none'",
     "base-uri 'self'",
     `form-action ${["'self'", ...formActionOrigins].join(" ")}`,
-    "frame-ancestors 'none'",
+    `frame-ancestors ${frameAncestors}`,
   ].join("; ");
 }
 

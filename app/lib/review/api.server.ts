@@ -1,0 +1,48 @@
+// Helpers of the review's JSON routes: ids from the URL, JSON bodies, refusals as `{ error, issues }`.
+import { data } from "react-router";
+import type { z } from "zod";
+import { apiIssues } from "~/lib/forms";
+import { ProposalRefused } from "~/lib/proposals.server";
+
+const NO_STORE = { "Cache-Control": "private, no-store" };
+
+export function json<T>(body: T, status = 200) {
+  return data(body, { status, headers: NO_STORE });
+}
+
+/** A numeric id of the URL, or a 400 naming it. */
+export function apiId(value: string | undefined, name: string): number {
+  const id = Number(value);
+  if (!/^\d{1,10}$/.test(value ?? "") || !Number.isSafeInteger(id) || id <= 0) {
+    throw data({ error: "The request has invalid fields.", issues: [{ path: name, message: "must be a positive whole number" }] }, { status: 400 });
+  }
+  return id;
+}
+
+/** The request's JSON body checked with `schema`, or a 400 naming the fields. */
+export async function apiBody<S extends z.ZodType>(request: Request, schema: S): Promise<z.output<S>> {
+  let body: unknown;
+  try {
+    const text = await request.text();
+    body = text.trim() === "" ? {} : JSON.parse(text);
+  } catch {
+    throw data({ error: "The body is not valid JSON.", issues: [{ path: "(body)", message: "must be a JSON object" }] }, { status: 400 });
+  }
+  const parsed = schema.safeParse(body);
+  if (!parsed.success) throw data(apiIssues(parsed.error), { status: 400 });
+  return parsed.data;
+}
+
+/** Runs a change; a refusal from the data layer becomes `{ error, issues: [{ path, message }] }` with its status. */
+export async function apiAttempt<R>(work: () => Promise<R>) {
+  try {
+    return await work();
+  } catch (error) {
+    if (error instanceof ProposalRefused) throw data({ error: error.message, issues: [{ path: error.field, message: error.message }] }, { status: error.status });
+    throw error;
+  }
+}
+
+export function methodNotAllowed(allow: string) {
+  return data({ error: `Use ${allow}.`, issues: [] }, { status: 405, headers: { Allow: allow } });
+}

@@ -1,0 +1,18 @@
+import { requireRole } from "~/lib/auth.server";
+import { apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { suggestForCall } from "~/lib/review/chair.server";
+import { suggestSchema } from "~/lib/schemas/review";
+import type { Route } from "./+types/api.v1.calls.$callId.review.suggest";
+
+/** POST /api/v1/calls/:callId/review/suggest (chair) `{ perProposal }`: the suggestion; changes nothing. */
+export async function action({ request, params }: Route.ActionArgs) {
+  await requireRole(request, "chair");
+  if (request.method !== "POST") return methodNotAllowed("POST");
+  const callId = apiId(params.callId, "callId");
+  const { perProposal } = await apiBody(request, suggestSchema);
+  return json(await suggestForCall({ callId, perProposal }));
+}
+
+export async function loader() {
+  return methodNotAllowed("POST");
+}

@@ -1,0 +1,14 @@
+import { requireRole } from "~/lib/auth.server";
+import { json, methodNotAllowed } from "~/lib/review/api.server";
+import { listMyAssignments } from "~/lib/review/desk.server";
+import type { Route } from "./+types/api.v1.review.assignments";
+
+/** GET /api/v1/review/assignments (reviewer): mine. */
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requireRole(request, "reviewer");
+  return json({ assignments: await listMyAssignments({ user }) });
+}
+
+export async function action() {
+  return methodNotAllowed("GET");
+}

@@ -1,0 +1,176 @@
+import { useMemo, useState } from "react";
+import { data, Link, useRevalidator } from "react-router";
+import { requireRole } from "~/lib/auth.server";
+import { scienceCategoryLabel } from "~/lib/proposal-vocabulary";
+import { apiId } from "~/lib/review/api.server";
+import { reviewBoard } from "~/lib/review/chair.server";
+import { SUGGESTION_METHOD } from "~/lib/review/suggest";
+import type { Route } from "./+types/committee.$callId.assignments";
+
+export function meta({ data: d }: Route.MetaArgs) {
+  return [{ title: `Assignments of ${d?.board.call.semesterCode ?? "a call"} · Committee · Nightshare` }];
+}
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  await requireRole(request, "chair");
+  let callId: number;
+  try {
+    callId = apiId(params.callId, "callId");
+  } catch {
+    throw data({ message: "There is no call at this address." }, { status: 404 });
+  }
+  return { board: await reviewBoard({ callId }), method: SUGGESTION_METHOD };
+}
+
+type Pair = { proposalId: number; reviewerId: number };
+type Suggestion = { assignments: Pair[]; loads: { reviewerId: number; count: number }[]; impossible: { proposalId: number; reason: string }[]; balanced: boolean };
+const key = (p: number, r: number) => `${p}:${r}`;
+
+async function callApi(url: string, method: string, body: unknown) {
+  const res = await fetch(url, { method, headers: { "Content-Type": "application/json", Accept: "application/json" }, body: JSON.stringify(body), credentials: "same-origin" });
+  const json = await res.json().catch(() => ({ error: `The server answered ${res.status}.` }));
+  return { ok: res.ok, json };
+}
+
+export default function Assignments({ loaderData }: Route.ComponentProps) {
+  const { board, method } = loaderData;
+  const { call, review } = board;
+  const revalidator = useRevalidator();
+  const saved = useMemo(() => new Set(board.assignments.filter((a) => a.status !== "conflict").map((a) => key(a.proposalId, a.reviewerId))), [board.assignments]);
+  const [pairs, setPairs] = useState<Set<string>>(saved);
+  const [perProposal, setPerProposal] = useState(String(review.perProposal));
+  const [suggestion, setSuggestion] = useState<Suggestion | null>(null);
+  const [message, setMessage] = useState<{ tone: "ok" | "error"; text: string } | null>(null);
+  const [busy, setBusy] = useState(false);
+  const conflicts = useMemo(() => new Map(board.conflicts.map((c) => [key(c.proposalId, c.reviewerId), c.reason])), [board.conflicts]);
+  const locked = useMemo(() => new Map(board.assignments.filter((a) => a.status === "draft" || a.status === "submitted").map((a) => [key(a.proposalId, a.reviewerId), a.status])), [board.assignments]);
+  const loads = board.panel.map((r) => ({ ...r, count: board.proposals.filter((p) => pairs.has(key(p.proposalId, r.reviewerId))).length }));
+  const counts = loads.map((l) => l.count);
+  const spread = counts.length ? Math.max(...counts) - Math.min(...counts) : 0;
+  const k = Number(perProposal) || review.perProposal;
+  const short = board.proposals.filter((p) => board.panel.filter((r) => pairs.has(key(p.proposalId, r.reviewerId))).length < k);
+  const dirty = pairs.size !== saved.size || [...pairs].some((x) => !saved.has(x));
+
+  function toggle(p: number, r: number) {
+    const id = key(p, r);
+    if (conflicts.has(id) || locked.has(id)) return;
+    const next = new Set(pairs);
+    if (next.has(id)) next.delete(id);
+    else next.add(id);
+    setPairs(next);
+    setMessage(null);
+  }
+
+  async function suggest() {
+    setBusy(true);
+    setMessage(null);
+    const { ok, json } = await callApi(`/api/v1/calls/${call.id}/review/suggest`, "POST", { perProposal: Number(perProposal) });
+    setBusy(false);
+    if (!ok) return setMessage({ tone: "error", text: json.issues?.[0] ? `Reviewers per proposal ${json.issues[0].message}.` : json.error });
+    setSuggestion(json as Suggestion);
+  }
+
+  function accept() {
+    if (!suggestion) return;
+    const next = new Set(suggestion.assignments.map((a) => key(a.proposalId, a.reviewerId)));
+    for (const id of locked.keys()) next.add(id);
+    setPairs(next);
+    setMessage({ tone: "ok", text: "Suggestion accepted into the matrix (not saved yet)." });
+  }
+
+  async function save(commit: boolean) {
+    setBusy(true);
+    const assignments = [...pairs].map((x) => {
+      const [proposalId, reviewerId] = x.split(":").map(Number);
+      return { proposalId, reviewerId };
+    });
+    const { ok, json } = await callApi(`/api/v1/calls/${call.id}/review/assignments`, "PUT", { assignments, commit });
+    setBusy(false);
+    if (!ok) return setMessage({ tone: "error", text: json.error ?? "The assignment was not saved." });
+    setMessage({ tone: "ok", text: commit ? `Committed: ${json.pairs} pairs; ${json.mailed} reviewer${json.mailed === 1 ? "" : "s"} e-mailed their list.` : `Saved: ${json.pairs} pairs (${json.added} added, ${json.removed} removed).` });
+    setSuggestion(null);
+    revalidator.revalidate();
+  }
+
+  const proposalLabel = (id: number) => board.proposals.find((p) => p.proposalId === id)?.code ?? `#${id}`;
+  return (
+    <div className="space-y-5">
+      <p className="text-sm"><Link to="/committee">Committee</Link> › <Link to={`/committee/${call.id}`}>{call.semesterCode}</Link> › Assignments</p>
+      <h1>Assignments for {call.semesterCode}</h1>
+      {!review.startedAt ? <p role="alert" className="rounded-md border border-amber-300 bg-amber-50 px-3 py-2">Put the call's proposals in review first (on the <Link to={`/committee/${call.id}`}>call's review page</Link>).</p> : null}
+      <section className="card space-y-3">
+        <div className="flex flex-wrap items-end gap-3">
+          <div>
+            <label htmlFor="perProposal">Reviewers per proposal</label>
+            <input id="perProposal" className="input w-24" type="number" min={1} max={10} value={perProposal} onChange={(e) => setPerProposal(e.target.value)} />
+          </div>
+          <button type="button" className="btn" onClick={suggest} disabled={busy}>Suggest reviewers</button>
+          {suggestion ? <button type="button" className="btn" onClick={accept} disabled={busy}>Accept the suggestion</button> : null}
+          <button type="button" className="btn-quiet" onClick={() => save(false)} disabled={busy || !dirty}>Save the matrix</button>
+          <button type="button" className="btn" onClick={() => save(true)} disabled={busy || pairs.size === 0}>Commit and e-mail the reviewers</button>
+        </div>
+        <p className="text-xs text-slate-500">The suggestion is a {method}: every proposal gets {k} reviewers free of conflicts where possible, loads stay within one, and reviewers who know the category come first.</p>
+        {suggestion ? (
+          <div className="rounded-md border border-night-200 bg-night-50 p-3 text-sm" aria-label="Suggestion">
+            <p>Suggested: {suggestion.assignments.length} pairs; loads {Math.min(...suggestion.loads.map((l) => l.count))}–{Math.max(...suggestion.loads.map((l) => l.count))}{suggestion.balanced ? "" : " (the conflicts do not allow loads within one)"}.</p>
+            {suggestion.impossible.length ? (
+              <ul className="mt-1 list-disc pl-5 text-red-800">
+                {suggestion.impossible.map((x) => <li key={x.proposalId}>Impossible for {proposalLabel(x.proposalId)}: {x.reason}.</li>)}
+              </ul>
+            ) : <p>Every proposal gets {k} reviewers.</p>}
+          </div>
+        ) : null}
+        {message ? <p role={message.tone === "error" ? "alert" : "status"} className={message.tone === "error" ? "rounded-md border border-red-200 bg-red-50 px-3 py-2 text-red-800" : "rounded-md border border-emerald-300 bg-emerald-50 px-3 py-2 text-emerald-900"}>{message.text}</p> : null}
+        <p className="text-sm" aria-live="polite">
+          {pairs.size} pairs · loads {counts.length ? `${Math.min(...counts)}–${Math.max(...counts)}` : "—"}{spread > 1 ? " (more than one apart)" : ""} · {short.length ? `${short.length} proposal${short.length === 1 ? "" : "s"} with fewer than ${k}` : `every proposal has ${k}`}
+          {dirty ? " · unsaved changes" : ""} · {review.committedAt ? "committed" : "not committed"}
+        </p>
+      </section>
+      <div className="overflow-x-auto rounded-lg border border-slate-200 bg-white">
+        <table className="table-base text-sm" aria-label="Assignment matrix">
+          <thead>
+            <tr>
+              <th>Proposal</th>
+              {loads.map((r) => (
+                <th key={r.reviewerId} className="text-center">
+                  <span className="block">{r.name}</span>
+                  <span className="block text-xs font-normal text-slate-500">{r.institution ?? ""}</span>
+                  <span className="block text-xs font-normal" data-load={r.reviewerId}>load {r.count}</span>
+                </th>
+              ))}
+            </tr>
+          </thead>
+          <tbody>
+            {board.proposals.map((p) => (
+              <tr key={p.proposalId}>
+                <td>
+                  <span className="font-semibold">{p.code ?? `#${p.proposalId}`}</span> {p.title}
+                  <span className="block text-xs text-slate-500">{scienceCategoryLabel(p.category) ?? "no category"} · PI: {p.piInstitution ?? "?"}</span>
+                </td>
+                {board.panel.map((r) => {
+                  const id = key(p.proposalId, r.reviewerId);
+                  const reason = conflicts.get(id);
+                  const on = pairs.has(id);
+                  const knows = p.category && r.categories.includes(p.category);
+                  return (
+                    <td key={r.reviewerId} className={`text-center ${reason ? "bg-red-50" : on ? "bg-emerald-50" : ""}`}>
+                      {reason ? (
+                        <span className="text-xs text-red-800" title={reason}>conflict: {reason}</span>
+                      ) : (
+                        <label className="inline-flex items-center gap-1 font-normal">
+                          <input type="checkbox" checked={on} disabled={locked.has(id)} onChange={() => toggle(p.proposalId, r.reviewerId)} aria-label={`${p.code ?? p.proposalId} × ${r.name}`} />
+                          {knows ? <span className="text-xs text-slate-500" title="knows the category">★</span> : null}
+                          {locked.has(id) ? <span className="text-xs text-slate-500">{locked.get(id)}</span> : null}
+                        </label>
+                      )}
+                    </td>
+                  );
+                })}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,219 @@
+import { Form, Link, useActionData, useNavigation } from "react-router";
+import { Field, inputProps } from "~/components/Field";
+import { requireRole } from "~/lib/auth.server";
+import { fieldErrors } from "~/lib/forms";
+import { observatoryTimeZone } from "~/lib/office.server";
+import { scienceCategoryLabel } from "~/lib/proposal-vocabulary";
+import { formValues, refusalResponse } from "~/lib/proposal-routes.server";
+import { chairReopenReview, reassign, remindReviewer, reviewBoard, saveReviewSetup, startReview } from "~/lib/review/chair.server";
+import { reviewerCandidates } from "~/lib/review/facts.server";
+import { apiId } from "~/lib/review/api.server";
+import { reviewStatusLabels, type ReviewStatus } from "~/lib/review/vocabulary";
+import { reviewSetupSchema } from "~/lib/schemas/review";
+import { formatInZone, formatUtc, utcToZonedLocal, zonedLocalToUtc } from "~/lib/zoned-time";
+import { data } from "react-router";
+import type { Route } from "./+types/committee.$callId";
+
+export function meta({ data: d }: Route.MetaArgs) {
+  return [{ title: `Review of ${d?.board.call.semesterCode ?? "a call"} · Committee · Nightshare` }];
+}
+
+function callIdOf(params: { callId?: string }) {
+  try {
+    return apiId(params.callId, "callId");
+  } catch {
+    throw data({ message: "There is no call at this address." }, { status: 404 });
+  }
+}
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  await requireRole(request, "chair");
+  const callId = callIdOf(params);
+  const [board, candidates, timeZone] = await Promise.all([reviewBoard({ callId }), reviewerCandidates(), observatoryTimeZone()]);
+  return { board, candidates, timeZone, now: new Date().toISOString() };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireRole(request, "chair");
+  const callId = callIdOf(params);
+  const form = await request.formData();
+  const intent = String(form.get("intent") ?? "");
+  const values = formValues(form);
+  const id = (name: string) => Number(form.get(name));
+  try {
+    if (intent === "start") {
+      const { moved } = await startReview({ actor: user, callId });
+      return { ok: true as const, intent, message: `${moved} proposal${moved === 1 ? "" : "s"} moved to in review.`, errors: {} as Record<string, string>, values };
+    }
+    if (intent === "setup") {
+      const parsed = reviewSetupSchema.safeParse(values);
+      if (!parsed.success) return data({ ok: false as const, intent, errors: fieldErrors(parsed.error), values }, { status: 400 });
+      const at = zonedLocalToUtc(parsed.data.reviewDeadline, await observatoryTimeZone());
+      if (!at) return data({ ok: false as const, intent, errors: { reviewDeadline: "That date and time do not exist in the observatory's time zone." } as Record<string, string>, values }, { status: 400 });
+      await saveReviewSetup({ actor: user, callId, reviewDeadlineAt: at, perProposal: parsed.data.perProposal, panel: parsed.data.panel });
+      return { ok: true as const, intent, message: "Review deadline and panel saved.", errors: {} as Record<string, string>, values };
+    }
+    if (intent === "remind") {
+      const { outstanding } = await remindReviewer({ actor: user, callId, reviewerId: id("reviewerId") });
+      return { ok: true as const, intent, message: `Reminder sent (${outstanding} outstanding).`, errors: {} as Record<string, string>, values };
+    }
+    if (intent === "reassign") {
+      await reassign({ actor: user, callId, assignmentId: id("assignmentId"), reviewerId: id("reviewerId") });
+      return { ok: true as const, intent, message: "Reassigned; the new reviewer was told.", errors: {} as Record<string, string>, values };
+    }
+    if (intent === "reopen") {
+      await chairReopenReview({ actor: user, callId, assignmentId: id("assignmentId") });
+      return { ok: true as const, intent, message: "Review reopened for the reviewer.", errors: {} as Record<string, string>, values };
+    }
+    return data({ ok: false as const, intent, errors: { form: "That button does nothing here; reload the page." } as Record<string, string>, values }, { status: 400 });
+  } catch (error) {
+    const refused = refusalResponse(error, values);
+    return data({ ...refused.data, intent }, refused.init ?? undefined);
+  }
+}
+
+const statusTone: Record<ReviewStatus | "overdue", string> = {
+  assigned: "bg-slate-100 text-slate-700",
+  draft: "bg-amber-100 text-amber-900",
+  submitted: "bg-emerald-100 text-emerald-900",
+  conflict: "bg-red-100 text-red-800",
+  overdue: "bg-red-600 text-white",
+};
+
+export default function CallReviewPage({ loaderData }: Route.ComponentProps) {
+  const { board, candidates, timeZone, now } = loaderData;
+  const actionData = useActionData<typeof action>();
+  const navigation = useNavigation();
+  const busy = navigation.state !== "idle";
+  const { call, review } = board;
+  const reviewerName = (id: number) => board.panel.find((r) => r.reviewerId === id)?.name ?? `user ${id}`;
+  const overdue = review.reviewDeadlineAt !== null && now >= review.reviewDeadlineAt;
+  const err = (field: string) => (actionData && !actionData.ok ? actionData.errors[field] : undefined);
+  const typed = (field: string) => (actionData?.values as Record<string, string | string[]> | undefined)?.[field];
+  const deadlineLocal = (typed("reviewDeadline") as string | undefined) ?? (review.reviewDeadlineAt ? utcToZonedLocal(review.reviewDeadlineAt, timeZone) : "");
+  const typedPanel = typed("panel");
+  const panelIds = typedPanel !== undefined ? ([] as string[]).concat(typedPanel).map(Number) : board.panel.map((r) => r.reviewerId);
+  return (
+    <div className="space-y-6">
+      <p className="text-sm"><Link to="/committee">Committee</Link> › {call.semesterCode}</p>
+      <h1>Review of call {call.semesterCode}</h1>
+      {actionData?.ok ? <p role="status" className="rounded-md border border-emerald-300 bg-emerald-50 px-3 py-2 text-emerald-900">{actionData.message}</p> : null}
+      {err("form") || err("reviewerId") || err("assignmentId") ? <p role="alert" className="rounded-md border border-red-200 bg-red-50 px-3 py-2 text-red-800">{err("form") ?? err("reviewerId") ?? err("assignmentId")}</p> : null}
+
+      <section className="card space-y-2">
+        <h2>Proposals in review</h2>
+        <p>Call deadline {formatUtc(call.deadlineAt)}. {board.proposals.length} in review; {board.submittedCount} submitted and not yet in review.</p>
+        {board.submittedCount > 0 ? (
+          call.deadlinePassed ? (
+            <Form method="post">
+              <button className="btn" name="intent" value="start" disabled={busy}>Put {board.submittedCount} submitted proposal{board.submittedCount === 1 ? "" : "s"} in review</button>
+            </Form>
+          ) : (
+            <p className="text-slate-600">The call's deadline has not passed: proposals can be put in review after it.</p>
+          )
+        ) : null}
+      </section>
+
+      <section className="card space-y-3">
+        <h2>Review deadline and panel</h2>
+        <Form method="post" className="space-y-3" noValidate>
+          <input type="hidden" name="intent" value="setup" />
+          <div className="grid gap-3 sm:grid-cols-2">
+            <Field label={`Review deadline (${timeZone})`} id="reviewDeadline" error={err("reviewDeadline")} hint={review.reviewDeadlineAt ? `${formatInZone(review.reviewDeadlineAt, timeZone)} = ${formatUtc(review.reviewDeadlineAt)}` : undefined}>
+              <input {...inputProps("reviewDeadline", err("reviewDeadline"))} type="datetime-local" name="reviewDeadline" defaultValue={deadlineLocal} />
+            </Field>
+            <Field label="Reviewers per proposal" id="perProposal" error={err("perProposal")}>
+              <input {...inputProps("perProposal", err("perProposal"))} type="number" min={1} max={10} name="perProposal" defaultValue={(typed("perProposal") as string | undefined) ?? review.perProposal} />
+            </Field>
+          </div>
+          <fieldset>
+            <legend className="text-sm font-semibold">Panel (users holding the reviewer role)</legend>
+            <div className="mt-1 grid gap-1 sm:grid-cols-2">
+              {candidates.map((c) => (
+                <label key={c.reviewerId} className="flex items-start gap-2 font-normal">
+                  <input type="checkbox" name="panel" value={c.reviewerId} defaultChecked={panelIds.includes(c.reviewerId)} />
+                  <span>
+                    {c.name} <span className="text-sm text-slate-600">· {c.institution ?? "no institution"} · {c.categories.map((x) => scienceCategoryLabel(x)).join(", ") || "no categories stated"}</span>
+                  </span>
+                </label>
+              ))}
+            </div>
+            {err("panel") ? <p className="field-error" role="alert">{err("panel")}</p> : null}
+          </fieldset>
+          <button className="btn" disabled={busy}>Save deadline and panel</button>
+        </Form>
+        <p><Link to={`/committee/${call.id}/assignments`} className="font-semibold">Open the assignment matrix →</Link> {review.committedAt ? `Committed ${formatUtc(review.committedAt)}.` : "Not committed yet."}</p>
+      </section>
+
+      <section className="card space-y-3">
+        <h2>Progress per reviewer</h2>
+        <table className="table-base">
+          <thead><tr><th>Reviewer</th><th>Assigned</th><th>Submitted</th><th>Outstanding</th><th>Conflicts declared</th><th></th></tr></thead>
+          <tbody>
+            {board.panel.map((r) => {
+              const mine = board.assignments.filter((a) => a.reviewerId === r.reviewerId && a.committed);
+              const open = mine.filter((a) => a.status === "assigned" || a.status === "draft").length;
+              return (
+                <tr key={r.reviewerId}>
+                  <td>{r.name}</td>
+                  <td>{mine.filter((a) => a.status !== "conflict").length}</td>
+                  <td>{mine.filter((a) => a.status === "submitted").length}</td>
+                  <td>{open}{overdue && open ? <span className={`ml-2 rounded px-1 text-xs ${statusTone.overdue}`}>overdue</span> : null}</td>
+                  <td>{mine.filter((a) => a.status === "conflict").length}</td>
+                  <td>
+                    {open ? (
+                      <Form method="post"><input type="hidden" name="reviewerId" value={r.reviewerId} /><button className="btn-quiet" name="intent" value="remind" disabled={busy}>Send a reminder</button></Form>
+                    ) : null}
+                  </td>
+                </tr>
+              );
+            })}
+          </tbody>
+        </table>
+      </section>
+
+      <section className="card space-y-3">
+        <h2>Progress per proposal</h2>
+        {board.proposals.map((p) => {
+          const rows = board.assignments.filter((a) => a.proposalId === p.proposalId && a.committed);
+          const done = rows.filter((a) => a.status === "submitted" && a.overall !== null);
+          const mean = done.length ? done.reduce((s, a) => s + (a.overall ?? 0), 0) / done.length : null;
+          return (
+            <div key={p.proposalId} className="border-t border-slate-200 pt-3" data-proposal={p.code ?? p.proposalId}>
+              <h3 className="font-semibold">
+                <Link to={`/review/${p.proposalId}`}>{p.code ?? `#${p.proposalId}`} · {p.title}</Link>
+              </h3>
+              <p className="text-sm text-slate-600">{scienceCategoryLabel(p.category) ?? "no category"} · PI at {p.piInstitution ?? "?"} · {done.length}/{rows.filter((a) => a.status !== "conflict").length} submitted{mean !== null ? ` · mean overall ${mean.toFixed(2)}` : ""}</p>
+              <ul className="mt-1 space-y-1">
+                {rows.map((a) => (
+                  <li key={a.assignmentId} className="text-sm">
+                    <span className={`mr-2 rounded px-1 ${statusTone[a.status]}`}>{reviewStatusLabels[a.status]}</span>
+                    {reviewerName(a.reviewerId)}
+                    {a.status === "submitted" ? ` — science ${a.science}, feasibility ${a.feasibility}, legacy ${a.legacy}, overall ${a.overall}` : ""}
+                    {a.status === "conflict" ? ` — ${a.conflictReason}` : ""}
+                    {a.commentToCommittee ? <details className="ml-6"><summary>Comment to the committee</summary><p className="whitespace-pre-wrap">{a.commentToCommittee}</p></details> : null}
+                    {a.commentToPi ? <details className="ml-6"><summary>Comment to the PI</summary><p className="whitespace-pre-wrap">{a.commentToPi}</p></details> : null}
+                    {a.status === "assigned" || a.status === "conflict" ? (
+                      <Form method="post" className="ml-6 inline-flex gap-2">
+                        <input type="hidden" name="assignmentId" value={a.assignmentId} />
+                        <select name="reviewerId" aria-label={`New reviewer for ${p.code}`} className="input w-auto py-0">
+                          {board.panel
+                            .filter((r) => !board.conflicts.some((c) => c.proposalId === p.proposalId && c.reviewerId === r.reviewerId) && !board.assignments.some((x) => x.proposalId === p.proposalId && x.reviewerId === r.reviewerId))
+                            .map((r) => <option key={r.reviewerId} value={r.reviewerId}>{r.name}</option>)}
+                        </select>
+                        <button className="btn-quiet" name="intent" value="reassign" disabled={busy}>Reassign</button>
+                      </Form>
+                    ) : null}
+                    {overdue && a.status !== "conflict" ? (
+                      <Form method="post" className="ml-2 inline"><input type="hidden" name="assignmentId" value={a.assignmentId} /><button className="btn-quiet" name="intent" value="reopen" disabled={busy}>Reopen for the reviewer</button></Form>
+                    ) : null}
+                  </li>
+                ))}
+              </ul>
+            </div>
+          );
+        })}
+      </section>
+    </div>
+  );
+}
