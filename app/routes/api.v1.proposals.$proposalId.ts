@@ -4,7 +4,7 @@ import { computeFeasibilitySheet } from "~/lib/feasibility.server";
 import { listObservations } from "~/lib/proposal-observations.server";
 import { listTargets } from "~/lib/proposal-targets.server";
 import { listTeam } from "~/lib/proposal-team.server";
-import { claimInvitations, getProposalForUser, membershipWhere, overviewValues, workspaceHeader } from "~/lib/proposals.server";
+import { getProposalForUser, membershipWhere, overviewValues, workspaceHeader } from "~/lib/proposals.server";
 import { committeeAccess, committeeReading } from "~/lib/review/read.server";
 import { ProposalMember } from "~/models/index.server";
 import type { Route } from "./+types/api.v1.proposals.$proposalId";
@@ -19,7 +19,6 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     return data({ error: "The request has invalid fields.", issues: [{ path: "proposalId", message: "must be a positive whole number" }] }, { status: 400 });
   }
   const proposalId = Number(params.proposalId);
-  await claimInvitations({ user });
   const onTeam = await ProposalMember.findOne({ where: { proposalId, ...membershipWhere(user) }, attributes: ["id"] });
   if (!onTeam && (user.roles.includes("chair") || user.roles.includes("reviewer"))) {
     const reading = await committeeReading(await committeeAccess({ user, proposalId }));
