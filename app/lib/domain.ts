@@ -17,3 +17,7 @@ export const proposalStatusLabels: Record<ProposalStatus, string> = {
   declined: "declined",
   withdrawn: "withdrawn",
 };
+
+/** Allocation tiers, in the order the semester is scheduled (SPEC §6). */
+export const allocationTiers = ["assured", "queue", "filler"] as const;
+export type AllocationTier = (typeof allocationTiers)[number];

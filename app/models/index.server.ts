@@ -1,5 +1,8 @@
 import { sequelize } from "~/lib/db.server";
+import { Allocation } from "./Allocation";
 import { AuditEntry } from "./AuditEntry";
+import { BoardEntry } from "./BoardEntry";
+import { CallAllocation } from "./CallAllocation";
 import { Call } from "./Call";
 import { CallReview } from "./CallReview";
 import { CallOffer } from "./CallOffer";
@@ -15,11 +18,13 @@ import { ReviewAssignment } from "./ReviewAssignment";
 import { ReviewerProfile } from "./ReviewerProfile";
 import { ReviewPanelMember } from "./ReviewPanelMember";
 import { RoleGrant } from "./RoleGrant";
+import { SemesterCheck } from "./SemesterCheck";
 import { UserSession } from "./Session";
 import { RateLimitKey, SignInCode, SignInRequest } from "./SignIn";
 import { StoredFile } from "./StoredFile";
 import { Target } from "./Target";
 import { Telescope } from "./Telescope";
+import { TelescopeClearFraction } from "./TelescopeClearFraction";
 import { User } from "./User";
 
 for (const model of [
@@ -27,6 +32,7 @@ for (const model of [
   Target, Observation, PlannedEpoch, StoredFile, OutgoingMail, AuditEntry, SignInRequest,
   SignInCode, PaymentEvent, UserSession, RateLimitKey,
   CallReview, ReviewPanelMember, ReviewerProfile, ReviewAssignment,
+  TelescopeClearFraction, CallAllocation, BoardEntry, Allocation, SemesterCheck,
 ]) {
   model.initModel(sequelize);
 }
@@ -77,6 +83,20 @@ ReviewAssignment.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" 
 ReviewAssignment.belongsTo(User, { foreignKey: "reviewerId", as: "reviewer" });
 Proposal.hasMany(ReviewAssignment, { foreignKey: "proposalId", as: "reviewAssignments" });
 
+Telescope.hasMany(TelescopeClearFraction, { foreignKey: "telescopeId", as: "clearFractions" });
+TelescopeClearFraction.belongsTo(Telescope, { foreignKey: "telescopeId", as: "telescope" });
+CallAllocation.belongsTo(Call, { foreignKey: "callId", as: "call" });
+CallAllocation.belongsTo(User, { foreignKey: "lockedById", as: "lockedBy" });
+BoardEntry.belongsTo(Call, { foreignKey: "callId", as: "call" });
+BoardEntry.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" });
+Proposal.hasOne(BoardEntry, { foreignKey: "proposalId", as: "boardEntry" });
+Allocation.belongsTo(Call, { foreignKey: "callId", as: "call" });
+Allocation.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" });
+Allocation.belongsTo(Telescope, { foreignKey: "telescopeId", as: "telescope" });
+Proposal.hasMany(Allocation, { foreignKey: "proposalId", as: "allocations" });
+SemesterCheck.belongsTo(Call, { foreignKey: "callId", as: "call" });
+SemesterCheck.belongsTo(User, { foreignKey: "requestedById", as: "requestedBy" });
+
 AuditEntry.belongsTo(User, { foreignKey: "actorId", as: "actor" });
 AuditEntry.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" });
 
@@ -85,4 +105,5 @@ export {
   PaymentEvent, PlannedEpoch, Proposal, ProposalMember, RoleGrant, SignInCode, SignInRequest,
   StoredFile, Target, Telescope, User, UserSession, RateLimitKey,
   CallReview, ReviewPanelMember, ReviewerProfile, ReviewAssignment,
+  TelescopeClearFraction, CallAllocation, BoardEntry, Allocation, SemesterCheck,
 };
