@@ -14,6 +14,7 @@ export default [
   route("api/v1/calls/:callId/review/suggest", "routes/api.v1.calls.$callId.review.suggest.ts"),
   route("api/v1/calls/:callId/review/assignments", "routes/api.v1.calls.$callId.review.assignments.ts"),
   route("api/v1/calls/:callId/reviews", "routes/api.v1.calls.$callId.reviews.ts"),
+  route("api/v1/calls/:callId/board", "routes/api.v1.calls.$callId.board.ts"),
   route("api/v1/review/assignments", "routes/api.v1.review.assignments.ts"),
   route("api/v1/review/assignments/:assignmentId", "routes/api.v1.review.assignments.$assignmentId.ts"),
   route("api/v1/review/assignments/:assignmentId/conflict", "routes/api.v1.review.assignments.$assignmentId.conflict.ts"),

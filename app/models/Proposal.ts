@@ -31,6 +31,7 @@ export class Proposal extends Model<InferAttributes<Proposal>, InferCreationAttr
   declare members?: NonAttribute<ProposalMember[]>;
   declare targets?: NonAttribute<Target[]>;
   declare observations?: NonAttribute<Observation[]>;
+  declare createdBy?: NonAttribute<User>;
 
   static initModel(sequelize: Sequelize) {
     Proposal.init(

@@ -1,0 +1,126 @@
+// The ranking board's numbers for one call (SPEC §3.4): normalised scores from the submitted
+// reviews, the hours each proposal requests from its feasibility sheet, the chair's positions and
+// allocations, and oversubscription per telescope × moon category against the offered hours less
+// what earlier calls' locked allocations already committed to this semester.
+import { Op } from "sequelize";
+import { moonCategories, type MoonCategory } from "~/lib/domain";
+import { computeFeasibilitySheet } from "~/lib/feasibility.server";
+import { callNotFound } from "~/lib/review/chair.server";
+import { Allocation, BoardEntry, Call, CallAllocation, CallOffer, Proposal, ReviewAssignment, User } from "~/models/index.server";
+import { normaliseGrades } from "./normalise";
+
+/** Proposals that stand on the board: in review, or with an outcome from a lock. */
+export const BOARD_STATES = ["in_review", "accepted", "waitlisted", "declined"] as const;
+
+export type HoursCell = { telescopeId: number; moonCategory: MoonCategory; semesterCode: string; hours: number };
+
+const cellKey = (telescopeId: number, moonCategory: string) => `${telescopeId}|${moonCategory}`;
+
+/** Hours already committed to `semesterCode` by locked allocations of other calls. */
+export async function committedHours({ callId, semesterCode }: { callId: number; semesterCode: string }) {
+  const locked = await CallAllocation.findAll({ where: { lockedAt: { [Op.ne]: null }, callId: { [Op.ne]: callId } }, attributes: ["callId"] });
+  const out = new Map<string, number>();
+  if (locked.length === 0) return out;
+  const rows = await Allocation.findAll({ where: { semesterCode, callId: { [Op.in]: locked.map((l) => l.callId as number) } } });
+  for (const row of rows) {
+    const key = cellKey(row.telescopeId as number, row.moonCategory);
+    out.set(key, (out.get(key) ?? 0) + row.hours);
+  }
+  return out;
+}
+
+export async function callBoard({ callId }: { callId: number }) {
+  const call = await Call.findByPk(callId, { include: [{ model: CallOffer, as: "offers" }] });
+  if (!call) callNotFound();
+  const proposals = await Proposal.findAll({
+    where: { callId, status: { [Op.in]: [...BOARD_STATES] } },
+    include: [{ model: User, as: "createdBy", attributes: ["institution"] }],
+    order: [["serial", "ASC"], ["id", "ASC"]],
+  });
+  const ids = proposals.map((p) => p.id);
+  const [grades, entries, allocations, allocation, committed] = await Promise.all([
+    ReviewAssignment.findAll({ where: { callId, status: "submitted", overall: { [Op.ne]: null }, proposalId: { [Op.in]: ids.length ? ids : [0] } }, attributes: ["proposalId", "reviewerId", "overall"] }),
+    BoardEntry.findAll({ where: { callId } }),
+    Allocation.findAll({ where: { callId } }),
+    CallAllocation.findOne({ where: { callId } }),
+    committedHours({ callId, semesterCode: call.semesterCode }),
+  ]);
+  const normalised = normaliseGrades(grades.map((g) => ({ proposalId: g.proposalId as number, reviewerId: g.reviewerId as number, overall: g.overall as number })));
+  const scoreOf = new Map(normalised.proposals.map((p) => [p.proposalId, p]));
+  const entryOf = new Map(entries.map((e) => [e.proposalId as number, e]));
+
+  const rows = [];
+  for (const p of proposals) {
+    let requested: HoursCell[] = [];
+    let requestedError: string | null = null;
+    try {
+      const sheet = await computeFeasibilitySheet({ proposalId: p.id });
+      requested = sheet.totals.map((t) => ({ telescopeId: t.telescopeId, moonCategory: t.moonCategory, semesterCode: t.semesterCode, hours: t.hours }));
+    } catch (error) {
+      console.error(`feasibility sheet of proposal ${p.id} failed`, error);
+      requestedError = "The feasibility sheet could not be computed; requested hours unknown.";
+    }
+    const score = scoreOf.get(p.id);
+    const entry = entryOf.get(p.id);
+    rows.push({
+      proposalId: p.id,
+      code: p.code,
+      title: p.title,
+      category: p.scienceCategory,
+      status: p.status,
+      piInstitution: p.createdBy?.institution ?? null,
+      reviews: score?.reviews ?? 0,
+      rawMean: score?.rawMean ?? null,
+      normalisedScore: score?.normalisedScore ?? null,
+      normalisedZ: score?.normalisedZ ?? null,
+      spread: score?.spread ?? null,
+      disagreement: score?.disagreement ?? false,
+      fallbackReviewerIds: score?.fallbackReviewerIds ?? [],
+      computedRank: score?.computedRank ?? null,
+      chairRank: entry?.chairRank ?? null,
+      chairRankReason: entry?.chairRankReason ?? null,
+      tier: entry?.tier ?? null,
+      waitlisted: entry?.waitlisted ?? false,
+      requested,
+      requestedError,
+      allocation: allocations
+        .filter((a) => a.proposalId === p.id)
+        .map((a) => ({ telescopeId: a.telescopeId as number, moonCategory: a.moonCategory, semesterCode: a.semesterCode, hours: a.hours })),
+    });
+  }
+  // Proposals without a submitted review sort last.
+  rows.sort((a, b) => (a.computedRank ?? Infinity) - (b.computedRank ?? Infinity) || a.proposalId - b.proposalId);
+
+  const requestedByCell = new Map<string, number>();
+  for (const row of rows) for (const r of row.requested) {
+    if (r.semesterCode !== call.semesterCode) continue;
+    const key = cellKey(r.telescopeId, r.moonCategory);
+    requestedByCell.set(key, (requestedByCell.get(key) ?? 0) + r.hours);
+  }
+  const oversubscription = (call.offers ?? [])
+    .slice()
+    .sort((a, b) => (a.telescopeId as number) - (b.telescopeId as number) || moonCategories.indexOf(a.moonCategory) - moonCategories.indexOf(b.moonCategory))
+    .map((o) => {
+      const key = cellKey(o.telescopeId as number, o.moonCategory);
+      const requestedHours = requestedByCell.get(key) ?? 0;
+      const committedHoursHere = committed.get(key) ?? 0;
+      const offeredHours = Math.max(0, o.hoursOffered - committedHoursHere);
+      return {
+        telescopeId: o.telescopeId as number,
+        moonCategory: o.moonCategory,
+        requestedHours,
+        offeredHours,
+        committedHours: committedHoursHere,
+        ratio: offeredHours > 0 ? requestedHours / offeredHours : null,
+      };
+    });
+
+  return {
+    call: { id: call.id, semesterCode: call.semesterCode, semesterStart: call.semesterStart, semesterEnd: call.semesterEnd },
+    panel: normalised.panel,
+    reviewers: normalised.reviewers,
+    locked: Boolean(allocation?.lockedAt),
+    proposals: rows,
+    oversubscription,
+  };
+}

@@ -1,0 +1,118 @@
+// The ranking board's JSON through HTTP on the test MariaDB: normalised scores checked against
+// simple-statistics 7.8.8 (registry), oversubscription against the offered hours less an earlier
+// call's locked commitment, and the access rules.
+import { mean, standardDeviation, zScore } from "simple-statistics";
+import { beforeAll, describe, expect, it } from "vitest";
+import { computeFeasibilitySheet } from "~/lib/feasibility.server";
+import { Allocation, CallAllocation, Proposal, ReviewAssignment, Telescope } from "~/models/index.server";
+import { request } from "../helpers/app";
+import { ensureDatabase } from "../helpers/db";
+import { newUser } from "../helpers/session";
+import { readyProposal, testCall } from "./proposals-fixtures";
+
+type Person = Awaited<ReturnType<typeof newUser>>;
+let chair: Person, reviewer: Person;
+let call: Awaited<ReturnType<typeof testCall>>;
+let proposals: Proposal[];
+let telescopeId: number;
+// overall merits per reviewer (rows) and proposal (columns); null = not assigned. Invented.
+const merits: (number | null)[][] = [
+  [9, 8, 6.5, 7],
+  [5, 6, 3, null],
+  [7, null, 8, 4],
+];
+
+beforeAll(async () => {
+  await ensureDatabase();
+  chair = await newUser({ roles: ["chair"], name: "Board Chair" });
+  reviewer = await newUser({ roles: ["reviewer"], name: "Board Reviewer" });
+  const reviewers = await Promise.all([0, 1, 2].map((i) => newUser({ roles: ["reviewer"], name: `Board Reviewer ${i}` })));
+  call = await testCall();
+  proposals = [];
+  for (let i = 0; i < 4; i++) {
+    const pi = await newUser({ name: `Board PI ${i}` });
+    const { proposal } = await readyProposal({ user: pi.user, callId: call.id, title: `Board test programme ${i} of ${call.semesterCode}` });
+    await Proposal.update({ status: "in_review", code: `${String(i + 1).padStart(3, "0")}/${call.semesterCode.slice(2)}`, serial: i + 1, submittedAt: new Date() }, { where: { id: proposal.id } });
+    proposals.push((await Proposal.findByPk(proposal.id))!);
+  }
+  for (const [r, row] of merits.entries()) {
+    for (const [c, overall] of row.entries()) {
+      if (overall === null) continue;
+      await ReviewAssignment.create({ callId: call.id, proposalId: proposals[c].id, reviewerId: reviewers[r].user.id, status: "submitted", overall, science: overall, feasibility: overall, legacy: overall, submittedAt: new Date() });
+    }
+  }
+  // an earlier call whose locked allocation commits 40 dark hours of this call's semester
+  telescopeId = (await Telescope.findOne({ order: [["id", "ASC"]] }))!.id;
+  const earlier = await testCall();
+  const { proposal: old } = await readyProposal({ user: chair.user, callId: earlier.id, title: "Earlier multi-semester programme" });
+  await CallAllocation.create({ callId: earlier.id, lockedAt: new Date(), lockedById: chair.user.id });
+  await Allocation.create({ callId: earlier.id, proposalId: old.id, telescopeId, moonCategory: "dark", semesterCode: call.semesterCode, hours: 40 });
+  // an unlocked call's allocation commits nothing
+  const draftCall = await testCall();
+  const { proposal: other } = await readyProposal({ user: chair.user, callId: draftCall.id, title: "Unlocked programme" });
+  await Allocation.create({ callId: draftCall.id, proposalId: other.id, telescopeId, moonCategory: "grey", semesterCode: call.semesterCode, hours: 25 });
+});
+
+describe("GET /api/v1/calls/:callId/board", () => {
+  it("gives each proposal the normalised score that simple-statistics computes", async () => {
+    const res = await (await request()).get(`/api/v1/calls/${call.id}/board`).set("Cookie", chair.cookie);
+    expect(res.status).toBe(200);
+    const all = merits.flat().filter((m): m is number => m !== null);
+    // reviewer 1 has 3 grades, reviewers 0 and 2 have 4 and 3: all are normalised on their own set
+    const z = merits.map((row) => {
+      const own = row.filter((m): m is number => m !== null);
+      return row.map((m) => (m === null ? null : zScore(m, mean(own), standardDeviation(own))));
+    });
+    for (const [c, p] of proposals.entries()) {
+      const row = res.body.proposals.find((x: { proposalId: number }) => x.proposalId === p.id);
+      const zs = z.map((r) => r[c]).filter((v): v is number => v !== null);
+      const raw = merits.map((r) => r[c]).filter((v): v is number => v !== null);
+      expect(row.code).toBe(p.code);
+      expect(row.reviews).toBe(raw.length);
+      expect(row.rawMean).toBeCloseTo(mean(raw), 10);
+      expect(row.spread).toBeCloseTo(Math.max(...zs) - Math.min(...zs), 10);
+      expect(row.normalisedScore).toBeCloseTo(Math.min(10, Math.max(1, mean(all) + mean(zs) * standardDeviation(all))), 10);
+      expect(row.disagreement).toBe(Math.max(...zs) - Math.min(...zs) > 1.5);
+      expect(row.fallbackReviewerIds).toEqual([]);
+      expect(row.chairRank).toBeNull();
+    }
+    const expected = proposals
+      .map((p, c) => ({ id: p.id, z: mean(z.map((r) => r[c]).filter((v): v is number => v !== null)) }))
+      .sort((a, b) => b.z - a.z)
+      .map((x) => x.id);
+    expect(res.body.proposals.map((x: { proposalId: number }) => x.proposalId)).toEqual(expected);
+    expect(res.body.proposals.map((x: { computedRank: number }) => x.computedRank)).toEqual([1, 2, 3, 4]);
+  });
+
+  it("counts oversubscription against offered hours less the locked commitment of an earlier call", async () => {
+    const res = await (await request()).get(`/api/v1/calls/${call.id}/board`).set("Cookie", chair.cookie);
+    const requested = new Map<string, number>();
+    for (const p of proposals) {
+      for (const t of (await computeFeasibilitySheet({ proposalId: p.id })).totals) {
+        if (t.semesterCode !== call.semesterCode) continue;
+        requested.set(`${t.telescopeId}|${t.moonCategory}`, (requested.get(`${t.telescopeId}|${t.moonCategory}`) ?? 0) + t.hours);
+      }
+    }
+    expect([...requested.values()].some((h) => h > 0)).toBe(true);
+    const dark = res.body.oversubscription.find((o: { telescopeId: number; moonCategory: string }) => o.telescopeId === telescopeId && o.moonCategory === "dark");
+    expect(dark.committedHours).toBe(40);
+    expect(dark.offeredHours).toBe(260);
+    const grey = res.body.oversubscription.find((o: { telescopeId: number; moonCategory: string }) => o.telescopeId === telescopeId && o.moonCategory === "grey");
+    expect(grey.committedHours).toBe(0);
+    expect(grey.offeredHours).toBe(300);
+    for (const o of res.body.oversubscription) {
+      const want = requested.get(`${o.telescopeId}|${o.moonCategory}`) ?? 0;
+      expect(o.requestedHours).toBeCloseTo(want, 9);
+      expect(o.ratio).toBeCloseTo(want / o.offeredHours, 9);
+    }
+  });
+
+  it("is the chair's: a reviewer gets 403, a bad id 400 naming the field, an unknown call 404", async () => {
+    const app = await request();
+    expect((await app.get(`/api/v1/calls/${call.id}/board`).set("Cookie", reviewer.cookie)).status).toBe(403);
+    const bad = await app.get(`/api/v1/calls/abc/board`).set("Cookie", chair.cookie);
+    expect(bad.status).toBe(400);
+    expect(JSON.stringify(bad.body)).toContain("callId");
+    expect((await app.get(`/api/v1/calls/99999999/board`).set("Cookie", chair.cookie)).status).toBe(404);
+  });
+});
