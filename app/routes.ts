@@ -36,6 +36,7 @@ export default [
     route("committee", "routes/committee._index.tsx"),
     route("committee/:callId", "routes/committee.$callId.tsx"),
     route("committee/:callId/assignments", "routes/committee.$callId.assignments.tsx"),
+    route("committee/:callId/board", "routes/committee.$callId.board.tsx"),
     ...prefix("proposals", [
       index("routes/proposals._index.tsx"),
       route("new", "routes/proposals.new.tsx"),

@@ -142,6 +142,7 @@ export default function CallReviewPage({ loaderData }: Route.ComponentProps) {
           </fieldset>
           <button className="btn" disabled={busy}>Save deadline and panel</button>
         </Form>
+        <p><Link to={`/committee/${call.id}/board`} className="font-semibold">Open the ranking board →</Link></p>
         <p><Link to={`/committee/${call.id}/assignments`} className="font-semibold">Open the assignment matrix →</Link> {review.committedAt ? `Committed ${formatUtc(review.committedAt)}.` : "Not committed yet."}</p>
       </section>
 
