@@ -41,6 +41,11 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
       row.requested.filter((r) => (r.semesterCode === call.semesterCode) === thisSemester).reduce((sum, r) => sum + r.hours, 0);
     return [
       column.accessor("computedRank", { header: "Rank", cell: (c) => c.getValue() ?? "–", sortUndefined: "last" }),
+      column.accessor("chairRank", {
+        header: "Chair's rank",
+        sortUndefined: "last",
+        cell: (c) => (c.getValue() === null ? "–" : <span title={c.row.original.chairRankReason ?? undefined}>{c.getValue()} <span className="text-xs text-slate-600">({c.row.original.chairRankReason})</span></span>),
+      }),
       column.accessor((r) => r.code ?? "", { id: "code", header: "Code" }),
       column.accessor("title", { header: "Title" }),
       column.accessor((r) => (r.category ? scienceCategoryLabel(r.category) : ""), { id: "category", header: "Category" }),
@@ -78,6 +83,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
     <div className="space-y-6">
       <p className="text-sm"><Link to="/committee">Committee</Link> › <Link to={`/committee/${call.id}`}>{call.semesterCode}</Link> › Ranking board</p>
       <h1>Ranking board for {call.semesterCode}</h1>
+      {board.locked ? <p role="status" className="rounded-md border border-slate-300 bg-slate-100 px-3 py-2">The allocation is locked: ranking and hours cannot change until the chair unlocks it with a reason.</p> : null}
       <section className="card space-y-2">
         <h2>Oversubscription</h2>
         <p className="text-sm text-slate-700">Requested hours for {call.semesterCode} against offered hours, less what earlier calls' locked allocations already committed to this semester.</p>

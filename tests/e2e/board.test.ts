@@ -39,7 +39,7 @@ describe("the ranking board", () => {
     await page.goto(`${suite.server.url}/committee/${call.id}/board`);
     await page.getByRole("heading", { name: `Ranking board for ${call.semesterCode}` }).waitFor();
     const proposalsSection = page.locator("section", { has: page.getByRole("heading", { name: "Proposals" }) });
-    const titles = () => proposalsSection.locator("tbody tr td:nth-child(3)").allTextContents();
+    const titles = () => proposalsSection.locator("tbody tr td:nth-child(4)").allTextContents();
     await expect.poll(titles).toEqual(["Board browser programme 0", "Board browser programme 1", "Board browser programme 2"]);
     await screenshot(page, "board-01-ranked");
 

@@ -4,7 +4,7 @@
 import { mean, standardDeviation, zScore } from "simple-statistics";
 import { beforeAll, describe, expect, it } from "vitest";
 import { computeFeasibilitySheet } from "~/lib/feasibility.server";
-import { Allocation, CallAllocation, Proposal, ReviewAssignment, Telescope } from "~/models/index.server";
+import { Allocation, AuditEntry, BoardEntry, CallAllocation, Proposal, ReviewAssignment, Telescope } from "~/models/index.server";
 import { request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
 import { newUser } from "../helpers/session";
@@ -114,5 +114,83 @@ describe("GET /api/v1/calls/:callId/board", () => {
     expect(bad.status).toBe(400);
     expect(JSON.stringify(bad.body)).toContain("callId");
     expect((await app.get(`/api/v1/calls/99999999/board`).set("Cookie", chair.cookie)).status).toBe(404);
+  });
+});
+
+const asJson = (cookie: string) => ({ Cookie: cookie, "Content-Type": "application/json" });
+
+describe("the chair's changes: positions, hours, tiers, lock and unlock", () => {
+  it("moves a proposal with a required reason, audited, and shows both ranks", async () => {
+    const app = await request();
+    const target = proposals[3];
+    const noReason = await app.post(`/api/v1/calls/${call.id}/board/rank`).set(asJson(chair.cookie)).send({ proposalId: target.id, chairRank: 1, reason: " " });
+    expect(noReason.status).toBe(400);
+    expect(JSON.stringify(noReason.body)).toContain("reason");
+    const moved = await app.post(`/api/v1/calls/${call.id}/board/rank`).set(asJson(chair.cookie)).send({ proposalId: target.id, chairRank: 1, reason: "Unique instrument window this semester" });
+    expect(moved.status).toBe(200);
+    const board = await app.get(`/api/v1/calls/${call.id}/board`).set("Cookie", chair.cookie);
+    const row = board.body.proposals.find((p: { proposalId: number }) => p.proposalId === target.id);
+    expect(row.chairRank).toBe(1);
+    expect(row.computedRank).not.toBe(1);
+    const audit = await AuditEntry.findOne({ where: { action: "board.rank_moved", proposalId: target.id } });
+    expect(audit?.details).toMatchObject({ to: 1, reason: "Unique instrument window this semester" });
+    const foreign = await app.post(`/api/v1/calls/${call.id}/board/rank`).set(asJson(chair.cookie)).send({ proposalId: 99999999, chairRank: 2, reason: "not on this board" });
+    expect(foreign.status).toBe(400);
+  });
+
+  it("saves hours and tiers, refuses hours the call does not offer, then locks with the outcomes and refuses changes with 409", async () => {
+    const app = await request();
+    const bad = await app.put(`/api/v1/calls/${call.id}/allocation`).set(asJson(chair.cookie)).send({ rows: [{ proposalId: proposals[0].id, telescopeId, moonCategory: "dark", semesterCode: "1999A", hours: 5 }] });
+    expect(bad.status).toBe(400);
+    expect(JSON.stringify(bad.body)).toContain("semesterCode");
+    const negative = await app.put(`/api/v1/calls/${call.id}/allocation`).set(asJson(chair.cookie)).send({ rows: [{ proposalId: proposals[0].id, telescopeId, moonCategory: "dark", semesterCode: call.semesterCode, hours: -1 }] });
+    expect(negative.status).toBe(400);
+    expect(JSON.stringify(negative.body)).toContain("hours");
+
+    const saved = await app.put(`/api/v1/calls/${call.id}/allocation`).set(asJson(chair.cookie)).send({
+      rows: [
+        { proposalId: proposals[0].id, telescopeId, moonCategory: "dark", semesterCode: call.semesterCode, hours: 12.5 },
+        { proposalId: proposals[1].id, telescopeId, moonCategory: "grey", semesterCode: call.semesterCode, hours: 4 },
+      ],
+      tiers: [
+        { proposalId: proposals[0].id, tier: "assured" },
+        { proposalId: proposals[1].id, tier: "queue" },
+        { proposalId: proposals[2].id, tier: null, waitlisted: true },
+      ],
+    });
+    expect(saved.status).toBe(200);
+    expect(await Allocation.sum("hours", { where: { callId: call.id } })).toBe(16.5);
+    expect((await BoardEntry.findOne({ where: { proposalId: proposals[0].id } }))?.tier).toBe("assured");
+
+    const locked = await app.post(`/api/v1/calls/${call.id}/allocation/lock`).set(asJson(chair.cookie)).send("{}");
+    expect(locked.status).toBe(200);
+    expect(locked.body.outcomes).toEqual({ accepted: 2, waitlisted: 1, declined: 1 });
+    const statuses = await Promise.all(proposals.map(async (p) => (await Proposal.findByPk(p.id))!.status));
+    expect(statuses).toEqual(["accepted", "accepted", "waitlisted", "declined"]);
+
+    const again = await app.put(`/api/v1/calls/${call.id}/allocation`).set(asJson(chair.cookie)).send({ rows: [] , tiers: [{ proposalId: proposals[3].id, tier: "filler" }] });
+    expect(again.status).toBe(409);
+    expect(again.body.error).toMatch(/locked/);
+    const move = await app.post(`/api/v1/calls/${call.id}/board/rank`).set(asJson(chair.cookie)).send({ proposalId: proposals[3].id, chairRank: null, reason: "back to computed" });
+    expect(move.status).toBe(409);
+    expect((await app.post(`/api/v1/calls/${call.id}/allocation/lock`).set(asJson(chair.cookie)).send("{}")).status).toBe(409);
+
+    const noReason = await app.post(`/api/v1/calls/${call.id}/allocation/unlock`).set(asJson(chair.cookie)).send({});
+    expect(noReason.status).toBe(400);
+    expect(JSON.stringify(noReason.body)).toContain("reason");
+    const unlocked = await app.post(`/api/v1/calls/${call.id}/allocation/unlock`).set(asJson(chair.cookie)).send({ reason: "A reviewer's late grade arrived" });
+    expect(unlocked.status).toBe(200);
+    for (const p of proposals) expect((await Proposal.findByPk(p.id))!.status).toBe("in_review");
+    const audits = await AuditEntry.findAll({ where: { entityType: "call", entityId: call.id }, order: [["id", "ASC"]] });
+    expect(audits.map((a) => a.action)).toEqual(expect.arrayContaining(["allocation.saved", "allocation.locked", "allocation.unlocked"]));
+    // the allocation is kept through the unlock
+    expect(await Allocation.sum("hours", { where: { callId: call.id } })).toBe(16.5);
+  });
+
+  it("refuses every change to a reviewer", async () => {
+    const app = await request();
+    expect((await app.put(`/api/v1/calls/${call.id}/allocation`).set(asJson(reviewer.cookie)).send({ rows: [] })).status).toBe(403);
+    expect((await app.post(`/api/v1/calls/${call.id}/allocation/lock`).set(asJson(reviewer.cookie)).send("{}")).status).toBe(403);
+    expect((await CallAllocation.findOne({ where: { callId: call.id } }))?.lockedAt ?? null).toBeNull();
   });
 });

@@ -40,6 +40,10 @@ const expectations: Record<string, Rule> = {
   "/api/v1/calls/:callId/review/assignments": { get: "none", post: "none" }, // PUT (tested in review.test.ts)
   "/api/v1/calls/:callId/reviews": { get: "chair", post: "none" },
   "/api/v1/calls/:callId/board": { get: "chair", post: "none" },
+  "/api/v1/calls/:callId/board/rank": { get: "none", post: "chair" },
+  "/api/v1/calls/:callId/allocation": { get: "none", post: "none" }, // PUT (tested in board.test.ts)
+  "/api/v1/calls/:callId/allocation/lock": { get: "none", post: "chair" },
+  "/api/v1/calls/:callId/allocation/unlock": { get: "none", post: "chair" },
   "/api/v1/review/assignments": { get: "reviewer", post: "none" },
   "/api/v1/review/assignments/:assignmentId": { get: "none", post: "none" }, // PUT (tested in review.test.ts)
   "/api/v1/review/assignments/:assignmentId/conflict": { get: "none", post: "reviewer" }, // the probe body lacks a reason: 400

@@ -1,0 +1,113 @@
+// The chair's changes to a call's allocation: positions on the board (with a required reason),
+// hours and tiers, the lock and the unlock. Every change is one transaction with its audit row,
+// and a change to a locked allocation is refused with a 409.
+import { Op, type Transaction } from "sequelize";
+import { writeAudit } from "~/lib/audit.server";
+import { allocationTiers, moonCategories, type AllocationTier, type MoonCategory } from "~/lib/domain";
+import { ProposalRefused } from "~/lib/proposals.server";
+import { callNotFound } from "~/lib/review/chair.server";
+import { Allocation, BoardEntry, Call, CallAllocation, CallOffer, Proposal, sequelize } from "~/models/index.server";
+import { BOARD_STATES } from "./board.server";
+
+type Chair = { id: number };
+export type AllocationRow = { proposalId: number; telescopeId: number; moonCategory: MoonCategory; semesterCode: string; hours: number };
+export type TierRow = { proposalId: number; tier: AllocationTier | null; waitlisted?: boolean };
+
+export { allocationTiers, moonCategories };
+
+/** The call's allocation row, locked for this transaction; refuses when the allocation is locked. */
+async function openAllocation(callId: number, transaction: Transaction, { mustBeUnlocked = true } = {}) {
+  const call = await Call.findByPk(callId, { transaction });
+  if (!call) callNotFound();
+  await CallAllocation.findOrCreate({ where: { callId }, defaults: { callId, lockedAt: null, lockedById: null }, transaction });
+  const allocation = (await CallAllocation.findOne({ where: { callId }, transaction, lock: transaction.LOCK.UPDATE }))!;
+  if (mustBeUnlocked && allocation.lockedAt) {
+    throw new ProposalRefused("The allocation is locked. The chair must unlock it, with a reason, before anything changes.", 409, "allocation");
+  }
+  return { call, allocation };
+}
+
+async function boardProposal(callId: number, proposalId: number, transaction: Transaction, field = "proposalId") {
+  const proposal = await Proposal.findOne({ where: { id: proposalId, callId, status: { [Op.in]: [...BOARD_STATES] } }, transaction });
+  if (!proposal) throw new ProposalRefused(`Proposal ${proposalId} is not on this call's board.`, 400, field);
+  return proposal;
+}
+
+/** Moves a proposal to `chairRank` (null returns it to its computed rank), with a reason. */
+export async function moveOnBoard({ actor, callId, proposalId, chairRank, reason }: { actor: Chair; callId: number; proposalId: number; chairRank: number | null; reason: string }) {
+  return sequelize.transaction(async (transaction) => {
+    await openAllocation(callId, transaction);
+    const proposal = await boardProposal(callId, proposalId, transaction);
+    const [entry] = await BoardEntry.findOrCreate({ where: { proposalId }, defaults: { callId, proposalId, chairRank: null, chairRankReason: null, tier: null }, transaction });
+    const from = entry.chairRank;
+    await entry.update({ chairRank, chairRankReason: chairRank === null ? null : reason }, { transaction });
+    await writeAudit({ actorId: actor.id, action: "board.rank_moved", entityType: "proposal", entityId: proposal.id, proposalId: proposal.id, details: { from, to: chairRank, reason } }, transaction);
+    return { proposalId, chairRank };
+  });
+}
+
+/**
+ * Replaces the allocation of every proposal named in `rows` or `tiers`: its hours per telescope ×
+ * moon category × semester (the call's own, or a later one the proposal asks for) and its tier.
+ */
+export async function saveAllocation({ actor, callId, rows, tiers }: { actor: Chair; callId: number; rows: AllocationRow[]; tiers: TierRow[] }) {
+  return sequelize.transaction(async (transaction) => {
+    const { call } = await openAllocation(callId, transaction);
+    const offers = await CallOffer.findAll({ where: { callId }, transaction });
+    const offered = new Set(offers.map((o) => `${o.telescopeId}|${o.moonCategory}`));
+    const proposalIds = [...new Set([...rows.map((r) => r.proposalId), ...tiers.map((t) => t.proposalId)])];
+    const proposals = new Map<number, Proposal>();
+    for (const [i, id] of proposalIds.entries()) proposals.set(id, await boardProposal(callId, id, transaction, `rows.${i}.proposalId`));
+    const seen = new Set<string>();
+    for (const [i, row] of rows.entries()) {
+      if (!offered.has(`${row.telescopeId}|${row.moonCategory}`)) throw new ProposalRefused(`The call offers no ${row.moonCategory} time on telescope ${row.telescopeId}.`, 400, `rows.${i}.telescopeId`);
+      const allowed = [call.semesterCode, ...(proposals.get(row.proposalId)!.semestersRequested ?? [])];
+      if (!allowed.includes(row.semesterCode)) throw new ProposalRefused(`Semester ${row.semesterCode} is neither the call's nor one the proposal asks for (${allowed.join(", ")}).`, 400, `rows.${i}.semesterCode`);
+      const key = `${row.proposalId}|${row.telescopeId}|${row.moonCategory}|${row.semesterCode}`;
+      if (seen.has(key)) throw new ProposalRefused("The same proposal, telescope, moon category and semester appear twice.", 400, `rows.${i}`);
+      seen.add(key);
+    }
+    await Allocation.destroy({ where: { callId, proposalId: { [Op.in]: proposalIds.length ? proposalIds : [0] } }, transaction });
+    const kept = rows.filter((r) => r.hours > 0);
+    if (kept.length) await Allocation.bulkCreate(kept.map((r) => ({ ...r, callId })), { transaction });
+    for (const t of tiers) {
+      const [entry] = await BoardEntry.findOrCreate({ where: { proposalId: t.proposalId }, defaults: { callId, proposalId: t.proposalId, chairRank: null, chairRankReason: null, tier: null }, transaction });
+      await entry.update({ tier: t.tier, ...(t.waitlisted === undefined ? {} : { waitlisted: t.waitlisted }) }, { transaction });
+    }
+    await writeAudit({ actorId: actor.id, action: "allocation.saved", entityType: "call", entityId: callId, details: { proposals: proposalIds, rows: kept.length, hours: kept.reduce((s, r) => s + r.hours, 0) } }, transaction);
+    return { proposals: proposalIds.length, rows: kept.length };
+  });
+}
+
+/** Locks the allocation; outcomes follow: hours allocated → accepted, waitlisted by choice, the rest declined. */
+export async function lockAllocation({ actor, callId, now = new Date() }: { actor: Chair; callId: number; now?: Date }) {
+  return sequelize.transaction(async (transaction) => {
+    const { allocation } = await openAllocation(callId, transaction);
+    const proposals = await Proposal.findAll({ where: { callId, status: { [Op.in]: [...BOARD_STATES] } }, transaction, lock: transaction.LOCK.UPDATE });
+    const hours = new Map<number, number>();
+    for (const a of await Allocation.findAll({ where: { callId }, transaction })) hours.set(a.proposalId as number, (hours.get(a.proposalId as number) ?? 0) + a.hours);
+    const waitlisted = new Set((await BoardEntry.findAll({ where: { callId, waitlisted: true }, transaction })).map((e) => e.proposalId as number));
+    const outcomes = { accepted: 0, waitlisted: 0, declined: 0 };
+    for (const p of proposals) {
+      const status = (hours.get(p.id) ?? 0) > 0 ? "accepted" : waitlisted.has(p.id) ? "waitlisted" : "declined";
+      outcomes[status] += 1;
+      await p.update({ status }, { transaction });
+    }
+    await allocation.update({ lockedAt: now, lockedById: actor.id }, { transaction });
+    await writeAudit({ actorId: actor.id, action: "allocation.locked", entityType: "call", entityId: callId, details: outcomes }, transaction);
+    return { lockedAt: now.toISOString(), outcomes };
+  });
+}
+
+/** Unlocks with a reason; the proposals go back to in review until the next lock. */
+export async function unlockAllocation({ actor, callId, reason }: { actor: Chair; callId: number; reason: string }) {
+  return sequelize.transaction(async (transaction) => {
+    const { allocation } = await openAllocation(callId, transaction, { mustBeUnlocked: false });
+    if (!allocation.lockedAt) throw new ProposalRefused("The allocation is not locked.", 409, "allocation");
+    const proposals = await Proposal.findAll({ where: { callId, status: { [Op.in]: ["accepted", "waitlisted", "declined"] } }, transaction, lock: transaction.LOCK.UPDATE });
+    for (const p of proposals) await p.update({ status: "in_review" }, { transaction });
+    await allocation.update({ lockedAt: null, lockedById: null }, { transaction });
+    await writeAudit({ actorId: actor.id, action: "allocation.unlocked", entityType: "call", entityId: callId, details: { reason, proposals: proposals.length } }, transaction);
+    return { unlocked: true };
+  });
+}

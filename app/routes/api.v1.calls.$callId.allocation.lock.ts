@@ -1,0 +1,16 @@
+import { lockAllocation } from "~/lib/allocation/allocate.server";
+import { requireRole } from "~/lib/auth.server";
+import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import type { Route } from "./+types/api.v1.calls.$callId.allocation.lock";
+
+/** POST /api/v1/calls/:callId/allocation/lock (chair): locks it; the outcomes follow from the hours. */
+export async function action({ request, params }: Route.ActionArgs) {
+  if (request.method !== "POST") return methodNotAllowed("POST");
+  const user = await requireRole(request, "chair");
+  const callId = apiId(params.callId, "callId");
+  return json(await apiAttempt(() => lockAllocation({ actor: user, callId })));
+}
+
+export async function loader() {
+  return methodNotAllowed("POST");
+}
