@@ -187,6 +187,19 @@ describe("the chair's changes: positions, hours, tiers, lock and unlock", () => 
     expect(await Allocation.sum("hours", { where: { callId: call.id } })).toBe(16.5);
   });
 
+  it("fills by rank: every small request fits the assured budget and gets its requested hours", async () => {
+    const app = await request();
+    const res = await app.post(`/api/v1/calls/${call.id}/allocation/fill-by-rank`).set(asJson(chair.cookie)).send("{}");
+    expect(res.status).toBe(200);
+    expect(res.body.tiers.map((t: { tier: string }) => t.tier)).toEqual(["assured", "assured", "assured", "assured"]);
+    let requested = 0;
+    for (const p of proposals) for (const t of (await computeFeasibilitySheet({ proposalId: p.id })).totals) requested += t.hours;
+    expect(requested).toBeGreaterThan(0);
+    expect(await Allocation.sum("hours", { where: { callId: call.id } })).toBeCloseTo(requested, 9);
+    // the chair's move of proposal 3 to the top puts it first in the fill's order
+    expect(res.body.tiers[0].proposalId).toBe(proposals[3].id);
+  });
+
   it("refuses every change to a reviewer", async () => {
     const app = await request();
     expect((await app.put(`/api/v1/calls/${call.id}/allocation`).set(asJson(reviewer.cookie)).send({ rows: [] })).status).toBe(403);

@@ -42,6 +42,7 @@ const expectations: Record<string, Rule> = {
   "/api/v1/calls/:callId/board": { get: "chair", post: "none" },
   "/api/v1/calls/:callId/board/rank": { get: "none", post: "chair" },
   "/api/v1/calls/:callId/allocation": { get: "none", post: "none" }, // PUT (tested in board.test.ts)
+  "/api/v1/calls/:callId/allocation/fill-by-rank": { get: "none", post: "chair" },
   "/api/v1/calls/:callId/allocation/lock": { get: "none", post: "chair" },
   "/api/v1/calls/:callId/allocation/unlock": { get: "none", post: "chair" },
   "/api/v1/review/assignments": { get: "reviewer", post: "none" },

@@ -7,7 +7,8 @@ import { allocationTiers, moonCategories, type AllocationTier, type MoonCategory
 import { ProposalRefused } from "~/lib/proposals.server";
 import { callNotFound } from "~/lib/review/chair.server";
 import { Allocation, BoardEntry, Call, CallAllocation, CallOffer, Proposal, sequelize } from "~/models/index.server";
-import { BOARD_STATES } from "./board.server";
+import { BOARD_STATES, callBoard } from "./board.server";
+import { boardOrder, fillByRank } from "./fill";
 
 type Chair = { id: number };
 export type AllocationRow = { proposalId: number; telescopeId: number; moonCategory: MoonCategory; semesterCode: string; hours: number };
@@ -110,4 +111,21 @@ export async function unlockAllocation({ actor, callId, reason }: { actor: Chair
     await writeAudit({ actorId: actor.id, action: "allocation.unlocked", entityType: "call", entityId: callId, details: { reason, proposals: proposals.length } }, transaction);
     return { unlocked: true };
   });
+}
+
+/** Fill by rank (see `fill.ts`) over the board's order, saved as the allocation to edit from. */
+export async function fillAllocationByRank({ actor, callId }: { actor: Chair; callId: number }) {
+  const board = await callBoard({ callId });
+  if (board.locked) throw new ProposalRefused("The allocation is locked. The chair must unlock it, with a reason, before anything changes.", 409, "allocation");
+  const settings = await CallAllocation.findOne({ where: { callId } });
+  const filled = fillByRank({
+    semesterCode: board.call.semesterCode,
+    offered: board.oversubscription.map((o) => ({ telescopeId: o.telescopeId, moonCategory: o.moonCategory, hours: o.offeredHours })),
+    assuredShareLimit: settings?.assuredShareLimit ?? 0.8,
+    fillerMargin: settings?.fillerMargin ?? 0.3,
+    ranked: boardOrder(board.proposals).map((p) => ({ proposalId: p.proposalId, requested: p.requested })),
+  });
+  const rows = filled.flatMap((f) => f.rows.map((r) => ({ proposalId: f.proposalId, ...r })));
+  const saved = await saveAllocation({ actor, callId, rows, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier })) });
+  return { ...saved, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier })) };
 }
