@@ -1,10 +1,15 @@
 import { createColumnHelper, getCoreRowModel, getFilteredRowModel, getSortedRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
 import { useMemo, useState } from "react";
-import { data, Link } from "react-router";
+import { data, Form, Link, useActionData, useNavigation } from "react-router";
+import { z } from "zod";
+import { Field, inputProps } from "~/components/Field";
 import { SortableTable } from "~/components/SortableTable";
+import { fillAllocationByRank, lockAllocation, moveOnBoard, unlockAllocation } from "~/lib/allocation/allocate.server";
 import { callBoard } from "~/lib/allocation/board.server";
 import { DISAGREEMENT_SPAN, MIN_GRADES } from "~/lib/allocation/normalise";
 import { requireRole } from "~/lib/auth.server";
+import { fieldErrors, idSchema } from "~/lib/forms";
+import { formValues, refusalResponse } from "~/lib/proposal-routes.server";
 import { scienceCategoryLabel } from "~/lib/proposal-vocabulary";
 import { apiId } from "~/lib/review/api.server";
 import { Telescope } from "~/models/index.server";
@@ -14,14 +19,63 @@ export function meta({ data: d }: Route.MetaArgs) {
   return [{ title: `Ranking board ${d?.board.call.semesterCode ?? ""} · Committee · Nightshare` }];
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireRole(request, "chair");
-  let callId: number;
+function callIdOf(params: { callId?: string }) {
   try {
-    callId = apiId(params.callId, "callId");
+    return apiId(params.callId, "callId");
   } catch {
     throw data({ message: "There is no call at this address." }, { status: 404 });
   }
+}
+
+const reason = z.string().trim().min(3, "Give a reason of at least 3 characters.").max(500, "Keep the reason under 500 characters.");
+const boardIntent = z.discriminatedUnion("intent", [
+  z.object({ intent: z.literal("fill") }),
+  z.object({ intent: z.literal("lock") }),
+  z.object({ intent: z.literal("unlock"), reason }),
+  z.object({
+    intent: z.literal("move"),
+    proposalId: idSchema("proposal"),
+    chairRank: z.preprocess((v) => (typeof v === "string" && v.trim() === "" ? null : typeof v === "string" ? Number(v) : v), z.number({ error: "Give a whole position from 1, or leave it empty for the computed rank." }).int("Give a whole position from 1.").min(1, "Positions start at 1.").max(10_000).nullable()),
+    reason,
+  }),
+], { error: "That button does nothing here; reload the page." });
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireRole(request, "chair");
+  const callId = callIdOf(params);
+  const values = formValues(await request.formData());
+  const parsed = boardIntent.safeParse(values);
+  if (!parsed.success) {
+    const errors = fieldErrors(parsed.error);
+    return data({ ok: false as const, errors: errors.intent ? { form: errors.intent } : errors, values, message: "" }, { status: 400 });
+  }
+  const ok = (message: string) => ({ ok: true as const, errors: {} as Record<string, string>, values, message });
+  try {
+    const body = parsed.data;
+    if (body.intent === "fill") {
+      const filled = await fillAllocationByRank({ actor: user, callId });
+      const count = (tier: string) => filled.tiers.filter((t) => t.tier === tier).length;
+      return ok(`Filled by rank: ${count("assured")} assured, ${count("queue")} queue, ${count("filler")} filler, ${filled.tiers.filter((t) => t.tier === null).length} without hours.`);
+    }
+    if (body.intent === "lock") {
+      const { outcomes } = await lockAllocation({ actor: user, callId });
+      return ok(`Allocation locked: ${outcomes.accepted} accepted, ${outcomes.waitlisted} waitlisted, ${outcomes.declined} declined. Nobody has been told yet.`);
+    }
+    if (body.intent === "unlock") {
+      await unlockAllocation({ actor: user, callId, reason: body.reason });
+      return ok("Allocation unlocked; the proposals are in review again.");
+    }
+    await moveOnBoard({ actor: user, callId, proposalId: body.proposalId, chairRank: body.chairRank, reason: body.reason });
+    return ok(body.chairRank === null ? "Returned to its computed rank." : `Moved to position ${body.chairRank}.`);
+  } catch (error) {
+    const refused = refusalResponse(error, values);
+    return data({ ...refused.data, message: "" }, refused.init ?? undefined);
+  }
+}
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  await requireRole(request, "chair");
+  const callId = callIdOf(params);
   const [board, telescopes] = await Promise.all([callBoard({ callId }), Telescope.findAll({ attributes: ["id", "name"], order: [["id", "ASC"]] })]);
   return { board, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })) };
 }
@@ -32,6 +86,10 @@ const fixed = (value: number | null, digits: number) => (value === null ? "–" 
 
 export default function RankingBoard({ loaderData }: Route.ComponentProps) {
   const { board, telescopes } = loaderData;
+  const actionData = useActionData<typeof action>();
+  const busy = useNavigation().state !== "idle";
+  const err = (field: string) => (actionData && !actionData.ok ? actionData.errors[field] : undefined);
+  const typed = (field: string) => (actionData?.values as Record<string, string> | undefined)?.[field];
   const { call } = board;
   const telescopeName = (id: number) => telescopes.find((t) => t.id === id)?.name ?? `telescope ${id}`;
   const [sorting, setSorting] = useState<SortingState>([{ id: "computedRank", desc: false }]);
@@ -63,8 +121,10 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
       }),
       column.accessor("spread", { header: "Spread (σ)", cell: (c) => fixed(c.getValue(), 2) }),
       column.accessor("disagreement", { header: "Reviewers", cell: (c) => (c.getValue() ? <span className="rounded bg-amber-100 px-1.5 py-0.5 text-amber-900">disagree</span> : "agree") }),
-      column.accessor((r) => hours(r, true), { id: "hoursThis", header: `Hours ${call.semesterCode}`, cell: (c) => (c.row.original.requestedError ? "unknown" : c.getValue().toFixed(1)) }),
-      column.accessor((r) => hours(r, false), { id: "hoursLater", header: "Hours later", cell: (c) => (c.row.original.requestedError ? "unknown" : c.getValue().toFixed(1)) }),
+      column.accessor((r) => hours(r, true), { id: "hoursThis", header: `Requested ${call.semesterCode}`, cell: (c) => (c.row.original.requestedError ? "unknown" : c.getValue().toFixed(1)) }),
+      column.accessor((r) => hours(r, false), { id: "hoursLater", header: "Requested later", cell: (c) => (c.row.original.requestedError ? "unknown" : c.getValue().toFixed(1)) }),
+      column.accessor((r) => r.tier ?? "", { id: "tier", header: "Tier", cell: (c) => c.getValue() || "–" }),
+      column.accessor((r) => r.allocation.filter((a) => a.semesterCode === call.semesterCode).reduce((sum, a) => sum + a.hours, 0), { id: "allocated", header: `Allocated ${call.semesterCode}`, cell: (c) => c.getValue().toFixed(1) }),
     ];
   }, [call.semesterCode]);
   const table = useReactTable({
@@ -83,7 +143,47 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
     <div className="space-y-6">
       <p className="text-sm"><Link to="/committee">Committee</Link> › <Link to={`/committee/${call.id}`}>{call.semesterCode}</Link> › Ranking board</p>
       <h1>Ranking board for {call.semesterCode}</h1>
-      {board.locked ? <p role="status" className="rounded-md border border-slate-300 bg-slate-100 px-3 py-2">The allocation is locked: ranking and hours cannot change until the chair unlocks it with a reason.</p> : null}
+      {actionData?.ok ? <p role="status" className="rounded-md border border-emerald-300 bg-emerald-50 px-3 py-2 text-emerald-900">{actionData.message}</p> : null}
+      {err("form") || err("allocation") || err("rows.0.proposalId") ? <p role="alert" className="rounded-md border border-red-200 bg-red-50 px-3 py-2 text-red-800">{err("form") ?? err("allocation") ?? err("rows.0.proposalId")}</p> : null}
+      <section className="card space-y-3">
+        <h2>Allocation</h2>
+        {board.locked ? (
+          <>
+            <p>The allocation is locked: ranking and hours cannot change until you unlock it with a reason.</p>
+            <Form method="post" className="flex flex-wrap items-end gap-3" noValidate>
+              <input type="hidden" name="intent" value="unlock" />
+              <Field label="Reason for unlocking" id="unlockReason" error={err("reason")}>
+                <input {...inputProps("unlockReason", err("reason"))} name="reason" className="input w-96" defaultValue={typed("intent") === "unlock" ? typed("reason") : ""} />
+              </Field>
+              <button className="btn" disabled={busy}>Unlock</button>
+            </Form>
+          </>
+        ) : (
+          <div className="space-y-3">
+            <div className="flex flex-wrap gap-3">
+              <Form method="post"><button className="btn" name="intent" value="fill" disabled={busy}>Fill by rank</button></Form>
+              <Form method="post"><button className="btn" name="intent" value="lock" disabled={busy}>Lock the allocation</button></Form>
+            </div>
+            <p className="text-sm text-slate-700">Fill by rank gives each proposal, down the board's order, its requested hours and the first tier that still holds them: assured up to {Math.round(board.settings.assuredShareLimit * 100)} % of offered, queue up to offered, filler up to offered + {Math.round(board.settings.fillerMargin * 100)} %. Locking sets the outcomes: hours allocated → accepted, the rest declined.</p>
+            <Form method="post" className="flex flex-wrap items-end gap-3" noValidate>
+              <input type="hidden" name="intent" value="move" />
+              <Field label="Move proposal" id="moveProposal" error={err("proposalId")}>
+                <select id="moveProposal" aria-invalid={err("proposalId") ? true : undefined} aria-describedby={err("proposalId") ? "moveProposal-error" : undefined} name="proposalId" className="input" defaultValue={typed("intent") === "move" ? typed("proposalId") : ""}>
+                  <option value="">Choose…</option>
+                  {board.proposals.map((p) => <option key={p.proposalId} value={p.proposalId}>{p.code} {p.title}</option>)}
+                </select>
+              </Field>
+              <Field label="To position (empty = computed)" id="moveRank" error={err("chairRank")}>
+                <input {...inputProps("moveRank", err("chairRank"))} name="chairRank" inputMode="numeric" className="input w-28" defaultValue={typed("intent") === "move" ? typed("chairRank") : ""} />
+              </Field>
+              <Field label="Reason" id="moveReason" error={typed("intent") === "move" ? err("reason") : undefined}>
+                <input {...inputProps("moveReason", typed("intent") === "move" ? err("reason") : undefined)} name="reason" className="input w-80" defaultValue={typed("intent") === "move" ? typed("reason") : ""} />
+              </Field>
+              <button className="btn" disabled={busy}>Move</button>
+            </Form>
+          </div>
+        )}
+      </section>
       <section className="card space-y-2">
         <h2>Oversubscription</h2>
         <p className="text-sm text-slate-700">Requested hours for {call.semesterCode} against offered hours, less what earlier calls' locked allocations already committed to this semester.</p>

@@ -1,5 +1,5 @@
 // The ranking board in Chromium: the chair sees the normalised order, sorts by raw mean, filters
-// by code, and reads the oversubscription row for a telescope.
+// by code, moves a proposal with a reason, fills by rank, locks and unlocks with a reason.
 import { describe, expect, it } from "vitest";
 import { Proposal, ReviewAssignment } from "~/models/index.server";
 import { screenshot, watchConsole } from "../helpers/browser";
@@ -10,7 +10,7 @@ import { readyProposal, testCall } from "../integration/proposals-fixtures";
 describe("the ranking board", () => {
   const suite = appInBrowser();
 
-  it("ranks by normalised score, re-sorts by raw mean and filters", { timeout: 180_000 }, async () => {
+  it("ranks by normalised score, sorts, filters, moves, fills, locks and unlocks", { timeout: 180_000 }, async () => {
     const chair = await newUser({ roles: ["chair"], name: "Board Browser Chair" });
     const reviewers = await Promise.all([0, 1, 2].map((i) => newUser({ roles: ["reviewer"], name: `Board Browser Reviewer ${i}` })));
     const call = await testCall();
@@ -52,6 +52,39 @@ describe("the ranking board", () => {
     await expect.poll(titles).toEqual(["Board browser programme 2"]);
     await page.getByPlaceholder("code, title, category, institution").fill("no such programme");
     await expect.poll(() => page.getByText("No proposal on the board matches.").count()).toBe(1);
-    expect(errors).toEqual([]);
+    await page.getByPlaceholder("code, title, category, institution").fill("");
+
+    // a move without a reason: the message sits by the field and the choice is kept
+    await page.getByLabel("Move proposal").selectOption({ label: `003/${call.semesterCode.slice(2)} Board browser programme 2` });
+    await page.getByLabel("To position (empty = computed)").fill("1");
+    await page.getByRole("button", { name: "Move", exact: true }).click();
+    await page.getByText("Give a reason of at least 3 characters.").waitFor();
+    expect(await page.getByLabel("Move proposal").inputValue()).toBe(String(ids[2]));
+    expect(await page.getByLabel("To position (empty = computed)").inputValue()).toBe("1");
+    await page.getByLabel("Reason", { exact: true }).fill("Only semester its target is observable");
+    await page.getByRole("button", { name: "Move", exact: true }).click();
+    await page.getByText("Moved to position 1.").waitFor();
+    await page.getByRole("button", { name: /^Rank/ }).click();
+    const chairRanks = () => proposalsSection.locator("tbody tr td:nth-child(2)").allTextContents();
+    await expect.poll(async () => (await chairRanks()).filter((t) => t.startsWith("1 ")).length).toBe(1);
+
+    await page.getByRole("button", { name: "Fill by rank" }).click();
+    await page.getByText(/^Filled by rank: 3 assured/).waitFor();
+    const tiers = () => proposalsSection.locator("tbody tr td:nth-child(14)").allTextContents();
+    await expect.poll(tiers).toEqual(["assured", "assured", "assured"]);
+    await screenshot(page, "board-03-filled");
+
+    await page.getByRole("button", { name: "Lock the allocation" }).click();
+    await page.getByText(/^Allocation locked: 3 accepted, 0 waitlisted, 0 declined/).waitFor();
+    expect(await Proposal.count({ where: { id: ids, status: "accepted" } })).toBe(3);
+    await page.getByRole("button", { name: "Unlock" }).click();
+    await page.getByText("Give a reason of at least 3 characters.").waitFor();
+    await page.getByLabel("Reason for unlocking").fill("One grade arrived late");
+    await page.getByRole("button", { name: "Unlock" }).click();
+    await page.getByText("Allocation unlocked; the proposals are in review again.").waitFor();
+    expect(await Proposal.count({ where: { id: ids, status: "in_review" } })).toBe(3);
+    // exactly the two refusals asked for above (the move and the unlock without a reason)
+    expect(errors.filter((e) => e.includes("status of 400 (Bad Request)"))).toHaveLength(2);
+    expect(errors.filter((e) => !e.includes("status of 400 (Bad Request)"))).toEqual([]);
   });
 });

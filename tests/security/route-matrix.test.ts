@@ -62,7 +62,7 @@ const expectations: Record<string, Rule> = {
   "/committee": { get: "chair", post: "none" },
   "/committee/:callId": { get: "chair", post: "chair" },
   "/committee/:callId/assignments": { get: "chair", post: "none" },
-  "/committee/:callId/board": { get: "chair", post: "none" },
+  "/committee/:callId/board": { get: "chair", post: "chair" },
   "/proposals?index": { get: "signedIn", post: "none" },
   "/proposals/new": { get: "signedIn", post: "signedIn" },
   "/proposals/:proposalId": { get: "member", post: "none" },

@@ -120,6 +120,7 @@ export async function callBoard({ callId }: { callId: number }) {
     panel: normalised.panel,
     reviewers: normalised.reviewers,
     locked: Boolean(allocation?.lockedAt),
+    settings: { assuredShareLimit: allocation?.assuredShareLimit ?? 0.8, fillerMargin: allocation?.fillerMargin ?? 0.3 },
     proposals: rows,
     oversubscription,
   };
