@@ -10,6 +10,7 @@ import { DISAGREEMENT_SPAN, MIN_GRADES } from "~/lib/allocation/normalise";
 import { requireRole } from "~/lib/auth.server";
 import { fieldErrors, idSchema } from "~/lib/forms";
 import { formValues, refusalResponse } from "~/lib/proposal-routes.server";
+import { chairRankSchema, reasonSchema } from "~/lib/schemas/allocation";
 import { scienceCategoryLabel } from "~/lib/proposal-vocabulary";
 import { apiId } from "~/lib/review/api.server";
 import { Telescope } from "~/models/index.server";
@@ -27,16 +28,16 @@ function callIdOf(params: { callId?: string }) {
   }
 }
 
-const reason = z.string().trim().min(3, "Give a reason of at least 3 characters.").max(500, "Keep the reason under 500 characters.");
 const boardIntent = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("fill") }),
   z.object({ intent: z.literal("lock") }),
-  z.object({ intent: z.literal("unlock"), reason }),
+  z.object({ intent: z.literal("unlock"), reason: reasonSchema }),
   z.object({
     intent: z.literal("move"),
     proposalId: idSchema("proposal"),
-    chairRank: z.preprocess((v) => (typeof v === "string" && v.trim() === "" ? null : typeof v === "string" ? Number(v) : v), z.number({ error: "Give a whole position from 1, or leave it empty for the computed rank." }).int("Give a whole position from 1.").min(1, "Positions start at 1.").max(10_000).nullable()),
-    reason,
+    // a form sends text: empty = the computed rank
+    chairRank: z.preprocess((v) => (typeof v === "string" ? (v.trim() === "" ? null : Number(v)) : v), chairRankSchema),
+    reason: reasonSchema,
   }),
 ], { error: "That button does nothing here; reload the page." });
 

@@ -3,7 +3,7 @@
 // and a change to a locked allocation is refused with a 409.
 import { Op, type Transaction } from "sequelize";
 import { writeAudit } from "~/lib/audit.server";
-import { allocationTiers, moonCategories, type AllocationTier, type MoonCategory } from "~/lib/domain";
+import type { AllocationTier, MoonCategory } from "~/lib/domain";
 import { ProposalRefused } from "~/lib/proposals.server";
 import { callNotFound } from "~/lib/review/chair.server";
 import { Allocation, BoardEntry, Call, CallAllocation, CallOffer, Proposal, sequelize } from "~/models/index.server";
@@ -14,7 +14,7 @@ type Chair = { id: number };
 export type AllocationRow = { proposalId: number; telescopeId: number; moonCategory: MoonCategory; semesterCode: string; hours: number };
 export type TierRow = { proposalId: number; tier: AllocationTier | null; waitlisted?: boolean };
 
-export { allocationTiers, moonCategories };
+const lockedRefusal = () => new ProposalRefused("The allocation is locked. The chair must unlock it, with a reason, before anything changes.", 409, "allocation");
 
 /** The call's allocation row, locked for this transaction; refuses when the allocation is locked. */
 async function openAllocation(callId: number, transaction: Transaction, { mustBeUnlocked = true } = {}) {
@@ -23,7 +23,7 @@ async function openAllocation(callId: number, transaction: Transaction, { mustBe
   await CallAllocation.findOrCreate({ where: { callId }, defaults: { callId, lockedAt: null, lockedById: null }, transaction });
   const allocation = (await CallAllocation.findOne({ where: { callId }, transaction, lock: transaction.LOCK.UPDATE }))!;
   if (mustBeUnlocked && allocation.lockedAt) {
-    throw new ProposalRefused("The allocation is locked. The chair must unlock it, with a reason, before anything changes.", 409, "allocation");
+    throw lockedRefusal();
   }
   return { call, allocation };
 }
@@ -116,7 +116,7 @@ export async function unlockAllocation({ actor, callId, reason }: { actor: Chair
 /** Fill by rank (see `fill.ts`) over the board's order, saved as the allocation to edit from. */
 export async function fillAllocationByRank({ actor, callId }: { actor: Chair; callId: number }) {
   const board = await callBoard({ callId });
-  if (board.locked) throw new ProposalRefused("The allocation is locked. The chair must unlock it, with a reason, before anything changes.", 409, "allocation");
+  if (board.locked) throw lockedRefusal(); // before computing the fill; saveAllocation checks again under the row lock
   const settings = await CallAllocation.findOne({ where: { callId } });
   const filled = fillByRank({
     semesterCode: board.call.semesterCode,

@@ -2,12 +2,16 @@ import { z } from "zod";
 import { allocationTiers, moonCategories } from "~/lib/domain";
 import { idSchema } from "~/lib/forms";
 
-const reason = z.string().trim().min(3, "Give a reason of at least 3 characters.").max(500, "Keep the reason under 500 characters.");
+/** A reason the audit log keeps: for a move on the board and for an unlock. */
+export const reasonSchema = z.string().trim().min(3, "Give a reason of at least 3 characters.").max(500, "Keep the reason under 500 characters.");
+
+/** The chair's position: 1 = top; null returns the proposal to its computed rank. */
+export const chairRankSchema = z.number({ error: "Give a whole position from 1, or leave it empty for the computed rank." }).int("Give a whole position from 1.").min(1, "Positions start at 1.").max(10_000).nullable();
 
 export const boardMoveSchema = z.object({
   proposalId: idSchema("proposal id"),
-  chairRank: z.number().int().min(1, "Positions start at 1.").max(10_000).nullable(),
-  reason,
+  chairRank: chairRankSchema,
+  reason: reasonSchema,
 });
 
 export const allocationSchema = z.object({
@@ -28,4 +32,4 @@ export const allocationSchema = z.object({
     .default([]),
 });
 
-export const unlockSchema = z.object({ reason });
+export const unlockSchema = z.object({ reason: reasonSchema });
