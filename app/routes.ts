@@ -42,6 +42,10 @@ export default [
     route("committee/:callId", "routes/committee.$callId.tsx"),
     route("committee/:callId/assignments", "routes/committee.$callId.assignments.tsx"),
     route("committee/:callId/board", "routes/committee.$callId.board.tsx"),
+    route("committee/:callId/allocation", "routes/committee.$callId.allocation.tsx"),
+    route("committee/:callId/ranked-list.csv", "routes/committee.$callId.ranked-list[.csv].ts"),
+    route("committee/:callId/allocation.csv", "routes/committee.$callId.allocation[.csv].ts"),
+    route("committee/:callId/proposals/:proposalId/epochs.ics", "routes/committee.$callId.proposals.$proposalId.epochs[.ics].ts"),
     ...prefix("proposals", [
       index("routes/proposals._index.tsx"),
       route("new", "routes/proposals.new.tsx"),

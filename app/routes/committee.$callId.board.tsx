@@ -50,7 +50,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     const errors = fieldErrors(parsed.error);
     return data({ ok: false as const, errors: errors.intent ? { form: errors.intent } : errors, values, message: "" }, { status: 400 });
   }
-  const ok = (message: string) => ({ ok: true as const, errors: {} as Record<string, string>, values, message });
+  // `at` tells the page a new success apart from the last one (the move form then starts empty)
+  const ok = (message: string) => ({ ok: true as const, errors: {} as Record<string, string>, values, message, at: Date.now() });
   try {
     const body = parsed.data;
     if (body.intent === "fill") {
@@ -90,7 +91,8 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
   const actionData = useActionData<typeof action>();
   const busy = useNavigation().state !== "idle";
   const err = (field: string) => (actionData && !actionData.ok ? actionData.errors[field] : undefined);
-  const typed = (field: string) => (actionData?.values as Record<string, string> | undefined)?.[field];
+  // what was typed comes back only with a refusal; after a success the forms start empty
+  const typed = (field: string) => (actionData && !actionData.ok ? (actionData.values as Record<string, string> | undefined)?.[field] : undefined);
   const { call } = board;
   const telescopeName = (id: number) => telescopes.find((t) => t.id === id)?.name ?? `telescope ${id}`;
   const [sorting, setSorting] = useState<SortingState>([{ id: "computedRank", desc: false }]);
@@ -144,6 +146,11 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
     <div className="space-y-6">
       <p className="text-sm"><Link to="/committee">Committee</Link> › <Link to={`/committee/${call.id}`}>{call.semesterCode}</Link> › Ranking board</p>
       <h1>Ranking board for {call.semesterCode}</h1>
+      <nav aria-label="Allocation and exports" className="flex flex-wrap gap-4 text-sm">
+        <Link to={`/committee/${call.id}/allocation`}>Hours and tiers, with running totals</Link>
+        <a href={`/committee/${call.id}/ranked-list.csv`} download>Ranked list (CSV)</a>
+        <a href={`/committee/${call.id}/allocation.csv`} download>Allocation (CSV)</a>
+      </nav>
       {actionData?.ok ? <p role="status" className="rounded-md border border-emerald-300 bg-emerald-50 px-3 py-2 text-emerald-900">{actionData.message}</p> : null}
       {err("form") || err("allocation") || err("rows.0.proposalId") ? <p role="alert" className="rounded-md border border-red-200 bg-red-50 px-3 py-2 text-red-800">{err("form") ?? err("allocation") ?? err("rows.0.proposalId")}</p> : null}
       <section className="card space-y-3">
@@ -166,7 +173,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
               <Form method="post"><button className="btn" name="intent" value="lock" disabled={busy}>Lock the allocation</button></Form>
             </div>
             <p className="text-sm text-slate-700">Fill by rank gives each proposal, down the board's order, its requested hours and the first tier that still holds them: assured up to {Math.round(board.settings.assuredShareLimit * 100)} % of offered, queue up to offered, filler up to offered + {Math.round(board.settings.fillerMargin * 100)} %. Locking sets the outcomes: hours allocated → accepted, the rest declined.</p>
-            <Form method="post" className="flex flex-wrap items-end gap-3" noValidate>
+            <Form key={actionData?.ok ? actionData.at : "move"} method="post" className="flex flex-wrap items-end gap-3" noValidate>
               <input type="hidden" name="intent" value="move" />
               <Field label="Move proposal" id="moveProposal" error={err("proposalId")}>
                 <select id="moveProposal" aria-invalid={err("proposalId") ? true : undefined} aria-describedby={err("proposalId") ? "moveProposal-error" : undefined} name="proposalId" className="input" defaultValue={typed("intent") === "move" ? typed("proposalId") : ""}>

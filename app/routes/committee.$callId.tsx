@@ -5,9 +5,8 @@ import { fieldErrors } from "~/lib/forms";
 import { observatoryTimeZone } from "~/lib/office.server";
 import { scienceCategoryLabel } from "~/lib/proposal-vocabulary";
 import { formValues, refusalResponse } from "~/lib/proposal-routes.server";
-import { chairReopenReview, reassign, remindReviewer, reviewBoard, saveReviewSetup, startReview } from "~/lib/review/chair.server";
+import { chairReopenReview, pageCallId, reassign, remindReviewer, reviewBoard, saveReviewSetup, startReview } from "~/lib/review/chair.server";
 import { reviewerCandidates } from "~/lib/review/facts.server";
-import { apiId } from "~/lib/review/api.server";
 import { reviewStatusLabels, type ReviewStatus } from "~/lib/review/vocabulary";
 import { reviewSetupSchema } from "~/lib/schemas/review";
 import { formatInZone, formatUtc, utcToZonedLocal, zonedLocalToUtc } from "~/lib/zoned-time";
@@ -18,24 +17,17 @@ export function meta({ data: d }: Route.MetaArgs) {
   return [{ title: `Review of ${d?.board.call.semesterCode ?? "a call"} · Committee · Nightshare` }];
 }
 
-function callIdOf(params: { callId?: string }) {
-  try {
-    return apiId(params.callId, "callId");
-  } catch {
-    throw data({ message: "There is no call at this address." }, { status: 404 });
-  }
-}
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
-  const callId = callIdOf(params);
+  const callId = pageCallId(params);
   const [board, candidates, timeZone] = await Promise.all([reviewBoard({ callId }), reviewerCandidates(), observatoryTimeZone()]);
   return { board, candidates, timeZone, now: new Date().toISOString() };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireRole(request, "chair");
-  const callId = callIdOf(params);
+  const callId = pageCallId(params);
   const form = await request.formData();
   const intent = String(form.get("intent") ?? "");
   const values = formValues(form);

@@ -64,6 +64,9 @@ describe("the ranking board", () => {
     await page.getByLabel("Reason", { exact: true }).fill("Only semester its target is observable");
     await page.getByRole("button", { name: "Move", exact: true }).click();
     await page.getByText("Moved to position 1.").waitFor();
+    // after a move the form starts empty for the next one
+    await expect.poll(() => page.getByLabel("Reason", { exact: true }).inputValue()).toBe("");
+    expect(await page.getByLabel("Move proposal").inputValue()).toBe("");
     await page.getByRole("button", { name: /^Rank/ }).click();
     const chairRanks = () => proposalsSection.locator("tbody tr td:nth-child(2)").allTextContents();
     await expect.poll(async () => (await chairRanks()).filter((t) => t.startsWith("1 ")).length).toBe(1);

@@ -63,6 +63,11 @@ const expectations: Record<string, Rule> = {
   "/committee/:callId": { get: "chair", post: "chair" },
   "/committee/:callId/assignments": { get: "chair", post: "none" },
   "/committee/:callId/board": { get: "chair", post: "chair" },
+  "/committee/:callId/allocation": { get: "chair", post: "chair" },
+  "/committee/:callId/ranked-list.csv": { get: "chair", post: "none" },
+  "/committee/:callId/allocation.csv": { get: "chair", post: "none" },
+  // the seeded A and B are drafts, on no board: 404 for the chair too (tested in allocation-sheet.test.ts)
+  "/committee/:callId/proposals/:proposalId/epochs.ics": { get: "chair", post: "none", getOk: 404 },
   "/proposals?index": { get: "signedIn", post: "none" },
   "/proposals/new": { get: "signedIn", post: "signedIn" },
   "/proposals/:proposalId": { get: "member", post: "none" },
@@ -100,8 +105,8 @@ function instancesOf(pattern: string, ids: SeededIds): Instance[] {
   }
   if (pattern.includes(":proposalId")) {
     return [
-      { label: "proposal A", params: { proposalId: ids.proposalA }, members: ["pi", "coi"] },
-      { label: "proposal B", params: { proposalId: ids.proposalB }, members: ["stranger", "coi"] },
+      { label: "proposal A", params: { proposalId: ids.proposalA, callId: ids.callId }, members: ["pi", "coi"] },
+      { label: "proposal B", params: { proposalId: ids.proposalB, callId: ids.callId }, members: ["stranger", "coi"] },
     ];
   }
   if (pattern === "/*") return [{ label: "unknown page", params: {}, members: [] }];

@@ -22,6 +22,13 @@ export function callNotFound(): never {
   throw data({ error: "No such call.", message: "There is no call at this address." }, { status: 404 });
 }
 
+/** A committee page's `:callId`: anything but a positive whole number is no call of ours (404). */
+export function pageCallId(params: { callId?: string }): number {
+  const id = Number(params.callId);
+  if (!/^\d{1,10}$/.test(params.callId ?? "") || !Number.isSafeInteger(id) || id <= 0) callNotFound();
+  return id;
+}
+
 export function reviewDeadlineText(at: Date | null) {
   return at ? `${at.toISOString().slice(0, 16).replace("T", " ")} UTC` : "not set yet";
 }

@@ -33,3 +33,46 @@ export const allocationSchema = z.object({
 });
 
 export const unlockSchema = z.object({ reason: reasonSchema });
+
+const blankToNull = (v: unknown) => (v === "" || v === undefined ? null : v);
+const hoursField = z.preprocess(
+  (v) => (typeof v === "string" ? (v.trim() === "" ? 0 : Number(v.trim())) : v),
+  z.number({ error: "Give the hours as a number." }).finite("Give the hours as a number.").min(0, "Hours cannot be negative.").max(5000, "More hours than a semester holds."),
+);
+
+/**
+ * The allocation page's form: one row per proposal in the board's order, its tier, whether it is
+ * waitlisted, and its hours per telescope × moon category × semester. The page checks it in the
+ * browser (zodResolver) and the action checks it again; the paths are the form's field names.
+ */
+export const allocationSheetSchema = z.object({
+  intent: z.literal("save", { error: "That button does nothing here; reload the page." }),
+  rows: z
+    .array(
+      z
+        .object({
+          proposalId: idSchema("proposal id"),
+          tier: z.preprocess(blankToNull, z.enum(allocationTiers, { error: "Choose assured, queue or filler." }).nullable()),
+          waitlisted: z.boolean().default(false),
+          cells: z
+            .array(
+              z.object({
+                telescopeId: idSchema("telescope id"),
+                moonCategory: z.enum(moonCategories),
+                semesterCode: z.string().trim().min(1).max(8),
+                hours: hoursField,
+              }),
+            )
+            .max(200),
+        })
+        .superRefine((row, ctx) => {
+          const hours = row.cells.reduce((s, c) => s + (Number.isFinite(c.hours) ? c.hours : 0), 0);
+          if (hours > 0 && row.tier === null) ctx.addIssue({ code: "custom", path: ["tier"], message: "Give a tier to a proposal with hours." });
+          if (hours > 0 && row.waitlisted) ctx.addIssue({ code: "custom", path: ["waitlisted"], message: "A waitlisted proposal has no hours: set them to 0 or untick." });
+          if (hours === 0 && row.tier !== null) ctx.addIssue({ code: "custom", path: ["tier"], message: "A tier needs hours; give hours or choose no tier." });
+        }),
+    )
+    .max(5_000),
+});
+export type AllocationSheetInput = z.input<typeof allocationSheetSchema>;
+export type AllocationSheet = z.output<typeof allocationSheetSchema>;

@@ -1,0 +1,20 @@
+import { ProposalRefused } from "~/lib/proposals.server";
+
+/** A file download that no cache keeps (the board's numbers are the chair's only). */
+export function downloadResponse(filename: string, contentType: string, body: string): Response {
+  return new Response(body, {
+    headers: {
+      "Content-Type": contentType,
+      "Content-Disposition": `attachment; filename="${filename.replace(/[^\w.-]+/g, "-")}"`,
+      "Cache-Control": "private, no-store",
+    },
+  });
+}
+
+export const csvResponse = (filename: string, csv: string) => downloadResponse(filename, "text/csv; charset=utf-8", csv);
+
+/** A refusal as plain text with its status (a download link has no form to put a message by). */
+export function refusalText(error: unknown): Response {
+  if (error instanceof ProposalRefused) return new Response(error.message, { status: error.status, headers: { "Content-Type": "text/plain; charset=utf-8" } });
+  throw error;
+}

@@ -1,0 +1,111 @@
+// The board's exports: the ranked list and the allocation as CSV (RFC 4180, via csv-stringify),
+// and an accepted programme's planned astrometric epochs as iCalendar (RFC 5545, via ics).
+import { stringify } from "csv-stringify/sync";
+import { Op } from "sequelize";
+import { createEvents, type EventAttributes } from "ics";
+import { computeFeasibilitySheet } from "~/lib/feasibility.server";
+import { notFound, ProposalRefused } from "~/lib/proposals.server";
+import { Proposal, Telescope } from "~/models/index.server";
+import { BOARD_STATES, callBoard } from "./board.server";
+import { boardOrder } from "./fill";
+
+const num = (x: number | null, digits: number) => (x === null ? "" : x.toFixed(digits));
+
+async function telescopeNames() {
+  return new Map((await Telescope.findAll({ attributes: ["id", "name"] })).map((t) => [t.id, t.name]));
+}
+
+/** One line per proposal in the board's order. */
+export async function rankedListCsv({ callId }: { callId: number }): Promise<{ filename: string; csv: string }> {
+  const board = await callBoard({ callId });
+  const semester = board.call.semesterCode;
+  const sum = (cells: { semesterCode: string; hours: number }[], here: boolean) => cells.filter((c) => (c.semesterCode === semester) === here).reduce((s, c) => s + c.hours, 0);
+  const rows = boardOrder(board.proposals).map((p, i) => [
+    i + 1,
+    p.computedRank ?? "",
+    p.chairRank ?? "",
+    p.chairRankReason ?? "",
+    p.code ?? "",
+    p.title,
+    p.category ?? "",
+    p.piInstitution ?? "",
+    p.reviews,
+    num(p.rawMean, 3),
+    num(p.normalisedScore, 3),
+    num(p.normalisedZ, 3),
+    num(p.spread, 3),
+    p.disagreement ? "yes" : "no",
+    p.fallbackReviewerIds.length,
+    p.requestedError ? "" : num(sum(p.requested, true), 2),
+    p.requestedError ? "" : num(sum(p.requested, false), 2),
+    p.tier ?? "",
+    num(sum(p.allocation, true), 2),
+    num(sum(p.allocation, false), 2),
+    p.status,
+  ]);
+  const header = [
+    "position", "computed_rank", "chair_rank", "chair_rank_reason", "code", "title", "category", "pi_institution", "reviews",
+    "raw_mean", "normalised_score", "normalised_z", "spread_z", "disagreement", "reviewers_on_panel_scale",
+    `requested_${semester}_h`, "requested_later_h", "tier", `allocated_${semester}_h`, "allocated_later_h", "state",
+  ];
+  return { filename: `ranked-list-${semester}.csv`, csv: stringify([header, ...rows]) };
+}
+
+/** One line per proposal × telescope × moon category × semester with hours, in the board's order. */
+export async function allocationCsv({ callId }: { callId: number }): Promise<{ filename: string; csv: string }> {
+  const [board, names] = await Promise.all([callBoard({ callId }), telescopeNames()]);
+  const lines: (string | number)[][] = [["position", "code", "title", "tier", "telescope", "moon_category", "semester", "hours", "requested_hours", "locked"]];
+  boardOrder(board.proposals).forEach((p, i) => {
+    for (const a of p.allocation) {
+      const requested = p.requested.filter((r) => r.telescopeId === a.telescopeId && r.moonCategory === a.moonCategory && r.semesterCode === a.semesterCode).reduce((s, r) => s + r.hours, 0);
+      lines.push([i + 1, p.code ?? "", p.title, p.tier ?? "", names.get(a.telescopeId) ?? String(a.telescopeId), a.moonCategory, a.semesterCode, a.hours.toFixed(2), requested.toFixed(2), board.locked ? "yes" : "no"]);
+    }
+  });
+  return { filename: `allocation-${board.call.semesterCode}.csv`, csv: stringify(lines) };
+}
+
+const dateParts = (iso: string): [number, number, number] => {
+  const [y, m, d] = iso.split("-").map(Number);
+  return [y, m, d];
+};
+
+/**
+ * The planned epochs of an accepted programme of this call, one all-day event per epoch on the
+ * local date on which its night begins (as the feasibility sheet dates nights), with the target,
+ * telescope, time per visit and the ± window in which it may be taken.
+ */
+export async function epochsIcs({ callId, proposalId }: { callId: number; proposalId: number }): Promise<{ filename: string; ics: string }> {
+  // a draft or another call's proposal is not on this board: as if it did not exist
+  const proposal = await Proposal.findOne({ where: { id: proposalId, callId, status: { [Op.in]: [...BOARD_STATES] } } });
+  if (!proposal) notFound();
+  if (proposal.status !== "accepted") throw new ProposalRefused("Only an accepted programme has planned epochs to export; lock the allocation first.", 409, "proposalId");
+  const sheet = await computeFeasibilitySheet({ proposalId });
+  const code = proposal.code ?? `proposal-${proposal.id}`;
+  const events: EventAttributes[] = [];
+  for (const o of sheet.observations) {
+    if (!o.astrometry) continue;
+    for (const e of o.astrometry.epochs) {
+      const minutes = o.timePerEpoch.totalSeconds === null ? null : Math.round(o.timePerEpoch.totalSeconds / 60);
+      events.push({
+        uid: `${code}-obs${o.observationId}-${e.date}@nightshare`,
+        title: `${code} epoch: ${o.targetName} (${o.telescopeName})`,
+        start: dateParts(e.date),
+        duration: { days: 1 },
+        description: [
+          `Night beginning ${e.date} (local date at the site), semester ${e.semesterCode}, state ${e.status}.`,
+          `Target ${o.targetName} with ${o.instrumentName} ${o.band}, ${o.moonCategory} time or darker, airmass ≤ ${o.maxAirmass}.`,
+          minutes === null ? "Time per visit unknown." : `Time per visit ${minutes} min.`,
+          e.window ? `May be taken from ${e.window.from} to ${e.window.to} (${e.window.usableNights} nights with time for the visit).` : "",
+        ].filter(Boolean).join("\n"),
+        categories: ["Nightshare", "astrometric epoch"],
+        status: "CONFIRMED",
+        productId: "nightshare/epochs",
+        calName: `${code} planned epochs`,
+      });
+    }
+  }
+  if (events.length === 0) throw new ProposalRefused("This programme has no astrometric epochs to export.", 409, "proposalId");
+  const { error, value } = createEvents(events);
+  if (error || !value) throw error ?? new Error("iCalendar could not be written");
+  return { filename: `${code.replace(/[^\w.-]+/g, "-")}-epochs.ics`, ics: value };
+}

@@ -1,0 +1,111 @@
+// The allocation page's data: the board's order with chair positions in place, one column per
+// telescope × moon category the call offers (offered net of earlier calls' commitments), each
+// proposal's requested and allocated hours, and later semesters' cells for multi-semester
+// programmes. Saving turns the page's rows into `saveAllocation`'s rows and maps its refusals
+// back onto the page's field names.
+import type { AllocationTier, MoonCategory } from "~/lib/domain";
+import { ProposalRefused } from "~/lib/proposals.server";
+import type { AllocationSheet } from "~/lib/schemas/allocation";
+import { Telescope } from "~/models/index.server";
+import { saveAllocation } from "./allocate.server";
+import { callBoard, type HoursCell } from "./board.server";
+import { boardOrder } from "./fill";
+
+export type SheetColumn = { telescopeId: number; telescopeName: string; moonCategory: MoonCategory; offeredHours: number; committedHours: number };
+export type SheetCell = { telescopeId: number; moonCategory: MoonCategory; semesterCode: string; requestedHours: number; allocatedHours: number };
+export type SheetRow = {
+  position: number;
+  proposalId: number;
+  code: string | null;
+  title: string;
+  computedRank: number | null;
+  chairRank: number | null;
+  chairRankReason: string | null;
+  tier: AllocationTier | null;
+  waitlisted: boolean;
+  /** one per column, in the columns' order (the call's semester) */
+  cells: SheetCell[];
+  /** later semesters on telescope × moon categories this call offers */
+  laterCells: SheetCell[];
+  /** requested hours on time this call does not offer (shown, not allocatable) */
+  notOffered: HoursCell[];
+  requestedError: string | null;
+};
+
+const cellKey = (c: { telescopeId: number; moonCategory: string; semesterCode: string }) => `${c.telescopeId}|${c.moonCategory}|${c.semesterCode}`;
+
+export async function allocationSheet({ callId }: { callId: number }) {
+  const [board, telescopes] = await Promise.all([callBoard({ callId }), Telescope.findAll({ attributes: ["id", "name"] })]);
+  const nameOf = new Map(telescopes.map((t) => [t.id, t.name]));
+  const semester = board.call.semesterCode;
+  const columns: SheetColumn[] = board.oversubscription.map((o) => ({
+    telescopeId: o.telescopeId,
+    telescopeName: nameOf.get(o.telescopeId) ?? `Telescope ${o.telescopeId}`,
+    moonCategory: o.moonCategory,
+    offeredHours: o.offeredHours,
+    committedHours: o.committedHours,
+  }));
+  const offered = new Set(columns.map((c) => `${c.telescopeId}|${c.moonCategory}`));
+  const started = board.proposals.some((p) => p.allocation.length > 0 || p.tier !== null);
+  const rows: SheetRow[] = boardOrder(board.proposals).map((p, i) => {
+    const requested = new Map<string, number>();
+    for (const r of p.requested) requested.set(cellKey(r), (requested.get(cellKey(r)) ?? 0) + r.hours);
+    const allocated = new Map(p.allocation.map((a) => [cellKey(a), a.hours]));
+    const cell = (telescopeId: number, moonCategory: MoonCategory, semesterCode: string): SheetCell => {
+      const k = cellKey({ telescopeId, moonCategory, semesterCode });
+      return { telescopeId, moonCategory, semesterCode, requestedHours: requested.get(k) ?? 0, allocatedHours: allocated.get(k) ?? 0 };
+    };
+    const laterKeys = new Set(
+      [...p.requested, ...p.allocation].filter((c) => c.semesterCode !== semester && offered.has(`${c.telescopeId}|${c.moonCategory}`)).map(cellKey),
+    );
+    const laterCells = [...laterKeys].sort().map((k) => {
+      const [t, m, s] = k.split("|");
+      return cell(Number(t), m as MoonCategory, s);
+    });
+    return {
+      position: i + 1,
+      proposalId: p.proposalId,
+      code: p.code,
+      title: p.title,
+      computedRank: p.computedRank,
+      chairRank: p.chairRank,
+      chairRankReason: p.chairRankReason,
+      tier: p.tier,
+      waitlisted: p.waitlisted,
+      cells: columns.map((c) => cell(c.telescopeId, c.moonCategory, semester)),
+      laterCells,
+      notOffered: p.requested.filter((r) => r.hours > 0 && !offered.has(`${r.telescopeId}|${r.moonCategory}`)),
+      requestedError: p.requestedError,
+    };
+  });
+  return { call: board.call, locked: board.locked, settings: board.settings, started, columns, rows };
+}
+
+/** Saves the page's rows; a refusal names the page's own field (`rows.3.cells.1.hours`). */
+export async function saveAllocationSheet({ actor, callId, sheet }: { actor: { id: number }; callId: number; sheet: AllocationSheet }) {
+  const flat: { proposalId: number; telescopeId: number; moonCategory: MoonCategory; semesterCode: string; hours: number }[] = [];
+  const pathOf: string[] = [];
+  sheet.rows.forEach((row, i) =>
+    row.cells.forEach((c, j) => {
+      if (c.hours <= 0) return;
+      flat.push({ proposalId: row.proposalId, ...c });
+      pathOf.push(`rows.${i}.cells.${j}.hours`);
+    }),
+  );
+  try {
+    return await saveAllocation({
+      actor,
+      callId,
+      rows: flat,
+      tiers: sheet.rows.map((r) => ({ proposalId: r.proposalId, tier: r.tier, waitlisted: r.waitlisted })),
+    });
+  } catch (error) {
+    if (error instanceof ProposalRefused) {
+      // saveAllocation numbers its flat rows; a proposal off the board is no one field of the page
+      const m = error.field.endsWith("proposalId") ? null : /^rows\.(\d+)/.exec(error.field);
+      const field = m ? (pathOf[Number(m[1])] ?? "form") : "form";
+      throw new ProposalRefused(error.message, error.status, field);
+    }
+    throw error;
+  }
+}

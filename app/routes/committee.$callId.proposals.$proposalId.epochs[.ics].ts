@@ -1,0 +1,18 @@
+import { downloadResponse, refusalText } from "~/lib/allocation/download.server";
+import { epochsIcs } from "~/lib/allocation/exports.server";
+import { requireRole } from "~/lib/auth.server";
+import { proposalIdParam } from "~/lib/proposal-routes.server";
+import { pageCallId } from "~/lib/review/chair.server";
+import type { Route } from "./+types/committee.$callId.proposals.$proposalId.epochs[.ics]";
+
+/** An accepted programme's planned epochs as iCalendar (RFC 5545) (chair). */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  await requireRole(request, "chair");
+  const callId = pageCallId(params);
+  try {
+    const { filename, ics } = await epochsIcs({ callId, proposalId: proposalIdParam(params) });
+    return downloadResponse(filename, "text/calendar; charset=utf-8", ics);
+  } catch (error) {
+    return refusalText(error);
+  }
+}
