@@ -2,12 +2,14 @@ import { Link, redirect, useSearchParams } from "react-router";
 import { Breadcrumbs } from "~/components/office/Breadcrumbs";
 import { DeleteButton } from "~/components/office/DeleteButton";
 import { resultFor, Saved } from "~/components/office/fields";
+import { ClearFractionsForm } from "~/components/office/ClearFractionsForm";
 import { InstrumentForm } from "~/components/office/InstrumentForm";
 import { TelescopeForm } from "~/components/office/TelescopeForm";
 import { requireRole } from "~/lib/auth.server";
 import { createInstrument, deleteTelescope, getTelescope, updateTelescope } from "~/lib/office.server";
 import { attempt, formValues, handle, idParam, orNotFound, unknownIntent } from "~/lib/office-forms.server";
-import { instrumentSchema, telescopeSchema } from "~/lib/schemas/office";
+import { clearFractionsOf, saveClearFractions } from "~/lib/office/clear-fractions.server";
+import { clearFractionsSchema, instrumentSchema, telescopeSchema } from "~/lib/schemas/office";
 import { supportedTimeZones } from "~/lib/zoned-time";
 import type { Route } from "./+types/admin.telescopes.$telescopeId";
 import { readForm } from "~/lib/forms";
@@ -19,7 +21,8 @@ export function meta({ data }: Route.MetaArgs) {
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "admin");
   const telescopeId = idParam(params.telescopeId, "telescope");
-  return { telescope: await orNotFound(getTelescope({ telescopeId })), timeZones: supportedTimeZones() };
+  const [telescope, clearFractions] = await Promise.all([orNotFound(getTelescope({ telescopeId })), clearFractionsOf({ telescopeId })]);
+  return { telescope, clearFractions, timeZones: supportedTimeZones() };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -33,6 +36,11 @@ export async function action({ request, params }: Route.ActionArgs) {
       return handle({ intent, values, schema: telescopeSchema }, async (input) => {
         const { changed } = await updateTelescope({ actor, telescopeId, values: input });
         return redirect(`/admin/telescopes/${telescopeId}?saved=${changed ? "telescope" : "unchanged"}`);
+      });
+    case "clearFractions":
+      return handle({ intent, values, schema: clearFractionsSchema }, async (input) => {
+        const { changed } = await saveClearFractions({ actor, telescopeId, values: input });
+        return redirect(`/admin/telescopes/${telescopeId}?saved=${changed ? "clear" : "unchanged"}#clear-nights`);
       });
     case "createInstrument":
       return handle({ intent, values, schema: instrumentSchema }, async (input) => {
@@ -53,10 +61,11 @@ const savedText: Record<string, string> = {
   created: "The telescope was added. Now add its instruments.",
   telescope: "Saved.",
   unchanged: "Nothing had changed.",
+  clear: "The expected clear nights were saved; the ranking board's RA pressure and the semester check use them.",
 };
 
 export default function TelescopePage({ loaderData, actionData }: Route.ComponentProps) {
-  const { telescope, timeZones } = loaderData;
+  const { telescope, clearFractions, timeZones } = loaderData;
   const [params] = useSearchParams();
   const saved = params.get("saved");
   const deleted = params.get("deleted");
@@ -77,6 +86,14 @@ export default function TelescopePage({ loaderData, actionData }: Route.Componen
           timeZones={timeZones}
           submitLabel="Save the telescope"
         />
+      </section>
+
+      <section className="card space-y-3" aria-labelledby="clear-nights">
+        <h2 id="clear-nights">Expected clear nights per month</h2>
+        <p className="text-sm text-slate-700">
+          The percentage of nights expected to be clear enough to observe, from the site's own weather records. The ranking board multiplies the dark hours by it (RA pressure), and the semester check draws each night clear or lost with it. Leave a month empty when it is not known: it then counts as 100 % and the board says it is not set.
+        </p>
+        <ClearFractionsForm key={clearFractions.map((m) => m.clearFraction).join()} months={clearFractions} result={resultFor(actionData, "clearFractions")} />
       </section>
 
       <section className="space-y-3" aria-labelledby="instruments">

@@ -213,3 +213,29 @@ export const callSchema = z
     };
   });
 export type CallInput = z.output<typeof callSchema>;
+
+// ---------------------------------------------------------------- expected clear fraction per month
+
+export const MONTH_NAMES = ["January", "February", "March", "April", "May", "June", "July", "August", "September", "October", "November", "December"] as const;
+
+const clearPercent = (month: string) =>
+  z.preprocess(
+    (value) => (typeof value === "number" ? String(value) : value ?? ""),
+    z
+      .string()
+      .trim()
+      .transform((text) => (text === "" ? null : /^[+-]?(\d+\.?\d*|\.\d+)$/.test(text) ? Number(text) : Number.NaN))
+      .pipe(
+        z
+          .number({ error: `${month}: give the percentage of clear nights as a number, or leave it empty.` })
+          .min(0, `${month}: from 0 to 100 %.`)
+          .max(100, `${month}: from 0 to 100 %.`)
+          .nullable(),
+      ),
+  );
+
+/** The office's expected clear nights per month, in percent (empty = not set). Fields m1 … m12. */
+export const clearFractionsSchema = z.object(
+  Object.fromEntries(MONTH_NAMES.map((name, i) => [`m${i + 1}`, clearPercent(name)])) as Record<`m${number}`, ReturnType<typeof clearPercent>>,
+);
+export type ClearFractionsInput = z.output<typeof clearFractionsSchema>;
