@@ -1,41 +1,50 @@
 // Loads what the feasibility sheet needs from the database and hands it to the pure computation
 // in ./feasibility.ts. Callers check access first (getProposalForUser); this module only reads.
+import { createHash } from "node:crypto";
 import { altitudeCurve } from "~/lib/astro/visibility";
 import { buildFeasibilitySheet, type FeasibilityInput, type FeasibilitySheet } from "~/lib/feasibility";
 import { Call, CallOffer, Filter, Instrument, Observation, PlannedEpoch, Proposal, Target, Telescope } from "~/models/index.server";
 import { magnitudesOf } from "~/models/Target";
+import { Lru } from "./lru";
 import { plainInstrument } from "./office.server";
 
 export type { FeasibilitySheet } from "~/lib/feasibility";
 
 export class FeasibilityNotFound extends Error {}
 
-export async function loadFeasibilityInput({ proposalId }: { proposalId: number }): Promise<FeasibilityInput> {
-  const proposal = await Proposal.findByPk(proposalId);
-  if (!proposal) throw new FeasibilityNotFound(`No proposal ${proposalId}`);
-  const [call, targets, observations, telescopes, calls] = await Promise.all([
-    Call.findByPk(proposal.callId, { include: [{ model: CallOffer, as: "offers" }] }),
-    Target.findAll({ where: { proposalId }, order: [["id", "ASC"]] }),
-    Observation.findAll({ where: { proposalId }, include: [{ model: PlannedEpoch, as: "epochs" }], order: [["id", "ASC"]] }),
-    Telescope.findAll({ include: [{ model: Instrument, as: "instruments", include: [{ model: Filter, as: "filters" }] }] }),
-    Call.findAll({ attributes: ["semesterCode", "semesterStart", "semesterEnd"] }),
+function byProposal<T extends { proposalId?: unknown }>(rows: T[]): Map<number, T[]> {
+  const out = new Map<number, T[]>();
+  for (const row of rows) {
+    const id = row.proposalId as number;
+    const list = out.get(id);
+    if (list) list.push(row);
+    else out.set(id, [row]);
+  }
+  return out;
+}
+
+/**
+ * The feasibility inputs of many proposals in six queries, whatever their number (the ranking
+ * board reads hundreds): proposals, their calls with offers, targets, observations with epochs,
+ * the telescopes with instruments and filters, and the semesters the office has set up.
+ */
+export async function loadFeasibilityInputs({ proposalIds }: { proposalIds: number[] }): Promise<Map<number, FeasibilityInput>> {
+  const out = new Map<number, FeasibilityInput>();
+  const ids = [...new Set(proposalIds)];
+  if (ids.length === 0) return out;
+  const proposals = await Proposal.findAll({ where: { id: ids } });
+  if (proposals.length === 0) return out;
+  const callIds = [...new Set(proposals.map((p) => p.callId as number))];
+  const [callRows, targets, observations, telescopes, calls] = await Promise.all([
+    Call.findAll({ where: { id: callIds }, include: [{ model: CallOffer, as: "offers" }] }),
+    Target.findAll({ where: { proposalId: ids }, order: [["id", "ASC"]] }),
+    Observation.findAll({ where: { proposalId: ids }, include: [{ model: PlannedEpoch, as: "epochs" }], order: [["id", "ASC"], [{ model: PlannedEpoch, as: "epochs" }, "id", "ASC"]] }),
+    Telescope.findAll({ include: [{ model: Instrument, as: "instruments", include: [{ model: Filter, as: "filters" }] }], order: [["id", "ASC"], [{ model: Instrument, as: "instruments" }, "id", "ASC"], [{ model: Instrument, as: "instruments" }, { model: Filter, as: "filters" }, "id", "ASC"]] }),
+    Call.findAll({ attributes: ["semesterCode", "semesterStart", "semesterEnd"], order: [["semesterStart", "ASC"]] }),
   ]);
-  if (!call) throw new FeasibilityNotFound(`No call for proposal ${proposalId}`);
+  const callOf = new Map(callRows.map((c) => [c.id, c]));
   const instruments = telescopes.flatMap((t) => t.instruments ?? []);
-  return {
-    proposalId,
-    call: {
-      semesterCode: call.semesterCode,
-      semesterStart: call.semesterStart,
-      semesterEnd: call.semesterEnd,
-      offers: (call.offers ?? []).map((o) => ({ telescopeId: o.telescopeId, moonCategory: o.moonCategory, hoursOffered: o.hoursOffered })),
-      // the office's own dates for later semesters (the epoch planner's semesters)
-      laterSemesters: calls
-        .filter((c) => c.semesterStart > call.semesterEnd)
-        .map((c) => ({ code: c.semesterCode, start: c.semesterStart, end: c.semesterEnd })),
-    },
-    isMultiSemester: proposal.isMultiSemester,
-    semestersRequested: proposal.semestersRequested ?? [call.semesterCode],
+  const shared = {
     telescopes: telescopes.map((t) => ({
       id: t.id,
       name: t.name,
@@ -56,39 +65,106 @@ export async function loadFeasibilityInput({ proposalId }: { proposalId: number 
         skyBrightMag: f.skyBrightMag,
       })),
     ),
-    targets: targets.map((t) => ({
-      id: t.id,
-      name: t.name,
-      raDeg: t.raDeg,
-      decDeg: t.decDeg,
-      pmRaMasPerYr: t.pmRaMasPerYr,
-      pmDecMasPerYr: t.pmDecMasPerYr,
-      magnitudes: magnitudesOf(t),
-      magnitude: t.magnitude,
-      band: t.band,
-    })),
-    observations: observations.map((o) => ({
-      id: o.id,
-      targetId: o.targetId,
-      instrumentId: o.instrumentId,
-      filterId: o.filterId,
-      snrGoal: o.snrGoal,
-      exposureSeconds: o.exposureSeconds,
-      framesPerEpoch: o.framesPerEpoch,
-      epochsPerSemester: o.epochsPerSemester,
-      baselineYears: o.baselineYears,
-      requiredPmPrecisionMasPerYr: o.requiredPmPrecisionMasPerYr,
-      moonCategory: o.moonCategory,
-      maxAirmass: o.maxAirmass,
-      seeingArcsec: o.seeingArcsec,
-      epochs: (o.epochs ?? []).map((e) => ({ id: e.id, date: e.date, semesterCode: e.semesterCode, status: e.status })),
-    })),
   };
+  const targetsOf = byProposal(targets);
+  const observationsOf = byProposal(observations);
+  for (const proposal of proposals) {
+    const call = callOf.get(proposal.callId as number);
+    if (!call) continue;
+    out.set(proposal.id, {
+      proposalId: proposal.id,
+      call: {
+        semesterCode: call.semesterCode,
+        semesterStart: call.semesterStart,
+        semesterEnd: call.semesterEnd,
+        offers: (call.offers ?? []).map((o) => ({ telescopeId: o.telescopeId, moonCategory: o.moonCategory, hoursOffered: o.hoursOffered })),
+        // the office's own dates for later semesters (the epoch planner's semesters)
+        laterSemesters: calls
+          .filter((c) => c.semesterStart > call.semesterEnd)
+          .map((c) => ({ code: c.semesterCode, start: c.semesterStart, end: c.semesterEnd })),
+      },
+      isMultiSemester: proposal.isMultiSemester,
+      semestersRequested: proposal.semestersRequested ?? [call.semesterCode],
+      ...shared,
+      targets: (targetsOf.get(proposal.id) ?? []).map((t) => ({
+        id: t.id,
+        name: t.name,
+        raDeg: t.raDeg,
+        decDeg: t.decDeg,
+        pmRaMasPerYr: t.pmRaMasPerYr,
+        pmDecMasPerYr: t.pmDecMasPerYr,
+        magnitudes: magnitudesOf(t),
+        magnitude: t.magnitude,
+        band: t.band,
+      })),
+      observations: (observationsOf.get(proposal.id) ?? []).map((o) => ({
+        id: o.id,
+        targetId: o.targetId,
+        instrumentId: o.instrumentId,
+        filterId: o.filterId,
+        snrGoal: o.snrGoal,
+        exposureSeconds: o.exposureSeconds,
+        framesPerEpoch: o.framesPerEpoch,
+        epochsPerSemester: o.epochsPerSemester,
+        baselineYears: o.baselineYears,
+        requiredPmPrecisionMasPerYr: o.requiredPmPrecisionMasPerYr,
+        moonCategory: o.moonCategory,
+        maxAirmass: o.maxAirmass,
+        seeingArcsec: o.seeingArcsec,
+        epochs: (o.epochs ?? []).map((e) => ({ id: e.id, date: e.date, semesterCode: e.semesterCode, status: e.status })),
+      })),
+    });
+  }
+  return out;
+}
+
+export async function loadFeasibilityInput({ proposalId }: { proposalId: number }): Promise<FeasibilityInput> {
+  const input = (await loadFeasibilityInputs({ proposalIds: [proposalId] })).get(proposalId);
+  if (!input) throw new FeasibilityNotFound(`No proposal ${proposalId} (or no call for it)`);
+  return input;
+}
+
+/**
+ * One sheet per state of its inputs: the sheet page, the checklist, the API, the PDF and the
+ * ranking board ask for the same sheet many times. Keyed by a hash of the whole input (what the
+ * proposal holds, the call's offers and the office's telescopes), so any change is a new key and
+ * nothing needs to be invalidated. Callers must not change a sheet they are given.
+ */
+const sheetCache = new Lru<string, FeasibilitySheet>(400);
+
+const inputKey = (input: FeasibilityInput) => createHash("sha1").update(JSON.stringify(input)).digest("base64");
+
+export function feasibilitySheetOf(input: FeasibilityInput): FeasibilitySheet {
+  const key = inputKey(input);
+  const hit = sheetCache.get(key);
+  if (hit) return hit;
+  const sheet = buildFeasibilitySheet(input);
+  sheetCache.set(key, sheet);
+  return sheet;
 }
 
 /** The proposal's feasibility sheet. Access must have been checked by the caller. */
 export async function computeFeasibilitySheet({ proposalId }: { proposalId: number }): Promise<FeasibilitySheet> {
-  return buildFeasibilitySheet(await loadFeasibilityInput({ proposalId }));
+  return feasibilitySheetOf(await loadFeasibilityInput({ proposalId }));
+}
+
+/** Sheets of many proposals (the ranking board); a sheet that fails to compute is its Error. */
+export async function computeFeasibilitySheets({ proposalIds }: { proposalIds: number[] }): Promise<Map<number, FeasibilitySheet | Error>> {
+  const inputs = await loadFeasibilityInputs({ proposalIds });
+  const out = new Map<number, FeasibilitySheet | Error>();
+  for (const id of proposalIds) {
+    const input = inputs.get(id);
+    if (!input) {
+      out.set(id, new FeasibilityNotFound(`No proposal ${id} (or no call for it)`));
+      continue;
+    }
+    try {
+      out.set(id, feasibilitySheetOf(input));
+    } catch (error) {
+      out.set(id, error instanceof Error ? error : new Error(String(error)));
+    }
+  }
+  return out;
 }
 
 export type AltitudeChart = {

@@ -7,8 +7,8 @@ import { Field, inputProps } from "~/components/Field";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
 import { isIsoDate } from "~/lib/astro/time";
 import { requireUser } from "~/lib/auth.server";
-import { buildFeasibilitySheet, type FeasibilitySheet, type ObservationSheet } from "~/lib/feasibility";
-import { altitudeChartFor, loadFeasibilityInput } from "~/lib/feasibility.server";
+import type { FeasibilitySheet, ObservationSheet } from "~/lib/feasibility";
+import { altitudeChartFor, feasibilitySheetOf, loadFeasibilityInput } from "~/lib/feasibility.server";
 import { proposalIdParam } from "~/lib/proposal-routes.server";
 import { getProposalForUser } from "~/lib/proposals.server";
 import type { Route } from "./+types/proposals.$proposalId.feasibility";
@@ -23,15 +23,15 @@ export function meta() {
   return [{ title: "Feasibility sheet · Nightshare" }];
 }
 
-// Computed in the loader on every visit: after the observations tab saves, React Router
-// revalidates this loader, so the sheet always reflects the saved data.
+// Read in the loader on every visit (cached by its inputs' hash): after the observations tab
+// saves, React Router revalidates this loader, so the sheet always reflects the saved data.
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
   await getProposalForUser({ proposalId, user });
   const started = performance.now();
   const input = await loadFeasibilityInput({ proposalId });
-  const sheet = buildFeasibilitySheet(input);
+  const sheet = feasibilitySheetOf(input);
   const url = new URL(request.url);
   const obsParam = url.searchParams.get("obs");
   const nightParam = url.searchParams.get("night")?.trim() || null;

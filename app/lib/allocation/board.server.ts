@@ -4,7 +4,7 @@
 // what earlier calls' locked allocations already committed to this semester.
 import { Op } from "sequelize";
 import { moonCategories, type MoonCategory } from "~/lib/domain";
-import { computeFeasibilitySheet } from "~/lib/feasibility.server";
+import { computeFeasibilitySheets } from "~/lib/feasibility.server";
 import { callNotFound } from "~/lib/review/chair.server";
 import { Allocation, BoardEntry, Call, CallAllocation, CallOffer, Proposal, ReviewAssignment, User } from "~/models/index.server";
 import { normaliseGrades } from "./normalise";
@@ -49,15 +49,16 @@ export async function callBoard({ callId }: { callId: number }) {
   const scoreOf = new Map(normalised.proposals.map((p) => [p.proposalId, p]));
   const entryOf = new Map(entries.map((e) => [e.proposalId as number, e]));
 
+  const sheets = await computeFeasibilitySheets({ proposalIds: ids });
   const rows = [];
   for (const p of proposals) {
     let requested: HoursCell[] = [];
     let requestedError: string | null = null;
-    try {
-      const sheet = await computeFeasibilitySheet({ proposalId: p.id });
+    const sheet = sheets.get(p.id);
+    if (sheet && !(sheet instanceof Error)) {
       requested = sheet.totals.map((t) => ({ telescopeId: t.telescopeId, moonCategory: t.moonCategory, semesterCode: t.semesterCode, hours: t.hours }));
-    } catch (error) {
-      console.error(`feasibility sheet of proposal ${p.id} failed`, error);
+    } else {
+      console.error(`feasibility sheet of proposal ${p.id} failed`, sheet);
       requestedError = "The feasibility sheet could not be computed; requested hours unknown.";
     }
     const score = scoreOf.get(p.id);
