@@ -17,8 +17,9 @@
 //   tolerance nights around the planned date), earliest first; an epoch whose window has passed
 //   is lost. Other observations take their visits on any night.
 // - Hours: a programme's visits are those its allocation (per telescope × moon category of the
-//   call's semester) covers in whole visits (epochs first, then the other observations, in order);
-//   no programme ever runs more than its allocation, and no night more than its dark hours.
+//   call's semester) covers in whole visits (epochs first, then the other observations, in order;
+//   within 0.01 h, the rounding of the sheet's hours); no programme runs more than its allocation
+//   (+ that 0.01 h), and no night more than its dark hours.
 // - A programme completes in a realisation when every visit its allocation covers was done.
 // - Proper motion: the five-parameter fit (astro/astrometry.ts fitPrecision) over the epochs of
 //   the other semesters as planned plus this semester's epochs achieved, each at the middle of the
@@ -184,6 +185,8 @@ const MOON_RANK: Record<MoonCategory, number> = { dark: 0, grey: 1, bright: 2 };
 const TIER_RANK: Record<AllocationTier, number> = { assured: 0, queue: 1, filler: 2 };
 const H = 3_600_000;
 const EPS = 1e-9;
+/** allocated hours come from the sheet's totals, rounded to 0.01 h: a visit counts as covered within that */
+export const COVER_TOLERANCE_HOURS = 0.01;
 const MONTHS = ["January", "February", "March", "April", "May", "June", "July", "August", "September", "October", "November", "December"];
 const round = (x: number, digits = 4) => Math.round(x * 10 ** digits) / 10 ** digits;
 
@@ -291,7 +294,7 @@ export function runSemesterCheck(input: CheckInput, options: CheckOptions): Seme
       const k = `${i}|${o.telescopeId}|${o.moonCategory}`;
       const cell = cellKey.get(k);
       const left = cell === undefined ? 0 : budget.get(k)!;
-      const planned = Math.min(wanted, Math.floor((left + EPS) / o.visitHours));
+      const planned = Math.min(wanted, Math.floor((left + COVER_TOLERANCE_HOURS) / o.visitHours));
       if (cell !== undefined) budget.set(k, left - planned * o.visitHours);
       if (planned < wanted) progNotes[i].push(`${o.label}: the allocation covers ${planned} of its ${wanted} visits of ${round(o.visitHours, 2)} h.`);
       progPlannedVisits[i] += planned;
@@ -473,7 +476,7 @@ export function runSemesterCheck(input: CheckInput, options: CheckOptions): Seme
           const x = obs[j];
           const v = x.visit;
           if (freeTotal + EPS < v) continue;
-          if (x.cell < 0 || cellLeft[x.cell] + EPS < v) continue;
+          if (x.cell < 0 || cellLeft[x.cell] + COVER_TOLERANCE_HOURS < v) continue;
           let epoch = -1;
           if (x.astro) {
             const end = x.epochBase + x.planned;
