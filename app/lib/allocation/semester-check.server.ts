@@ -62,14 +62,16 @@ export async function semesterCheckFacts({ callId }: { callId: number }): Promis
     Telescope.findAll({ where: { id: { [Op.in]: offered.length ? offered : [0] } }, order: [["id", "ASC"]] }),
     TelescopeClearFraction.findAll({ where: { telescopeId: { [Op.in]: offered.length ? offered : [0] } } }),
   ]);
-  const programmes: CheckFacts["programmes"] = [];
-  for (const row of order) {
-    if (!row.tier) continue;
-    const allocation = allocations
-      .filter((a) => a.proposalId === row.proposalId && a.hours > 0)
-      .map((a) => ({ telescopeId: a.telescopeId as number, moonCategory: a.moonCategory as MoonCategory, hours: a.hours }));
-    programmes.push({ proposalId: row.proposalId, code: row.code, title: row.title, tier: row.tier, position: row.position, allocation, feasibility: await loadFeasibilityInput({ proposalId: row.proposalId }) });
-  }
+  const programmes: CheckFacts["programmes"] = await Promise.all(
+    order.flatMap((row) => {
+      const tier = row.tier;
+      if (!tier) return [];
+      const allocation = allocations
+        .filter((a) => a.proposalId === row.proposalId && a.hours > 0)
+        .map((a) => ({ telescopeId: a.telescopeId as number, moonCategory: a.moonCategory as MoonCategory, hours: a.hours }));
+      return [loadFeasibilityInput({ proposalId: row.proposalId }).then((feasibility) => ({ proposalId: row.proposalId, code: row.code, title: row.title, tier, position: row.position, allocation, feasibility }))];
+    }),
+  );
   return {
     call: { id: call.id, semesterCode: call.semesterCode, semesterStart: call.semesterStart, semesterEnd: call.semesterEnd },
     telescopes: telescopes.map((t) => ({
