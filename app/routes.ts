@@ -20,6 +20,8 @@ export default [
   route("api/v1/calls/:callId/allocation/fill-by-rank", "routes/api.v1.calls.$callId.allocation.fill-by-rank.ts"),
   route("api/v1/calls/:callId/allocation/lock", "routes/api.v1.calls.$callId.allocation.lock.ts"),
   route("api/v1/calls/:callId/allocation/unlock", "routes/api.v1.calls.$callId.allocation.unlock.ts"),
+  route("api/v1/calls/:callId/semester-check", "routes/api.v1.calls.$callId.semester-check.ts"),
+  route("api/v1/semester-checks/:id", "routes/api.v1.semester-checks.$id.ts"),
   route("api/v1/review/assignments", "routes/api.v1.review.assignments.ts"),
   route("api/v1/review/assignments/:assignmentId", "routes/api.v1.review.assignments.$assignmentId.ts"),
   route("api/v1/review/assignments/:assignmentId/conflict", "routes/api.v1.review.assignments.$assignmentId.conflict.ts"),

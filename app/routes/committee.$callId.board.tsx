@@ -4,8 +4,10 @@ import { data, Form, Link, useActionData, useNavigation } from "react-router";
 import { z } from "zod";
 import { Field, inputProps } from "~/components/Field";
 import { SortableTable } from "~/components/SortableTable";
+import { SemesterCheck } from "~/components/allocation/SemesterCheck";
 import { fillAllocationByRank, lockAllocation, moveOnBoard, unlockAllocation } from "~/lib/allocation/allocate.server";
 import { callBoard } from "~/lib/allocation/board.server";
+import { latestSemesterCheck } from "~/lib/allocation/semester-check.server";
 import { DISAGREEMENT_SPAN, MIN_GRADES } from "~/lib/allocation/normalise";
 import { requireRole } from "~/lib/auth.server";
 import { fieldErrors, idSchema } from "~/lib/forms";
@@ -78,8 +80,8 @@ export async function action({ request, params }: Route.ActionArgs) {
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
   const callId = callIdOf(params);
-  const [board, telescopes] = await Promise.all([callBoard({ callId }), Telescope.findAll({ attributes: ["id", "name"], order: [["id", "ASC"]] })]);
-  return { board, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })) };
+  const [board, telescopes, semesterCheck] = await Promise.all([callBoard({ callId }), Telescope.findAll({ attributes: ["id", "name"], order: [["id", "ASC"]] }), latestSemesterCheck({ callId })]);
+  return { board, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })), semesterCheck };
 }
 
 type Row = Route.ComponentProps["loaderData"]["board"]["proposals"][number];
@@ -87,7 +89,7 @@ const column = createColumnHelper<Row>();
 const fixed = (value: number | null, digits: number) => (value === null ? "–" : value.toFixed(digits));
 
 export default function RankingBoard({ loaderData }: Route.ComponentProps) {
-  const { board, telescopes } = loaderData;
+  const { board, telescopes, semesterCheck } = loaderData;
   const actionData = useActionData<typeof action>();
   const busy = useNavigation().state !== "idle";
   const err = (field: string) => (actionData && !actionData.ok ? actionData.errors[field] : undefined);
@@ -192,6 +194,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
           </div>
         )}
       </section>
+      <SemesterCheck key={call.id} callId={call.id} latest={semesterCheck} />
       <section className="card space-y-2">
         <h2>Oversubscription</h2>
         <p className="text-sm text-slate-700">Requested hours for {call.semesterCode} against offered hours, less what earlier calls' locked allocations already committed to this semester.</p>

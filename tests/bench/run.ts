@@ -1,11 +1,12 @@
 // `npm run bench`: prints timings; nothing here is asserted (timings are not tests).
 //   npm run bench               everything
-//   npm run bench -- pdf        one section (visibility, review, pdf, restart)
+//   npm run bench -- pdf        one section (visibility, review, semester-check, pdf, restart)
 import { availableParallelism, loadavg } from "node:os";
 import { runAstroBench } from "./astro";
 import { runPdfBench } from "./pdf";
 import { runRestartBench } from "./restart";
 import { runReviewBench } from "./review";
+import { runSemesterCheckBench } from "./semester-check";
 
 const only = process.argv[2];
 const want = (name: string) => !only || only === name;
@@ -19,6 +20,10 @@ if (want("visibility")) {
 if (want("review")) {
   console.log("\n[review: reviewer suggestion]");
   for (const line of runReviewBench()) console.log("  " + line);
+}
+if (want("semester-check")) {
+  console.log("\n[semester check]");
+  for (const line of await runSemesterCheckBench()) console.log("  " + line);
 }
 if (want("pdf")) {
   console.log("\n[proposal PDF and submission]");

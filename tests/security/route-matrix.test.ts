@@ -45,6 +45,8 @@ const expectations: Record<string, Rule> = {
   "/api/v1/calls/:callId/allocation/fill-by-rank": { get: "none", post: "chair" },
   "/api/v1/calls/:callId/allocation/lock": { get: "none", post: "chair" },
   "/api/v1/calls/:callId/allocation/unlock": { get: "none", post: "chair" },
+  "/api/v1/calls/:callId/semester-check": { get: "none", post: "chair" }, // the probe's unknown field: 400
+  "/api/v1/semester-checks/:id": { get: "chair", post: "none", getOk: 404 }, // no check with the seeded ids
   "/api/v1/review/assignments": { get: "reviewer", post: "none" },
   "/api/v1/review/assignments/:assignmentId": { get: "none", post: "none" }, // PUT (tested in review.test.ts)
   "/api/v1/review/assignments/:assignmentId/conflict": { get: "none", post: "reviewer" }, // the probe body lacks a reason: 400
@@ -110,7 +112,7 @@ function instancesOf(pattern: string, ids: SeededIds): Instance[] {
     ];
   }
   if (pattern === "/*") return [{ label: "unknown page", params: {}, members: [] }];
-  return [{ label: "", params: { telescopeId: ids.telescopeId, instrumentId: ids.instrumentId, callId: ids.callId, assignmentId: ids.assignmentId }, members: [] }];
+  return [{ label: "", params: { telescopeId: ids.telescopeId, instrumentId: ids.instrumentId, callId: ids.callId, assignmentId: ids.assignmentId, id: 4_000_000_000 }, members: [] }];
 }
 
 type Expected = { kind: "allowed"; status?: number } | { kind: "signIn" } | { kind: "forbidden" } | { kind: "notFound" } | { kind: "notOffered" };

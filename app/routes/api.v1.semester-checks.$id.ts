@@ -1,0 +1,19 @@
+import { semesterCheckById } from "~/lib/allocation/semester-check.server";
+import { requireRole } from "~/lib/auth.server";
+import { apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import type { Route } from "./+types/api.v1.semester-checks.$id";
+
+/**
+ * GET /api/v1/semester-checks/:id (chair) → `{ id, callId, status, progress, seed, realisations,
+ * stale, result, error, createdAt, finishedAt }`; `result` once done, `stale` once finished.
+ */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  await requireRole(request, "chair");
+  const check = await semesterCheckById({ id: apiId(params.id, "id") });
+  if (!check) return json({ error: "No such semester check.", issues: [] }, 404);
+  return json(check);
+}
+
+export async function action() {
+  return methodNotAllowed("GET");
+}
