@@ -2,10 +2,12 @@ import { createColumnHelper, getCoreRowModel, getFilteredRowModel, getSortedRowM
 import { useMemo, useState } from "react";
 import { data, Form, Link, useActionData, useNavigation } from "react-router";
 import { z } from "zod";
+import { RaPressure } from "~/components/allocation/RaPressure";
 import { Field, inputProps } from "~/components/Field";
 import { SortableTable } from "~/components/SortableTable";
 import { fillAllocationByRank, lockAllocation, moveOnBoard, unlockAllocation } from "~/lib/allocation/allocate.server";
 import { callBoard } from "~/lib/allocation/board.server";
+import { raPressureSection } from "~/lib/allocation/ra-pressure.server";
 import { DISAGREEMENT_SPAN, MIN_GRADES } from "~/lib/allocation/normalise";
 import { requireRole } from "~/lib/auth.server";
 import { fieldErrors, idSchema } from "~/lib/forms";
@@ -77,8 +79,12 @@ export async function action({ request, params }: Route.ActionArgs) {
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
   const callId = callIdOf(params);
-  const [board, telescopes] = await Promise.all([callBoard({ callId }), Telescope.findAll({ attributes: ["id", "name"], order: [["id", "ASC"]] })]);
-  return { board, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })) };
+  const [board, telescopes, raPressure] = await Promise.all([
+    callBoard({ callId }),
+    Telescope.findAll({ attributes: ["id", "name"], order: [["id", "ASC"]] }),
+    raPressureSection({ callId, telescopeId: new URL(request.url).searchParams.get("telescopeId") }),
+  ]);
+  return { board, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })), raPressure };
 }
 
 type Row = Route.ComponentProps["loaderData"]["board"]["proposals"][number];
@@ -86,7 +92,7 @@ const column = createColumnHelper<Row>();
 const fixed = (value: number | null, digits: number) => (value === null ? "–" : value.toFixed(digits));
 
 export default function RankingBoard({ loaderData }: Route.ComponentProps) {
-  const { board, telescopes } = loaderData;
+  const { board, telescopes, raPressure } = loaderData;
   const actionData = useActionData<typeof action>();
   const busy = useNavigation().state !== "idle";
   const err = (field: string) => (actionData && !actionData.ok ? actionData.errors[field] : undefined);
@@ -210,6 +216,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
           </tbody>
         </table>
       </section>
+      <RaPressure view={raPressure} />
       <section className="space-y-2">
         <div className="flex flex-wrap items-end justify-between gap-2">
           <h2>Proposals</h2>
