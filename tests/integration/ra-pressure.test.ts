@@ -141,4 +141,15 @@ describe("GET /api/v1/calls/:callId/ra-pressure", () => {
     expect((await get(`/api/v1/calls/${call.id}/ra-pressure?telescopeId=${telescopeId}`, reviewer.cookie)).status).toBe(403);
     expect((await (await request()).get(`/api/v1/calls/${call.id}/ra-pressure?telescopeId=${telescopeId}`)).status).toBe(401);
   });
+
+  it("the board page says so beside the telescope choice when ?telescopeId= is no telescope of the call", async () => {
+    for (const query of ["abc", String(otherTelescopeId), "99999999", "%00"]) {
+      const res = await get(`/committee/${narrowCall.id}/board?telescopeId=${query}`);
+      expect(res.status, query).toBe(200);
+      expect(res.text, query).toContain("Choose one of the telescopes this call offers.");
+    }
+    const ok = await get(`/committee/${narrowCall.id}/board?telescopeId=${telescopeId}`);
+    expect(ok.text).not.toContain("Choose one of the telescopes this call offers.");
+    expect(ok.text).toContain("Clear fraction used");
+  });
 });
