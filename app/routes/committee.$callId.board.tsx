@@ -8,6 +8,7 @@ import { SortableTable } from "~/components/SortableTable";
 import { fillAllocationByRank, lockAllocation, moveOnBoard, unlockAllocation } from "~/lib/allocation/allocate.server";
 import { callBoard } from "~/lib/allocation/board.server";
 import { raPressureSection } from "~/lib/allocation/ra-pressure.server";
+import type { FeasibilitySheet } from "~/lib/feasibility";
 import { DISAGREEMENT_SPAN, MIN_GRADES } from "~/lib/allocation/normalise";
 import { requireRole } from "~/lib/auth.server";
 import { fieldErrors, idSchema } from "~/lib/forms";
@@ -79,11 +80,9 @@ export async function action({ request, params }: Route.ActionArgs) {
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
   const callId = callIdOf(params);
-  const [board, telescopes, raPressure] = await Promise.all([
-    callBoard({ callId }),
-    Telescope.findAll({ attributes: ["id", "name"], order: [["id", "ASC"]] }),
-    raPressureSection({ callId, telescopeId: new URL(request.url).searchParams.get("telescopeId") }),
-  ]);
+  const sheets = new Map<number, FeasibilitySheet>(); // computed once for the board and its RA pressure
+  const [board, telescopes] = await Promise.all([callBoard({ callId, sheets }), Telescope.findAll({ attributes: ["id", "name"], order: [["id", "ASC"]] })]);
+  const raPressure = await raPressureSection({ callId, telescopeId: new URL(request.url).searchParams.get("telescopeId"), sheets });
   return { board, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })), raPressure };
 }
 

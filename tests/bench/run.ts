@@ -1,9 +1,10 @@
 // `npm run bench`: prints timings; nothing here is asserted (timings are not tests).
 //   npm run bench               everything
-//   npm run bench -- pdf        one section (visibility, review, pdf, restart)
+//   npm run bench -- pdf        one section (visibility, review, ra-pressure, pdf, restart)
 import { availableParallelism, loadavg } from "node:os";
 import { runAstroBench } from "./astro";
 import { runPdfBench } from "./pdf";
+import { runRaPressureBench } from "./ra-pressure";
 import { runRestartBench } from "./restart";
 import { runReviewBench } from "./review";
 
@@ -19,6 +20,10 @@ if (want("visibility")) {
 if (want("review")) {
   console.log("\n[review: reviewer suggestion]");
   for (const line of runReviewBench()) console.log("  " + line);
+}
+if (want("ra-pressure")) {
+  console.log("\n[allocation: RA pressure]");
+  for (const line of await runRaPressureBench()) console.log("  " + line);
 }
 if (want("pdf")) {
   console.log("\n[proposal PDF and submission]");

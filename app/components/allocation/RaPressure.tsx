@@ -30,6 +30,8 @@ const AVAILABLE_FILL: Record<Moon, string> = { dark: "#1f3a5c", grey: "#5f86b3",
 const REQUESTED_FILL: Record<Moon, string> = { dark: "#a8450c", grey: "#e08a2e", bright: "#f6d19b" };
 const MONTHS = ["Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec"];
 const h1 = (x: number) => x.toFixed(1);
+/** requests are small beside a bin's dark time: one more digit */
+const h2 = (x: number) => x.toFixed(2);
 
 /** A round top for the axis and ticks every 1, 2 or 5 × 10ⁿ, at most six. */
 export function hourTicks(max: number): number[] {
@@ -195,8 +197,8 @@ export function RaPressure({ view }: { view: RaPressureView }) {
                       <td>{h1(b.darkHours)}</td>
                       {MOONS.map((m) => <td key={`a-${m}`}>{h1(b.byMoonCategory[m].availableDarkHours)}</td>)}
                       <td className="font-semibold">{h1(b.availableDarkHours)}</td>
-                      {MOONS.map((m) => <td key={`r-${m}`}>{h1(b.byMoonCategory[m].requestedHours)}</td>)}
-                      <td className="font-semibold">{h1(b.requestedHours)}</td>
+                      {MOONS.map((m) => <td key={`r-${m}`}>{h2(b.byMoonCategory[m].requestedHours)}</td>)}
+                      <td className="font-semibold">{h2(b.requestedHours)}</td>
                       <td className={ratio !== null && ratio > 1 ? "font-semibold text-red-700" : ""}>
                         {ratio !== null ? `${ratio.toFixed(2)}×` : b.requestedHours > 0 ? "no dark time" : "–"}
                       </td>
@@ -210,8 +212,8 @@ export function RaPressure({ view }: { view: RaPressureView }) {
                   <td>{h1(r.darkHours)}</td>
                   {MOONS.map((m) => <td key={`a-${m}`}>{h1(r.bins.reduce((s, b) => s + b.byMoonCategory[m].availableDarkHours, 0))}</td>)}
                   <td>{h1(r.availableDarkHours)}</td>
-                  {MOONS.map((m) => <td key={`r-${m}`}>{h1(r.bins.reduce((s, b) => s + b.byMoonCategory[m].requestedHours, 0))}</td>)}
-                  <td>{h1(r.requestedHours)}</td>
+                  {MOONS.map((m) => <td key={`r-${m}`}>{h2(r.bins.reduce((s, b) => s + b.byMoonCategory[m].requestedHours, 0))}</td>)}
+                  <td>{h2(r.requestedHours)}</td>
                   <td>{r.availableDarkHours > 0 ? `${(r.requestedHours / r.availableDarkHours).toFixed(2)}×` : "–"}</td>
                 </tr>
               </tfoot>

@@ -4,7 +4,7 @@
 // what earlier calls' locked allocations already committed to this semester.
 import { Op } from "sequelize";
 import { moonCategories, type MoonCategory } from "~/lib/domain";
-import { computeFeasibilitySheet } from "~/lib/feasibility.server";
+import { computeFeasibilitySheet, type FeasibilitySheet } from "~/lib/feasibility.server";
 import { callNotFound } from "~/lib/review/chair.server";
 import { Allocation, BoardEntry, Call, CallAllocation, CallOffer, Proposal, ReviewAssignment, User } from "~/models/index.server";
 import { normaliseGrades } from "./normalise";
@@ -29,7 +29,8 @@ export async function committedHours({ callId, semesterCode }: { callId: number;
   return out;
 }
 
-export async function callBoard({ callId }: { callId: number }) {
+/** `sheets`, when given, receives each proposal's feasibility sheet (the page's RA pressure reuses them). */
+export async function callBoard({ callId, sheets }: { callId: number; sheets?: Map<number, FeasibilitySheet> }) {
   const call = await Call.findByPk(callId, { include: [{ model: CallOffer, as: "offers" }] });
   if (!call) callNotFound();
   const proposals = await Proposal.findAll({
@@ -55,6 +56,7 @@ export async function callBoard({ callId }: { callId: number }) {
     let requestedError: string | null = null;
     try {
       const sheet = await computeFeasibilitySheet({ proposalId: p.id });
+      sheets?.set(p.id, sheet);
       requested = sheet.totals.map((t) => ({ telescopeId: t.telescopeId, moonCategory: t.moonCategory, semesterCode: t.semesterCode, hours: t.hours }));
     } catch (error) {
       console.error(`feasibility sheet of proposal ${p.id} failed`, error);
