@@ -49,6 +49,7 @@ import {
   ensureMoonTimes,
   TWILIGHT_ALTITUDE_DEG,
   limitAltitude,
+  moonAllows,
   prepareSiteNights,
   summarise,
   targetNights,
@@ -423,7 +424,7 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
     const minAltitudeDeg = limitAltitude({ maxAirmass: obs.maxAirmass });
     const rows = targetNights(prepared, astroTarget(target), minAltitudeDeg);
     const summary = summarise(rows);
-    const allowed = (c: MoonCategory) => MOON_RANK[c] <= MOON_RANK[obs.moonCategory];
+    const allowed = (c: MoonCategory) => moonAllows(obs.moonCategory, c);
     /** a night's observable hours in this observation's moon category or darker (split at moonrise/moonset) */
     const usableOf = (row: TargetNight) => {
       const split = row.hoursByMoonCategory as Record<MoonCategory, number>;

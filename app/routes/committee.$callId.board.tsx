@@ -2,12 +2,15 @@ import { createColumnHelper, getCoreRowModel, getFilteredRowModel, getSortedRowM
 import { useMemo, useState } from "react";
 import { data, Form, Link, useActionData, useNavigation } from "react-router";
 import { z } from "zod";
+import { RaPressure } from "~/components/allocation/RaPressure";
 import { Field, inputProps } from "~/components/Field";
 import { SortableTable } from "~/components/SortableTable";
 import { SemesterCheck } from "~/components/allocation/SemesterCheck";
 import { fillAllocationByRank, lockAllocation, moveOnBoard, unlockAllocation } from "~/lib/allocation/allocate.server";
 import { callBoard } from "~/lib/allocation/board.server";
+import { raPressureSection } from "~/lib/allocation/ra-pressure.server";
 import { latestSemesterCheck } from "~/lib/allocation/semester-check.server";
+import type { FeasibilitySheet } from "~/lib/feasibility";
 import { DISAGREEMENT_SPAN, MIN_GRADES } from "~/lib/allocation/normalise";
 import { requireRole } from "~/lib/auth.server";
 import { fieldErrors, idSchema } from "~/lib/forms";
@@ -80,8 +83,14 @@ export async function action({ request, params }: Route.ActionArgs) {
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
   const callId = callIdOf(params);
-  const [board, telescopes, semesterCheck] = await Promise.all([callBoard({ callId }), Telescope.findAll({ attributes: ["id", "name"], order: [["id", "ASC"]] }), latestSemesterCheck({ callId })]);
-  return { board, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })), semesterCheck };
+  const sheets = new Map<number, FeasibilitySheet>(); // read once for the board and its RA pressure
+  const [board, telescopes, semesterCheck] = await Promise.all([
+    callBoard({ callId, sheets }),
+    Telescope.findAll({ attributes: ["id", "name"], order: [["id", "ASC"]] }),
+    latestSemesterCheck({ callId }),
+  ]);
+  const raPressure = await raPressureSection({ callId, telescopeId: new URL(request.url).searchParams.get("telescopeId"), sheets });
+  return { board, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })), semesterCheck, raPressure };
 }
 
 type Row = Route.ComponentProps["loaderData"]["board"]["proposals"][number];
@@ -89,7 +98,7 @@ const column = createColumnHelper<Row>();
 const fixed = (value: number | null, digits: number) => (value === null ? "–" : value.toFixed(digits));
 
 export default function RankingBoard({ loaderData }: Route.ComponentProps) {
-  const { board, telescopes, semesterCheck } = loaderData;
+  const { board, telescopes, semesterCheck, raPressure } = loaderData;
   const actionData = useActionData<typeof action>();
   const busy = useNavigation().state !== "idle";
   const err = (field: string) => (actionData && !actionData.ok ? actionData.errors[field] : undefined);
@@ -220,6 +229,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
           </tbody>
         </table>
       </section>
+      <RaPressure view={raPressure} />
       <section className="space-y-2">
         <div className="flex flex-wrap items-end justify-between gap-2">
           <h2>Proposals</h2>

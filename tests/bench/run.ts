@@ -1,9 +1,10 @@
 // `npm run bench`: prints timings; nothing here is asserted (timings are not tests).
 //   npm run bench               everything
-//   npm run bench -- pdf        one section (visibility, review, semester-check, pdf, restart)
+//   npm run bench -- pdf        one section (visibility, review, board, ra-pressure, semester-check, pdf, restart)
 import { availableParallelism, loadavg } from "node:os";
 import { runAstroBench } from "./astro";
 import { runPdfBench } from "./pdf";
+import { runRaPressureBench } from "./ra-pressure";
 import { runRestartBench } from "./restart";
 import { runReviewBench } from "./review";
 import { runSemesterCheckBench } from "./semester-check";
@@ -20,6 +21,10 @@ if (want("visibility")) {
 if (want("review")) {
   console.log("\n[review: reviewer suggestion]");
   for (const line of runReviewBench()) console.log("  " + line);
+}
+if (want("ra-pressure")) {
+  console.log("\n[allocation: RA pressure]");
+  for (const line of await runRaPressureBench()) console.log("  " + line);
 }
 if (want("semester-check")) {
   console.log("\n[semester check]");

@@ -56,6 +56,7 @@ const exampleTargets: Point[] = [
   { name: "Forgotten Field", ra: 200, dec: 20 },
   { name: "Vesper Knot (05:12:33.4 −21:04:12)", ra: 78.1392, dec: -21.07 },
   { name: "Sky tools default field (05:36:48 +18:30:00)", ra: 84.2, dec: 18.5 },
+  { name: "Deepwell Field (20:40:00 −78:00:00), ra-pressure.test.ts", ra: 310, dec: -78 },
 ];
 
 // Famous high-proper-motion stars (J2000 position in degrees, μα*, μδ in mas/yr), from memory.

@@ -4,7 +4,7 @@
 // what earlier calls' locked allocations already committed to this semester.
 import { Op } from "sequelize";
 import { moonCategories, type MoonCategory } from "~/lib/domain";
-import { computeFeasibilitySheets } from "~/lib/feasibility.server";
+import { computeFeasibilitySheets, type FeasibilitySheet } from "~/lib/feasibility.server";
 import { callNotFound } from "~/lib/review/chair.server";
 import { Allocation, BoardEntry, Call, CallAllocation, CallOffer, Proposal, ReviewAssignment, User } from "~/models/index.server";
 import { normaliseGrades } from "./normalise";
@@ -29,7 +29,8 @@ export async function committedHours({ callId, semesterCode }: { callId: number;
   return out;
 }
 
-export async function callBoard({ callId }: { callId: number }) {
+/** `sheets`, when given, receives each proposal's feasibility sheet (the page's RA pressure reuses them). */
+export async function callBoard({ callId, sheets }: { callId: number; sheets?: Map<number, FeasibilitySheet> }) {
   const call = await Call.findByPk(callId, { include: [{ model: CallOffer, as: "offers" }] });
   if (!call) callNotFound();
   const proposals = await Proposal.findAll({
@@ -49,13 +50,14 @@ export async function callBoard({ callId }: { callId: number }) {
   const scoreOf = new Map(normalised.proposals.map((p) => [p.proposalId, p]));
   const entryOf = new Map(entries.map((e) => [e.proposalId as number, e]));
 
-  const sheets = await computeFeasibilitySheets({ proposalIds: ids });
+  const computed = await computeFeasibilitySheets({ proposalIds: ids });
   const rows = [];
   for (const p of proposals) {
     let requested: HoursCell[] = [];
     let requestedError: string | null = null;
-    const sheet = sheets.get(p.id);
+    const sheet = computed.get(p.id);
     if (sheet && !(sheet instanceof Error)) {
+      sheets?.set(p.id, sheet);
       requested = sheet.totals.map((t) => ({ telescopeId: t.telescopeId, moonCategory: t.moonCategory, semesterCode: t.semesterCode, hours: t.hours }));
     } else {
       console.error(`feasibility sheet of proposal ${p.id} failed`, sheet);

@@ -53,7 +53,8 @@ export function moonCategory(illumination: number): MoonCategory {
   return "bright";
 }
 
-const SIDEREAL_RATE_DEG_PER_DAY = 360.98564736629;
+/** Earth's sidereal rotation (deg per mean solar day); local sidereal time grows at this rate. */
+export const SIDEREAL_RATE_DEG_PER_DAY = 360.98564736629;
 const SUN_RADIUS_KM = 695_700;
 const EARTH_RADIUS_KM = 6378.1366;
 const C_AU_PER_DAY = Astro.C_AUDAY;
@@ -431,6 +432,44 @@ export function ensureMoonTimes(prepared: PreparedSite): void {
     night.moon = { moonrise, moonset, up };
   }
   moonDone.add(prepared);
+}
+
+const MOON_ORDER: Record<MoonCategory, number> = { dark: 0, grey: 1, bright: 2 };
+
+/** Whether an observation that tolerates `tolerated` moon may use time of `category` (its category or darker). */
+export function moonAllows(tolerated: MoonCategory, category: MoonCategory): boolean {
+  return MOON_ORDER[category] <= MOON_ORDER[tolerated];
+}
+
+/**
+ * The given intervals of one night cut at moonrise and moonset, each piece with its moon
+ * category: the night's category while the Moon is up, dark while it is down — the same rule as
+ * `hoursByMoon` (whose hours are the sums of these pieces), as intervals for callers that need
+ * to know when (RA pressure).
+ */
+export function moonSegments(night: SiteNight, intervals: Interval[]): (Interval & { category: MoonCategory })[] {
+  const up = night.moon?.up;
+  if (!up) throw new Error("moon times not computed: call ensureMoonTimes(prepared) first");
+  const upCategory = moonCategory(night.moonIllumination);
+  const out: (Interval & { category: MoonCategory })[] = [];
+  for (const w of intervals) {
+    let t = w.start;
+    for (const u of up) {
+      if (u.end <= t || u.start >= w.end) continue;
+      const lo = Math.max(u.start, t);
+      const hi = Math.min(u.end, w.end);
+      if (lo > t) out.push({ start: t, end: lo, category: "dark" });
+      out.push({ start: lo, end: hi, category: upCategory });
+      t = hi;
+    }
+    if (w.end > t) out.push({ start: t, end: w.end, category: "dark" });
+  }
+  return out;
+}
+
+/** Local apparent sidereal time (deg, not wrapped) at instant t of a night, as `targetNights` reckons hour angles. */
+export function localSiderealDeg(night: SiteNight, longitudeDeg: number, t: number): number {
+  return night.gastDeg + (SIDEREAL_RATE_DEG_PER_DAY / DAY_MS) * (t - night.gastTime) + longitudeDeg;
 }
 
 /** Hours of each moon category inside the given intervals of one night (see MOON_CATEGORY_THRESHOLDS). */
