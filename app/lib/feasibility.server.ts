@@ -24,24 +24,35 @@ function byProposal<T extends { proposalId?: unknown }>(rows: T[]): Map<number, 
 }
 
 /**
- * The feasibility inputs of many proposals in six queries, whatever their number (the ranking
+ * The feasibility inputs of many proposals in seven queries, whatever their number (the ranking
  * board reads hundreds): proposals, their calls with offers, targets, observations with epochs,
  * the telescopes with instruments and filters, and the semesters the office has set up.
  */
-export async function loadFeasibilityInputs({ proposalIds }: { proposalIds: number[] }): Promise<Map<number, FeasibilityInput>> {
+export async function loadFeasibilityInputs({ proposalIds, proposals: given }: { proposalIds: number[]; proposals?: Proposal[] }): Promise<Map<number, FeasibilityInput>> {
   const out = new Map<number, FeasibilityInput>();
   const ids = [...new Set(proposalIds)];
   if (ids.length === 0) return out;
-  const proposals = await Proposal.findAll({ where: { id: ids } });
+  // a caller that has just read the proposals passes them
+  const proposals = given ? given.filter((p) => ids.includes(p.id)) : await Proposal.findAll({ where: { id: ids } });
   if (proposals.length === 0) return out;
   const callIds = [...new Set(proposals.map((p) => p.callId as number))];
   const [callRows, targets, observations, telescopes, calls] = await Promise.all([
     Call.findAll({ where: { id: callIds }, include: [{ model: CallOffer, as: "offers" }] }),
-    Target.findAll({ where: { proposalId: ids }, order: [["id", "ASC"]] }),
-    Observation.findAll({ where: { proposalId: ids }, include: [{ model: PlannedEpoch, as: "epochs" }], order: [["id", "ASC"], [{ model: PlannedEpoch, as: "epochs" }, "id", "ASC"]] }),
+    // plain rows: hundreds of proposals' targets and observations need no model instances
+    Target.findAll({ where: { proposalId: ids }, order: [["id", "ASC"]], raw: true }),
+    Observation.findAll({ where: { proposalId: ids }, order: [["id", "ASC"]], raw: true }),
     Telescope.findAll({ include: [{ model: Instrument, as: "instruments", include: [{ model: Filter, as: "filters" }] }], order: [["id", "ASC"], [{ model: Instrument, as: "instruments" }, "id", "ASC"], [{ model: Instrument, as: "instruments" }, { model: Filter, as: "filters" }, "id", "ASC"]] }),
     Call.findAll({ attributes: ["semesterCode", "semesterStart", "semesterEnd"], order: [["semesterStart", "ASC"]] }),
   ]);
+  const epochs = observations.length
+    ? await PlannedEpoch.findAll({ where: { observationId: observations.map((o) => o.id) }, order: [["id", "ASC"]] })
+    : [];
+  const epochsOf = new Map<number, PlannedEpoch[]>();
+  for (const e of epochs) {
+    const list = epochsOf.get(e.observationId as number);
+    if (list) list.push(e);
+    else epochsOf.set(e.observationId as number, [e]);
+  }
   const callOf = new Map(callRows.map((c) => [c.id, c]));
   const instruments = telescopes.flatMap((t) => t.instruments ?? []);
   const shared = {
@@ -111,7 +122,7 @@ export async function loadFeasibilityInputs({ proposalIds }: { proposalIds: numb
         moonCategory: o.moonCategory,
         maxAirmass: o.maxAirmass,
         seeingArcsec: o.seeingArcsec,
-        epochs: (o.epochs ?? []).map((e) => ({ id: e.id, date: e.date, semesterCode: e.semesterCode, status: e.status })),
+        epochs: (epochsOf.get(o.id) ?? []).map((e) => ({ id: e.id, date: e.date, semesterCode: e.semesterCode, status: e.status })),
       })),
     });
   }
@@ -132,7 +143,20 @@ export async function loadFeasibilityInput({ proposalId }: { proposalId: number 
  */
 const sheetCache = new Lru<string, FeasibilitySheet>(400);
 
-const inputKey = (input: FeasibilityInput) => createHash("sha1").update(JSON.stringify(input)).digest("base64");
+/**
+ * The office's part of an input (telescopes, instruments, filters) is one object shared by every
+ * input of a batch: it is hashed once per batch, and each proposal adds only its own part.
+ */
+const officeKeys = new WeakMap<object, string>();
+function inputKey(input: FeasibilityInput): string {
+  const { telescopes, instruments, filters, ...own } = input;
+  let office = officeKeys.get(telescopes);
+  if (office === undefined || (officeKeys.get(instruments) !== office) || (officeKeys.get(filters) !== office)) {
+    office = createHash("sha1").update(JSON.stringify([telescopes, instruments, filters])).digest("base64");
+    officeKeys.set(telescopes, office).set(instruments, office).set(filters, office);
+  }
+  return createHash("sha1").update(office).update(JSON.stringify(own)).digest("base64");
+}
 
 export function feasibilitySheetOf(input: FeasibilityInput): FeasibilitySheet {
   const key = inputKey(input);
@@ -149,8 +173,8 @@ export async function computeFeasibilitySheet({ proposalId }: { proposalId: numb
 }
 
 /** Sheets of many proposals (the ranking board); a sheet that fails to compute is its Error. */
-export async function computeFeasibilitySheets({ proposalIds }: { proposalIds: number[] }): Promise<Map<number, FeasibilitySheet | Error>> {
-  const inputs = await loadFeasibilityInputs({ proposalIds });
+export async function computeFeasibilitySheets({ proposalIds, proposals }: { proposalIds: number[]; proposals?: Proposal[] }): Promise<Map<number, FeasibilitySheet | Error>> {
+  const inputs = await loadFeasibilityInputs({ proposalIds, proposals });
   const out = new Map<number, FeasibilitySheet | Error>();
   for (const id of proposalIds) {
     const input = inputs.get(id);

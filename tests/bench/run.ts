@@ -3,6 +3,7 @@
 //   npm run bench -- pdf        one section (visibility, review, board, ra-pressure, semester-check, pdf, restart)
 import { availableParallelism, loadavg } from "node:os";
 import { runAstroBench } from "./astro";
+import { runBoardBench } from "./board";
 import { runPdfBench } from "./pdf";
 import { runRaPressureBench } from "./ra-pressure";
 import { runRestartBench } from "./restart";
@@ -21,6 +22,10 @@ if (want("visibility")) {
 if (want("review")) {
   console.log("\n[review: reviewer suggestion]");
   for (const line of runReviewBench()) console.log("  " + line);
+}
+if (want("board")) {
+  console.log("\n[allocation: ranking board]");
+  for (const line of await runBoardBench()) console.log("  " + line);
 }
 if (want("ra-pressure")) {
   console.log("\n[allocation: RA pressure]");

@@ -31,26 +31,28 @@ export async function committedHours({ callId, semesterCode }: { callId: number;
 
 /** `sheets`, when given, receives each proposal's feasibility sheet (the page's RA pressure reuses them). */
 export async function callBoard({ callId, sheets }: { callId: number; sheets?: Map<number, FeasibilitySheet> }) {
-  const call = await Call.findByPk(callId, { include: [{ model: CallOffer, as: "offers" }] });
+  const [call, proposals] = await Promise.all([
+    Call.findByPk(callId, { include: [{ model: CallOffer, as: "offers" }] }),
+    Proposal.findAll({ where: { callId, status: { [Op.in]: [...BOARD_STATES] } }, order: [["serial", "ASC"], ["id", "ASC"]] }),
+  ]);
   if (!call) callNotFound();
-  const proposals = await Proposal.findAll({
-    where: { callId, status: { [Op.in]: [...BOARD_STATES] } },
-    include: [{ model: User, as: "createdBy", attributes: ["institution"] }],
-    order: [["serial", "ASC"], ["id", "ASC"]],
-  });
   const ids = proposals.map((p) => p.id);
-  const [grades, entries, allocations, allocation, committed] = await Promise.all([
-    ReviewAssignment.findAll({ where: { callId, status: "submitted", overall: { [Op.ne]: null }, proposalId: { [Op.in]: ids.length ? ids : [0] } }, attributes: ["proposalId", "reviewerId", "overall"] }),
+  // the sheets load beside the grades and the allocation (the pool has connections to spare)
+  const [computed, pis, grades, entries, allocations, allocation, committed] = await Promise.all([
+    computeFeasibilitySheets({ proposalIds: ids, proposals }),
+    User.findAll({ where: { id: [...new Set(proposals.map((p) => p.createdById as number))] }, attributes: ["id", "institution"], raw: true }),
+    // plain rows (hundreds of grades); DECIMAL comes back as text
+    ReviewAssignment.findAll({ where: { callId, status: "submitted", overall: { [Op.ne]: null }, proposalId: { [Op.in]: ids.length ? ids : [0] } }, attributes: ["proposalId", "reviewerId", "overall"], raw: true }),
     BoardEntry.findAll({ where: { callId } }),
     Allocation.findAll({ where: { callId } }),
     CallAllocation.findOne({ where: { callId } }),
     committedHours({ callId, semesterCode: call.semesterCode }),
   ]);
-  const normalised = normaliseGrades(grades.map((g) => ({ proposalId: g.proposalId as number, reviewerId: g.reviewerId as number, overall: g.overall as number })));
+  const normalised = normaliseGrades(grades.map((g) => ({ proposalId: g.proposalId as number, reviewerId: g.reviewerId as number, overall: Number(g.overall) })));
   const scoreOf = new Map(normalised.proposals.map((p) => [p.proposalId, p]));
   const entryOf = new Map(entries.map((e) => [e.proposalId as number, e]));
+  const institutionOf = new Map(pis.map((u) => [u.id, u.institution]));
 
-  const computed = await computeFeasibilitySheets({ proposalIds: ids });
   const rows = [];
   for (const p of proposals) {
     let requested: HoursCell[] = [];
@@ -71,7 +73,7 @@ export async function callBoard({ callId, sheets }: { callId: number; sheets?: M
       title: p.title,
       category: p.scienceCategory,
       status: p.status,
-      piInstitution: p.createdBy?.institution ?? null,
+      piInstitution: institutionOf.get(p.createdById as number) ?? null,
       reviews: score?.reviews ?? 0,
       rawMean: score?.rawMean ?? null,
       normalisedScore: score?.normalisedScore ?? null,

@@ -13,7 +13,7 @@ import { Worker } from "node:worker_threads";
 import { Op } from "sequelize";
 import stringify from "safe-stable-stringify";
 import type { MoonCategory } from "~/lib/domain";
-import { loadFeasibilityInput } from "~/lib/feasibility.server";
+import { loadFeasibilityInputs } from "~/lib/feasibility.server";
 import { callNotFound } from "~/lib/review/chair.server";
 import { Allocation, BoardEntry, Call, CallOffer, Proposal, ReviewAssignment, SemesterCheck, Telescope, TelescopeClearFraction } from "~/models/index.server";
 import { BOARD_STATES } from "./board.server";
@@ -62,16 +62,17 @@ export async function semesterCheckFacts({ callId }: { callId: number }): Promis
     Telescope.findAll({ where: { id: { [Op.in]: offered.length ? offered : [0] } }, order: [["id", "ASC"]] }),
     TelescopeClearFraction.findAll({ where: { telescopeId: { [Op.in]: offered.length ? offered : [0] } } }),
   ]);
-  const programmes: CheckFacts["programmes"] = await Promise.all(
-    order.flatMap((row) => {
-      const tier = row.tier;
-      if (!tier) return [];
-      const allocation = allocations
-        .filter((a) => a.proposalId === row.proposalId && a.hours > 0)
-        .map((a) => ({ telescopeId: a.telescopeId as number, moonCategory: a.moonCategory as MoonCategory, hours: a.hours }));
-      return [loadFeasibilityInput({ proposalId: row.proposalId }).then((feasibility) => ({ proposalId: row.proposalId, code: row.code, title: row.title, tier, position: row.position, allocation, feasibility }))];
-    }),
-  );
+  const tiered = order.filter((row) => row.tier);
+  // every programme's feasibility input in six queries, whatever their number
+  const inputs = await loadFeasibilityInputs({ proposalIds: tiered.map((row) => row.proposalId) });
+  const programmes: CheckFacts["programmes"] = tiered.flatMap((row) => {
+    const feasibility = inputs.get(row.proposalId);
+    if (!feasibility) return [];
+    const allocation = allocations
+      .filter((a) => a.proposalId === row.proposalId && a.hours > 0)
+      .map((a) => ({ telescopeId: a.telescopeId as number, moonCategory: a.moonCategory as MoonCategory, hours: a.hours }));
+    return [{ proposalId: row.proposalId, code: row.code, title: row.title, tier: row.tier!, position: row.position, allocation, feasibility }];
+  });
   return {
     call: { id: call.id, semesterCode: call.semesterCode, semesterStart: call.semesterStart, semesterEnd: call.semesterEnd },
     telescopes: telescopes.map((t) => ({
