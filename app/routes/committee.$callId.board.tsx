@@ -107,6 +107,9 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
   const { call } = board;
   const telescopeName = (id: number) => telescopes.find((t) => t.id === id)?.name ?? `telescope ${id}`;
   const [sorting, setSorting] = useState<SortingState>([{ id: "computedRank", desc: false }]);
+  // the last semester check's outcome per programme, in the table beside the allocation
+  const checkOf = useMemo(() => new Map((semesterCheck?.result?.programmes ?? []).map((o) => [o.proposalId, o])), [semesterCheck]);
+  const stale = semesterCheck?.stale ?? false;
   const [filter, setFilter] = useState("");
   const columns = useMemo(() => {
     const hours = (row: Row, thisSemester: boolean) =>
@@ -139,8 +142,23 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
       column.accessor((r) => hours(r, false), { id: "hoursLater", header: "Requested later", cell: (c) => (c.row.original.requestedError ? "unknown" : c.getValue().toFixed(1)) }),
       column.accessor((r) => r.tier ?? "", { id: "tier", header: "Tier", cell: (c) => c.getValue() || "–" }),
       column.accessor((r) => r.allocation.filter((a) => a.semesterCode === call.semesterCode).reduce((sum, a) => sum + a.hours, 0), { id: "allocated", header: `Allocated ${call.semesterCode}`, cell: (c) => c.getValue().toFixed(1) }),
+      column.accessor((r) => checkOf.get(r.proposalId)?.completionProbability ?? null, {
+        id: "completion",
+        header: "Completes (check)",
+        sortUndefined: "last",
+        cell: (c) => {
+          const outcome = checkOf.get(c.row.original.proposalId);
+          if (!outcome || outcome.completionProbability === null) return "–";
+          return (
+            <span className={stale ? "text-slate-500" : undefined} title={stale ? "From a check whose inputs have changed since" : undefined}>
+              {Math.round(outcome.completionProbability * 100)} %
+              {outcome.flag ? <span className="ml-1 rounded bg-red-100 px-1.5 py-0.5 text-xs text-red-900">{outcome.flag === "assured-below-goal" ? "assured < 90 %" : "queue < 50 %"}</span> : null}
+            </span>
+          );
+        },
+      }),
     ];
-  }, [call.semesterCode]);
+  }, [call.semesterCode, checkOf, stale]);
   const table = useReactTable({
     data: board.proposals,
     columns,
@@ -164,6 +182,42 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
       </nav>
       {actionData?.ok ? <p role="status" className="rounded-md border border-emerald-300 bg-emerald-50 px-3 py-2 text-emerald-900">{actionData.message}</p> : null}
       {err("form") || err("allocation") || err("rows.0.proposalId") ? <p role="alert" className="rounded-md border border-red-200 bg-red-50 px-3 py-2 text-red-800">{err("form") ?? err("allocation") ?? err("rows.0.proposalId")}</p> : null}
+      <section className="card space-y-2">
+        <h2>Oversubscription</h2>
+        <p className="text-sm text-slate-700">Requested hours for {call.semesterCode} against offered hours, less what earlier calls' locked allocations already committed to this semester.</p>
+        <table className="table-base">
+          <thead><tr><th>Telescope</th><th>Moon</th><th>Requested h</th><th>Offered h</th><th>Committed h</th><th>Ratio</th><th className="w-1/3"></th></tr></thead>
+          <tbody>
+            {board.oversubscription.map((o) => (
+              <tr key={`${o.telescopeId}-${o.moonCategory}`}>
+                <td>{telescopeName(o.telescopeId)}</td>
+                <td>{o.moonCategory}</td>
+                <td>{o.requestedHours.toFixed(1)}</td>
+                <td>{o.offeredHours.toFixed(1)}</td>
+                <td>{o.committedHours.toFixed(1)}</td>
+                <td data-testid={`ratio-${o.telescopeId}-${o.moonCategory}`}>{o.ratio === null ? "nothing offered" : `${o.ratio.toFixed(2)}×`}</td>
+                <td>
+                  <div className="relative h-3 rounded bg-slate-100" aria-hidden>
+                    <div className={`absolute inset-y-0 left-0 rounded ${o.ratio !== null && o.ratio > 1 ? "bg-red-500" : "bg-emerald-500"}`} style={{ width: `${Math.min(100, ((o.ratio ?? 0) / maxRatio) * 100)}%` }} />
+                    <div className="absolute inset-y-0 border-l-2 border-slate-700" style={{ left: `${(1 / maxRatio) * 100}%` }} title="offered" />
+                  </div>
+                </td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </section>
+      <section className="space-y-2">
+        <div className="flex flex-wrap items-end justify-between gap-2">
+          <h2>Proposals</h2>
+          <label className="text-sm">Filter <input className="input ml-1 w-64" value={filter} onChange={(e) => setFilter(e.target.value)} placeholder="code, title, category, institution" /></label>
+        </div>
+        <p className="text-sm text-slate-700">
+          Each reviewer's overall merits become z-scores within that reviewer's own grades in this call; a proposal's normalised score is the mean of its reviewers' z-scores, mapped back to the 1–10 scale around the panel's mean ({fixed(board.panel.mean, 2)}) and spread ({fixed(board.panel.sd, 2)}).
+          A reviewer with fewer than {MIN_GRADES} grades, or one grade for everything, is placed on the panel's scale instead. Reviewers disagree when their z-scores span more than {DISAGREEMENT_SPAN}.
+        </p>
+        <SortableTable table={table} empty="No proposal on the board matches." />
+      </section>
       <section className="card space-y-3">
         <h2>Allocation</h2>
         {board.locked ? (
@@ -204,43 +258,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
         )}
       </section>
       <SemesterCheck key={call.id} callId={call.id} latest={semesterCheck} />
-      <section className="card space-y-2">
-        <h2>Oversubscription</h2>
-        <p className="text-sm text-slate-700">Requested hours for {call.semesterCode} against offered hours, less what earlier calls' locked allocations already committed to this semester.</p>
-        <table className="table-base">
-          <thead><tr><th>Telescope</th><th>Moon</th><th>Requested h</th><th>Offered h</th><th>Committed h</th><th>Ratio</th><th className="w-1/3"></th></tr></thead>
-          <tbody>
-            {board.oversubscription.map((o) => (
-              <tr key={`${o.telescopeId}-${o.moonCategory}`}>
-                <td>{telescopeName(o.telescopeId)}</td>
-                <td>{o.moonCategory}</td>
-                <td>{o.requestedHours.toFixed(1)}</td>
-                <td>{o.offeredHours.toFixed(1)}</td>
-                <td>{o.committedHours.toFixed(1)}</td>
-                <td data-testid={`ratio-${o.telescopeId}-${o.moonCategory}`}>{o.ratio === null ? "nothing offered" : `${o.ratio.toFixed(2)}×`}</td>
-                <td>
-                  <div className="relative h-3 rounded bg-slate-100" aria-hidden>
-                    <div className={`absolute inset-y-0 left-0 rounded ${o.ratio !== null && o.ratio > 1 ? "bg-red-500" : "bg-emerald-500"}`} style={{ width: `${Math.min(100, ((o.ratio ?? 0) / maxRatio) * 100)}%` }} />
-                    <div className="absolute inset-y-0 border-l-2 border-slate-700" style={{ left: `${(1 / maxRatio) * 100}%` }} title="offered" />
-                  </div>
-                </td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
-      </section>
       <RaPressure view={raPressure} />
-      <section className="space-y-2">
-        <div className="flex flex-wrap items-end justify-between gap-2">
-          <h2>Proposals</h2>
-          <label className="text-sm">Filter <input className="input ml-1 w-64" value={filter} onChange={(e) => setFilter(e.target.value)} placeholder="code, title, category, institution" /></label>
-        </div>
-        <p className="text-sm text-slate-700">
-          Each reviewer's overall merits become z-scores within that reviewer's own grades in this call; a proposal's normalised score is the mean of its reviewers' z-scores, mapped back to the 1–10 scale around the panel's mean ({fixed(board.panel.mean, 2)}) and spread ({fixed(board.panel.sd, 2)}).
-          A reviewer with fewer than {MIN_GRADES} grades, or one grade for everything, is placed on the panel's scale instead. Reviewers disagree when their z-scores span more than {DISAGREEMENT_SPAN}.
-        </p>
-        <SortableTable table={table} empty="No proposal on the board matches." />
-      </section>
     </div>
   );
 }
