@@ -22,6 +22,7 @@ import { SemesterCheck } from "./SemesterCheck";
 import { UserSession } from "./Session";
 import { RateLimitKey, SignInCode, SignInRequest } from "./SignIn";
 import { StoredFile } from "./StoredFile";
+import { Charge } from "./Charge";
 import { Target } from "./Target";
 import { Telescope } from "./Telescope";
 import { TelescopeClearFraction } from "./TelescopeClearFraction";
@@ -33,11 +34,16 @@ for (const model of [
   SignInCode, PaymentEvent, UserSession, RateLimitKey,
   CallReview, ReviewPanelMember, ReviewerProfile, ReviewAssignment,
   TelescopeClearFraction, CallAllocation, BoardEntry, Allocation, SemesterCheck,
+  Charge,
 ]) {
   model.initModel(sequelize);
 }
 
 User.hasMany(RoleGrant, { foreignKey: "userId", as: "roleGrants" });
+Proposal.hasMany(Charge, { foreignKey: "proposalId", as: "charges" });
+Charge.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" });
+Charge.belongsTo(Call, { foreignKey: "callId", as: "call" });
+Charge.belongsTo(User, { foreignKey: "waivedById", as: "waivedBy" });
 User.hasMany(UserSession, { foreignKey: "userId", as: "sessions" });
 UserSession.belongsTo(User, { foreignKey: "userId", as: "user" });
 RoleGrant.belongsTo(User, { foreignKey: "userId", as: "user" });
@@ -105,5 +111,5 @@ export {
   PaymentEvent, PlannedEpoch, Proposal, ProposalMember, RoleGrant, SignInCode, SignInRequest,
   StoredFile, Target, Telescope, User, UserSession, RateLimitKey,
   CallReview, ReviewPanelMember, ReviewerProfile, ReviewAssignment,
-  TelescopeClearFraction, CallAllocation, BoardEntry, Allocation, SemesterCheck,
+  TelescopeClearFraction, CallAllocation, BoardEntry, Allocation, SemesterCheck, Charge,
 };
