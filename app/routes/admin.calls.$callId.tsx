@@ -2,6 +2,7 @@ import { redirect } from "react-router";
 import { Breadcrumbs } from "~/components/office/Breadcrumbs";
 import { CallForm } from "~/components/office/CallForm";
 import { resultFor } from "~/components/office/fields";
+import { committedHours } from "~/lib/allocation/board.server";
 import { requireRole } from "~/lib/auth.server";
 import { callFormContext, callToForm } from "~/lib/call-form.server";
 import { getCall, observatoryTimeZone, updateCall } from "~/lib/office.server";
@@ -18,7 +19,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "admin");
   const callId = idParam(params.callId, "call");
   const [call, context] = await Promise.all([orNotFound(getCall({ callId })), callFormContext()]);
-  return { ...context, semesterCode: call.semesterCode, initial: callToForm(call, context.timeZone) };
+  // later semesters of earlier calls' multi-semester programmes, once those calls are locked
+  const committed = Object.fromEntries(await committedHours({ callId, semesterCode: call.semesterCode }));
+  return { ...context, semesterCode: call.semesterCode, initial: callToForm(call, context.timeZone), committed };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -46,7 +49,11 @@ export default function EditCall({ loaderData, actionData }: Route.ComponentProp
         timeZone={loaderData.timeZone}
         telescopes={loaderData.telescopes}
         submitLabel="Save the call"
+        committed={loaderData.committed}
       />
+      {Object.keys(loaderData.committed).length ? (
+        <p className="text-sm text-slate-700">Hours marked “already committed” belong to multi-semester programmes of earlier calls whose allocations are locked; the ranking board of this call subtracts them from the offered hours.</p>
+      ) : null}
     </div>
   );
 }

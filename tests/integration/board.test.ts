@@ -107,6 +107,15 @@ describe("GET /api/v1/calls/:callId/board", () => {
     }
   });
 
+  it("shows the office the hours earlier calls already committed to this call's semester", async () => {
+    const admin = await newUser({ roles: ["admin"], name: "Board Office" });
+    const page = await (await request()).get(`/admin/calls/${call.id}`).set("Cookie", admin.cookie);
+    expect(page.status).toBe(200);
+    // the locked earlier call's 40 dark hours; the unlocked call's 25 grey hours commit nothing
+    expect(page.text).toMatch(new RegExp(`data-testid="committed-${telescopeId}-dark"[^>]*>40\\.0(<!-- -->)? h already committed`));
+    expect(page.text).not.toContain(`data-testid="committed-${telescopeId}-grey"`);
+  });
+
   it("is the chair's: a reviewer gets 403, a bad id 400 naming the field, an unknown call 404", async () => {
     const app = await request();
     expect((await app.get(`/api/v1/calls/${call.id}/board`).set("Cookie", reviewer.cookie)).status).toBe(403);

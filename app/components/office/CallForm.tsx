@@ -85,6 +85,7 @@ export function CallForm({
   timeZone,
   telescopes,
   submitLabel,
+  committed = {},
 }: {
   intent: string;
   initial: CallFormValues;
@@ -92,6 +93,8 @@ export function CallForm({
   timeZone: string;
   telescopes: { id: number; name: string; siteName: string }[];
   submitLabel: string;
+  /** hours of this semester already committed by earlier calls' locked allocations ("telescopeId|moon" → h) */
+  committed?: Record<string, number>;
 }) {
   const { errors, onSubmit } = useClientCheck(callSchema, result?.errors);
   const navigation = useNavigation();
@@ -187,6 +190,11 @@ export function CallForm({
                         {errors[name] ? (
                           <p id={`${id}-error`} role="alert" className="mt-1 text-xs text-red-700">
                             {errors[name]}
+                          </p>
+                        ) : null}
+                        {committed[`${t.id}|${m}`] ? (
+                          <p className="mt-1 text-xs text-amber-800" data-testid={`committed-${t.id}-${m}`}>
+                            {committed[`${t.id}|${m}`].toFixed(1)} h already committed
                           </p>
                         ) : null}
                       </td>
