@@ -112,6 +112,21 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
   const stale = semesterCheck?.stale ?? false;
   const [filter, setFilter] = useState("");
   const columns = useMemo(() => {
+    // the total, and under it the hours per telescope × moon category (and semester, for later ones)
+    const requestedCell = (row: Row, total: number, thisSemester: boolean) => {
+      if (row.requestedError) return "unknown";
+      const parts = row.requested.filter((r) => r.hours > 0 && (r.semesterCode === call.semesterCode) === thisSemester);
+      return (
+        <span>
+          {total.toFixed(1)}
+          {parts.map((r) => (
+            <span key={`${r.telescopeId}-${r.moonCategory}-${r.semesterCode}`} className="block whitespace-nowrap text-xs text-slate-600">
+              {telescopeName(r.telescopeId)} {r.moonCategory}{thisSemester ? "" : ` ${r.semesterCode}`} {r.hours.toFixed(1)}
+            </span>
+          ))}
+        </span>
+      );
+    };
     const hours = (row: Row, thisSemester: boolean) =>
       row.requested.filter((r) => (r.semesterCode === call.semesterCode) === thisSemester).reduce((sum, r) => sum + r.hours, 0);
     return [
@@ -138,8 +153,8 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
       }),
       column.accessor("spread", { header: "Spread (σ)", cell: (c) => fixed(c.getValue(), 2) }),
       column.accessor("disagreement", { header: "Reviewers", cell: (c) => (c.getValue() ? <span className="rounded bg-amber-100 px-1.5 py-0.5 text-amber-900">disagree</span> : "agree") }),
-      column.accessor((r) => hours(r, true), { id: "hoursThis", header: `Requested ${call.semesterCode}`, cell: (c) => (c.row.original.requestedError ? "unknown" : c.getValue().toFixed(1)) }),
-      column.accessor((r) => hours(r, false), { id: "hoursLater", header: "Requested later", cell: (c) => (c.row.original.requestedError ? "unknown" : c.getValue().toFixed(1)) }),
+      column.accessor((r) => hours(r, true), { id: "hoursThis", header: `Requested ${call.semesterCode}`, cell: (c) => requestedCell(c.row.original, c.getValue(), true) }),
+      column.accessor((r) => hours(r, false), { id: "hoursLater", header: "Requested later", cell: (c) => requestedCell(c.row.original, c.getValue(), false) }),
       column.accessor((r) => r.tier ?? "", { id: "tier", header: "Tier", cell: (c) => c.getValue() || "–" }),
       column.accessor((r) => r.allocation.filter((a) => a.semesterCode === call.semesterCode).reduce((sum, a) => sum + a.hours, 0), { id: "allocated", header: `Allocated ${call.semesterCode}`, cell: (c) => c.getValue().toFixed(1) }),
       column.accessor((r) => checkOf.get(r.proposalId)?.completionProbability ?? null, {
