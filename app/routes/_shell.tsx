@@ -1,4 +1,4 @@
-import { Form, Link, NavLink, Outlet, useRouteLoaderData } from "react-router";
+import { Form, Link, NavLink, Outlet, useMatches, useRouteLoaderData } from "react-router";
 import { ErrorPage } from "~/components/ErrorPage";
 import { getSessionUser, type SessionUser } from "~/lib/auth.server";
 import { visibleNavItems } from "~/lib/nav";
@@ -59,11 +59,17 @@ function Header({ user }: { user: SessionUser | null }) {
   );
 }
 
+/** A route that exports `handle = { wide: true }` (a wide table, e.g. the ranking board) gets the whole window. */
+function useWide() {
+  return useMatches().some((m) => (m.handle as { wide?: boolean } | undefined)?.wide === true);
+}
+
 export default function Shell({ loaderData }: Route.ComponentProps) {
+  const wide = useWide();
   return (
     <>
       <Header user={loaderData.user} />
-      <main className="mx-auto max-w-7xl px-6 py-8">
+      <main className={`mx-auto px-6 py-8 ${wide ? "max-w-[1920px]" : "max-w-7xl"}`}>
         <Outlet />
       </main>
       <footer className="mx-auto max-w-7xl px-6 pb-10 text-xs text-slate-500">

@@ -8,6 +8,9 @@ import { pageCallId } from "~/lib/review/chair.server";
 import { allocationSheetSchema } from "~/lib/schemas/allocation";
 import type { Route } from "./+types/committee.$callId.allocation";
 
+/** the proposals table is wide: the page takes the whole window */
+export const handle = { wide: true };
+
 export function meta({ data: d }: Route.MetaArgs) {
   return [{ title: `Allocation ${d?.sheet.call.semesterCode ?? ""} · Committee · Nightshare` }];
 }

@@ -21,6 +21,9 @@ import { apiId } from "~/lib/review/api.server";
 import { Telescope } from "~/models/index.server";
 import type { Route } from "./+types/committee.$callId.board";
 
+/** the proposals table is wide: the page takes the whole window */
+export const handle = { wide: true };
+
 export function meta({ data: d }: Route.MetaArgs) {
   return [{ title: `Ranking board ${d?.board.call.semesterCode ?? ""} · Committee · Nightshare` }];
 }
