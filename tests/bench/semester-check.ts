@@ -118,6 +118,11 @@ export async function runSemesterCheckBench(): Promise<string[]> {
           `; executed ${pct(p.expectedExecutedFraction)} / ${pct(q.expectedExecutedFraction)}`,
       );
     }
+    // the office's own (seeded, invented) monthly clear fractions, as the chair's check uses them
+    const seeded = runSemesterCheck(demoInput, { realisations: 200, seed: 1 });
+    const seededById = new Map(seeded.programmes.map((p) => [p.proposalId, p]));
+    const worst = [...seeded.programmes].filter((p) => p.completionProbability !== null).sort((a, b) => a.completionProbability! - b.completionProbability!)[0];
+    if (worst) lines.push(`  with the office's monthly clear fractions: lowest completion ${worst.code} ${((seededById.get(worst.proposalId)!.completionProbability ?? 0) * 100).toFixed(1)} %`);
     lines.push(`  use of dark time at 1 / 0.7: ${clear.telescopes.map((x, i) => `${x.name} ${(x.expectedUseOfDark * 100).toFixed(1)} % / ${(cloudy.telescopes[i].expectedUseOfDark * 100).toFixed(1)} %`).join("; ")}`);
   } finally {
     await services.stop();
