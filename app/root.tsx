@@ -1,3 +1,4 @@
+import { useEffect } from "react";
 import { data, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
 import { ErrorPage } from "./components/ErrorPage";
@@ -58,6 +59,10 @@ export function Layout({ children }: { children: React.ReactNode }) {
 }
 
 export default function App() {
+  // set once React has taken the page over (browser tests wait for it before using a form's checks)
+  useEffect(() => {
+    document.documentElement.dataset.hydrated = "yes";
+  }, []);
   return <Outlet />;
 }
 

@@ -406,9 +406,9 @@ describe("calls", () => {
       pageCharge: "180.50",
     };
     for (const t of telescopes) {
-      values[`offer.${t.id}.dark`] = "300";
-      values[`offer.${t.id}.grey`] = "250.5";
-      values[`offer.${t.id}.bright`] = "0";
+      values[`offer-${t.id}-dark`] = "300";
+      values[`offer-${t.id}-grey`] = "250.5";
+      values[`offer-${t.id}-bright`] = "0";
     }
     return { ...values, ...over };
   };
@@ -508,11 +508,11 @@ describe("calls", () => {
   it("refuses an empty or negative cell of the hours grid at that cell", async () => {
     const t = telescopes[0];
     for (const [value, message] of [["", "Enter the hours offered."], ["-4", "Hours offered must be from 0 to 5000 h."]]) {
-      const res = await post("/admin/calls/new", call({ semesterCode: other, [`offer.${t.id}.grey`]: value, opensAt: `${y}-04-01T09:00`, deadlineAt: `${y}-06-15T17:00`, semesterStart: `${y}-08-01`, semesterEnd: `${y + 1}-01-31` }));
+      const res = await post("/admin/calls/new", call({ semesterCode: other, [`offer-${t.id}-grey`]: value, opensAt: `${y}-04-01T09:00`, deadlineAt: `${y}-06-15T17:00`, semesterStart: `${y}-08-01`, semesterEnd: `${y + 1}-01-31` }));
       expect(res.status).toBe(400);
       expect(res.text).toContain(html(message));
       expect(res.text).toContain(`id="call-create-offer-${t.id}-grey-error"`);
-      expectKept(res.text, `offer.${t.id}.grey`, value);
+      expectKept(res.text, `offer-${t.id}-grey`, value);
     }
     expect(await Call.count({ where: { semesterCode: other } })).toBe(0);
   });
@@ -521,7 +521,7 @@ describe("calls", () => {
     const t = telescopes[0];
     const year = Number(code.slice(0, 4));
     // typed with a space between date and time (the form's placeholder); "T" works as well (above)
-    const res = await post(`/admin/calls/${callId}`, call({ deadlineAt: `${year - 1}-10-20 12:00`, pageLimit: "6", [`offer.${t.id}.bright`]: "120" }));
+    const res = await post(`/admin/calls/${callId}`, call({ deadlineAt: `${year - 1}-10-20 12:00`, pageLimit: "6", [`offer-${t.id}-bright`]: "120" }));
     expect(res.status).toBe(302);
     const row = await Call.findByPk(callId, { include: [{ model: CallOffer, as: "offers" }] });
     expect(row!.pageLimit).toBe(6);
@@ -538,7 +538,7 @@ describe("calls", () => {
     const page = await get(`/admin/calls/${callId}`);
     expect(page.status).toBe(200);
     expectKept(page.text, "deadlineAt", `${year - 1}-10-20 12:00`); // shown as every date is: YYYY-MM-DD HH:MM
-    expectKept(page.text, `offer.${t.id}.bright`, "120");
+    expectKept(page.text, `offer-${t.id}-bright`, "120");
   });
 
   it("an edit that moves the deadline past the semester start is refused and changes nothing", async () => {

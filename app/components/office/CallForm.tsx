@@ -3,7 +3,7 @@ import { Form, useNavigation } from "react-router";
 import { moonCategories } from "~/lib/domain";
 import { callSchema, currencies, offerField } from "~/lib/schemas/office";
 import { formatInZone, formatUtc, zonedLocalToUtc } from "~/lib/zoned-time";
-import { fieldId, FormError, Message, NumberField, TextField, useClientCheck, type FormResult } from "./fields";
+import { fieldId, FormError, Message, NumberField, OfficeFields, TextField, useField, useOfficeForm, type FormResult } from "./fields";
 
 export interface CallFormValues {
   semesterCode: string;
@@ -40,6 +40,7 @@ function ZonedDateTime({
 }) {
   const [value, setValue] = useState(defaultValue ?? "");
   const id = fieldId(prefix, name);
+  const field = useField(name, (e) => setValue(e.target.value));
   const instant = value ? zonedLocalToUtc(value, timeZone) : null;
   return (
     <div>
@@ -48,7 +49,7 @@ function ZonedDateTime({
       </label>
       <input
         id={id}
-        name={name}
+        {...field}
         type="text"
         pattern="\d{4}-\d{2}-\d{2}[T ]\d{2}:\d{2}"
         placeholder="YYYY-MM-DD HH:MM"
@@ -57,7 +58,6 @@ function ZonedDateTime({
         maxLength={16}
         className="input"
         defaultValue={defaultValue}
-        onChange={(e) => setValue(e.target.value)}
         aria-invalid={error ? true : undefined}
         aria-describedby={error ? `${id}-error` : `${id}-utc`}
       />
@@ -96,7 +96,7 @@ export function CallForm({
   /** hours of this semester already committed by earlier calls' locked allocations ("telescopeId|moon" → h) */
   committed?: Record<string, number>;
 }) {
-  const { errors, onSubmit } = useClientCheck(callSchema, result?.errors);
+  const { errors, onSubmit, register } = useOfficeForm(callSchema, result?.errors);
   const navigation = useNavigation();
   const busy = navigation.state === "submitting";
   const typed = result?.values ?? {};
@@ -105,7 +105,8 @@ export function CallForm({
   const p = `call-${intent}`;
   return (
     <Form method="post" noValidate onSubmit={onSubmit} className="space-y-6" aria-label={submitLabel}>
-      <input type="hidden" name="timeZone" value={timeZone} />
+      <OfficeFields value={register}>
+      <input type="hidden" {...register("timeZone")} value={timeZone} />
       <FormError error={errors.form ?? errors.timeZone} />
       <fieldset className="card space-y-4">
         <legend className="px-1 text-lg font-semibold text-night-900">The call</legend>
@@ -125,7 +126,7 @@ export function CallForm({
                 <label htmlFor={id}>{name === "semesterStart" ? "Semester starts" : "Semester ends (inclusive)"}</label>
                 <input
                   id={id}
-                  name={name}
+                  {...register(name)}
                   type="text"
                   inputMode="numeric"
                   pattern="\d{4}-\d{2}-\d{2}"
@@ -179,7 +180,7 @@ export function CallForm({
                         </label>
                         <input
                           id={id}
-                          name={name}
+                          {...register(name)}
                           inputMode="decimal"
                           autoComplete="off"
                           defaultValue={String(cell(t.id, m))}
@@ -217,7 +218,7 @@ export function CallForm({
         <div className="grid gap-4 md:grid-cols-3">
           <div>
             <label htmlFor={fieldId(p, "currency")}>Currency</label>
-            <select id={fieldId(p, "currency")} name="currency" className="input" defaultValue={v("currency") as string}>
+            <select id={fieldId(p, "currency")} {...register("currency")} className="input" defaultValue={v("currency") as string}>
               {currencies.map((c) => (
                 <option key={c} value={c}>
                   {c.toUpperCase()}
@@ -242,6 +243,7 @@ export function CallForm({
       <button type="submit" className="btn" disabled={busy}>
         {busy ? "Saving…" : submitLabel}
       </button>
+      </OfficeFields>
     </Form>
   );
 }

@@ -1,6 +1,6 @@
 import { useActionData, useFetcher } from "react-router";
 import { filterSchema } from "~/lib/schemas/office";
-import { fieldId, resultFor, useClientCheck, type FormResult } from "./fields";
+import { fieldId, resultFor, useOfficeForm, type FormResult } from "./fields";
 
 export const filterColumns = [
   { name: "band", label: "Band", unit: "", width: "w-20" },
@@ -19,7 +19,7 @@ export function FilterRow({ filter, isNew = false }: { filter?: FilterValues & {
   const routeData = useActionData();
   const posted = fetcher.data ?? (isNew ? resultFor(routeData, "createFilter") : resultFor(routeData, "updateFilter", filter!.id) ?? resultFor(routeData, "deleteFilter", filter!.id));
   const result = posted && !posted.ok ? posted : undefined;
-  const { errors, onSubmit } = useClientCheck(filterSchema, result?.errors);
+  const { errors, onSubmit, register } = useOfficeForm(filterSchema, result?.errors, fetcher.submit);
   const formId = isNew ? "filter-new" : `filter-${filter!.id}`;
   const values = { ...filter, ...result?.values } as Record<string, string | number | undefined>;
   const busy = fetcher.state !== "idle";
@@ -37,7 +37,7 @@ export function FilterRow({ filter, isNew = false }: { filter?: FilterValues & {
             </label>
             <input
               id={id}
-              name={c.name}
+              {...register(c.name)}
               form={formId}
               inputMode={c.name === "band" ? undefined : "decimal"}
               autoComplete="off"

@@ -1,6 +1,6 @@
 import { Form, useNavigation } from "react-router";
 import { instrumentSchema } from "~/lib/schemas/office";
-import { FormError, NumberField, TextField, useClientCheck, type FormResult } from "./fields";
+import { FormError, NumberField, OfficeFields, TextField, useOfficeForm, type FormResult } from "./fields";
 
 export const instrumentFields = [
   { name: "pixelScaleArcsec", label: "Pixel scale", unit: "″/pixel", hint: "On the sky, per (binned) pixel" },
@@ -27,13 +27,14 @@ export function InstrumentForm({
   result?: FormResult;
   submitLabel: string;
 }) {
-  const { errors, onSubmit } = useClientCheck(instrumentSchema, result?.errors);
+  const { errors, onSubmit, register } = useOfficeForm(instrumentSchema, result?.errors);
   const navigation = useNavigation();
   const busy = navigation.state === "submitting" && navigation.formData?.get("intent") === intent;
   const v = { ...initial, ...result?.values } as Record<string, string | number | undefined>;
   const p = `instrument-${intent}`;
   return (
     <Form method="post" noValidate onSubmit={onSubmit} className="space-y-4" aria-label={submitLabel}>
+      <OfficeFields value={register}>
       <FormError error={errors.form} />
       <TextField prefix={p} name="name" label="Instrument" defaultValue={v.name} error={errors.name} placeholder="Ridge Imager 4K" className="max-w-md" />
       <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
@@ -44,6 +45,7 @@ export function InstrumentForm({
       <button type="submit" name="intent" value={intent} className="btn" disabled={busy}>
         {busy ? "Saving…" : submitLabel}
       </button>
+      </OfficeFields>
     </Form>
   );
 }

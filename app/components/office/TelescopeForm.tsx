@@ -1,6 +1,6 @@
 import { Form, useNavigation } from "react-router";
 import { telescopeSchema } from "~/lib/schemas/office";
-import { FormError, NumberField, TextField, useClientCheck, type FormResult } from "./fields";
+import { FormError, NumberField, OfficeFields, TextField, useOfficeForm, type FormResult } from "./fields";
 
 export interface TelescopeValues {
   name: string;
@@ -26,13 +26,14 @@ export function TelescopeForm({
   timeZones: string[];
   submitLabel: string;
 }) {
-  const { errors, onSubmit } = useClientCheck(telescopeSchema, result?.errors);
+  const { errors, onSubmit, register } = useOfficeForm(telescopeSchema, result?.errors);
   const navigation = useNavigation();
   const busy = navigation.state === "submitting" && navigation.formData?.get("intent") === intent;
   const v = { ...initial, ...result?.values } as Partial<Record<keyof TelescopeValues, string | number>>;
   const p = `telescope-${intent}`;
   return (
     <Form method="post" noValidate onSubmit={onSubmit} className="space-y-4" aria-label={submitLabel}>
+      <OfficeFields value={register}>
       <FormError error={errors.form} />
       <div className="grid gap-4 md:grid-cols-2">
         <TextField prefix={p} name="name" label="Telescope" defaultValue={v.name} error={errors.name} placeholder="KRO 2.4 m" />
@@ -73,6 +74,7 @@ export function TelescopeForm({
       <button type="submit" name="intent" value={intent} className="btn" disabled={busy}>
         {busy ? "Saving…" : submitLabel}
       </button>
+      </OfficeFields>
     </Form>
   );
 }

@@ -1,33 +1,57 @@
-import { useState, type FormEvent, type ReactNode } from "react";
+import { zodResolver } from "@hookform/resolvers/zod";
+import { createContext, useContext, type ChangeEvent, type FormEvent, type ReactNode } from "react";
+import { useForm, type FieldValues, type UseFormRegister } from "react-hook-form";
+import { useSubmit, type SubmitOptions } from "react-router";
 import type { z } from "zod";
-import { fieldErrors, type FieldErrors } from "~/lib/forms";
+import type { FieldErrors } from "~/lib/forms";
+
+/** The office form's `register`, for the fields below (a field outside an office form is plain). */
+const RegisterContext = createContext<UseFormRegister<FieldValues> | null>(null);
+export const OfficeFields = RegisterContext.Provider;
+
+/** The field's react-hook-form props (name, ref, onChange, onBlur), or just its name. */
+export function useField(name: string, onChange?: (event: ChangeEvent<HTMLInputElement | HTMLSelectElement>) => void) {
+  const register = useContext(RegisterContext);
+  if (!register) return { name, onChange };
+  const field = register(name);
+  return {
+    ...field,
+    onChange: (event: ChangeEvent<HTMLInputElement | HTMLSelectElement>) => {
+      onChange?.(event);
+      return field.onChange(event);
+    },
+  };
+}
 
 /**
- * Checks a form with the same zod schema the action uses, before it is sent: on failure the
- * submission is stopped and the messages shown; what was typed stays in the fields.
+ * An office form on react-hook-form with the action's own zod schema (zodResolver): the fields
+ * (wrapped in `<OfficeFields value={register}>`) register themselves and keep their server-rendered
+ * default values; on a failed check nothing is sent, the messages show by the fields and the first
+ * bad field gets the focus. A valid form is sent as the browser would have sent it (the pressed
+ * button's name and value included), through `submit` (a fetcher's, or the page's). A button with
+ * `data-no-check` (a delete) is sent unchecked.
  */
-export function useClientCheck(schema: z.ZodType, serverErrors: FieldErrors | undefined) {
-  const [clientErrors, setClientErrors] = useState<FieldErrors | null>(null);
+export function useOfficeForm<S extends z.ZodType<unknown, FieldValues>>(
+  schema: S,
+  serverErrors: FieldErrors | undefined,
+  submitWith?: (form: FormData, options: SubmitOptions) => unknown,
+) {
+  const pageSubmit = useSubmit();
+  const form = useForm<z.input<S>, unknown, z.output<S>>({ resolver: zodResolver(schema), shouldFocusError: true });
   function onSubmit(event: FormEvent<HTMLFormElement>) {
     const submitter = (event.nativeEvent as SubmitEvent).submitter as HTMLButtonElement | null;
     if (submitter?.dataset.noCheck !== undefined) return;
-    const values = Object.fromEntries(new FormData(event.currentTarget, submitter));
-    const parsed = schema.safeParse(values);
-    if (parsed.success) {
-      setClientErrors(null);
-      return;
-    }
-    event.preventDefault();
-    const errors = fieldErrors(parsed.error);
-    setClientErrors(errors);
-    const form = event.currentTarget;
-    const first = Object.keys(errors)[0];
-    requestAnimationFrame(() => {
-      const el = (form.elements.namedItem(first) ?? document.getElementsByName(first)[0]) as HTMLElement | null;
-      el?.focus?.();
-    });
+    const element = event.currentTarget;
+    const data = new FormData(element, submitter);
+    void form.handleSubmit(() => void (submitWith ?? pageSubmit)(data, { method: "post" }))(event);
   }
-  return { errors: clientErrors ?? serverErrors ?? {}, onSubmit };
+  const clientErrors: FieldErrors = {};
+  for (const [name, error] of Object.entries(form.formState.errors)) {
+    const message = (error as { message?: unknown } | undefined)?.message;
+    if (typeof message === "string") clientErrors[name] = message;
+  }
+  const checked = Object.keys(clientErrors).length > 0;
+  return { errors: checked ? clientErrors : (serverErrors ?? {}), onSubmit, register: form.register as unknown as UseFormRegister<FieldValues> };
 }
 
 type Value = string | number | null | undefined;
@@ -60,12 +84,13 @@ export function TextField({
   className?: string;
 }) {
   const id = fieldId(prefix, name);
+  const field = useField(name);
   return (
     <div className={className}>
       <label htmlFor={id}>{label}</label>
       <input
         id={id}
-        name={name}
+        {...field}
         className="input"
         defaultValue={str(defaultValue)}
         list={list}
@@ -99,13 +124,14 @@ export function NumberField({
   className?: string;
 }) {
   const id = fieldId(prefix, name);
+  const field = useField(name);
   return (
     <div className={className}>
       <label htmlFor={id}>{label}</label>
       <div className="mt-1 flex items-stretch">
         <input
           id={id}
-          name={name}
+          {...field}
           inputMode="decimal"
           autoComplete="off"
           className={`input mt-0 min-w-0 flex-1 text-right tabular-nums ${unit ? "rounded-r-none" : ""}`}

@@ -113,8 +113,9 @@ export const MIN_SEMESTER_MONTHS = 3;
 export const MAX_SEMESTER_MONTHS = 13;
 
 /** The form field of one cell of the offered-hours grid. */
-export const offerField = (telescopeId: number, moon: string) => `offer.${telescopeId}.${moon}`;
-const offerPattern = new RegExp(`^offer\\.([1-9]\\d{0,9})\\.(${moonCategories.join("|")})$`);
+// no dots: react-hook-form would read `offer.1.dark` as a nested path
+export const offerField = (telescopeId: number, moon: string) => `offer-${telescopeId}-${moon}`;
+const offerPattern = new RegExp(`^offer-([1-9]\\d{0,9})-(${moonCategories.join("|")})$`);
 const hoursField = numberField("Hours offered", { min: 0, max: 5000, unit: "h" });
 
 const dateField = (label: string) =>
@@ -146,7 +147,7 @@ function monthsAfter(date: string, months: number) {
 /**
  * The call form. Dates and times are typed as the observatory's wall clock (`timeZone`, which the
  * server sets to the observatory's zone); the result carries UTC instants. Cells of the offered-hours
- * grid are fields named `offer.<telescopeId>.<moon>`.
+ * grid are fields named `offer-<telescopeId>-<moon>`.
  */
 export const callSchema = z
   .looseObject({
