@@ -47,7 +47,12 @@ export async function instrumentOptions({ callId, transaction }: { callId: numbe
 export type ObservationRow = Omit<ObservationInput, "mode"> & { id: number; mode: "snr" | "exposure"; targetName: string; instrumentName: string; telescopeId: number; band: string };
 
 export async function listObservations({ user, proposalId }: { user: Actor; proposalId: number }) {
-  const access = await getProposalForUser({ proposalId, user });
+  return observationRows({ access: await getProposalForUser({ proposalId, user }) });
+}
+
+/** The observations and instrument options of a proposal whose access the caller has already checked. */
+export async function observationRows({ access }: { access: Awaited<ReturnType<typeof getProposalForUser>> }) {
+  const proposalId = access.proposal.id;
   const [observations, options] = await Promise.all([
     Observation.findAll({
       where: { proposalId },

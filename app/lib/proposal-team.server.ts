@@ -24,6 +24,11 @@ export type TeamMember = {
 
 export async function listTeam({ user, proposalId }: { user: Actor; proposalId: number }): Promise<TeamMember[]> {
   await getProposalForUser({ proposalId, user });
+  return teamRows({ user, proposalId });
+}
+
+/** The team of a proposal whose access the caller has already checked. */
+export async function teamRows({ user, proposalId }: { user: Actor; proposalId: number }): Promise<TeamMember[]> {
   const members = await ProposalMember.findAll({ where: { proposalId }, include: [{ model: User, as: "user" }], order: [["role", "DESC"], ["id", "ASC"]] });
   // An invited address that already has an account shows that account's name at once.
   const pending = members.filter((m) => m.userId === null).map((m) => m.email);

@@ -1,9 +1,9 @@
 import { data } from "react-router";
 import { requireUser } from "~/lib/auth.server";
 import { computeFeasibilitySheet } from "~/lib/feasibility.server";
-import { listObservations } from "~/lib/proposal-observations.server";
-import { listTargets } from "~/lib/proposal-targets.server";
-import { listTeam } from "~/lib/proposal-team.server";
+import { observationRows } from "~/lib/proposal-observations.server";
+import { targetRows } from "~/lib/proposal-targets.server";
+import { teamRows } from "~/lib/proposal-team.server";
 import { getProposalForUser, membershipWhere, overviewValues, workspaceHeader } from "~/lib/proposals.server";
 import { committeeAccess, committeeReading } from "~/lib/review/read.server";
 import { ProposalMember } from "~/models/index.server";
@@ -25,7 +25,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     return data({ ...reading, readOnly: true }, { headers: { "Cache-Control": "private, no-store" } });
   }
   const access = await getProposalForUser({ proposalId, user });
-  const [team, targets, { observations }] = await Promise.all([listTeam({ user, proposalId }), listTargets({ user, proposalId }), listObservations({ user, proposalId })]);
+  // access checked once above; the parts read with it
+  const [team, targets, { observations }] = await Promise.all([teamRows({ user, proposalId }), targetRows(proposalId), observationRows({ access })]);
   let feasibilitySheet = null;
   let feasibilityError: string | null = null;
   try {
