@@ -16,12 +16,25 @@ export type TierRow = { proposalId: number; tier: AllocationTier | null; waitlis
 
 const lockedRefusal = () => new ProposalRefused("The allocation is locked. The chair must unlock it, with a reason, before anything changes.", 409, "allocation");
 
-/** The call's allocation row, locked for this transaction; refuses when the allocation is locked. */
+/**
+ * The call's allocation row exists before a transaction locks it. Created inside the transactions,
+ * two first changes of a call raced to insert it (duplicate key or deadlock, a 500); created here,
+ * outside them, they queue on its row lock instead.
+ */
+async function ensureAllocationRow(callId: number) {
+  if ((await CallAllocation.count({ where: { callId } })) > 0 || (await Call.count({ where: { id: callId } })) === 0) return;
+  await CallAllocation.bulkCreate([{ callId, lockedAt: null, lockedById: null }], { ignoreDuplicates: true });
+}
+
+/**
+ * The call's allocation row, locked for this transaction; refuses when the allocation is locked.
+ * The lock is the transaction's first read, so its snapshot (REPEATABLE READ) starts after the
+ * previous holder's commit and sees that holder's board entries.
+ */
 async function openAllocation(callId: number, transaction: Transaction, { mustBeUnlocked = true } = {}) {
-  const call = await Call.findByPk(callId, { transaction });
-  if (!call) callNotFound();
-  await CallAllocation.findOrCreate({ where: { callId }, defaults: { callId, lockedAt: null, lockedById: null }, transaction });
-  const allocation = (await CallAllocation.findOne({ where: { callId }, transaction, lock: transaction.LOCK.UPDATE }))!;
+  const allocation = await CallAllocation.findOne({ where: { callId }, transaction, lock: transaction.LOCK.UPDATE });
+  const call = allocation ? await Call.findByPk(callId, { transaction }) : null;
+  if (!allocation || !call) callNotFound();
   if (mustBeUnlocked && allocation.lockedAt) {
     throw lockedRefusal();
   }
@@ -36,6 +49,7 @@ async function boardProposal(callId: number, proposalId: number, transaction: Tr
 
 /** Moves a proposal to `chairRank` (null returns it to its computed rank), with a reason. */
 export async function moveOnBoard({ actor, callId, proposalId, chairRank, reason }: { actor: Chair; callId: number; proposalId: number; chairRank: number | null; reason: string }) {
+  await ensureAllocationRow(callId);
   return sequelize.transaction(async (transaction) => {
     await openAllocation(callId, transaction);
     const proposal = await boardProposal(callId, proposalId, transaction);
@@ -52,13 +66,16 @@ export async function moveOnBoard({ actor, callId, proposalId, chairRank, reason
  * moon category × semester (the call's own, or a later one the proposal asks for) and its tier.
  */
 export async function saveAllocation({ actor, callId, rows, tiers }: { actor: Chair; callId: number; rows: AllocationRow[]; tiers: TierRow[] }) {
+  await ensureAllocationRow(callId);
   return sequelize.transaction(async (transaction) => {
     const { call } = await openAllocation(callId, transaction);
     const offers = await CallOffer.findAll({ where: { callId }, transaction });
     const offered = new Set(offers.map((o) => `${o.telescopeId}|${o.moonCategory}`));
     const proposalIds = [...new Set([...rows.map((r) => r.proposalId), ...tiers.map((t) => t.proposalId)])];
     const proposals = new Map<number, Proposal>();
-    for (const [i, id] of proposalIds.entries()) proposals.set(id, await boardProposal(callId, id, transaction, `rows.${i}.proposalId`));
+    // the field named is the first row (else tier) that names the proposal
+    const pathOf = (id: number) => (rows.some((r) => r.proposalId === id) ? `rows.${rows.findIndex((r) => r.proposalId === id)}` : `tiers.${tiers.findIndex((t) => t.proposalId === id)}`);
+    for (const id of proposalIds) proposals.set(id, await boardProposal(callId, id, transaction, `${pathOf(id)}.proposalId`));
     const seen = new Set<string>();
     for (const [i, row] of rows.entries()) {
       if (!offered.has(`${row.telescopeId}|${row.moonCategory}`)) throw new ProposalRefused(`The call offers no ${row.moonCategory} time on telescope ${row.telescopeId}.`, 400, `rows.${i}.telescopeId`);
@@ -82,6 +99,7 @@ export async function saveAllocation({ actor, callId, rows, tiers }: { actor: Ch
 
 /** Locks the allocation; outcomes follow: hours allocated → accepted, waitlisted by choice, the rest declined. */
 export async function lockAllocation({ actor, callId, now = new Date() }: { actor: Chair; callId: number; now?: Date }) {
+  await ensureAllocationRow(callId);
   return sequelize.transaction(async (transaction) => {
     const { allocation } = await openAllocation(callId, transaction);
     const proposals = await Proposal.findAll({ where: { callId, status: { [Op.in]: [...BOARD_STATES] } }, transaction, lock: transaction.LOCK.UPDATE });
@@ -102,6 +120,7 @@ export async function lockAllocation({ actor, callId, now = new Date() }: { acto
 
 /** Unlocks with a reason; the proposals go back to in review until the next lock. */
 export async function unlockAllocation({ actor, callId, reason }: { actor: Chair; callId: number; reason: string }) {
+  await ensureAllocationRow(callId);
   return sequelize.transaction(async (transaction) => {
     const { allocation } = await openAllocation(callId, transaction, { mustBeUnlocked: false });
     if (!allocation.lockedAt) throw new ProposalRefused("The allocation is not locked.", 409, "allocation");

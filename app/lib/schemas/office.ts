@@ -230,6 +230,8 @@ const clearPercent = (month: string) =>
           .number({ error: `${month}: give the percentage of clear nights as a number, or leave it empty.` })
           .min(0, `${month}: from 0 to 100 %.`)
           .max(100, `${month}: from 0 to 100 %.`)
+          // stored to a tenth of a percent: a finer value would be changed without a word
+          .refine((n) => Math.abs(n * 10 - Math.round(n * 10)) < 1e-9, `${month}: give at most one decimal (62.5 %).`)
           .nullable(),
       ),
   );
