@@ -11,12 +11,13 @@ import { observationSchema } from "~/lib/schemas/proposals";
 import { Allocation, BoardEntry, Call, Proposal, ReviewAssignment, SemesterCheck, Target, Telescope, TelescopeClearFraction, User } from "~/models/index.server";
 import { form, request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
-import { newUser } from "../helpers/session";
+import { newUser, sessionCookieFor } from "../helpers/session";
 import { readyProposal, testCall } from "../integration/proposals-fixtures";
 
 type Person = Awaited<ReturnType<typeof newUser>>;
 type TestCall = Awaited<ReturnType<typeof testCall>>;
 let chair: Person, reviewer: Person, pi: Person, admin: Person;
+let graders: Person[];
 let callA: TestCall, callB: TestCall;
 let a: Proposal[], b: Proposal[];
 let cell: { telescopeId: number; moonCategory: "dark" | "grey" | "bright" };
@@ -56,6 +57,7 @@ beforeAll(async () => {
   pi = await newUser({ name: "Attack PI" });
   await User.update({ institution: FORMULA_INSTITUTION }, { where: { id: pi.user.id } });
   const reviewers = await Promise.all([0, 1, 2].map((i) => newUser({ roles: ["reviewer"], name: `Attack Reviewer ${i}` })));
+  graders = reviewers;
   ({ call: callA, proposals: a } = await callWithProposals(3, "Call A"));
   ({ call: callB, proposals: b } = await callWithProposals(2, "Call B"));
   await Proposal.update({ title: FORMULA_TITLE }, { where: { id: a[0].id } });
@@ -152,6 +154,29 @@ describe("who may reach the board and the allocation", () => {
       const res = await app[method.toLowerCase() as "get"](path).set(json(chair.cookie)).send(method === "GET" ? undefined : "{}");
       expect.soft(res.status, `${method} ${path}`).toBe(405);
       expect.soft(res.headers.allow, `${method} ${path}`).toBe(allow);
+    }
+  });
+});
+
+describe("the committee's and reviewers' other form pages", () => {
+  it("answer a body that is no form with a 400, not a 500 (the board's action had the same fault)", async () => {
+    const app = await request();
+    // a seeded reviewer's desk page (the demo review seeder commits the assignments)
+    const desk = await (async () => {
+      for (const as of await ReviewAssignment.findAll({ where: { status: ["assigned", "draft", "submitted"] }, order: [["id", "ASC"]], limit: 40 })) {
+        const user = await User.findByPk(as.reviewerId as number);
+        if (!user?.email.endsWith("@kestrel-ridge.example")) continue;
+        const cookie = await sessionCookieFor(user.email);
+        if ((await app.get(`/review/${as.proposalId}`).set("Cookie", cookie)).status === 200) return [`/review/${as.proposalId}`, cookie] as [string, string];
+      }
+      throw new Error("no seeded reviewer's desk page answers 200");
+    })();
+    const pages: [string, string][] = [[`/committee/${callA.id}`, chair.cookie], ["/review/settings", graders[0].cookie], desk];
+    for (const [path, cookie] of pages) {
+      for (const [type, body] of [["application/json", '{"intent":"save"}'], ["text/plain", "intent=save"]]) {
+        const res = await app.post(path).set("Cookie", cookie).set("Content-Type", type).send(body);
+        expect.soft(res.status, `${path} ${type}: ${res.status}`).toBe(400);
+      }
     }
   });
 });
@@ -273,6 +298,11 @@ describe("hostile bodies", () => {
     const dup = await app.put(`/api/v1/calls/${callA.id}/allocation`).set(json(chair.cookie)).send(`{"rows":[${JSON.stringify(row(a[1], callA, 7)).replace('"hours":7', '"hours":-1,"hours":7')}]}`);
     expect(dup.status).toBe(200);
     expect((await Allocation.findAll({ where: { callId: callA.id } })).map((s) => s.hours)).toEqual([7]);
+    // one proposal's tier many times over: refused at once (each would be two queries under the call's lock)
+    const tiers = await app.put(`/api/v1/calls/${callA.id}/allocation`).set(json(chair.cookie)).send({ rows: [], tiers: Array.from({ length: 5000 }, (_, i) => ({ proposalId: a[1].id, tier: i % 2 ? "queue" : "filler" })) });
+    expect(tiers.status).toBe(400);
+    expect(tiers.body.issues[0].path).toBe("tiers.1.proposalId");
+    expect(await BoardEntry.count({ where: { callId: callA.id } })).toBe(0);
     const same = await app.put(`/api/v1/calls/${callA.id}/allocation`).set(json(chair.cookie)).send({ rows: [row(a[1], callA, 2), row(a[1], callA, 3)] });
     expect(same.status).toBe(400);
     expect(same.body.issues[0].path).toBe("rows.1");
@@ -330,6 +360,17 @@ describe("hostile bodies", () => {
       expect.soft(res.status, `${body}: ${res.status}`).toBeLessThan(500);
     }
     expect(await BoardEntry.count({ where: { callId: callA.id } })).toBe(0);
+    // a body that is no form: JSON, text/plain, a broken multipart
+    const notForms: [string, string][] = [
+      ["application/json", JSON.stringify({ intent: "lock" })],
+      ["text/plain", "intent=lock"],
+      ["multipart/form-data; boundary=----nightshare", '------nightshare\r\nContent-Disposition: form-data; name="intent"\r\n\r\nlock\r\n------nightsh'],
+    ];
+    for (const [type, body] of notForms) {
+      const res = await app.post(`/committee/${callA.id}/board`).set("Cookie", chair.cookie).set("Content-Type", type).send(body);
+      expect.soft(res.status, `${type}: ${res.status}`).toBe(400);
+    }
+    expect((await Proposal.findByPk(a[1].id))!.status).toBe("in_review");
     // `__proto__` twice makes the parsed form's prototype an array; the fields of its own still rule
     const proto = await post(`__proto__=a&__proto__=b&intent=move&proposalId=${a[1].id}&chairRank=2&reason=because`);
     expect(proto.status).toBe(200);
@@ -457,7 +498,8 @@ describe("the semester check's queue", () => {
   });
 
   it("is bounded across calls too: more calls than the queue holds get a 503 with Retry-After", { timeout: 120_000 }, async () => {
-    const calls = await Promise.all(Array.from({ length: 12 }, () => testCall()));
+    const calls: TestCall[] = [];
+    for (let i = 0; i < 12; i++) calls.push(await testCall()); // one by one: testCall picks a free code
     const app = await request();
     const answers = await Promise.all(calls.map((c) => app.post(`/api/v1/calls/${c.id}/semester-check`).set(json(chair.cookie)).send({ realisations: 1 })));
     const statuses = answers.map((r) => r.status);

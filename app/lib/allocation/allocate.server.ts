@@ -76,6 +76,11 @@ export async function saveAllocation({ actor, callId, rows, tiers }: { actor: Ch
     // the field named is the first row (else tier) that names the proposal
     const pathOf = (id: number) => (rows.some((r) => r.proposalId === id) ? `rows.${rows.findIndex((r) => r.proposalId === id)}` : `tiers.${tiers.findIndex((t) => t.proposalId === id)}`);
     for (const id of proposalIds) proposals.set(id, await boardProposal(callId, id, transaction, `${pathOf(id)}.proposalId`));
+    const tiered = new Set<number>();
+    for (const [i, t] of tiers.entries()) {
+      if (tiered.has(t.proposalId)) throw new ProposalRefused("The same proposal appears twice among the tiers.", 400, `tiers.${i}.proposalId`);
+      tiered.add(t.proposalId);
+    }
     const seen = new Set<string>();
     for (const [i, row] of rows.entries()) {
       if (!offered.has(`${row.telescopeId}|${row.moonCategory}`)) throw new ProposalRefused(`The call offers no ${row.moonCategory} time on telescope ${row.telescopeId}.`, 400, `rows.${i}.telescopeId`);
