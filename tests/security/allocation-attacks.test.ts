@@ -396,7 +396,8 @@ describe("hostile bodies", () => {
   it("the office's clear fractions: refuses what it cannot keep as typed (m1…m12), never a 5xx", async () => {
     const app = await request();
     const telescope = await Telescope.create({ name: `Attack weather ${Date.now()}`, siteName: "Nowhere", latitudeDeg: 10, longitudeDeg: 10, elevationM: 100, timeZone: "UTC", apertureM: 0.5 });
-    const post = (values: Record<string, string>) => app.post(`/admin/telescopes/${telescope.id}`).set("Cookie", admin.cookie).type("form").send(form({ intent: "clearFractions", ...values }));
+    const all = Object.fromEntries(Array.from({ length: 12 }, (_, i) => [`m${i + 1}`, ""]));
+    const post = (values: Record<string, string>, base: Record<string, string> = all) => app.post(`/admin/telescopes/${telescope.id}`).set("Cookie", admin.cookie).type("form").send(form({ intent: "clearFractions", ...base, ...values }));
     for (const v of ["NaN", "Infinity", "1e2", "-0.5", "100.5", "0x40", "5 0", "５０"]) {
       const res = await post({ m1: v });
       expect.soft(res.status, `m1=${v}`).toBe(400);
@@ -411,8 +412,15 @@ describe("hostile bodies", () => {
     expect(ok.status).toBe(302);
     const rows = await TelescopeClearFraction.findAll({ where: { telescopeId: telescope.id }, order: [["month", "ASC"]] });
     expect(rows.map((r) => r.clearFraction)).toEqual([0.625, 0, 1, 0.625]);
-    const twice = await app.post(`/admin/telescopes/${telescope.id}`).set("Cookie", admin.cookie).type("form").send("intent=clearFractions&m1=10&m1=20");
+    // a body without the other eleven months (a script, a form library's nested names) deletes nothing
+    for (const body of ["intent=clearFractions&m1=50", "intent=clearFractions&m1[a][b]=1", "intent=clearFractions"]) {
+      const res = await app.post(`/admin/telescopes/${telescope.id}`).set("Cookie", admin.cookie).type("form").send(body);
+      expect.soft(res.status, body).toBe(400);
+    }
+    expect(await TelescopeClearFraction.count({ where: { telescopeId: telescope.id } })).toBe(4);
+    const twice = await app.post(`/admin/telescopes/${telescope.id}`).set("Cookie", admin.cookie).type("form").send(`${form({ intent: "clearFractions", ...all, m1: "10" })}&m1=20`);
     expect([302, 400]).toContain(twice.status);
+    expect(await TelescopeClearFraction.count({ where: { telescopeId: telescope.id } })).toBeGreaterThanOrEqual(1);
     await TelescopeClearFraction.destroy({ where: { telescopeId: telescope.id } });
     await telescope.destroy();
   });

@@ -220,9 +220,10 @@ export const MONTH_NAMES = ["January", "February", "March", "April", "May", "Jun
 
 const clearPercent = (month: string) =>
   z.preprocess(
-    (value) => (typeof value === "number" ? String(value) : value ?? ""),
+    // a month left out of the body is no month left empty: saving would delete it unasked
+    (value) => (typeof value === "number" ? String(value) : value),
     z
-      .string()
+      .string({ error: `${month}: missing from the form; reload the page and send all twelve months.` })
       .trim()
       .transform((text) => (text === "" ? null : /^[+-]?(\d+\.?\d*|\.\d+)$/.test(text) ? Number(text) : Number.NaN))
       .pipe(
