@@ -284,8 +284,38 @@ describe("hostile bodies", () => {
     expect(await Allocation.count({ where: { callId: callA.id } })).toBe(0);
   });
 
+  it("PUT allocation: hours need a tier and rule out the waitlist, as on the page (400 by the row's hours)", async () => {
+    const app = await request();
+    const untiered = await app.put(`/api/v1/calls/${callA.id}/allocation`).set(json(chair.cookie)).send({ rows: [row(a[1], callA, 5)] });
+    expect(untiered.status).toBe(400);
+    expect(untiered.body.issues[0].path).toBe("rows.0.hours");
+    const waitlisted = await app.put(`/api/v1/calls/${callA.id}/allocation`).set(json(chair.cookie)).send({ rows: [row(a[1], callA, 5)], tiers: [{ proposalId: a[1].id, tier: "queue", waitlisted: true }] });
+    expect(waitlisted.status).toBe(400);
+    expect(waitlisted.body.issues[0].path).toBe("rows.0.hours");
+    expect(await Allocation.count({ where: { callId: callA.id } })).toBe(0);
+    // a tier stored before still counts when only the hours are sent
+    expect((await app.put(`/api/v1/calls/${callA.id}/allocation`).set(json(chair.cookie)).send({ rows: [], tiers: [{ proposalId: a[1].id, tier: "filler" }] })).status).toBe(200);
+    expect((await app.put(`/api/v1/calls/${callA.id}/allocation`).set(json(chair.cookie)).send({ rows: [row(a[1], callA, 2)] })).status).toBe(200);
+    expect(await Allocation.sum("hours", { where: { callId: callA.id } })).toBe(2);
+    await Allocation.destroy({ where: { callId: callA.id } });
+    await BoardEntry.destroy({ where: { callId: callA.id } });
+  });
+
+  it("fill by rank takes a proposal it gives hours off the waitlist (never both)", async () => {
+    const { call, proposals } = await callWithProposals(1, "Waitlist fill");
+    const app = await request();
+    expect((await app.put(`/api/v1/calls/${call.id}/allocation`).set(json(chair.cookie)).send({ rows: [], tiers: [{ proposalId: proposals[0].id, tier: null, waitlisted: true }] })).status).toBe(200);
+    const filled = await app.post(`/api/v1/calls/${call.id}/allocation/fill-by-rank`).set(json(chair.cookie)).send("{}");
+    expect(filled.status, filled.text.slice(0, 200)).toBe(200);
+    const entry = (await BoardEntry.findOne({ where: { proposalId: proposals[0].id } }))!;
+    expect(entry.tier).toBe("assured");
+    expect(entry.waitlisted).toBe(false);
+    expect(await Allocation.sum("hours", { where: { proposalId: proposals[0].id } })).toBeGreaterThan(0);
+  });
+
   it("PUT allocation: prototype keys and duplicate keys do nothing odd; 20 000 rows are a 4xx, not a 5xx", async () => {
     const app = await request();
+    await BoardEntry.create({ callId: callA.id, proposalId: a[1].id, chairRank: null, chairRankReason: null, tier: "queue" });
     // __proto__ as a key of the body and of a row: JSON.parse keeps it as a plain key; it must not add fields
     const proto = await app.put(`/api/v1/calls/${callA.id}/allocation`).set(json(chair.cookie))
       .send(`{"__proto__":{"tiers":[{"proposalId":${a[1].id},"tier":"assured"}]},"rows":[${JSON.stringify({ ...row(a[1], callA), __proto__: { hours: 900 } }).replace("}", `,"__proto__":{"hours":900}}`)}],"constructor":{"prototype":{"polluted":1}}}`);
@@ -293,7 +323,7 @@ describe("hostile bodies", () => {
     expect(({} as Record<string, unknown>).polluted).toBeUndefined();
     const saved = await Allocation.findAll({ where: { callId: callA.id } });
     expect(saved.map((s) => s.hours)).toEqual([5]);
-    expect(await BoardEntry.count({ where: { callId: callA.id } })).toBe(0);
+    expect((await BoardEntry.findOne({ where: { proposalId: a[1].id } }))!.tier).toBe("queue"); // the __proto__ tiers did nothing
     // duplicate keys: JSON's last one wins (RFC 8259 leaves it open; JSON.parse takes the last)
     const dup = await app.put(`/api/v1/calls/${callA.id}/allocation`).set(json(chair.cookie)).send(`{"rows":[${JSON.stringify(row(a[1], callA, 7)).replace('"hours":7', '"hours":-1,"hours":7')}]}`);
     expect(dup.status).toBe(200);
@@ -302,7 +332,7 @@ describe("hostile bodies", () => {
     const tiers = await app.put(`/api/v1/calls/${callA.id}/allocation`).set(json(chair.cookie)).send({ rows: [], tiers: Array.from({ length: 5000 }, (_, i) => ({ proposalId: a[1].id, tier: i % 2 ? "queue" : "filler" })) });
     expect(tiers.status).toBe(400);
     expect(tiers.body.issues[0].path).toBe("tiers.1.proposalId");
-    expect(await BoardEntry.count({ where: { callId: callA.id } })).toBe(0);
+    expect((await BoardEntry.findOne({ where: { proposalId: a[1].id } }))!.tier).toBe("queue");
     const same = await app.put(`/api/v1/calls/${callA.id}/allocation`).set(json(chair.cookie)).send({ rows: [row(a[1], callA, 2), row(a[1], callA, 3)] });
     expect(same.status).toBe(400);
     expect(same.body.issues[0].path).toBe("rows.1");

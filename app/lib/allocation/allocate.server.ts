@@ -90,6 +90,16 @@ export async function saveAllocation({ actor, callId, rows, tiers }: { actor: Ch
       if (seen.has(key)) throw new ProposalRefused("The same proposal, telescope, moon category and semester appear twice.", 400, `rows.${i}`);
       seen.add(key);
     }
+    // as on the page: hours need a tier and rule out the waitlist (a tier not sent stays as stored)
+    const stored = new Map((await BoardEntry.findAll({ where: { proposalId: { [Op.in]: proposalIds.length ? proposalIds : [0] } }, transaction })).map((e) => [e.proposalId as number, e]));
+    for (const [i, row] of rows.entries()) {
+      if (row.hours <= 0) continue;
+      const given = tiers.find((t) => t.proposalId === row.proposalId);
+      const tier = given ? given.tier : (stored.get(row.proposalId)?.tier ?? null);
+      const waitlisted = given?.waitlisted ?? stored.get(row.proposalId)?.waitlisted ?? false;
+      if (tier === null) throw new ProposalRefused(`Proposal ${row.proposalId} has hours but no tier: give it assured, queue or filler.`, 400, `rows.${i}.hours`);
+      if (waitlisted) throw new ProposalRefused(`Proposal ${row.proposalId} is waitlisted, so it has no hours: set them to 0 or take it off the waitlist.`, 400, `rows.${i}.hours`);
+    }
     await Allocation.destroy({ where: { callId, proposalId: { [Op.in]: proposalIds.length ? proposalIds : [0] } }, transaction });
     const kept = rows.filter((r) => r.hours > 0);
     if (kept.length) await Allocation.bulkCreate(kept.map((r) => ({ ...r, callId })), { transaction });
@@ -150,6 +160,7 @@ export async function fillAllocationByRank({ actor, callId }: { actor: Chair; ca
     ranked: boardOrder(board.proposals).map((p) => ({ proposalId: p.proposalId, requested: p.requested })),
   });
   const rows = filled.flatMap((f) => f.rows.map((r) => ({ proposalId: f.proposalId, ...r })));
-  const saved = await saveAllocation({ actor, callId, rows, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier })) });
+  // a proposal the fill gives hours comes off the waitlist; one left without keeps its flag
+  const saved = await saveAllocation({ actor, callId, rows, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier, ...(f.tier === null ? {} : { waitlisted: false }) })) });
   return { ...saved, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier })) };
 }
