@@ -42,7 +42,7 @@ async function callWithProposals(n: number, prefix: string) {
   return { call, proposals: out };
 }
 
-async function grade(proposals: Proposal[], reviewers: Person[]) {
+async function gradeAll(proposals: Proposal[], reviewers: Person[]) {
   for (const [r, rev] of reviewers.entries()) for (const [c, p] of proposals.entries()) {
     const overall = 8 - c - r / 2;
     await ReviewAssignment.create({ callId: p.callId as number, proposalId: p.id, reviewerId: rev.user.id, status: "submitted", overall, science: overall, feasibility: overall, legacy: overall, submittedAt: new Date() });
@@ -61,8 +61,8 @@ beforeAll(async () => {
   ({ call: callA, proposals: a } = await callWithProposals(3, "Call A"));
   ({ call: callB, proposals: b } = await callWithProposals(2, "Call B"));
   await Proposal.update({ title: FORMULA_TITLE }, { where: { id: a[0].id } });
-  await grade(a, reviewers);
-  await grade(b, reviewers);
+  await gradeAll(a, reviewers);
+  await gradeAll(b, reviewers);
   const sheet = await computeFeasibilitySheet({ proposalId: a[0].id });
   const t = sheet.totals.find((x) => x.semesterCode === callA.semesterCode && x.hours > 0)!;
   cell = { telescopeId: t.telescopeId, moonCategory: t.moonCategory };
@@ -438,7 +438,7 @@ describe("hostile bodies", () => {
     expect(fine.text).toContain("January");
     expect(fine.text).toContain('value="0.04"');
     expect(await TelescopeClearFraction.count({ where: { telescopeId: telescope.id } })).toBe(0);
-    const ok = await post({ m1: "62.5", m2: "0", m3: "100", m4: "62.50" });
+    const ok = await post(Object.fromEntries(["62.5", "0", "100", "62.50"].map((v, i) => [`m${i + 1}`, v]))); // January to April
     expect(ok.status).toBe(302);
     const rows = await TelescopeClearFraction.findAll({ where: { telescopeId: telescope.id }, order: [["month", "ASC"]] });
     expect(rows.map((r) => r.clearFraction)).toEqual([0.625, 0, 1, 0.625]);
