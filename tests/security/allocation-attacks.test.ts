@@ -5,6 +5,7 @@
 // `{ error, issues: [{ path, message }] }` naming the field, never a 5xx; nothing entered is lost.
 import ICAL from "ical.js";
 import { beforeAll, describe, expect, it } from "vitest";
+import { allocationVersion } from "~/lib/allocation/allocate.server";
 import { computeFeasibilitySheet } from "~/lib/feasibility.server";
 import { createObservation, instrumentOptions } from "~/lib/proposal-observations.server";
 import { observationSchema } from "~/lib/schemas/proposals";
@@ -508,6 +509,26 @@ describe("lock, replay and concurrency", () => {
     expect(board.status).toBe(409);
     expect(board.text).toContain("after the lock"); // what was typed comes back
     expect(await Allocation.count({ where: { proposalId: proposals[1].id } })).toBe(0);
+  });
+});
+
+describe("two chairs on the allocation page", () => {
+  it("the later save of a sheet read before another save is refused with 409, and the other's hours stay", async () => {
+    const { call, proposals } = await callWithProposals(1, "Two chairs");
+    const second = await newUser({ roles: ["chair"], name: "Second Chair" });
+    const app = await request();
+    const opened = await allocationVersion(call.id); // both pages were read at this version
+    const page = (hours: number, basedOn: number) => ({ intent: "save", basedOn, rows: [{ proposalId: proposals[0].id, tier: "queue", waitlisted: false, cells: [{ ...cell, semesterCode: call.semesterCode, hours }] }] });
+    const first = await app.post(`/committee/${call.id}/allocation`).set(json(second.cookie)).send(page(9, opened));
+    expect(first.status).toBe(200);
+    const late = await app.post(`/committee/${call.id}/allocation`).set(json(chair.cookie)).send(page(3, opened));
+    expect(late.status).toBe(409);
+    expect(late.text).toContain("Someone saved this allocation after you opened the page");
+    expect(await Allocation.sum("hours", { where: { proposalId: proposals[0].id } })).toBe(9);
+    // read again, the save goes through
+    const fresh = await app.post(`/committee/${call.id}/allocation`).set(json(chair.cookie)).send(page(3, await allocationVersion(call.id)));
+    expect(fresh.status).toBe(200);
+    expect(await Allocation.sum("hours", { where: { proposalId: proposals[0].id } })).toBe(3);
   });
 });
 

@@ -6,7 +6,7 @@ import { writeAudit } from "~/lib/audit.server";
 import type { AllocationTier, MoonCategory } from "~/lib/domain";
 import { ProposalRefused } from "~/lib/proposals.server";
 import { callNotFound } from "~/lib/review/chair.server";
-import { Allocation, BoardEntry, Call, CallAllocation, CallOffer, Proposal, sequelize } from "~/models/index.server";
+import { Allocation, AuditEntry, BoardEntry, Call, CallAllocation, CallOffer, Proposal, sequelize } from "~/models/index.server";
 import { BOARD_STATES, callBoard } from "./board.server";
 import { boardOrder, fillByRank } from "./fill";
 
@@ -47,6 +47,15 @@ async function boardProposal(callId: number, proposalId: number, transaction: Tr
   return proposal;
 }
 
+/**
+ * The allocation's version: the id of its last audited change (save, fill, lock, unlock), 0 before
+ * the first. The allocation page saves the whole sheet, so it sends the version it was read at.
+ */
+export async function allocationVersion(callId: number, transaction?: Transaction): Promise<number> {
+  const last = await AuditEntry.max("id", { where: { entityType: "call", entityId: callId, action: { [Op.in]: ["allocation.saved", "allocation.locked", "allocation.unlocked"] } }, transaction });
+  return typeof last === "number" ? last : Number(last ?? 0);
+}
+
 /** Moves a proposal to `chairRank` (null returns it to its computed rank), with a reason. */
 export async function moveOnBoard({ actor, callId, proposalId, chairRank, reason }: { actor: Chair; callId: number; proposalId: number; chairRank: number | null; reason: string }) {
   await ensureAllocationRow(callId);
@@ -65,10 +74,13 @@ export async function moveOnBoard({ actor, callId, proposalId, chairRank, reason
  * Replaces the allocation of every proposal named in `rows` or `tiers`: its hours per telescope ×
  * moon category × semester (the call's own, or a later one the proposal asks for) and its tier.
  */
-export async function saveAllocation({ actor, callId, rows, tiers }: { actor: Chair; callId: number; rows: AllocationRow[]; tiers: TierRow[] }) {
+export async function saveAllocation({ actor, callId, rows, tiers, basedOn }: { actor: Chair; callId: number; rows: AllocationRow[]; tiers: TierRow[]; basedOn?: number }) {
   await ensureAllocationRow(callId);
   return sequelize.transaction(async (transaction) => {
     const { call } = await openAllocation(callId, transaction);
+    if (basedOn !== undefined && (await allocationVersion(callId, transaction)) !== basedOn) {
+      throw new ProposalRefused("Someone saved this allocation after you opened the page, so yours was not saved (it would have replaced theirs). Your values are still here: note them, reload, and enter them again.", 409, "form");
+    }
     const offers = await CallOffer.findAll({ where: { callId }, transaction });
     const offered = new Set(offers.map((o) => `${o.telescopeId}|${o.moonCategory}`));
     const proposalIds = [...new Set([...rows.map((r) => r.proposalId), ...tiers.map((t) => t.proposalId)])];
