@@ -72,6 +72,7 @@ export default function AllocationPage({ loaderData }: Route.ComponentProps) {
           settings={sheet.settings}
           serverErrors={actionData && !actionData.ok ? actionData.errors : {}}
           busy={busy}
+          basedOn={sheet.basedOn}
         />
       )}
     </div>

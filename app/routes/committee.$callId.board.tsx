@@ -13,7 +13,7 @@ import { latestSemesterCheck } from "~/lib/allocation/semester-check.server";
 import type { FeasibilitySheet } from "~/lib/feasibility";
 import { DISAGREEMENT_SPAN, MIN_GRADES } from "~/lib/allocation/normalise";
 import { requireRole } from "~/lib/auth.server";
-import { fieldErrors, idSchema } from "~/lib/forms";
+import { fieldErrors, idSchema, readForm } from "~/lib/forms";
 import { formValues, refusalResponse } from "~/lib/proposal-routes.server";
 import { chairRankSchema, reasonSchema } from "~/lib/schemas/allocation";
 import { scienceCategoryLabel } from "~/lib/proposal-vocabulary";
@@ -52,7 +52,7 @@ const boardIntent = z.discriminatedUnion("intent", [
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireRole(request, "chair");
   const callId = callIdOf(params);
-  const values = formValues(await request.formData());
+  const values = formValues(await readForm(request));
   const parsed = boardIntent.safeParse(values);
   if (!parsed.success) {
     const errors = fieldErrors(parsed.error);

@@ -1,7 +1,7 @@
 import { Form, Link, useActionData, useNavigation } from "react-router";
 import { Field, inputProps } from "~/components/Field";
 import { requireRole } from "~/lib/auth.server";
-import { fieldErrors } from "~/lib/forms";
+import { fieldErrors, readForm } from "~/lib/forms";
 import { observatoryTimeZone } from "~/lib/office.server";
 import { scienceCategoryLabel } from "~/lib/proposal-vocabulary";
 import { formValues, refusalResponse } from "~/lib/proposal-routes.server";
@@ -28,7 +28,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireRole(request, "chair");
   const callId = pageCallId(params);
-  const form = await request.formData();
+  const form = await readForm(request);
   const intent = String(form.get("intent") ?? "");
   const values = formValues(form);
   const id = (name: string) => Number(form.get(name));

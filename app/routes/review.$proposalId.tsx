@@ -5,7 +5,7 @@ import { ProblemsList, TotalsTable } from "~/components/FeasibilityParts";
 import { Field } from "~/components/Field";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
 import { requireUser } from "~/lib/auth.server";
-import { fieldErrors } from "~/lib/forms";
+import { fieldErrors, readForm } from "~/lib/forms";
 import { memberRoleLabels, scienceCategoryLabel, wordCount } from "~/lib/proposal-vocabulary";
 import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
 import { reviewBoard } from "~/lib/review/chair.server";
@@ -64,7 +64,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
   const { review } = await reviewForProposal({ user, proposalId }).then((r) => ({ review: r }));
-  const form = await request.formData();
+  const form = await readForm(request);
   const intent = String(form.get("intent") ?? "");
   const values = formValues(form) as Record<string, string>;
   try {

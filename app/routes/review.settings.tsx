@@ -1,6 +1,6 @@
 import { data, Form, Link, useActionData, useNavigation } from "react-router";
 import { requireRole } from "~/lib/auth.server";
-import { fieldErrors } from "~/lib/forms";
+import { fieldErrors, readForm } from "~/lib/forms";
 import { scienceCategories } from "~/lib/proposal-vocabulary";
 import { formValues } from "~/lib/proposal-routes.server";
 import { myCategories, saveMyCategories } from "~/lib/review/desk.server";
@@ -18,7 +18,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireRole(request, "reviewer");
-  const form = await request.formData();
+  const form = await readForm(request);
   if (form.get("intent") !== "save") return data({ ok: false as const, errors: { form: "That button does nothing here; reload the page." } as Record<string, string> }, { status: 400 });
   const values = formValues(form);
   const parsed = reviewerCategoriesSchema.safeParse(values);

@@ -11,7 +11,7 @@ import { Call, Filter, Instrument, Proposal, ProposalMember, Target, Telescope, 
 import { testApp } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
 import { newUser, sessionCookieFor } from "../helpers/session";
-import { goodTarget } from "../integration/proposals-fixtures";
+import { goodTarget, testCall } from "../integration/proposals-fixtures";
 
 let server: Server;
 let base = "";
@@ -117,8 +117,11 @@ const brokenMultipart = { type: "multipart/form-data; boundary=----nightshare", 
 
 // ---------------------------------------------------------------------------------------------
 
-type JsonRoute = { path: string; body: () => Record<string, unknown>; cookie?: () => Promise<string>; negativeOk?: string[]; sign?: boolean };
+type JsonRoute = { path: string; body: () => Record<string, unknown>; cookie?: () => Promise<string>; negativeOk?: string[]; sign?: boolean; method?: "PUT"; emptyBodyValid?: boolean };
 let admin = "";
+let chair = "";
+/** A call of its own with nothing on its board (the chair's routes are tried against it). */
+let boardCallId = 0;
 let targetUserId = 0;
 
 const jsonRoutes: JsonRoute[] = [
@@ -155,6 +158,17 @@ const jsonRoutes: JsonRoute[] = [
     }),
   },
   { path: "/api/v1/admin/users", cookie: async () => admin, body: () => ({ intent: "grant", userId: targetUserId, role: "reviewer" }) },
+  // the ranking board and the allocation (issue 12); the call's board is empty, so no good body changes anything
+  { get path() { return `/api/v1/calls/${boardCallId}/board/rank`; }, cookie: async () => chair, body: () => ({ proposalId: ids.proposal, chairRank: 1, reason: "hostile input" }) },
+  {
+    get path() { return `/api/v1/calls/${boardCallId}/allocation`; },
+    method: "PUT",
+    cookie: async () => chair,
+    body: () => ({ rows: [{ proposalId: ids.proposal, telescopeId: ids.telescope, moonCategory: "dark", semesterCode: "2027A", hours: 5 }], tiers: [{ proposalId: ids.proposal, tier: "queue" }] }),
+  },
+  { get path() { return `/api/v1/calls/${boardCallId}/allocation/unlock`; }, cookie: async () => chair, body: () => ({ reason: "hostile input" }) },
+  // an empty JSON body is a valid check (the defaults): that case is left out here (a check would be queued)
+  { get path() { return `/api/v1/calls/${boardCallId}/semester-check`; }, cookie: async () => chair, emptyBodyValid: true, body: () => ({ realisations: 1, seed: 7 }) },
   {
     path: "/api/v1/payments/webhook",
     sign: true,
@@ -169,9 +183,9 @@ function signed(payload: string) {
 // ---------------------------------------------------------------------------------------------
 
 type Kind = "id" | "number" | "text";
-type FormRoute = { path: () => string; who: "anonymous" | "owner" | "admin" | "fresh"; intents: (string | undefined)[]; fields: Record<string, Kind>; multipart?: boolean };
+type FormRoute = { path: () => string; who: "anonymous" | "owner" | "admin" | "fresh" | "chair"; intents: (string | undefined)[]; fields: Record<string, Kind>; multipart?: boolean };
 
-const ids = { proposal: 0, target: 0, telescope: 0, instrument: 0, call: 0, filter: 0, filters: 0 };
+const ids = { proposal: 0, target: 0, telescope: 0, instrument: 0, call: 0, filter: 0, filters: 0, weatherTelescope: 0 };
 let owner = "";
 
 const officeTelescope: Record<string, Kind> = { name: "text", siteName: "text", latitudeDeg: "number", longitudeDeg: "number", elevationM: "number", timeZone: "text", apertureM: "number", centralObstruction: "number" };
@@ -227,6 +241,10 @@ const formRoutes: FormRoute[] = [
   { path: () => `/admin/telescopes/${ids.telescope}`, who: "admin", intents: ["createInstrument"], fields: officeInstrument },
   { path: () => `/admin/instruments/${ids.instrument}`, who: "admin", intents: ["update"], fields: officeInstrument },
   { path: () => `/admin/instruments/${ids.instrument}`, who: "admin", intents: ["createFilter", "updateFilter", "deleteFilter"], fields: officeFilter },
+  // the expected clear nights on a telescope of its own (a valid body replaces all twelve months)
+  { path: () => `/admin/telescopes/${ids.weatherTelescope}`, who: "admin", intents: ["clearFractions"], fields: Object.fromEntries(Array.from({ length: 12 }, (_, i) => [`m${i + 1}`, "number" as Kind])) },
+  // the ranking board's form (never "fill" or "lock": they change the call's state by design)
+  { path: () => `/committee/${boardCallId}/board`, who: "chair", intents: ["move", "unlock", "bogus"], fields: { proposalId: "id", chairRank: "number", reason: "text", intent: "text" } },
   { path: () => "/admin/calls/new", who: "admin", intents: [undefined], fields: officeCall },
   { path: () => `/admin/calls/${ids.call}`, who: "admin", intents: [undefined], fields: officeCall },
 ];
@@ -234,6 +252,7 @@ const formRoutes: FormRoute[] = [
 async function cookieFor(who: FormRoute["who"]) {
   if (who === "anonymous") return "";
   if (who === "admin") return admin;
+  if (who === "chair") return chair;
   if (who === "owner") return owner;
   return (await newUser()).cookie;
 }
@@ -269,6 +288,8 @@ beforeAll(async () => {
   await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
   base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   admin = await sessionCookieFor("admin@kestrel-ridge.example");
+  chair = await sessionCookieFor("chair@kestrel-ridge.example");
+  boardCallId = (await testCall()).id;
   targetUserId = (await newUser()).user.id;
   // a draft of a fresh PI, with a target and a call open now, so that nothing seeded is touched
   const pi = await newUser({ name: "Bad Input PI" });
@@ -279,6 +300,7 @@ beforeAll(async () => {
   const target = await Target.create({ proposalId: proposal.id, name: goodTarget.name, raDeg: 196.33, decDeg: 22.17, pmRaMasPerYr: null, pmDecMasPerYr: null, magnitude: 15.5, band: "V", notes: null } as never);
   ids.target = target.id;
   ids.telescope = (await Telescope.findOne({ order: [["id", "ASC"]] }))!.id;
+  ids.weatherTelescope = (await Telescope.create({ name: `Bad input weather ${Date.now()}`, siteName: "Nowhere", latitudeDeg: 10, longitudeDeg: 10, elevationM: 100, timeZone: "UTC", apertureM: 0.5 })).id;
   ids.instrument = (await Instrument.findOne({ order: [["id", "ASC"]] }))!.id;
   ids.filter = (await Filter.findOne({ where: { instrumentId: ids.instrument } }))?.id ?? 0;
   ids.filters = await Filter.count();
@@ -287,13 +309,15 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
+  // testCall() offers every telescope: the weather one must not outlive this file
+  if (ids.weatherTelescope) await Telescope.destroy({ where: { id: ids.weatherTelescope } });
   console.log(`security bad-input corpus: ${tried} hostile requests sent`);
   await new Promise<void>((resolve) => server?.close(() => resolve()));
 });
 
 describe("JSON API routes refuse hostile fields with a 400 naming them", () => {
   for (const route of jsonRoutes) {
-    it(`POST ${route.path}: every field × every hostile value`, { timeout: 300_000 }, async () => {
+    it(`${route.method ?? "POST"} ${route.path.replace(/\/calls\/\d+/, "/calls/:callId")}: every field × every hostile value`, { timeout: 300_000 }, async () => {
       const cookie = route.cookie ? await route.cookie() : "";
       const body = route.body();
       const fields = route.sign ? ["id", "data", "created"] : Object.keys(body);
@@ -301,7 +325,7 @@ describe("JSON API routes refuse hostile fields with a 400 naming them", () => {
         for (const v of values) {
           const text = jsonWith(body, field, v);
           const where = `${route.path} ${field} = ${v.label}`;
-          const a = await send(route.path, { body: text, type: "application/json", cookie, headers: route.sign ? signed(text) : {} });
+          const a = await send(route.path, { method: route.method, body: text, type: "application/json", cookie, headers: route.sign ? signed(text) : {} });
           if (v.label === "-1" && route.negativeOk?.includes(field)) expectNo5xx(a, where);
           else {
             expect4xx(a, where);
@@ -312,7 +336,7 @@ describe("JSON API routes refuse hostile fields with a 400 naming them", () => {
       await expectAlive();
     });
 
-    it(`POST ${route.path}: wrong content types, malformed and oversized bodies`, { timeout: 120_000 }, async () => {
+    it(`${route.method ?? "POST"} ${route.path.replace(/\/calls\/\d+/, "/calls/:callId")}: wrong content types, malformed and oversized bodies`, { timeout: 120_000 }, async () => {
       const cookie = route.cookie ? await route.cookie() : "";
       const good = JSON.stringify(route.body());
       const cases: { label: string; body: BodyInit; type?: string; status?: number }[] = [
@@ -327,8 +351,9 @@ describe("JSON API routes refuse hostile fields with a 400 naming them", () => {
         { label: "2 MB JSON, chunked without Content-Length", body: chunked(twoMbJson()), type: "application/json", status: 413 },
       ];
       for (const c of cases) {
+        if (c.label === "empty body" && route.emptyBodyValid) continue;
         const where = `${route.path} ${c.label}`;
-        const a = await send(route.path, { body: c.body, type: c.type, cookie, headers: route.sign && typeof c.body === "string" ? signed(c.body) : {} });
+        const a = await send(route.path, { method: route.method, body: c.body, type: c.type, cookie, headers: route.sign && typeof c.body === "string" ? signed(c.body) : {} });
         expect4xx(a, where);
         if (c.status) expect.soft(a.status, `${where}: ${show(a)}`).toBe(c.status);
         if (a.status === 400) expectApiIssues(a, where);
@@ -371,6 +396,15 @@ describe("ids in URLs", () => {
       [`/admin/telescopes/${id}`, admin],
       [`/admin/instruments/${id}`, admin],
       [`/admin/calls/${id}`, admin],
+      [`/api/v1/calls/${id}/board`, chair],
+      [`/api/v1/calls/${id}/ra-pressure?telescopeId=${ids.telescope}`, chair],
+      [`/api/v1/calls/${boardCallId}/ra-pressure?telescopeId=${id}`, chair],
+      [`/api/v1/semester-checks/${id}`, chair],
+      [`/committee/${id}/board`, chair],
+      [`/committee/${id}/allocation`, chair],
+      [`/committee/${id}/ranked-list.csv`, chair],
+      [`/committee/${id}/allocation.csv`, chair],
+      [`/committee/${boardCallId}/proposals/${id}/epochs.ics`, chair],
     ];
     for (const id of badIds) {
       for (const [path, cookie] of paths(encodeURIComponent(id))) {

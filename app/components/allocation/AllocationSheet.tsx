@@ -61,6 +61,7 @@ export function AllocationSheet({
   settings,
   serverErrors,
   busy,
+  basedOn,
 }: {
   semesterCode: string;
   columns: SheetColumn[];
@@ -70,6 +71,8 @@ export function AllocationSheet({
   settings: Settings;
   serverErrors: Record<string, string>;
   busy: boolean;
+  /** the allocation's version the page was read at: a save over a newer one is refused */
+  basedOn?: number;
 }) {
   const submit = useSubmit();
   const initial = useMemo(() => defaults(rows, started), [rows, started]);
@@ -90,7 +93,7 @@ export function AllocationSheet({
   };
   const linesBefore = (i: number) => totals.filter((t) => t.firstRowOver === i);
   const over = (t: CellTotals, i: number) => t.firstRowOver !== null && i >= t.firstRowOver;
-  const onSubmit = handleSubmit((values) => submit(values, { method: "post", encType: "application/json" }));
+  const onSubmit = handleSubmit((values) => submit(basedOn === undefined ? values : { ...values, basedOn }, { method: "post", encType: "application/json" }));
 
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-3" aria-label="Allocation" data-hydrated={hydrated ? "yes" : "no"}>

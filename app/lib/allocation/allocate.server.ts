@@ -6,7 +6,7 @@ import { writeAudit } from "~/lib/audit.server";
 import type { AllocationTier, MoonCategory } from "~/lib/domain";
 import { ProposalRefused } from "~/lib/proposals.server";
 import { callNotFound } from "~/lib/review/chair.server";
-import { Allocation, BoardEntry, Call, CallAllocation, CallOffer, Proposal, sequelize } from "~/models/index.server";
+import { Allocation, AuditEntry, BoardEntry, Call, CallAllocation, CallOffer, Proposal, sequelize } from "~/models/index.server";
 import { BOARD_STATES, callBoard } from "./board.server";
 import { boardOrder, fillByRank } from "./fill";
 
@@ -16,12 +16,25 @@ export type TierRow = { proposalId: number; tier: AllocationTier | null; waitlis
 
 const lockedRefusal = () => new ProposalRefused("The allocation is locked. The chair must unlock it, with a reason, before anything changes.", 409, "allocation");
 
-/** The call's allocation row, locked for this transaction; refuses when the allocation is locked. */
+/**
+ * The call's allocation row exists before a transaction locks it. Created inside the transactions,
+ * two first changes of a call raced to insert it (duplicate key or deadlock, a 500); created here,
+ * outside them, they queue on its row lock instead.
+ */
+async function ensureAllocationRow(callId: number) {
+  if ((await CallAllocation.count({ where: { callId } })) > 0 || (await Call.count({ where: { id: callId } })) === 0) return;
+  await CallAllocation.bulkCreate([{ callId, lockedAt: null, lockedById: null }], { ignoreDuplicates: true });
+}
+
+/**
+ * The call's allocation row, locked for this transaction; refuses when the allocation is locked.
+ * The lock is the transaction's first read, so its snapshot (REPEATABLE READ) starts after the
+ * previous holder's commit and sees that holder's board entries.
+ */
 async function openAllocation(callId: number, transaction: Transaction, { mustBeUnlocked = true } = {}) {
-  const call = await Call.findByPk(callId, { transaction });
-  if (!call) callNotFound();
-  await CallAllocation.findOrCreate({ where: { callId }, defaults: { callId, lockedAt: null, lockedById: null }, transaction });
-  const allocation = (await CallAllocation.findOne({ where: { callId }, transaction, lock: transaction.LOCK.UPDATE }))!;
+  const allocation = await CallAllocation.findOne({ where: { callId }, transaction, lock: transaction.LOCK.UPDATE });
+  const call = allocation ? await Call.findByPk(callId, { transaction }) : null;
+  if (!allocation || !call) callNotFound();
   if (mustBeUnlocked && allocation.lockedAt) {
     throw lockedRefusal();
   }
@@ -34,8 +47,18 @@ async function boardProposal(callId: number, proposalId: number, transaction: Tr
   return proposal;
 }
 
+/**
+ * The allocation's version: the id of its last audited change (save, fill, lock, unlock), 0 before
+ * the first. The allocation page saves the whole sheet, so it sends the version it was read at.
+ */
+export async function allocationVersion(callId: number, transaction?: Transaction): Promise<number> {
+  const last = await AuditEntry.max("id", { where: { entityType: "call", entityId: callId, action: { [Op.in]: ["allocation.saved", "allocation.locked", "allocation.unlocked"] } }, transaction });
+  return typeof last === "number" ? last : Number(last ?? 0);
+}
+
 /** Moves a proposal to `chairRank` (null returns it to its computed rank), with a reason. */
 export async function moveOnBoard({ actor, callId, proposalId, chairRank, reason }: { actor: Chair; callId: number; proposalId: number; chairRank: number | null; reason: string }) {
+  await ensureAllocationRow(callId);
   return sequelize.transaction(async (transaction) => {
     await openAllocation(callId, transaction);
     const proposal = await boardProposal(callId, proposalId, transaction);
@@ -51,14 +74,25 @@ export async function moveOnBoard({ actor, callId, proposalId, chairRank, reason
  * Replaces the allocation of every proposal named in `rows` or `tiers`: its hours per telescope ×
  * moon category × semester (the call's own, or a later one the proposal asks for) and its tier.
  */
-export async function saveAllocation({ actor, callId, rows, tiers }: { actor: Chair; callId: number; rows: AllocationRow[]; tiers: TierRow[] }) {
+export async function saveAllocation({ actor, callId, rows, tiers, basedOn }: { actor: Chair; callId: number; rows: AllocationRow[]; tiers: TierRow[]; basedOn?: number }) {
+  await ensureAllocationRow(callId);
   return sequelize.transaction(async (transaction) => {
     const { call } = await openAllocation(callId, transaction);
+    if (basedOn !== undefined && (await allocationVersion(callId, transaction)) !== basedOn) {
+      throw new ProposalRefused("Someone saved this allocation after you opened the page, so yours was not saved (it would have replaced theirs). Your values are still here: note them, reload, and enter them again.", 409, "form");
+    }
     const offers = await CallOffer.findAll({ where: { callId }, transaction });
     const offered = new Set(offers.map((o) => `${o.telescopeId}|${o.moonCategory}`));
     const proposalIds = [...new Set([...rows.map((r) => r.proposalId), ...tiers.map((t) => t.proposalId)])];
     const proposals = new Map<number, Proposal>();
-    for (const [i, id] of proposalIds.entries()) proposals.set(id, await boardProposal(callId, id, transaction, `rows.${i}.proposalId`));
+    // the field named is the first row (else tier) that names the proposal
+    const pathOf = (id: number) => (rows.some((r) => r.proposalId === id) ? `rows.${rows.findIndex((r) => r.proposalId === id)}` : `tiers.${tiers.findIndex((t) => t.proposalId === id)}`);
+    for (const id of proposalIds) proposals.set(id, await boardProposal(callId, id, transaction, `${pathOf(id)}.proposalId`));
+    const tiered = new Set<number>();
+    for (const [i, t] of tiers.entries()) {
+      if (tiered.has(t.proposalId)) throw new ProposalRefused("The same proposal appears twice among the tiers.", 400, `tiers.${i}.proposalId`);
+      tiered.add(t.proposalId);
+    }
     const seen = new Set<string>();
     for (const [i, row] of rows.entries()) {
       if (!offered.has(`${row.telescopeId}|${row.moonCategory}`)) throw new ProposalRefused(`The call offers no ${row.moonCategory} time on telescope ${row.telescopeId}.`, 400, `rows.${i}.telescopeId`);
@@ -67,6 +101,16 @@ export async function saveAllocation({ actor, callId, rows, tiers }: { actor: Ch
       const key = `${row.proposalId}|${row.telescopeId}|${row.moonCategory}|${row.semesterCode}`;
       if (seen.has(key)) throw new ProposalRefused("The same proposal, telescope, moon category and semester appear twice.", 400, `rows.${i}`);
       seen.add(key);
+    }
+    // as on the page: hours need a tier and rule out the waitlist (a tier not sent stays as stored)
+    const stored = new Map((await BoardEntry.findAll({ where: { proposalId: { [Op.in]: proposalIds.length ? proposalIds : [0] } }, transaction })).map((e) => [e.proposalId as number, e]));
+    for (const [i, row] of rows.entries()) {
+      if (row.hours <= 0) continue;
+      const given = tiers.find((t) => t.proposalId === row.proposalId);
+      const tier = given ? given.tier : (stored.get(row.proposalId)?.tier ?? null);
+      const waitlisted = given?.waitlisted ?? stored.get(row.proposalId)?.waitlisted ?? false;
+      if (tier === null) throw new ProposalRefused(`Proposal ${row.proposalId} has hours but no tier: give it assured, queue or filler.`, 400, `rows.${i}.hours`);
+      if (waitlisted) throw new ProposalRefused(`Proposal ${row.proposalId} is waitlisted, so it has no hours: set them to 0 or take it off the waitlist.`, 400, `rows.${i}.hours`);
     }
     await Allocation.destroy({ where: { callId, proposalId: { [Op.in]: proposalIds.length ? proposalIds : [0] } }, transaction });
     const kept = rows.filter((r) => r.hours > 0);
@@ -82,6 +126,7 @@ export async function saveAllocation({ actor, callId, rows, tiers }: { actor: Ch
 
 /** Locks the allocation; outcomes follow: hours allocated → accepted, waitlisted by choice, the rest declined. */
 export async function lockAllocation({ actor, callId, now = new Date() }: { actor: Chair; callId: number; now?: Date }) {
+  await ensureAllocationRow(callId);
   return sequelize.transaction(async (transaction) => {
     const { allocation } = await openAllocation(callId, transaction);
     const proposals = await Proposal.findAll({ where: { callId, status: { [Op.in]: [...BOARD_STATES] } }, transaction, lock: transaction.LOCK.UPDATE });
@@ -102,6 +147,7 @@ export async function lockAllocation({ actor, callId, now = new Date() }: { acto
 
 /** Unlocks with a reason; the proposals go back to in review until the next lock. */
 export async function unlockAllocation({ actor, callId, reason }: { actor: Chair; callId: number; reason: string }) {
+  await ensureAllocationRow(callId);
   return sequelize.transaction(async (transaction) => {
     const { allocation } = await openAllocation(callId, transaction, { mustBeUnlocked: false });
     if (!allocation.lockedAt) throw new ProposalRefused("The allocation is not locked.", 409, "allocation");
@@ -126,6 +172,7 @@ export async function fillAllocationByRank({ actor, callId }: { actor: Chair; ca
     ranked: boardOrder(board.proposals).map((p) => ({ proposalId: p.proposalId, requested: p.requested })),
   });
   const rows = filled.flatMap((f) => f.rows.map((r) => ({ proposalId: f.proposalId, ...r })));
-  const saved = await saveAllocation({ actor, callId, rows, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier })) });
+  // a proposal the fill gives hours comes off the waitlist; one left without keeps its flag
+  const saved = await saveAllocation({ actor, callId, rows, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier, ...(f.tier === null ? {} : { waitlisted: false }) })) });
   return { ...saved, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier })) };
 }

@@ -10,6 +10,7 @@ import { existsSync } from "node:fs";
 import path from "node:path";
 import { pathToFileURL } from "node:url";
 import { Worker } from "node:worker_threads";
+import { data } from "react-router";
 import { Op } from "sequelize";
 import stringify from "safe-stable-stringify";
 import type { MoonCategory } from "~/lib/domain";
@@ -94,7 +95,7 @@ export function factsHash(facts: CheckFacts): string {
 // Jobs
 
 const workerFile = path.resolve(process.cwd(), "app/lib/allocation/semester-check-worker.ts");
-const pending: { id: number; facts: CheckFacts }[] = [];
+const pending: { id: number; facts: CheckFacts; callId: number }[] = [];
 const active = new Set<number>();
 let running = false;
 
@@ -148,6 +149,7 @@ async function drain() {
       const row = await SemesterCheck.findByPk(job.id);
       if (!row) {
         active.delete(job.id);
+        checkOfCall.delete(job.callId);
         continue;
       }
       await row.update({ status: "running", startedAt: new Date(), progress: 0 });
@@ -170,6 +172,7 @@ async function drain() {
         await row.update({ status: "failed", error: String(error instanceof Error ? error.message : error).slice(0, 1000), finishedAt: new Date() });
       } finally {
         active.delete(job.id);
+        checkOfCall.delete(job.callId);
       }
     }
   } finally {
@@ -177,14 +180,41 @@ async function drain() {
   }
 }
 
-/** Queues a check of the call's allocation; it runs in a worker thread. */
+// The queue is bounded: one check per call queued or running (a burst of clicks, or a script,
+// queues one), and at most MAX_CHECKS_WAITING over all calls, each holding its facts in memory
+// and later seconds of a core. A call's slot is taken before the first await, so that requests
+// arriving together cannot all pass the check.
+export const MAX_CHECKS_WAITING = 4;
+const checkOfCall = new Map<number, Promise<number | null>>();
+
+function refuseCheck(status: 409 | 503, message: string, extra: Record<string, unknown> = {}, headers: Record<string, string> = {}): never {
+  throw data({ error: message, issues: [{ path: "callId", message }], ...extra }, { status, headers: { "Cache-Control": "private, no-store", ...headers } });
+}
+
+/** Queues a check of the call's allocation; it runs in a worker thread. 409 while one of the call's is waiting, 503 when the queue is full. */
 export async function startSemesterCheck({ actor, callId, realisations, seed }: { actor: { id: number }; callId: number; realisations: number; seed: number }) {
-  const facts = await semesterCheckFacts({ callId });
-  const row = await SemesterCheck.create({ callId, requestedById: actor.id, realisations, seed, inputHash: factsHash(facts), result: null, error: null, startedAt: null, finishedAt: null });
-  active.add(row.id);
-  pending.push({ id: row.id, facts });
-  void drain();
-  return { id: row.id };
+  const waiting = checkOfCall.get(callId);
+  if (waiting) {
+    const id = await waiting;
+    if (id !== null) refuseCheck(409, `A semester check of this call is already queued or running (check ${id}); wait for its result.`, { id });
+    return startSemesterCheck({ actor, callId, realisations, seed }); // that one did not start
+  }
+  if (checkOfCall.size >= MAX_CHECKS_WAITING) refuseCheck(503, `${MAX_CHECKS_WAITING} semester checks are already waiting; try again in a minute.`, {}, { "Retry-After": "30" });
+  let settle: (id: number | null) => void = () => undefined;
+  checkOfCall.set(callId, new Promise((resolve) => (settle = resolve)));
+  try {
+    const facts = await semesterCheckFacts({ callId });
+    const row = await SemesterCheck.create({ callId, requestedById: actor.id, realisations, seed, inputHash: factsHash(facts), result: null, error: null, startedAt: null, finishedAt: null });
+    active.add(row.id);
+    pending.push({ id: row.id, facts, callId });
+    settle(row.id);
+    void drain();
+    return { id: row.id };
+  } catch (error) {
+    checkOfCall.delete(callId);
+    settle(null);
+    throw error;
+  }
 }
 
 async function view(row: SemesterCheck, currentHash: string | null): Promise<SemesterCheckView> {

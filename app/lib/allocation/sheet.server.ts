@@ -7,7 +7,7 @@ import type { AllocationTier, MoonCategory } from "~/lib/domain";
 import { ProposalRefused } from "~/lib/proposals.server";
 import type { AllocationSheet } from "~/lib/schemas/allocation";
 import { Telescope } from "~/models/index.server";
-import { saveAllocation } from "./allocate.server";
+import { allocationVersion, saveAllocation } from "./allocate.server";
 import { callBoard, type HoursCell } from "./board.server";
 import { boardOrder } from "./fill";
 
@@ -35,7 +35,7 @@ export type SheetRow = {
 const cellKey = (c: { telescopeId: number; moonCategory: string; semesterCode: string }) => `${c.telescopeId}|${c.moonCategory}|${c.semesterCode}`;
 
 export async function allocationSheet({ callId }: { callId: number }) {
-  const [board, telescopes] = await Promise.all([callBoard({ callId }), Telescope.findAll({ attributes: ["id", "name"] })]);
+  const [board, telescopes, basedOn] = await Promise.all([callBoard({ callId }), Telescope.findAll({ attributes: ["id", "name"] }), allocationVersion(callId)]);
   const nameOf = new Map(telescopes.map((t) => [t.id, t.name]));
   const semester = board.call.semesterCode;
   const columns: SheetColumn[] = board.oversubscription.map((o) => ({
@@ -78,7 +78,7 @@ export async function allocationSheet({ callId }: { callId: number }) {
       requestedError: p.requestedError,
     };
   });
-  return { call: board.call, locked: board.locked, settings: board.settings, started, columns, rows };
+  return { call: board.call, locked: board.locked, settings: board.settings, started, columns, rows, basedOn };
 }
 
 /** Saves the page's rows; a refusal names the page's own field (`rows.3.cells.1.hours`). */
@@ -98,6 +98,7 @@ export async function saveAllocationSheet({ actor, callId, sheet }: { actor: { i
       callId,
       rows: flat,
       tiers: sheet.rows.map((r) => ({ proposalId: r.proposalId, tier: r.tier, waitlisted: r.waitlisted })),
+      basedOn: sheet.basedOn,
     });
   } catch (error) {
     if (error instanceof ProposalRefused) {

@@ -47,6 +47,8 @@ const hoursField = z.preprocess(
  */
 export const allocationSheetSchema = z.object({
   intent: z.literal("save", { error: "That button does nothing here; reload the page." }),
+  /** the allocation's version the page was read at (`allocationVersion`); a later save makes this one a 409 */
+  basedOn: z.number().int().min(0).max(2 ** 53).optional(),
   rows: z
     .array(
       z

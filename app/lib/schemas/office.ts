@@ -221,9 +221,10 @@ export const MONTH_NAMES = ["January", "February", "March", "April", "May", "Jun
 
 const clearPercent = (month: string) =>
   z.preprocess(
-    (value) => (typeof value === "number" ? String(value) : value ?? ""),
+    // a month left out of the body is no month left empty: saving would delete it unasked
+    (value) => (typeof value === "number" ? String(value) : value),
     z
-      .string()
+      .string({ error: `${month}: missing from the form; reload the page and send all twelve months.` })
       .trim()
       .transform((text) => (text === "" ? null : /^[+-]?(\d+\.?\d*|\.\d+)$/.test(text) ? Number(text) : Number.NaN))
       .pipe(
@@ -231,6 +232,8 @@ const clearPercent = (month: string) =>
           .number({ error: `${month}: give the percentage of clear nights as a number, or leave it empty.` })
           .min(0, `${month}: from 0 to 100 %.`)
           .max(100, `${month}: from 0 to 100 %.`)
+          // stored to a tenth of a percent: a finer value would be changed without a word
+          .refine((n) => Math.abs(n * 10 - Math.round(n * 10)) < 1e-9, `${month}: give at most one decimal (62.5 %).`)
           .nullable(),
       ),
   );
