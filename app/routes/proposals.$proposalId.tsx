@@ -33,6 +33,7 @@ const tabs = [
   { to: "feasibility", label: "Feasibility sheet" },
   { to: "science-case", label: "Science case" },
   { to: "team", label: "Team" },
+  { to: "epochs", label: "Epoch progress" },
   { to: "change-log", label: "Change log" },
 ];
 
