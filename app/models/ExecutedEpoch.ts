@@ -31,6 +31,9 @@ export class ExecutedEpoch extends Model<InferAttributes<ExecutedEpoch>, InferCr
     ExecutedEpoch.init(
       {
         id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
+        plannedEpochId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+        telescopeId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
+        recordedById: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
         observedAt: { type: DataTypes.DATE(3), allowNull: false },
         frames: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
         fwhmArcsec: DataTypes.DOUBLE,

@@ -1,6 +1,7 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useForm } from "react-hook-form";
 import { data, Form, Link, useActionData, useNavigation, useSubmit } from "react-router";
+import { useHydrated } from "~/components/ClientOnly";
 import { EpochViews, PrecisionSummary } from "~/components/epochs/EpochProgressView";
 import { ErrorPage } from "~/components/ErrorPage";
 import { Field, inputProps } from "~/components/Field";
@@ -73,6 +74,7 @@ export default function OfficeEpochLog({ loaderData }: Route.ComponentProps) {
 function RecordForm({ progress, telescopes, answer }: { progress: Data["progress"]; telescopes: Data["telescopes"]; answer: ReturnType<typeof useActionData<typeof action>> }) {
   const busy = useNavigation().state !== "idle";
   const submit = useSubmit();
+  const hydrated = useHydrated();
   const first = progress.observations[0];
   const empty: FormFields = { observationId: String(first?.observationId ?? ""), observedAt: "", telescopeId: String(first?.telescopeId ?? telescopes[0]?.id ?? ""), frames: "", fwhmArcsec: "", snr: "", precisionMas: "", lostCause: "", note: "" };
   const typed = answer && !answer.ok ? { ...empty, ...(answer.values as Partial<FormFields>) } : empty;
@@ -86,7 +88,7 @@ function RecordForm({ progress, telescopes, answer }: { progress: Data["progress
     </Field>
   );
   return (
-    <Form method="post" noValidate className="card space-y-4" onSubmit={handleSubmit((_, e) => submit(e?.target as HTMLFormElement))} aria-labelledby="record-title">
+    <Form method="post" noValidate data-hydrated={hydrated ? "yes" : "no"} className="card space-y-4" onSubmit={handleSubmit((_, e) => submit(e?.target as HTMLFormElement))} aria-labelledby="record-title">
         <h2 id="record-title">Record an epoch</h2>
         <p className="text-sm text-slate-600">
           An executed epoch needs its measured positional precision, or the FWHM and the SNR per frame it reached (the precision is then FWHM / (2.355 · SNR) / √frames, with the instrument's floor in quadrature).

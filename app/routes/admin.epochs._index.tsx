@@ -1,5 +1,5 @@
 import { useEffect, useState } from "react";
-import { data, Link, useFetcher } from "react-router";
+import { data, Link, useActionData, useFetcher } from "react-router";
 import { ErrorPage } from "~/components/ErrorPage";
 import { astrometryProgrammes, importNightLog, requireEpochOffice } from "~/lib/epochs/epochs.server";
 import { NIGHT_LOG_COLUMNS, refusedNightLogText } from "~/lib/epochs/night-log-csv";
@@ -60,8 +60,10 @@ export default function OfficeEpochs({ loaderData }: Route.ComponentProps) {
 
 function NightLogImport() {
   const fetcher = useFetcher<typeof action>();
-  const answer = fetcher.data;
-  const [text, setText] = useState("");
+  const pageAnswer = useActionData<typeof action>();
+  const answer = fetcher.data ?? pageAnswer;
+  // after a plain form post (no script yet) the page comes back with the refused rows in the box
+  const [text, setText] = useState(answer ? (answer.ok ? answer.remaining : answer.csv) : "");
   useEffect(() => {
     if (fetcher.state === "idle" && answer?.ok) setText(answer.remaining);
   }, [answer, fetcher.state]);
