@@ -29,7 +29,9 @@ function monthsBetween(first: string, last: string) {
 export function EpochCalendar({ marks }: { marks: CalendarMark[] }) {
   if (marks.length === 0) return <p className="text-sm text-slate-600">No epochs yet.</p>;
   const dates = marks.map((m) => m.date).sort();
-  const months = monthsBetween(dates[0], dates[dates.length - 1]);
+  // only the months that hold an epoch (a multi-year baseline would otherwise be mostly empty grids)
+  const withEpochs = new Set(dates.map((d) => d.slice(0, 7)));
+  const months = monthsBetween(dates[0], dates[dates.length - 1]).filter((m) => withEpochs.has(m));
   const byDate = new Map<string, CalendarMark[]>();
   for (const m of marks) byDate.set(m.date, [...(byDate.get(m.date) ?? []), m]);
   return (
