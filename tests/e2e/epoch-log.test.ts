@@ -2,12 +2,13 @@
 // first: the message under its field, what was typed kept), and the PI's Epoch progress shows the
 // precision so far tighten. Screenshots in tests/screenshots/epoch-log-*.png.
 import { describe, expect, it } from "vitest";
-import { recordEpoch } from "~/lib/epochs/epochs.server";
+import { owedBeforeCall, recordEpoch } from "~/lib/epochs/epochs.server";
 import { createObservation } from "~/lib/proposal-observations.server";
 import { observationSchema } from "~/lib/schemas/proposals";
 import { getSessionUserFor } from "../helpers/epoch-user";
-import { Instrument, Observation, PlannedEpoch, Proposal, Telescope } from "~/models/index.server";
-import { screenshot, watchConsole } from "../helpers/browser";
+import { Call, Instrument, Observation, PlannedEpoch, Proposal, ProposalMember, Telescope } from "~/models/index.server";
+import { screenshot, screenshotDir, watchConsole } from "../helpers/browser";
+import { demoCallPlan } from "../../sequelize/seeders/20261201000100-demo-observatory";
 import { appInBrowser } from "../helpers/browser-suite";
 import { newUser, sessionCookieFor } from "../helpers/session";
 import { readyProposal, testCall } from "../integration/proposals-fixtures";
@@ -99,6 +100,39 @@ describe("the epoch log", () => {
     expect(errors).toEqual([]);
     expect(piErrors).toEqual([]);
     await context.close();
+    await piContext.close();
+  });
+
+  it("the next call's chair sees what earlier programmes still owe beside the commitments", { timeout: 120_000 }, async () => {
+    const review = (await Call.findOne({ where: { semesterCode: demoCallPlan().review.semesterCode } }))!;
+    const owed = await owedBeforeCall({ callId: review.id });
+    expect(owed.length).toBeGreaterThan(0);
+    const context = await suite.browser.newContext({ viewport: { width: 1400, height: 1000 } });
+    const [name, value] = (await sessionCookieFor("chair@kestrel-ridge.example")).split("=");
+    await context.addCookies([{ name, value, url: suite.server.url }]);
+    const page = await context.newPage();
+    await page.goto(`${suite.server.url}/committee/${review.id}/board`);
+    const table = page.getByRole("table", { name: "Owed epochs" });
+    await table.waitFor();
+    expect(await table.locator("tbody tr").count()).toBe(owed.length);
+    expect(await page.getByTestId(`owed-${owed[0].proposalId}`).textContent()).toBe(owed[0].hoursOwed.toFixed(2));
+    await table.scrollIntoViewIfNeeded();
+    await page.screenshot({ path: `${screenshotDir}/epoch-log-05-board-owed.png` });
+    await context.close();
+
+    // that programme's PI sees the same lost epochs on Epoch progress (the demo's seeded log)
+    const piMember = (await ProposalMember.findOne({ where: { proposalId: owed[0].proposalId, role: "pi" } }))!;
+    const piContext = await suite.browser.newContext({ viewport: { width: 1400, height: 1000 } });
+    const [pn, pv] = (await sessionCookieFor(piMember.email)).split("=");
+    await piContext.addCookies([{ name: pn, value: pv, url: suite.server.url }]);
+    const piPage = await piContext.newPage();
+    const errors = watchConsole(piPage);
+    await piPage.goto(`${suite.server.url}/proposals/${owed[0].proposalId}/epochs`);
+    expect(await piPage.getByTestId("epoch-counts").textContent()).toContain(`${owed[0].executedEpochs} executed, ${owed[0].lostEpochs} lost`);
+    expect(await piPage.locator('[aria-label="Epoch calendar"] [data-kind="lost"]').count()).toBe(owed[0].lostEpochs);
+    await piPage.locator(".recharts-surface").first().waitFor();
+    await screenshot(piPage, "epoch-log-06-demo-pi");
+    expect(errors).toEqual([]);
     await piContext.close();
   });
 });

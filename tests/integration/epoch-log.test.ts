@@ -292,3 +292,33 @@ describe("the re-plan", () => {
     expect((audit!.details as { after: string[] }).after.join(",")).toBe(dates);
   });
 });
+
+describe("what earlier programmes still owe, on the next call's ranking board", () => {
+  it("lists the demo's accepted multi-semester programmes with lost epochs and their hours", async () => {
+    const { demoCallPlan } = await import("../../sequelize/seeders/20261201000100-demo-observatory");
+    const { Call } = await import("~/models/index.server");
+    const { owedBeforeCall } = await import("~/lib/epochs/epochs.server");
+    const { computeFeasibilitySheet } = await import("~/lib/feasibility.server");
+    const review = (await Call.findOne({ where: { semesterCode: demoCallPlan().review.semesterCode } }))!;
+    const owed = await owedBeforeCall({ callId: review.id });
+    // the demo seeder loses the second of every three past epochs of the running call's accepted astrometry programmes
+    const running = (await Call.findOne({ where: { semesterCode: demoCallPlan().running.semesterCode } }))!;
+    const lostRows = await ExecutedEpoch.findAll({ where: { lostCause: ["weather", "technical"], source: "seed" }, include: [{ model: Observation, as: "observation" }] });
+    const demoIds = new Set((await Proposal.findAll({ where: { callId: running.id, status: "accepted", isMultiSemester: true } })).map((p) => p.id));
+    const lostOne = lostRows.find((r) => demoIds.has(r.observation!.proposalId as number));
+    expect(lostOne).toBeDefined();
+    const demo = await Proposal.findByPk(lostOne!.observation!.proposalId as number);
+    const obsIds = (await Observation.findAll({ where: { proposalId: demo!.id } })).map((o) => o.id);
+    const lost = await ExecutedEpoch.count({ where: { observationId: obsIds, lostCause: ["weather", "technical"] } });
+    const row = owed.find((o) => o.proposalId === demo!.id)!;
+    expect(row.lostEpochs).toBe(lost);
+    const sheet = await computeFeasibilitySheet({ proposalId: demo!.id });
+    const hoursPerEpoch = sheet.observations.find((o) => o.astrometry)!.timePerEpoch.totalSeconds! / 3600;
+    expect(row.hoursOwed).toBeCloseTo((row.lostEpochs + row.overdueEpochs) * hoursPerEpoch, 2);
+    const chair = await import("../helpers/session").then((m) => m.sessionCookieFor("chair@kestrel-ridge.example"));
+    const page = await (await request()).get(`/committee/${review.id}/board`).set("Cookie", chair);
+    expect(page.status).toBe(200);
+    expect(page.text).toContain("Still owed to earlier multi-semester programmes");
+    expect(page.text).toContain(`data-testid="owed-${demo!.id}"`);
+  });
+});
