@@ -1,11 +1,11 @@
 // Demo epoch log (INVENTED data): an observer account, and for the running semester's accepted
 // astrometry programmes an executed record for each planned epoch already past (invented FWHM
 // and SNR around the observation's own seeing and SNR goal), every third of them lost instead —
-// weather mostly, one technical — so that the PIs' Epoch progress shows a precision so far.
+// weather or technical — with a make-up epoch for a lost one and a spare-time epoch, so that the
+// PIs' Epoch progress shows a precision so far.
 // Idempotent: an observation that already has records is left alone.
 import { Op, type Sequelize } from "sequelize";
-import { plannedEpochTime } from "~/lib/epochs/progress";
-import { epochPrecision } from "~/lib/epochs/progress";
+import { epochPrecision, plannedEpochTime } from "~/lib/epochs/progress";
 import { AuditEntry, Call, ExecutedEpoch, Instrument, Observation, PlannedEpoch, Proposal, RoleGrant, Telescope, User } from "~/models/index.server";
 import { demoCallPlan } from "./20261201000100-demo-observatory";
 
@@ -70,6 +70,22 @@ export async function up({ context: sequelize }: { context: Sequelize }) {
           { actorId: observer.id, action: lost ? "epoch.lost" : "epoch.executed", entityType: "executed_epoch", entityId: row.id, proposalId: o.proposalId as number, details: { seeded: true, observationId: o.id } },
           { transaction },
         );
+        // invented: a lost epoch made up three nights later, and one spare-time epoch three weeks
+        // after the first, when those nights are past (unplanned epochs the log takes as well)
+        const extra = [...(lost ? [{ days: 3, note: "invented: make-up for the lost epoch" }] : []), ...(i === 0 ? [{ days: 21, note: "invented: spare time on a clear night" }] : [])];
+        for (const x of extra) {
+          const at = new Date(observedAt.getTime() + x.days * 86_400_000);
+          if (at.getTime() > Date.now() - 86_400_000) continue;
+          k += 1;
+          const xf = Math.round((o.seeingArcsec * (0.85 + 0.4 * jitter(k + 100))) * 100) / 100;
+          const xs = Math.round((o.snrGoal ?? 100) * (0.7 + 0.5 * jitter(k + 200)));
+          const p = epochPrecision({ fwhmArcsec: xf, snr: xs, frames: o.framesPerEpoch, floorMas: o.instrument.astrometricFloorMas });
+          const made = await ExecutedEpoch.create(
+            { observationId: o.id, plannedEpochId: null, observedAt: at, telescopeId: telescope.id, frames: o.framesPerEpoch, fwhmArcsec: xf, snr: xs, precisionMas: p?.precisionMas ?? null, precisionSource: p?.source ?? null, lostCause: null, note: x.note, source: "seed", recordedById: observer.id },
+            { transaction },
+          );
+          await AuditEntry.create({ actorId: observer.id, action: "epoch.executed", entityType: "executed_epoch", entityId: made.id, proposalId: o.proposalId as number, details: { seeded: true, observationId: o.id } }, { transaction });
+        }
       }
     }
   });
