@@ -8,7 +8,7 @@ import { Field, inputProps } from "~/components/Field";
 import { lostCauses } from "~/lib/domain";
 import { astrometryProgrammes, epochProgress, recordEpoch, requireEpochOffice, telescopeChoices } from "~/lib/epochs/epochs.server";
 import { epochFormSchema, formFieldOf, OBSERVED_AT_HINT } from "~/lib/epochs/schema";
-import { readForm } from "~/lib/forms";
+import { plainIssue, readForm } from "~/lib/forms";
 import { formValues, proposalIdParam } from "~/lib/proposal-routes.server";
 import { notFound, ProposalRefused } from "~/lib/proposals.server";
 import type { Route } from "./+types/admin.epochs.$proposalId";
@@ -28,6 +28,17 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 const FIELDS = ["observationId", "observedAt", "telescopeId", "frames", "fwhmArcsec", "snr", "precisionMas", "lostCause", "note"] as const;
 type FormFields = Record<(typeof FIELDS)[number], string>;
+const FIELD_NAMES: Record<string, string> = {
+  observationId: "Target",
+  observedAt: "Observed at",
+  telescopeId: "Telescope",
+  frames: "Frames",
+  fwhmArcsec: "FWHM",
+  snr: "SNR",
+  precisionMas: "Positional precision",
+  lostCause: "Lost",
+  note: "Note",
+};
 
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireEpochOffice(request);
@@ -81,7 +92,12 @@ function RecordForm({ progress, telescopes, answer }: { progress: Data["progress
   const { register, handleSubmit, formState } = useForm<FormFields>({ resolver: zodResolver(epochFormSchema as never) as never, defaultValues: typed });
   const clientErrors = formState.errors as Record<string, { message?: string; cause?: { message?: string } } | undefined>;
   const clientError = (f: string) => (f === "lostCause" ? (clientErrors.lost?.cause?.message ?? clientErrors.lost?.message) : clientErrors[f]?.message);
-  const err = (f: string) => clientError(f) ?? (answer && !answer.ok ? answer.errors[f] : undefined);
+  const raw = (f: string) => clientError(f) ?? (answer && !answer.ok ? answer.errors[f] : undefined);
+  // the schema speaks the API's field ids; the form says them in words
+  const err = (f: string) => {
+    const m = raw(f);
+    return m === undefined ? undefined : plainIssue(m.replace(/^lost\.cause\b/, "the cause"), { field: f, name: FIELD_NAMES[f] ?? f, names: FIELD_NAMES });
+  };
   const input = (name: keyof FormFields, label: string, hint?: string, extra?: object) => (
     <Field label={label} id={`e-${name}`} error={err(name)} hint={hint}>
       <input {...inputProps(`e-${name}`, err(name))} {...extra} {...register(name)} />

@@ -69,7 +69,7 @@ describe("the epoch log", () => {
     await page.getByLabel("Observed at (UTC)").fill("2026-01-12T02:20");
     await page.getByLabel("Frames").fill("5");
     await page.getByRole("button", { name: "Record the epoch" }).click();
-    await expect.poll(() => page.locator("#e-precisionMas-error").textContent()).toContain("precisionMas is required for an executed epoch");
+    await expect.poll(() => page.locator("#e-precisionMas-error").textContent()).toContain("Positional precision is required for an executed epoch, unless SNR and FWHM are given");
     expect(await page.getByLabel("Observed at (UTC)").inputValue()).toBe("2026-01-12T02:20");
     await screenshot(page, "epoch-log-02-office-refused");
 
