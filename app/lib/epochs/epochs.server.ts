@@ -4,7 +4,7 @@
 import { data } from "react-router";
 import { Op, type Transaction } from "sequelize";
 import { EPOCH_TOLERANCE_NIGHTS } from "~/lib/astro/astrometry";
-import { DAY_MS, dateOfDayNumber, localDate } from "~/lib/astro/time";
+import { DAY_MS, dateOfDayNumber, dayNumber, localDate } from "~/lib/astro/time";
 import { writeAudit } from "~/lib/audit.server";
 import { requireUser, type SessionUser } from "~/lib/auth.server";
 import { baselineSemesters, type FeasibilitySheet } from "~/lib/feasibility";
@@ -208,6 +208,16 @@ export type ObservationProgress = {
   parallaxCurve: { date: string; ra: number; dec: number }[];
 };
 
+/** The sheet's parallax-factor curve (the call's baseline), reaching back to epochs taken before it. */
+function curveOver(target: { raDeg: number; decDeg: number }, curve: { date: string; ra: number; dec: number }[], dates: string[]) {
+  const first = [...dates].sort()[0];
+  if (!first || (curve.length && first >= curve[0].date)) return curve;
+  const end = curve.length ? curve[0].date : [...dates].sort().at(-1)!;
+  const before: { date: string; ra: number; dec: number }[] = [];
+  for (let d = dayNumber(first); dateOfDayNumber(d) < end; d += 7) before.push({ date: dateOfDayNumber(d), ...parallaxFactorsAt(target.raDeg, target.decDeg, d * DAY_MS) });
+  return [...before, ...curve];
+}
+
 function sheetObservation(sheet: FeasibilitySheet, observationId: number) {
   return sheet.observations.find((o) => o.observationId === observationId) ?? null;
 }
@@ -299,7 +309,7 @@ export async function epochProgress({ proposalId, observationId, withReplan = tr
       metProjected: meetsRequired(projected, required),
       replan,
       replanProjected,
-      parallaxCurve: so?.astrometry?.parallaxCurve ?? [],
+      parallaxCurve: curveOver(target, so?.astrometry?.parallaxCurve ?? [], mineExecuted.map((e) => e.observedAt.toISOString().slice(0, 10))),
     });
   }
   const main = (observationId !== undefined ? perObservation.find((o) => o.observationId === observationId) : perObservation[0]) ?? null;
