@@ -211,6 +211,9 @@ describe("the precision so far", () => {
     expect((await getEpochs(null, proposalId)).status).toBe(401);
     expect((await getEpochs(stranger, proposalId)).status).toBe(404);
     expect((await getEpochs(observer, proposalId)).status).toBe(200);
+    // observers read accepted programmes; the office reads any
+    expect((await getEpochs(observer, draftId)).status).toBe(404);
+    expect((await getEpochs(admin, draftId)).status).toBe(200);
     expect((await getEpochs(pi, proposalId, "?observationId=abc")).status).toBe(400);
     const wrong = await getEpochs(pi, proposalId, `?observationId=${otherObservationId}`);
     expect(wrong.status).toBe(400);

@@ -12,9 +12,9 @@ import { appOrigin, cookieOf, fill, flattenRoutes, people, seededIds, type Perso
  * method is not offered (405 for everyone) · committee: the chair and the proposal's assigned
  * reviewers, for proposals past the draft stage; the seeded A and B are drafts, so every signed-in
  * person gets 404 (the committee's own access is tested in tests/integration/review.test.ts) ·
- * office: admin or observer (the epoch log; others 403) · memberOrOffice: the team, admin and observer (others 404).
+ * office: admin or observer (the epoch log; others 403) · memberOrAdmin: the team and the admin (others 404).
  */
-type Who = "anyone" | "signedIn" | "member" | "committee" | "reviewer" | "chair" | "admin" | "none" | "office" | "memberOrOffice";
+type Who = "anyone" | "signedIn" | "member" | "committee" | "reviewer" | "chair" | "admin" | "none" | "office" | "memberOrAdmin";
 type Rule = {
   get: Who;
   post: Who;
@@ -34,7 +34,8 @@ const expectations: Record<string, Rule> = {
   "/api/v1/admin/users": { get: "admin", post: "admin" },
   "/api/v1/proposals": { get: "signedIn", post: "none" },
   "/api/v1/proposals/:proposalId": { get: "member", post: "none" },
-  "/api/v1/proposals/:proposalId/epochs": { get: "memberOrOffice", post: "office" }, // the probe body: 400
+  // observers read accepted programmes only (A and B are drafts: 404 for them); tested in epoch-log.test.ts
+  "/api/v1/proposals/:proposalId/epochs": { get: "memberOrAdmin", post: "office" }, // the probe body: 400
   "/proposals/:proposalId/pdf": { get: "member", post: "none" },
   "/proposals/:proposalId/files/:fileId": { get: "member", post: "none" },
   "/api/v1/calls/:callId/review": { get: "chair", post: "none" },
@@ -131,7 +132,7 @@ function expected(who: Who, person: Person, instance: Instance, okStatus?: numbe
   if (who === "signedIn") return { kind: "allowed", status: okStatus };
   if (who === "committee") return { kind: "notFound" };
   if (who === "member") return instance.members.includes(person) ? { kind: "allowed", status: okStatus } : { kind: "notFound" };
-  if (who === "memberOrOffice") return instance.members.includes(person) || person === "admin" || person === "observer" ? { kind: "allowed", status: okStatus } : { kind: "notFound" };
+  if (who === "memberOrAdmin") return instance.members.includes(person) || person === "admin" ? { kind: "allowed", status: okStatus } : { kind: "notFound" };
   if (who === "office") return person === "admin" || person === "observer" ? { kind: "allowed", status: okStatus } : { kind: "forbidden" };
   return person === who ? { kind: "allowed", status: okStatus } : { kind: "forbidden" };
 }

@@ -31,12 +31,14 @@ export async function requireEpochOffice(request: Request): Promise<SessionUser>
   throw data({ message: "The epoch log is kept by the observatory office and its observers (admin or observer role)." }, { status: 403 });
 }
 
-/** A proposal's epochs are read by its team and by the office/observers; anyone else gets 404. */
+/**
+ * A proposal's epochs are read by its team, the office (admin) and, for accepted programmes, the
+ * observers who log them; anyone else gets 404.
+ */
 export async function epochReadAccess({ user, proposalId }: { user: SessionUser; proposalId: number }) {
   if (isEpochOffice(user)) {
     const proposal = await Proposal.findByPk(proposalId);
-    if (!proposal) notFound();
-    return { proposal, isPi: false, office: true };
+    if (proposal && (user.roles.includes("admin") || proposal.status === "accepted")) return { proposal, isPi: false, office: true };
   }
   const access = await getProposalForUser({ proposalId, user });
   return { proposal: access.proposal, isPi: access.isPi, office: false };
