@@ -10,6 +10,7 @@ export default [
   route("api/v1/admin/users", "routes/api.v1.admin.users.ts"),
   route("api/v1/proposals", "routes/api.v1.proposals.ts"),
   route("api/v1/proposals/:proposalId", "routes/api.v1.proposals.$proposalId.ts"),
+  route("api/v1/proposals/:proposalId/epochs", "routes/api.v1.proposals.$proposalId.epochs.ts"),
   route("api/v1/calls/:callId/review", "routes/api.v1.calls.$callId.review.ts"),
   route("api/v1/calls/:callId/review/suggest", "routes/api.v1.calls.$callId.review.suggest.ts"),
   route("api/v1/calls/:callId/review/assignments", "routes/api.v1.calls.$callId.review.assignments.ts"),
@@ -53,13 +54,14 @@ export default [
       index("routes/proposals._index.tsx"),
       route("new", "routes/proposals.new.tsx"),
       route(":proposalId", "routes/proposals.$proposalId.tsx", [
-        // tabs in their order: Summary · Targets · Observations · Feasibility sheet · Science case · Team · Change log
+        // tabs in their order: Summary · Targets · Observations · Feasibility sheet · Science case · Team · Epoch progress · Change log
         index("routes/proposals.$proposalId._index.tsx"),
         route("targets", "routes/proposals.$proposalId.targets.tsx"),
         route("observations", "routes/proposals.$proposalId.observations.tsx"),
         route("feasibility", "routes/proposals.$proposalId.feasibility.tsx"),
         route("science-case", "routes/proposals.$proposalId.science-case.tsx"),
         route("team", "routes/proposals.$proposalId.team.tsx"),
+        route("epochs", "routes/proposals.$proposalId.epochs.tsx"),
         route("change-log", "routes/proposals.$proposalId.change-log.tsx"),
         // the readiness strip's actions (send, withdraw, reopen, delete); a GET goes to the summary
         route("submit", "routes/proposals.$proposalId.submit.ts"),
@@ -75,6 +77,8 @@ export default [
       route("calls", "routes/admin.calls._index.tsx"),
       route("calls/new", "routes/admin.calls.new.tsx"),
       route("calls/:callId", "routes/admin.calls.$callId.tsx"),
+      route("epochs", "routes/admin.epochs._index.tsx"),
+      route("epochs/:proposalId", "routes/admin.epochs.$proposalId.tsx"),
     ]),
     route("*", "routes/$.tsx"),
   ]),

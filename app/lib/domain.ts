@@ -1,5 +1,5 @@
 // Vocabulary shared by the server, the database models and the browser (no imports on purpose).
-export const grantableRoles = ["reviewer", "chair", "admin"] as const;
+export const grantableRoles = ["reviewer", "chair", "admin", "observer"] as const;
 export type GrantableRole = (typeof grantableRoles)[number];
 
 export const moonCategories = ["dark", "grey", "bright"] as const;
@@ -21,3 +21,7 @@ export const proposalStatusLabels: Record<ProposalStatus, string> = {
 /** Allocation tiers, in the order the semester is scheduled (SPEC §6). */
 export const allocationTiers = ["assured", "queue", "filler"] as const;
 export type AllocationTier = (typeof allocationTiers)[number];
+
+/** Why an epoch was lost (the epoch log). */
+export const lostCauses = ["weather", "technical"] as const;
+export type LostCause = (typeof lostCauses)[number];

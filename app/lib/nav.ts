@@ -15,8 +15,13 @@ export const navItems: NavItem[] = [
   { to: "/review", label: "Review", role: "reviewer" },
   { to: "/committee", label: "Committee", role: "chair" },
   { to: "/admin", label: "Office", role: "admin" },
+  // an observer who is not in the office reaches the epoch log only
+  { to: "/admin/epochs", label: "Epoch log", role: "observer" },
 ];
 
 export function visibleNavItems(user: { roles: GrantableRole[] } | null) {
-  return navItems.filter((item) => (item.role ? Boolean(user?.roles.includes(item.role)) : item.signedIn ? Boolean(user) : true));
+  return navItems.filter((item) => {
+    if (item.role === "observer" && user?.roles.includes("admin")) return false;
+    return item.role ? Boolean(user?.roles.includes(item.role)) : item.signedIn ? Boolean(user) : true;
+  });
 }

@@ -6,6 +6,7 @@ import { CallAllocation } from "./CallAllocation";
 import { Call } from "./Call";
 import { CallReview } from "./CallReview";
 import { CallOffer } from "./CallOffer";
+import { ExecutedEpoch } from "./ExecutedEpoch";
 import { Filter } from "./Filter";
 import { Instrument } from "./Instrument";
 import { Observation } from "./Observation";
@@ -34,7 +35,7 @@ for (const model of [
   SignInCode, PaymentEvent, UserSession, RateLimitKey,
   CallReview, ReviewPanelMember, ReviewerProfile, ReviewAssignment,
   TelescopeClearFraction, CallAllocation, BoardEntry, Allocation, SemesterCheck,
-  Charge,
+  Charge, ExecutedEpoch,
 ]) {
   model.initModel(sequelize);
 }
@@ -74,6 +75,8 @@ Observation.belongsTo(Instrument, { foreignKey: "instrumentId", as: "instrument"
 Observation.belongsTo(Filter, { foreignKey: "filterId", as: "filter" });
 Observation.hasMany(PlannedEpoch, { foreignKey: "observationId", as: "epochs" });
 PlannedEpoch.belongsTo(Observation, { foreignKey: "observationId", as: "observation" });
+Observation.hasMany(ExecutedEpoch, { foreignKey: "observationId", as: "executedEpochs" });
+ExecutedEpoch.belongsTo(Observation, { foreignKey: "observationId", as: "observation" });
 Proposal.hasMany(StoredFile, { foreignKey: "proposalId", as: "files" });
 StoredFile.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" });
 StoredFile.belongsTo(User, { foreignKey: "uploadedById", as: "uploadedBy" });
@@ -111,5 +114,5 @@ export {
   PaymentEvent, PlannedEpoch, Proposal, ProposalMember, RoleGrant, SignInCode, SignInRequest,
   StoredFile, Target, Telescope, User, UserSession, RateLimitKey,
   CallReview, ReviewPanelMember, ReviewerProfile, ReviewAssignment,
-  TelescopeClearFraction, CallAllocation, BoardEntry, Allocation, SemesterCheck, Charge,
+  TelescopeClearFraction, CallAllocation, BoardEntry, Allocation, SemesterCheck, Charge, ExecutedEpoch,
 };

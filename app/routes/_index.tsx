@@ -30,6 +30,7 @@ const roleCards = {
   reviewer: { to: "/review", title: "Review", text: "Declare conflicts and score the proposals assigned to you." },
   chair: { to: "/committee", title: "Committee", text: "Assign reviewers, rank proposals on the ranking board and allocate hours." },
   admin: { to: "/admin", title: "Observatory office", text: "Telescopes, instruments, calls, people and their roles, decisions and charges." },
+  observer: { to: "/admin/epochs", title: "Epoch log", text: "Record the executed and lost epochs of accepted astrometry programmes." },
 } as const;
 
 export default function Home({ loaderData }: Route.ComponentProps) {

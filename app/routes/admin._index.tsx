@@ -11,8 +11,9 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export default function AdminHome({ loaderData }: Route.ComponentProps) {
   const sections = [
-    { to: "/admin/users", title: "People and roles", text: `${loaderData.users} accounts. Grant and revoke reviewer, chair and admin roles.` },
+    { to: "/admin/users", title: "People and roles", text: `${loaderData.users} accounts. Grant and revoke reviewer, chair, admin and observer roles.` },
     { to: "/admin/telescopes", title: "Telescopes and instruments", text: `${loaderData.telescopes} telescopes. Sites, time zones, apertures, detectors and their filters.` },
+    { to: "/admin/epochs", title: "Epoch log", text: "Executed and lost epochs of accepted astrometry programmes, one by one or from a night log." },
     { to: "/admin/calls", title: "Calls for proposals", text: `${loaderData.calls} calls. Dates and deadlines, page limits, hours offered and charge rates.` },
   ];
   return (

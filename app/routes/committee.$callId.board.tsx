@@ -19,6 +19,8 @@ import { chairRankSchema, reasonSchema } from "~/lib/schemas/allocation";
 import { scienceCategoryLabel } from "~/lib/proposal-vocabulary";
 import { apiId } from "~/lib/review/api.server";
 import { Telescope } from "~/models/index.server";
+import { OwedEpochs } from "~/components/epochs/OwedEpochs";
+import { owedBeforeCall } from "~/lib/epochs/epochs.server";
 import type { Route } from "./+types/committee.$callId.board";
 
 /** the proposals table is wide: the page takes the whole window */
@@ -92,8 +94,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     Telescope.findAll({ attributes: ["id", "name"], order: [["id", "ASC"]] }),
     latestSemesterCheck({ callId }),
   ]);
-  const raPressure = await raPressureSection({ callId, telescopeId: new URL(request.url).searchParams.get("telescopeId"), sheets });
-  return { board, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })), semesterCheck, raPressure };
+  const [raPressure, owed] = await Promise.all([raPressureSection({ callId, telescopeId: new URL(request.url).searchParams.get("telescopeId"), sheets }), owedBeforeCall({ callId })]);
+  return { board, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })), semesterCheck, raPressure, owed };
 }
 
 type Row = Route.ComponentProps["loaderData"]["board"]["proposals"][number];
@@ -101,7 +103,7 @@ const column = createColumnHelper<Row>();
 const fixed = (value: number | null, digits: number) => (value === null ? "–" : value.toFixed(digits));
 
 export default function RankingBoard({ loaderData }: Route.ComponentProps) {
-  const { board, telescopes, semesterCheck, raPressure } = loaderData;
+  const { board, telescopes, semesterCheck, raPressure, owed } = loaderData;
   const actionData = useActionData<typeof action>();
   const busy = useNavigation().state !== "idle";
   const err = (field: string) => (actionData && !actionData.ok ? actionData.errors[field] : undefined);
@@ -224,6 +226,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
             ))}
           </tbody>
         </table>
+        <OwedEpochs owed={owed} />
       </section>
       <section className="space-y-2">
         <div className="flex flex-wrap items-end justify-between gap-2">

@@ -7,6 +7,8 @@ import { memberRoleLabels } from "~/lib/proposal-vocabulary";
 import { proposalIdParam } from "~/lib/proposal-routes.server";
 import { submissionChecklist } from "~/lib/proposal-submit.server";
 import { getProposalForUser, workspaceHeader } from "~/lib/proposals.server";
+import { Op } from "sequelize";
+import { Observation } from "~/models/index.server";
 import type { Route } from "./+types/proposals.$proposalId";
 import type { action as stripAction } from "./proposals.$proposalId.submit";
 
@@ -23,7 +25,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     access.proposal.status === "draft"
       ? await submissionChecklist({ user, proposalId, access }).then(({ items, ready, requestedHours, requestedHoursBySemester }) => ({ items, ready, requestedHours, requestedHoursBySemester }))
       : null;
-  return { proposal: workspaceHeader(access), readiness, submittedAt: access.proposal.submittedAt?.toISOString() ?? null };
+  // Epoch progress is a tab once an astrometry programme is accepted (the route answers for any proposal)
+  const epochTab = access.proposal.status === "accepted" && (await Observation.count({ where: { proposalId, baselineYears: { [Op.ne]: null } } })) > 0;
+  return { proposal: workspaceHeader(access), readiness, submittedAt: access.proposal.submittedAt?.toISOString() ?? null, epochTab };
 }
 
 const tabs = [
@@ -33,6 +37,7 @@ const tabs = [
   { to: "feasibility", label: "Feasibility sheet" },
   { to: "science-case", label: "Science case" },
   { to: "team", label: "Team" },
+  { to: "epochs", label: "Epoch progress" },
   { to: "change-log", label: "Change log" },
 ];
 
@@ -178,7 +183,7 @@ export default function Workspace({ loaderData }: Route.ComponentProps) {
       ) : null}
       <ReadinessStrip p={p} readiness={loaderData.readiness} submittedAt={loaderData.submittedAt} />
       <nav aria-label="Proposal sections" className="flex flex-wrap gap-1 border-b border-slate-300">
-        {tabs.map((tab) => (
+        {tabs.filter((tab) => tab.to !== "epochs" || loaderData.epochTab).map((tab) => (
           <NavLink
             key={tab.label}
             to={tab.to}

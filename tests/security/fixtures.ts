@@ -37,9 +37,10 @@ export const demo = {
   reviewer: "reviewer@kestrel-ridge.example",
   chair: "chair@kestrel-ridge.example",
   admin: "admin@kestrel-ridge.example",
+  observer: "observer@kestrel-ridge.example", // seeded by 20261202082100-demo-epochs
 } as const;
 export type Person = "anonymous" | keyof typeof demo;
-export const people: Person[] = ["anonymous", "pi", "coi", "stranger", "reviewer", "chair", "admin"];
+export const people: Person[] = ["anonymous", "pi", "coi", "stranger", "reviewer", "chair", "admin", "observer"];
 
 /** A fresh cookie per request, so that a sign-out in one cell cannot end the session of another. */
 export async function cookieOf(person: Person) {

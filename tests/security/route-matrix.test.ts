@@ -11,9 +11,10 @@ import { appOrigin, cookieOf, fill, flattenRoutes, people, seededIds, type Perso
  * get 404, as if it did not exist) · reviewer/chair/admin: that role (others 403) · none: the
  * method is not offered (405 for everyone) · committee: the chair and the proposal's assigned
  * reviewers, for proposals past the draft stage; the seeded A and B are drafts, so every signed-in
- * person gets 404 (the committee's own access is tested in tests/integration/review.test.ts).
+ * person gets 404 (the committee's own access is tested in tests/integration/review.test.ts) ·
+ * office: admin or observer (the epoch log; others 403) · memberOrAdmin: the team and the admin (others 404).
  */
-type Who = "anyone" | "signedIn" | "member" | "committee" | "reviewer" | "chair" | "admin" | "none";
+type Who = "anyone" | "signedIn" | "member" | "committee" | "reviewer" | "chair" | "admin" | "none" | "office" | "memberOrAdmin";
 type Rule = {
   get: Who;
   post: Who;
@@ -33,6 +34,8 @@ const expectations: Record<string, Rule> = {
   "/api/v1/admin/users": { get: "admin", post: "admin" },
   "/api/v1/proposals": { get: "signedIn", post: "none" },
   "/api/v1/proposals/:proposalId": { get: "member", post: "none" },
+  // observers read accepted programmes only (A and B are drafts: 404 for them); tested in epoch-log.test.ts
+  "/api/v1/proposals/:proposalId/epochs": { get: "memberOrAdmin", post: "office" }, // the probe body: 400
   "/proposals/:proposalId/pdf": { get: "member", post: "none" },
   "/proposals/:proposalId/files/:fileId": { get: "member", post: "none" },
   "/api/v1/calls/:callId/review": { get: "chair", post: "none" },
@@ -81,6 +84,7 @@ const expectations: Record<string, Rule> = {
   "/proposals/:proposalId/feasibility": { get: "member", post: "none" },
   "/proposals/:proposalId/science-case": { get: "member", post: "member" },
   "/proposals/:proposalId/change-log": { get: "member", post: "none" },
+  "/proposals/:proposalId/epochs": { get: "member", post: "member" }, // the probe: 400 (intent must be accept-replan)
   "/proposals/:proposalId/submit": { get: "member", post: "member", getOk: 302 }, // a GET goes to the summary
   "/calls": { get: "anyone", post: "none" },
   "/admin?index": { get: "admin", post: "none" },
@@ -91,6 +95,9 @@ const expectations: Record<string, Rule> = {
   "/admin/calls": { get: "admin", post: "none" },
   "/admin/calls/new": { get: "admin", post: "admin" },
   "/admin/calls/:callId": { get: "admin", post: "admin" },
+  "/admin/epochs": { get: "office", post: "office" },
+  // A and B are drafts, not accepted astrometry programmes: 404 for the office too (tested in epoch-log.test.ts)
+  "/admin/epochs/:proposalId": { get: "office", post: "office", getOk: 404 },
   "/*": { get: "anyone", post: "none", getOk: 404 },
 };
 
@@ -125,6 +132,8 @@ function expected(who: Who, person: Person, instance: Instance, okStatus?: numbe
   if (who === "signedIn") return { kind: "allowed", status: okStatus };
   if (who === "committee") return { kind: "notFound" };
   if (who === "member") return instance.members.includes(person) ? { kind: "allowed", status: okStatus } : { kind: "notFound" };
+  if (who === "memberOrAdmin") return instance.members.includes(person) || person === "admin" ? { kind: "allowed", status: okStatus } : { kind: "notFound" };
+  if (who === "office") return person === "admin" || person === "observer" ? { kind: "allowed", status: okStatus } : { kind: "forbidden" };
   return person === who ? { kind: "allowed", status: okStatus } : { kind: "forbidden" };
 }
 

@@ -173,6 +173,21 @@ describe("epoch planner", () => {
     expect(plan.precision.properMotionPrecisionMasPerYr.ra).toBeLessThan(bunched.properMotionPrecisionMasPerYr.ra);
   });
 
+  it("re-plans after epochs already taken (fixed): they enter the fit with their own precision", () => {
+    const fixed = ["2027-08-20T07:00:00Z", "2027-10-15T05:00:00Z", "2028-01-10T03:00:00Z"].map((t, i) => ({ time: Date.parse(t), sigmaMas: 3 + i }));
+    const plan = planEpochs({ site, target, firstDate: "2028-02-01", baselineYears: 1.5, epochs: 4, perEpochPrecisionMas: 4, limit: { maxAirmass: 1.6 }, secondsPerEpoch: 1800, fixed });
+    expect(plan.epochs).toHaveLength(4);
+    const times = plan.epochs.map((e) => Date.parse(e.time));
+    for (const t of times) expect(t).toBeGreaterThan(Date.parse("2028-02-01T00:00:00Z"));
+    // the reported precision is the fit over the taken epochs (their own σ) and the new ones
+    const all = fitPrecision(target.raDeg, target.decDeg, [...fixed, ...times.map((time) => ({ time, sigmaMas: 4 }))]);
+    expect(plan.precision.properMotionPrecisionMasPerYr.ra).toBeCloseTo(all.properMotionPrecisionMasPerYr.ra, 10);
+    expect(plan.precision.parallaxPrecisionMas).toBeCloseTo(all.parallaxPrecisionMas as number, 10);
+    // and better than the new epochs alone
+    const alone = fitPrecision(target.raDeg, target.decDeg, times.map((time) => ({ time, sigmaMas: 4 })));
+    expect(plan.precision.properMotionPrecisionMasPerYr.ra).toBeLessThan(alone.properMotionPrecisionMasPerYr.ra);
+  });
+
   it("adds epochs until a required tangential-velocity precision is met", () => {
     const plan = planEpochs({
       site,

@@ -251,6 +251,11 @@ export type PlanInput = {
   perSemester?: (SemesterSpan & { epochs: number })[];
   /** ± nights around each epoch in which it may be observed (default 7) */
   toleranceNights?: number;
+  /**
+   * Epochs already taken (a re-plan): they enter the fit with their own precision, new epochs keep
+   * the gap from them, and no first anchor is placed (they hold the start of the baseline).
+   */
+  fixed?: { time: number; sigmaMas: number }[];
 };
 
 export type PlannedEpoch = {
@@ -396,7 +401,8 @@ export function planEpochs(input: PlanInput): Plan {
     if (c.semester !== null) quota.set(c.semester, (quota.get(c.semester) ?? 0) - 1);
   };
   const chosen: Candidate[] = [];
-  const firstAnchor = candidates.find(open);
+  const fixed = (input.fixed ?? []).map((e) => ({ time: e.time, sigmaMas: e.sigmaMas, f: parallaxFactors(input.target.raDeg, input.target.decDeg, e.time) }));
+  const firstAnchor = fixed.length ? undefined : candidates.find(open);
   if (firstAnchor) {
     chosen.push(firstAnchor);
     take(firstAnchor);
@@ -406,8 +412,9 @@ export function planEpochs(input: PlanInput): Plan {
     chosen.push(lastAnchor);
     take(lastAnchor);
   }
+  const allEpochs = () => [...fixed.map((e) => ({ time: e.time, sigmaMas: e.sigmaMas, factors: e.f })), ...chosen.map((c) => ({ time: c.time, sigmaMas: sigma, factors: c.f }))];
   const meets = () => {
-    const fit = fitPrecision(input.target.raDeg, input.target.decDeg, chosen.map((c) => ({ time: c.time, sigmaMas: sigma, factors: c.f })));
+    const fit = fitPrecision(input.target.raDeg, input.target.decDeg, allEpochs());
     const p = fit.properMotionPrecisionMasPerYr;
     return fit.determined && required !== null && Math.max(p.ra, p.dec) <= required;
   };
@@ -415,6 +422,7 @@ export function planEpochs(input: PlanInput): Plan {
   const w = 1 / (sigma * sigma);
   const N: Normal = new Float64Array(25);
   for (const c of chosen) addEpoch(N, c, ref, w);
+  for (const e of fixed) addEpoch(N, { date: "", time: e.time, hours: 0, f: e.f, index: -1, semester: null }, ref, 1 / (e.sigmaMas * e.sigmaMas));
   const trial: Normal = new Float64Array(25);
   const fixedCount = spans !== null || input.epochs !== undefined;
   while (chosen.length < wanted && !(!fixedCount && meets())) {
@@ -422,7 +430,7 @@ export function planEpochs(input: PlanInput): Plan {
     let bestValue = Infinity;
     for (const c of candidates) {
       if (!open(c)) continue;
-      if (chosen.some((x) => Math.abs(x.time - c.time) < gap(c))) continue;
+      if (chosen.some((x) => Math.abs(x.time - c.time) < gap(c)) || fixed.some((x) => Math.abs(x.time - c.time) < gap(c))) continue;
       trial.set(N);
       addEpoch(trial, c, ref, w);
       const v = objectiveOf(trial);
@@ -438,7 +446,7 @@ export function planEpochs(input: PlanInput): Plan {
   }
   const shortfalls = spans ? spans.filter((s) => (quota.get(s.code) ?? 0) > 0).map((s) => ({ semester: s.code, asked: s.epochs, placed: s.epochs - (quota.get(s.code) ?? 0) })) : [];
   chosen.sort((a, b) => a.time - b.time);
-  const precision = fitPrecision(input.target.raDeg, input.target.decDeg, chosen.map((c) => ({ time: c.time, sigmaMas: sigma, factors: c.f })));
+  const precision = fitPrecision(input.target.raDeg, input.target.decDeg, allEpochs());
   const semesters = new Map<string, number>();
   if (spans) for (const s of spans) semesters.set(s.code, 0);
   const epochs = chosen.map((c) => {

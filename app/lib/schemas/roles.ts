@@ -5,7 +5,7 @@ import { idSchema } from "~/lib/forms";
 export const roleChangeSchema = z.object({
   intent: z.enum(["grant", "revoke"], "Choose grant or revoke."),
   userId: idSchema("user", "Choose a user."),
-  role: z.enum(grantableRoles, "Choose reviewer, chair or admin."),
+  role: z.enum(grantableRoles, "Choose reviewer, chair, admin or observer."),
 });
 
 /** The admin's actions on one person: a role change, or ending all their sessions. */
