@@ -23,10 +23,14 @@ export default [
   route("api/v1/calls/:callId/allocation/unlock", "routes/api.v1.calls.$callId.allocation.unlock.ts"),
   route("api/v1/calls/:callId/semester-check", "routes/api.v1.calls.$callId.semester-check.ts"),
   route("api/v1/semester-checks/:id", "routes/api.v1.semester-checks.$id.ts"),
+  route("api/v1/calls/:callId/decisions", "routes/api.v1.calls.$callId.decisions.ts"),
+  route("api/v1/calls/:callId/decisions/send", "routes/api.v1.calls.$callId.decisions.send.ts"),
+  route("api/v1/decision-batches/:id", "routes/api.v1.decision-batches.$id.ts"),
   route("api/v1/review/assignments", "routes/api.v1.review.assignments.ts"),
   route("api/v1/review/assignments/:assignmentId", "routes/api.v1.review.assignments.$assignmentId.ts"),
   route("api/v1/review/assignments/:assignmentId/conflict", "routes/api.v1.review.assignments.$assignmentId.conflict.ts"),
   route("proposals/:proposalId/pdf", "routes/proposals.$proposalId.pdf.ts"),
+  route("proposals/:proposalId/decision-letter.pdf", "routes/proposals.$proposalId.decision-letter[.pdf].ts"),
   route("review/:proposalId/pdf", "routes/review.$proposalId.pdf.ts"),
   route("review/:proposalId/files/:fileId", "routes/review.$proposalId.files.$fileId.ts"),
   route("proposals/:proposalId/files/:fileId", "routes/proposals.$proposalId.files.$fileId.ts"),
@@ -53,7 +57,7 @@ export default [
       index("routes/proposals._index.tsx"),
       route("new", "routes/proposals.new.tsx"),
       route(":proposalId", "routes/proposals.$proposalId.tsx", [
-        // tabs in their order: Summary · Targets · Observations · Feasibility sheet · Science case · Team · Change log
+        // tabs in their order: Summary · Targets · Observations · Feasibility sheet · Science case · Team · Change log · Decision
         index("routes/proposals.$proposalId._index.tsx"),
         route("targets", "routes/proposals.$proposalId.targets.tsx"),
         route("observations", "routes/proposals.$proposalId.observations.tsx"),
@@ -61,6 +65,7 @@ export default [
         route("science-case", "routes/proposals.$proposalId.science-case.tsx"),
         route("team", "routes/proposals.$proposalId.team.tsx"),
         route("change-log", "routes/proposals.$proposalId.change-log.tsx"),
+        route("decision", "routes/proposals.$proposalId.decision.tsx"),
         // the readiness strip's actions (send, withdraw, reopen, delete); a GET goes to the summary
         route("submit", "routes/proposals.$proposalId.submit.ts"),
       ]),
@@ -75,6 +80,7 @@ export default [
       route("calls", "routes/admin.calls._index.tsx"),
       route("calls/new", "routes/admin.calls.new.tsx"),
       route("calls/:callId", "routes/admin.calls.$callId.tsx"),
+      route("calls/:callId/decisions", "routes/admin.calls.$callId.decisions.tsx"),
     ]),
     route("*", "routes/$.tsx"),
   ]),

@@ -34,6 +34,7 @@ const expectations: Record<string, Rule> = {
   "/api/v1/proposals": { get: "signedIn", post: "none" },
   "/api/v1/proposals/:proposalId": { get: "member", post: "none" },
   "/proposals/:proposalId/pdf": { get: "member", post: "none" },
+  "/proposals/:proposalId/decision-letter.pdf": { get: "member", post: "none", getOk: 404 }, // the seeded drafts have no letter
   "/proposals/:proposalId/files/:fileId": { get: "member", post: "none" },
   "/api/v1/calls/:callId/review": { get: "chair", post: "none" },
   "/api/v1/calls/:callId/review/suggest": { get: "none", post: "chair" },
@@ -48,6 +49,9 @@ const expectations: Record<string, Rule> = {
   "/api/v1/calls/:callId/allocation/unlock": { get: "none", post: "chair" },
   "/api/v1/calls/:callId/semester-check": { get: "none", post: "chair" }, // the probe's unknown field: 400
   "/api/v1/semester-checks/:id": { get: "chair", post: "none", getOk: 404 }, // no check with the seeded ids
+  "/api/v1/calls/:callId/decisions": { get: "admin", post: "none", getOk: 409 }, // the seeded open call is not locked
+  "/api/v1/calls/:callId/decisions/send": { get: "none", post: "admin" }, // the probe's unknown field: 400
+  "/api/v1/decision-batches/:id": { get: "admin", post: "none", getOk: 404 }, // no batch with the seeded ids
   "/api/v1/review/assignments": { get: "reviewer", post: "none" },
   "/api/v1/review/assignments/:assignmentId": { get: "none", post: "none" }, // PUT (tested in review.test.ts)
   "/api/v1/review/assignments/:assignmentId/conflict": { get: "none", post: "reviewer" }, // the probe body lacks a reason: 400
@@ -81,6 +85,7 @@ const expectations: Record<string, Rule> = {
   "/proposals/:proposalId/feasibility": { get: "member", post: "none" },
   "/proposals/:proposalId/science-case": { get: "member", post: "member" },
   "/proposals/:proposalId/change-log": { get: "member", post: "none" },
+  "/proposals/:proposalId/decision": { get: "member", post: "none" },
   "/proposals/:proposalId/submit": { get: "member", post: "member", getOk: 302 }, // a GET goes to the summary
   "/calls": { get: "anyone", post: "none" },
   "/admin?index": { get: "admin", post: "none" },
@@ -91,6 +96,7 @@ const expectations: Record<string, Rule> = {
   "/admin/calls": { get: "admin", post: "none" },
   "/admin/calls/new": { get: "admin", post: "admin" },
   "/admin/calls/:callId": { get: "admin", post: "admin" },
+  "/admin/calls/:callId/decisions": { get: "admin", post: "admin" },
   "/*": { get: "anyone", post: "none", getOk: 404 },
 };
 
