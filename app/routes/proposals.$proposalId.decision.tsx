@@ -1,7 +1,7 @@
 import { utc } from "~/components/workspace";
 import { requireUser } from "~/lib/auth.server";
 import { decisionForUser } from "~/lib/decisions/decisions.server";
-import { chargesText, money } from "~/lib/decisions/template";
+import { chargesText } from "~/lib/decisions/template";
 import { outcomeLabels } from "~/lib/decisions/vocabulary";
 import { proposalIdParam } from "~/lib/proposal-routes.server";
 import type { Route } from "./+types/proposals.$proposalId.decision";
@@ -44,7 +44,7 @@ export default function Decision({ loaderData }: Route.ComponentProps) {
             </tbody>
           </table>
         ) : null}
-        <p className="text-sm"><span className="font-semibold">Charges due: </span>{f.charge ? `${money(f.charge.amountCents, f.charge.currency)}. ${chargesText(f)}` : "nothing."}</p>
+        <p className="text-sm"><span className="font-semibold">Charges due: </span>{f.charge ? chargesText(f) : "nothing."}</p>
       </section>
       <section className="card space-y-3">
         <h2>Reviewers' comments</h2>
