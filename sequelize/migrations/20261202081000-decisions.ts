@@ -55,7 +55,8 @@ export async function up({ context: qi }: { context: QueryInterface }) {
 }
 
 export async function down({ context: qi }: { context: QueryInterface }) {
-  await qi.removeColumn("proposals", "decisionSentAt");
+  // Raw SQL: Sequelize 6's removeColumn trips over the MariaDB driver's result ("Cannot delete property 'meta'").
+  await qi.sequelize.query("ALTER TABLE proposals DROP COLUMN decisionSentAt");
   await qi.dropTable("decision_mails");
   await qi.dropTable("decision_letters");
   await qi.dropTable("decision_batches");

@@ -116,6 +116,10 @@ describe("sending a call's decisions", () => {
       expect(await AuditEntry.count({ where: { proposalId: p.proposal.id, action: "decision.sent" } })).toBe(1);
     }
     expect((await DecisionLetter.findOne({ where: { proposalId: f.proposals[0].proposal.id } }))!.chargeId).toBe(charge!.id);
+    // once letters are out, the chair cannot unlock the allocation under them
+    const unlock = await (await request()).post(`/api/v1/calls/${f.call.id}/allocation/unlock`).set("Cookie", f.chair.cookie).set("Content-Type", "application/json").send(JSON.stringify({ reason: "Second thoughts" }));
+    expect(unlock.status).toBe(409);
+    expect(unlock.body.error).toContain("The decisions have been sent (3 letters)");
     const progress = await untilDrained(batchId, f.admin.cookie);
     expect(progress).toMatchObject({ total: 4, sent: 4, failed: 0, retrying: 0, queued: 0, done: true, percent: 100 });
   });

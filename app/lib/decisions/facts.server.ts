@@ -4,7 +4,7 @@
 import { Op, type Transaction } from "sequelize";
 import { ProposalRefused } from "~/lib/proposals.server";
 import { callNotFound } from "~/lib/review/chair.server";
-import { Allocation, BoardEntry, Call, CallAllocation, DecisionTemplate, Proposal, ReviewAssignment, Telescope, User } from "~/models/index.server";
+import { Allocation, BoardEntry, Call, CallAllocation, DecisionTemplate, Proposal, ProposalMember, ReviewAssignment, Telescope, User } from "~/models/index.server";
 import type { Charge } from "~/models/Charge";
 import { anonymisedComments } from "./anonymise";
 import { DEFAULT_TEMPLATES } from "./template";
@@ -51,14 +51,14 @@ export async function lettersFacts({ call, proposals, charges = new Map(), now =
     BoardEntry.findAll({ where: { proposalId: { [Op.in]: ids.length ? ids : none } }, transaction }),
     // only what a letter may show: the id (for the order) and the comment to the PI
     ReviewAssignment.findAll({ attributes: ["id", "proposalId", "commentToPi"], where: { proposalId: { [Op.in]: ids.length ? ids : none }, status: "submitted" }, transaction }),
-    User.findAll({ attributes: ["id", "name", "email"], where: { id: { [Op.in]: proposals.map((p) => p.createdById as number).concat(0) } }, transaction }),
+    ProposalMember.findAll({ where: { proposalId: { [Op.in]: ids.length ? ids : none }, role: "pi" }, include: [{ model: User, as: "user", attributes: ["name", "email"] }], transaction }),
     Telescope.findAll({ attributes: ["id", "name"], transaction }),
   ]);
   const telescopeName = new Map(telescopes.map((t) => [t.id, t.name]));
   const out = new Map<number, LetterFacts>();
   for (const p of proposals) {
     const outcome = p.status as DecisionOutcome;
-    const pi = pis.find((u) => u.id === p.createdById);
+    const pi = pis.find((m) => m.proposalId === p.id);
     const charge = charges.get(p.id) ?? null;
     out.set(p.id, {
       proposalId: p.id,
@@ -66,7 +66,7 @@ export async function lettersFacts({ call, proposals, charges = new Map(), now =
       title: p.title,
       semesterCode: call.semesterCode,
       callTitle: call.title,
-      piName: pi?.name ?? pi?.email ?? "PI",
+      piName: pi?.user?.name ?? pi?.user?.email ?? pi?.email ?? "PI",
       outcome,
       hours:
         outcome === "accepted"

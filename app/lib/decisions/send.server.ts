@@ -21,10 +21,17 @@ type Actor = { id: number };
 /** Addresses a letter goes to: the PI first, then the Co-Is (claimed accounts or invited addresses). */
 async function recipients(proposal: Proposal, transaction: Transaction) {
   const members = await ProposalMember.findAll({ where: { proposalId: proposal.id }, include: [{ model: User, as: "user", attributes: ["email"] }], order: [["id", "ASC"]], transaction });
-  const pi = await User.findByPk(proposal.createdById as number, { attributes: ["email"], transaction });
-  const all = [pi?.email, ...members.sort((a, b) => (a.role === b.role ? 0 : a.role === "pi" ? -1 : 1)).map((m) => m.user?.email ?? m.email)];
+  const ordered = [...members.filter((m) => m.role === "pi"), ...members.filter((m) => m.role !== "pi")];
   const seen = new Set<string>();
-  return all.filter((e): e is string => Boolean(e) && !seen.has(e!.toLowerCase()) && Boolean(seen.add(e!.toLowerCase())));
+  const out: string[] = [];
+  for (const m of ordered) {
+    const address = m.user?.email ?? m.email;
+    if (!seen.has(address.toLowerCase())) {
+      seen.add(address.toLowerCase());
+      out.push(address);
+    }
+  }
+  return out;
 }
 
 export function decisionPageUrl(proposalId: number) {
@@ -39,7 +46,10 @@ function storedText(letter: { body: string; proposalId: number }) {
 async function queueLetter(letter: DecisionLetter, batchId: number, proposal: Proposal, transaction: Transaction) {
   const to = await recipients(proposal, transaction);
   for (const address of to) {
-    const mail = await enqueueMail({ to: address, subject: letter.subject, text: storedText({ body: letter.body, proposalId: proposal.id }), kind: "decision-letter", payload: { letterId: letter.id } }, transaction);
+    const mail = await enqueueMail(
+      { to: address, subject: letter.subject, text: storedText({ body: letter.body, proposalId: proposal.id }), kind: "decision-letter", payload: { letterId: letter.id } },
+      transaction,
+    );
     await DecisionMail.create({ batchId, letterId: letter.id, outgoingMailId: mail.id, toAddress: address }, { transaction });
   }
   return to.length;
@@ -57,31 +67,44 @@ export async function sendDecisions({ actor, callId, now = new Date() }: { actor
   const templates = await templatesFor();
   let letters = 0;
   let mails = 0;
-  for (const candidate of unsent) {
-    const queued = await sequelize.transaction(async (transaction) => {
-      const allocation = await CallAllocation.findOne({ where: { callId }, transaction, lock: transaction.LOCK.SHARE });
-      if (!allocation?.lockedAt) throw notLockedRefusal(); // unlocked meanwhile: stop here, what was sent stays sent
-      const proposal = await Proposal.findByPk(candidate.id, { transaction, lock: transaction.LOCK.UPDATE });
-      if (!proposal || proposal.decisionSentAt || !["accepted", "waitlisted", "declined"].includes(proposal.status)) return null; // another "send all" got here first
-      const charge = proposal.status === "accepted" ? await raiseAccessFee({ proposalId: proposal.id, transaction }) : null;
-      const facts = (await lettersFacts({ call, proposals: [proposal], charges: new Map([[proposal.id, charge]]), now, transaction })).get(proposal.id)!;
-      const outcome = proposal.status as DecisionOutcome;
-      const text = composeLetter(templates[outcome], facts);
-      const letter = await DecisionLetter.create(
-        { proposalId: proposal.id, callId, batchId: batch.id, outcome, subject: text.subject, body: text.body, facts, chargeId: charge?.id ?? null, sentAt: now, sentById: actor.id },
-        { transaction },
-      );
-      const count = await queueLetter(letter, batch.id, proposal, transaction);
-      await proposal.update({ decisionSentAt: now }, { transaction });
-      await writeAudit({ actorId: actor.id, action: "decision.sent", entityType: "proposal", entityId: proposal.id, proposalId: proposal.id, details: { outcome, batchId: batch.id, letterId: letter.id, recipients: count, chargeId: charge?.id ?? null, amountCents: charge?.amountCents ?? null } }, transaction);
-      return count;
-    });
-    if (queued !== null) {
-      letters += 1;
-      mails += queued;
+  try {
+    for (const candidate of unsent) {
+      const queued = await sequelize.transaction(async (transaction) => {
+        const allocation = await CallAllocation.findOne({ where: { callId }, transaction, lock: transaction.LOCK.SHARE });
+        if (!allocation?.lockedAt) throw notLockedRefusal(); // unlocked meanwhile: stop here, what was sent stays sent
+        const proposal = await Proposal.findByPk(candidate.id, { transaction, lock: transaction.LOCK.UPDATE });
+        if (!proposal || proposal.decisionSentAt || !["accepted", "waitlisted", "declined"].includes(proposal.status)) return null; // another "send all" got here first
+        const charge = proposal.status === "accepted" ? await raiseAccessFee({ proposalId: proposal.id, transaction }) : null;
+        const facts = (await lettersFacts({ call, proposals: [proposal], charges: new Map([[proposal.id, charge]]), now, transaction })).get(proposal.id)!;
+        const outcome = proposal.status as DecisionOutcome;
+        const text = composeLetter(templates[outcome], facts);
+        const letter = await DecisionLetter.create(
+          { proposalId: proposal.id, callId, batchId: batch.id, outcome, subject: text.subject, body: text.body, facts, chargeId: charge?.id ?? null, sentAt: now, sentById: actor.id },
+          { transaction },
+        );
+        const count = await queueLetter(letter, batch.id, proposal, transaction);
+        await proposal.update({ decisionSentAt: now }, { transaction });
+        await writeAudit(
+          {
+            actorId: actor.id,
+            action: "decision.sent",
+            entityType: "proposal",
+            entityId: proposal.id,
+            proposalId: proposal.id,
+            details: { outcome, batchId: batch.id, letterId: letter.id, recipients: count, chargeId: charge?.id ?? null, amountCents: charge?.amountCents ?? null },
+          },
+          transaction,
+        );
+        return count;
+      });
+      if (queued !== null) {
+        letters += 1;
+        mails += queued;
+      }
     }
+  } finally {
+    await batch.update({ letters }); // also when a refusal stopped it half-way: what was queued stays queued
   }
-  await batch.update({ letters });
   return { batch: await batchProgress({ id: batch.id }), letters, mails };
 }
 
@@ -94,7 +117,10 @@ export async function resendLetter({ actor, callId, proposalId, reason }: { acto
     if (!proposal || !letter) throw new ProposalRefused("This proposal's decision has not been sent yet; use Send all.", 409, "proposalId");
     const batch = await DecisionBatch.create({ callId, kind: "resend", createdById: actor.id, letters: 1 }, { transaction });
     const count = await queueLetter(letter, batch.id, proposal, transaction);
-    await writeAudit({ actorId: actor.id, action: "decision.resent", entityType: "proposal", entityId: proposalId, proposalId, details: { batchId: batch.id, letterId: letter.id, recipients: count, reason } }, transaction);
+    await writeAudit(
+      { actorId: actor.id, action: "decision.resent", entityType: "proposal", entityId: proposalId, proposalId, details: { batchId: batch.id, letterId: letter.id, recipients: count, reason } },
+      transaction,
+    );
     return { batchId: batch.id, mails: count };
   });
 }
@@ -117,7 +143,11 @@ export async function batchProgress({ id }: { id: number }): Promise<BatchProgre
     "SELECT om.status, om.attempts, om.lastError FROM decision_mails dm JOIN outgoing_mail om ON om.id = dm.outgoingMailId WHERE dm.batchId = ? ORDER BY om.id",
     { replacements: [id], type: QueryTypes.SELECT },
   );
-  const lastError = rows.filter((r) => r.status !== "sent" && r.lastError).map((r) => r.lastError).pop() ?? null;
+  const lastError =
+    rows
+      .filter((r) => r.status !== "sent" && r.lastError)
+      .map((r) => r.lastError)
+      .pop() ?? null;
   return { id: batch.id, callId: batch.callId as number, kind: batch.kind, letters: batch.letters, ...progressOf(rows), lastError, createdAt: batch.createdAt.toISOString() };
 }
 
@@ -134,8 +164,11 @@ export async function letterMailStates({ letterIds }: { letterIds: number[] }) {
     const lastBatch = Math.max(0, ...mine.map((r) => r.batchId));
     const latest = mine.filter((r) => r.batchId === lastBatch);
     const sentTimes = mine.map((r) => (r.sentAt ? new Date(r.sentAt).getTime() : 0)).filter(Boolean);
-    out.set(id, { ...progressOf(latest), lastSentAt: sentTimes.length ? new Date(Math.max(...sentTimes)).toISOString() : null, resends: new Set(mine.filter((r) => r.kind === "resend").map((r) => r.batchId)).size });
+    out.set(id, {
+      ...progressOf(latest),
+      lastSentAt: sentTimes.length ? new Date(Math.max(...sentTimes)).toISOString() : null,
+      resends: new Set(mine.filter((r) => r.kind === "resend").map((r) => r.batchId)).size,
+    });
   }
   return out;
 }
-
