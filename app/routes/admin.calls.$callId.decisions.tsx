@@ -99,7 +99,7 @@ export default function Decisions({ loaderData }: Route.ComponentProps) {
                       <td>{outcomeLabels[r.outcome]}</td>
                       <td className="tabular-nums">{r.outcome === "accepted" ? `${hoursOf(r).toFixed(1)} h` : "—"}<div className="text-xs text-slate-500">{r.facts.hours.map((h) => `${h.telescope} ${h.moonCategory} ${h.semesterCode} ${h.hours.toFixed(1)}`).join(" · ")}</div></td>
                       <td>{r.facts.tier ?? "—"}</td>
-                      <td>{r.facts.charge ? money(r.facts.charge.amountCents, r.facts.charge.currency) : r.sent ? "none" : "on sending"}</td>
+                      <td>{r.facts.charge ? money(r.facts.charge.amountCents, r.facts.charge.currency) : r.outcome !== "accepted" ? "—" : r.sent ? "none" : "raised on sending, if due"}</td>
                       <td data-testid="letter-state">{!r.sent ? "not sent" : r.sent.queued + r.sent.retrying > 0 ? `sending (${r.sent.sent}/${r.sent.total})` : r.sent.failed ? `${r.sent.failed} failed` : `sent to ${r.sent.total}`}{r.sent?.resends ? ` · re-sent ${r.sent.resends}×` : ""}</td>
                       <td className="whitespace-nowrap"><button type="button" className="btn-quiet" onClick={() => setOpen(open === r.proposalId ? null : r.proposalId)}>{open === r.proposalId ? "Hide letter" : "Letter"}</button></td>
                     </tr>

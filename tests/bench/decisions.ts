@@ -17,7 +17,9 @@ export async function runDecisionsBench(): Promise<string[]> {
 
     const call = (await Call.findOne({ where: { semesterCode: demoCallPlan(new Date()).running.semesterCode } }))!;
     const admin = (await User.findOne({ where: { email: "admin@kestrel-ridge.example" } }))!;
-    const ids = (await DecisionLetter.findAll({ where: { callId: call.id } })).map((l) => l.proposalId as number);
+    const seeded = await DecisionLetter.findAll({ where: { callId: call.id } });
+    const ids = seeded.map((l) => l.proposalId as number);
+    lines.push(`seeded (20261202081100-demo-decisions): ${seeded.length} letters of ${call.semesterCode}, ${await OutgoingMail.count({ where: { kind: "decision-letter", status: "pending" } })} e-mails waiting for the app's mail worker`);
     await DecisionBatch.destroy({ where: { callId: call.id } });
     await DecisionLetter.destroy({ where: { callId: call.id } });
     await Charge.destroy({ where: { proposalId: ids } });

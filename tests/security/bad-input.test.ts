@@ -229,6 +229,8 @@ const formRoutes: FormRoute[] = [
   { path: () => `/admin/instruments/${ids.instrument}`, who: "admin", intents: ["createFilter", "updateFilter", "deleteFilter"], fields: officeFilter },
   { path: () => "/admin/calls/new", who: "admin", intents: [undefined], fields: officeCall },
   { path: () => `/admin/calls/${ids.call}`, who: "admin", intents: [undefined], fields: officeCall },
+  // one hostile field at a time: a template never has both its subject and body, so nothing is saved
+  { path: () => `/admin/calls/${ids.call}/decisions`, who: "admin", intents: ["send-all", "resend", "save-template", "bogus"], fields: { proposalId: "id", reason: "text", outcome: "text", subject: "text", body: "text", intent: "text" } },
 ];
 
 async function cookieFor(who: FormRoute["who"]) {
