@@ -24,10 +24,10 @@ export async function renderDecisionLetter(payload: Record<string, unknown>, mem
     memo.set(key, built);
   }
   const { letter, pdf } = await built;
-  const mail = plainMail({
-    subject: letter.subject,
-    paragraphs: [...letter.body.split(/\n{2,}/), "The letter is attached as a PDF; it is also on the proposal's decision page in Nightshare."],
-    button: { label: "Open the decision in Nightshare", href: decisionPageUrl(letter.proposalId as number) },
-  });
-  return { subject: mail.subject, text: mail.text, html: mail.html, attachments: [{ filename: letterFileName(letter.facts.code), contentType: "application/pdf", content: Buffer.from(pdf).toString("base64") }] };
+  const closing = "The letter is attached as a PDF; it is also on the proposal's decision page in Nightshare.";
+  const button = { label: "Open the decision in Nightshare", href: decisionPageUrl(letter.proposalId as number) };
+  // the HTML part keeps the letter's line breaks (lists of hours, "Reviewer 1:" above its comment)
+  const mail = plainMail({ subject: letter.subject, paragraphs: [...letter.body.split(/\n+/), closing], button });
+  const text = `${letter.body}\n\n${closing}\n\n${button.label}: ${button.href}`;
+  return { subject: mail.subject, text, html: mail.html, attachments: [{ filename: letterFileName(letter.facts.code), contentType: "application/pdf", content: Buffer.from(pdf).toString("base64") }] };
 }

@@ -37,7 +37,7 @@ export function templateProblems(text: string): string[] {
 /** Amounts in minor units as the currency writes them (en-GB, two decimals for EUR/GBP/USD). */
 export function money(amountCents: number, currency: string) {
   try {
-    return new Intl.NumberFormat("en-GB", { style: "currency", currency }).format(amountCents / 100);
+    return new Intl.NumberFormat("en-GB", { style: "currency", currency }).format(amountCents / 100).replace(/\u00a0/g, " ");
   } catch {
     return `${(amountCents / 100).toFixed(2)} ${currency}`;
   }
