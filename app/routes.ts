@@ -24,10 +24,14 @@ export default [
   route("api/v1/calls/:callId/allocation/unlock", "routes/api.v1.calls.$callId.allocation.unlock.ts"),
   route("api/v1/calls/:callId/semester-check", "routes/api.v1.calls.$callId.semester-check.ts"),
   route("api/v1/semester-checks/:id", "routes/api.v1.semester-checks.$id.ts"),
+  route("api/v1/calls/:callId/decisions", "routes/api.v1.calls.$callId.decisions.ts"),
+  route("api/v1/calls/:callId/decisions/send", "routes/api.v1.calls.$callId.decisions.send.ts"),
+  route("api/v1/decision-batches/:id", "routes/api.v1.decision-batches.$id.ts"),
   route("api/v1/review/assignments", "routes/api.v1.review.assignments.ts"),
   route("api/v1/review/assignments/:assignmentId", "routes/api.v1.review.assignments.$assignmentId.ts"),
   route("api/v1/review/assignments/:assignmentId/conflict", "routes/api.v1.review.assignments.$assignmentId.conflict.ts"),
   route("proposals/:proposalId/pdf", "routes/proposals.$proposalId.pdf.ts"),
+  route("proposals/:proposalId/decision-letter.pdf", "routes/proposals.$proposalId.decision-letter[.pdf].ts"),
   route("review/:proposalId/pdf", "routes/review.$proposalId.pdf.ts"),
   route("review/:proposalId/files/:fileId", "routes/review.$proposalId.files.$fileId.ts"),
   route("proposals/:proposalId/files/:fileId", "routes/proposals.$proposalId.files.$fileId.ts"),
@@ -54,7 +58,7 @@ export default [
       index("routes/proposals._index.tsx"),
       route("new", "routes/proposals.new.tsx"),
       route(":proposalId", "routes/proposals.$proposalId.tsx", [
-        // tabs in their order: Summary · Targets · Observations · Feasibility sheet · Science case · Team · Epoch progress · Change log
+        // tabs in their order: Summary · Targets · Observations · Feasibility sheet · Science case · Team · Epoch progress · Change log · Decision
         index("routes/proposals.$proposalId._index.tsx"),
         route("targets", "routes/proposals.$proposalId.targets.tsx"),
         route("observations", "routes/proposals.$proposalId.observations.tsx"),
@@ -63,6 +67,7 @@ export default [
         route("team", "routes/proposals.$proposalId.team.tsx"),
         route("epochs", "routes/proposals.$proposalId.epochs.tsx"),
         route("change-log", "routes/proposals.$proposalId.change-log.tsx"),
+        route("decision", "routes/proposals.$proposalId.decision.tsx"),
         // the readiness strip's actions (send, withdraw, reopen, delete); a GET goes to the summary
         route("submit", "routes/proposals.$proposalId.submit.ts"),
       ]),
@@ -79,6 +84,7 @@ export default [
       route("calls/:callId", "routes/admin.calls.$callId.tsx"),
       route("epochs", "routes/admin.epochs._index.tsx"),
       route("epochs/:proposalId", "routes/admin.epochs.$proposalId.tsx"),
+      route("calls/:callId/decisions", "routes/admin.calls.$callId.decisions.tsx"),
     ]),
     route("*", "routes/$.tsx"),
   ]),

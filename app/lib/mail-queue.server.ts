@@ -8,7 +8,10 @@ import { renderQueuedMail } from "./mail-renderers.server";
 
 export const MAX_MAIL_ATTEMPTS = 12;
 
+// Pooled: a drain reuses one SMTP connection instead of a handshake per message (`npm run bench -- decisions`).
 const transport = nodemailer.createTransport({
+  pool: true,
+  maxConnections: 1,
   host: env.SMTP_HOST,
   port: env.SMTP_PORT,
   secure: env.SMTP_PORT === 465,

@@ -18,13 +18,13 @@ import { proposalStatusLabels } from "~/lib/domain";
 import { woffToSfnt } from "~/lib/woff";
 import { breaksBefore, headingHeight, linesLeadHeight, tableLeadHeight } from "~/lib/pdf-layout";
 
-const A4: [number, number] = [595.28, 841.89];
-const MARGIN = 50;
-const INK = rgb(0.075, 0.13, 0.23);
-const GREY = rgb(0.4, 0.45, 0.52);
+export const A4: [number, number] = [595.28, 841.89];
+export const MARGIN = 50;
+export const INK = rgb(0.075, 0.13, 0.23);
+export const GREY = rgb(0.4, 0.45, 0.52);
 const RED = rgb(0.6, 0.1, 0.1);
 const AMBER = rgb(0.55, 0.35, 0.02);
-const RULE = rgb(0.8, 0.83, 0.87);
+export const RULE = rgb(0.8, 0.83, 0.87);
 
 type FontFace = { pdf: PDFFont; has: (cp: number) => boolean };
 type Family = FontFace[];

@@ -24,6 +24,8 @@ export class Proposal extends Model<InferAttributes<Proposal>, InferCreationAttr
   declare isTargetOfOpportunity: CreationOptional<boolean>;
   declare version: CreationOptional<number>;
   declare submittedAt: CreationOptional<Date | null>;
+  /** when the decision letter was sent (app/lib/decisions/send.server.ts) */
+  declare decisionSentAt: CreationOptional<Date | null>;
   declare createdById: ForeignKey<User["id"]>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -48,6 +50,7 @@ export class Proposal extends Model<InferAttributes<Proposal>, InferCreationAttr
         isTargetOfOpportunity: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
         version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
         submittedAt: DataTypes.DATE(3),
+        decisionSentAt: DataTypes.DATE(3),
         createdAt: DataTypes.DATE(3),
         updatedAt: DataTypes.DATE(3),
       },

@@ -24,6 +24,10 @@ import { UserSession } from "./Session";
 import { RateLimitKey, SignInCode, SignInRequest } from "./SignIn";
 import { StoredFile } from "./StoredFile";
 import { Charge } from "./Charge";
+import { DecisionBatch } from "./DecisionBatch";
+import { DecisionLetter } from "./DecisionLetter";
+import { DecisionMail } from "./DecisionMail";
+import { DecisionTemplate } from "./DecisionTemplate";
 import { Target } from "./Target";
 import { Telescope } from "./Telescope";
 import { TelescopeClearFraction } from "./TelescopeClearFraction";
@@ -35,7 +39,7 @@ for (const model of [
   SignInCode, PaymentEvent, UserSession, RateLimitKey,
   CallReview, ReviewPanelMember, ReviewerProfile, ReviewAssignment,
   TelescopeClearFraction, CallAllocation, BoardEntry, Allocation, SemesterCheck,
-  Charge, ExecutedEpoch,
+  Charge, ExecutedEpoch, DecisionTemplate, DecisionBatch, DecisionLetter, DecisionMail,
 ]) {
   model.initModel(sequelize);
 }
@@ -106,6 +110,19 @@ Proposal.hasMany(Allocation, { foreignKey: "proposalId", as: "allocations" });
 SemesterCheck.belongsTo(Call, { foreignKey: "callId", as: "call" });
 SemesterCheck.belongsTo(User, { foreignKey: "requestedById", as: "requestedBy" });
 
+DecisionLetter.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" });
+DecisionLetter.belongsTo(Call, { foreignKey: "callId", as: "call" });
+DecisionLetter.belongsTo(DecisionBatch, { foreignKey: "batchId", as: "batch" });
+DecisionLetter.belongsTo(Charge, { foreignKey: "chargeId", as: "charge" });
+DecisionLetter.belongsTo(User, { foreignKey: "sentById", as: "sentBy" });
+Proposal.hasOne(DecisionLetter, { foreignKey: "proposalId", as: "decisionLetter" });
+DecisionBatch.belongsTo(Call, { foreignKey: "callId", as: "call" });
+DecisionBatch.belongsTo(User, { foreignKey: "createdById", as: "createdBy" });
+DecisionMail.belongsTo(DecisionBatch, { foreignKey: "batchId", as: "batch" });
+DecisionMail.belongsTo(DecisionLetter, { foreignKey: "letterId", as: "letter" });
+DecisionMail.belongsTo(OutgoingMail, { foreignKey: "outgoingMailId", as: "outgoingMail" });
+DecisionTemplate.belongsTo(User, { foreignKey: "updatedById", as: "updatedBy" });
+
 AuditEntry.belongsTo(User, { foreignKey: "actorId", as: "actor" });
 AuditEntry.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" });
 
@@ -115,4 +132,5 @@ export {
   StoredFile, Target, Telescope, User, UserSession, RateLimitKey,
   CallReview, ReviewPanelMember, ReviewerProfile, ReviewAssignment,
   TelescopeClearFraction, CallAllocation, BoardEntry, Allocation, SemesterCheck, Charge, ExecutedEpoch,
+  DecisionTemplate, DecisionBatch, DecisionLetter, DecisionMail,
 };

@@ -64,7 +64,8 @@ export default function Calls({ loaderData }: Route.ComponentProps) {
                   <td className="font-semibold">
                     <Link to={`/admin/calls/${c.id}`} aria-label={`Edit call ${c.semesterCode}`}>
                       {c.semesterCode}
-                    </Link>
+                    </Link>{" "}
+                    <Link to={`/admin/calls/${c.id}/decisions`} className="ml-2 text-xs font-normal">Decisions</Link>
                   </td>
                   <td>{c.title}</td>
                   <td>

@@ -39,6 +39,7 @@ const tabs = [
   { to: "team", label: "Team" },
   { to: "epochs", label: "Epoch progress" },
   { to: "change-log", label: "Change log" },
+  { to: "decision", label: "Decision" },
 ];
 
 type Data = Route.ComponentProps["loaderData"];

@@ -1,9 +1,10 @@
 // `npm run bench`: prints timings; nothing here is asserted (timings are not tests).
 //   npm run bench               everything
-//   npm run bench -- pdf        one section (visibility, review, board, ra-pressure, semester-check, pdf, restart)
+//   npm run bench -- pdf        one section (visibility, review, board, ra-pressure, semester-check, pdf, decisions, restart)
 import { availableParallelism, loadavg } from "node:os";
 import { runAstroBench } from "./astro";
 import { runBoardBench } from "./board";
+import { runDecisionsBench } from "./decisions";
 import { runPdfBench } from "./pdf";
 import { runRaPressureBench } from "./ra-pressure";
 import { runRestartBench } from "./restart";
@@ -38,6 +39,10 @@ if (want("semester-check")) {
 if (want("pdf")) {
   console.log("\n[proposal PDF and submission]");
   for (const line of await runPdfBench()) console.log("  " + line);
+}
+if (want("decisions")) {
+  console.log("\n[decisions: sending the demo's letters]");
+  for (const line of await runDecisionsBench()) console.log("  " + line);
 }
 if (want("restart")) {
   console.log("\n[restart: npm start]");

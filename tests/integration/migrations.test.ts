@@ -113,7 +113,8 @@ describe("migrations on MariaDB", () => {
     const [last] = (await migrator.executed()).filter((m) => m.name.startsWith("20261202050000"));
     expect(last).toBeDefined();
     await migrator.down({ to: last.name });
-    const coded = (await Proposal.findOne({ where: { code: { [Op.ne]: null } }, include: [{ model: Call, as: "call" }] }))!;
+    // only columns that exist at that migration: later ones (e.g. proposals.decisionSentAt) are gone here
+    const coded = (await Proposal.findOne({ attributes: ["id", "serial", "code"], where: { code: { [Op.ne]: null } }, include: [{ model: Call, as: "call", attributes: ["id", "semesterCode"] }] }))!;
     await sequelize.query("UPDATE proposals SET code = :code WHERE id = :id", { replacements: { code: `NS-${coded.call!.semesterCode}-${String(coded.serial).padStart(3, "0")}`, id: coded.id } });
     await migrator.up();
     const [row] = await sequelize.query<{ code: string }>("SELECT code FROM proposals WHERE id = :id", { replacements: { id: coded.id }, type: QueryTypes.SELECT });

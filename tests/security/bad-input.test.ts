@@ -247,6 +247,8 @@ const formRoutes: FormRoute[] = [
   { path: () => `/committee/${boardCallId}/board`, who: "chair", intents: ["move", "unlock", "bogus"], fields: { proposalId: "id", chairRank: "number", reason: "text", intent: "text" } },
   { path: () => "/admin/calls/new", who: "admin", intents: [undefined], fields: officeCall },
   { path: () => `/admin/calls/${ids.call}`, who: "admin", intents: [undefined], fields: officeCall },
+  // one hostile field at a time: a template never has both its subject and body, so nothing is saved
+  { path: () => `/admin/calls/${ids.call}/decisions`, who: "admin", intents: ["send-all", "resend", "save-template", "bogus"], fields: { proposalId: "id", reason: "text", outcome: "text", subject: "text", body: "text", intent: "text" } },
 ];
 
 async function cookieFor(who: FormRoute["who"]) {

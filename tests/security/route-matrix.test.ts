@@ -37,6 +37,7 @@ const expectations: Record<string, Rule> = {
   // observers read accepted programmes only (A and B are drafts: 404 for them); tested in epoch-log.test.ts
   "/api/v1/proposals/:proposalId/epochs": { get: "memberOrAdmin", post: "office" }, // the probe body: 400
   "/proposals/:proposalId/pdf": { get: "member", post: "none" },
+  "/proposals/:proposalId/decision-letter.pdf": { get: "member", post: "none", getOk: 404 }, // the seeded drafts have no letter
   "/proposals/:proposalId/files/:fileId": { get: "member", post: "none" },
   "/api/v1/calls/:callId/review": { get: "chair", post: "none" },
   "/api/v1/calls/:callId/review/suggest": { get: "none", post: "chair" },
@@ -51,6 +52,11 @@ const expectations: Record<string, Rule> = {
   "/api/v1/calls/:callId/allocation/unlock": { get: "none", post: "chair" },
   "/api/v1/calls/:callId/semester-check": { get: "none", post: "chair" }, // the probe's unknown field: 400
   "/api/v1/semester-checks/:id": { get: "chair", post: "none", getOk: 404 }, // no check with the seeded ids
+  // 200: the chair's probe of allocation/lock (earlier in this table's order) has locked the seeded
+  // open call by then; the 409 of an unlocked call is tested in tests/integration/decisions.test.ts
+  "/api/v1/calls/:callId/decisions": { get: "admin", post: "none" },
+  "/api/v1/calls/:callId/decisions/send": { get: "none", post: "admin" }, // the probe's unknown field: 400
+  "/api/v1/decision-batches/:id": { get: "admin", post: "none", getOk: 404 }, // no batch with the seeded ids
   "/api/v1/review/assignments": { get: "reviewer", post: "none" },
   "/api/v1/review/assignments/:assignmentId": { get: "none", post: "none" }, // PUT (tested in review.test.ts)
   "/api/v1/review/assignments/:assignmentId/conflict": { get: "none", post: "reviewer" }, // the probe body lacks a reason: 400
@@ -85,6 +91,7 @@ const expectations: Record<string, Rule> = {
   "/proposals/:proposalId/science-case": { get: "member", post: "member" },
   "/proposals/:proposalId/change-log": { get: "member", post: "none" },
   "/proposals/:proposalId/epochs": { get: "member", post: "member" }, // the probe: 400 (intent must be accept-replan)
+  "/proposals/:proposalId/decision": { get: "member", post: "none" },
   "/proposals/:proposalId/submit": { get: "member", post: "member", getOk: 302 }, // a GET goes to the summary
   "/calls": { get: "anyone", post: "none" },
   "/admin?index": { get: "admin", post: "none" },
@@ -98,6 +105,7 @@ const expectations: Record<string, Rule> = {
   "/admin/epochs": { get: "office", post: "office" },
   // A and B are drafts, not accepted astrometry programmes: 404 for the office too (tested in epoch-log.test.ts)
   "/admin/epochs/:proposalId": { get: "office", post: "office", getOk: 404 },
+  "/admin/calls/:callId/decisions": { get: "admin", post: "admin" },
   "/*": { get: "anyone", post: "none", getOk: 404 },
 };
 

@@ -6,7 +6,7 @@ import { writeAudit } from "~/lib/audit.server";
 import type { AllocationTier, MoonCategory } from "~/lib/domain";
 import { ProposalRefused } from "~/lib/proposals.server";
 import { callNotFound } from "~/lib/review/chair.server";
-import { Allocation, AuditEntry, BoardEntry, Call, CallAllocation, CallOffer, Proposal, sequelize } from "~/models/index.server";
+import { Allocation, AuditEntry, BoardEntry, Call, CallAllocation, CallOffer, DecisionLetter, Proposal, sequelize } from "~/models/index.server";
 import { BOARD_STATES, callBoard } from "./board.server";
 import { boardOrder, fillByRank } from "./fill";
 
@@ -151,6 +151,8 @@ export async function unlockAllocation({ actor, callId, reason }: { actor: Chair
   return sequelize.transaction(async (transaction) => {
     const { allocation } = await openAllocation(callId, transaction, { mustBeUnlocked: false });
     if (!allocation.lockedAt) throw new ProposalRefused("The allocation is not locked.", 409, "allocation");
+    const sent = await DecisionLetter.count({ where: { callId }, transaction });
+    if (sent > 0) throw new ProposalRefused(`The decisions have been sent (${sent} letter${sent === 1 ? "" : "s"}); the allocation stays locked.`, 409, "allocation");
     const proposals = await Proposal.findAll({ where: { callId, status: { [Op.in]: ["accepted", "waitlisted", "declined"] } }, transaction, lock: transaction.LOCK.UPDATE });
     for (const p of proposals) await p.update({ status: "in_review" }, { transaction });
     await allocation.update({ lockedAt: null, lockedById: null }, { transaction });
