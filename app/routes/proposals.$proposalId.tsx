@@ -27,7 +27,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       : null;
   // Epoch progress is a tab once an astrometry programme is accepted (the route answers for any proposal)
   const epochTab = access.proposal.status === "accepted" && (await Observation.count({ where: { proposalId, baselineYears: { [Op.ne]: null } } })) > 0;
-  return { proposal: workspaceHeader(access), readiness, submittedAt: access.proposal.submittedAt?.toISOString() ?? null, epochTab };
+  // the Decision tab once the office has sent the letter
+  const decisionTab = access.proposal.decisionSentAt !== null && access.proposal.decisionSentAt !== undefined;
+  return { proposal: workspaceHeader(access), readiness, submittedAt: access.proposal.submittedAt?.toISOString() ?? null, epochTab, decisionTab };
 }
 
 const tabs = [
@@ -184,7 +186,7 @@ export default function Workspace({ loaderData }: Route.ComponentProps) {
       ) : null}
       <ReadinessStrip p={p} readiness={loaderData.readiness} submittedAt={loaderData.submittedAt} />
       <nav aria-label="Proposal sections" className="flex flex-wrap gap-1 border-b border-slate-300">
-        {tabs.filter((tab) => tab.to !== "epochs" || loaderData.epochTab).map((tab) => (
+        {tabs.filter((tab) => (tab.to !== "epochs" || loaderData.epochTab) && (tab.to !== "decision" || loaderData.decisionTab)).map((tab) => (
           <NavLink
             key={tab.label}
             to={tab.to}

@@ -1,7 +1,7 @@
 // The semester check on the ranking board in Chromium: a bad number stays in its field with the
 // message under it, Run shows the progress bar, then the table with a completion percentage per
 // programme; moving a proposal makes the shown run stale.
-import { afterAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { Proposal, ReviewAssignment, Telescope, TelescopeClearFraction } from "~/models/index.server";
 import { screenshot, watchConsole } from "../helpers/browser";
 import { appInBrowser } from "../helpers/browser-suite";
@@ -10,8 +10,14 @@ import { readyProposal, testCall } from "../integration/proposals-fixtures";
 
 describe("the semester check on the ranking board", () => {
   const suite = appInBrowser();
+  // the office's clear fractions (the demo's seeded ones) are put back after this file
+  let saved: { telescopeId: number; month: number; clearFraction: number }[] = [];
+  beforeAll(async () => {
+    saved = (await TelescopeClearFraction.findAll()).map((f) => ({ telescopeId: f.telescopeId as number, month: f.month, clearFraction: f.clearFraction }));
+  });
   afterAll(async () => {
     await TelescopeClearFraction.destroy({ where: {} });
+    if (saved.length) await TelescopeClearFraction.bulkCreate(saved);
   });
 
   it("runs with a progress bar, shows completion per programme and goes stale after a move", { timeout: 180_000 }, async () => {
