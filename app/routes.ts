@@ -10,6 +10,9 @@ export default [
   route("api/v1/admin/users", "routes/api.v1.admin.users.ts"),
   route("api/v1/proposals", "routes/api.v1.proposals.ts"),
   route("api/v1/proposals/:proposalId", "routes/api.v1.proposals.$proposalId.ts"),
+  route("api/v1/proposals/:proposalId/charges", "routes/api.v1.proposals.$proposalId.charges.ts"),
+  route("api/v1/charges/:chargeId/checkout", "routes/api.v1.charges.$chargeId.checkout.ts"),
+  route("api/v1/admin/charges", "routes/api.v1.admin.charges.ts"),
   route("api/v1/calls/:callId/review", "routes/api.v1.calls.$callId.review.ts"),
   route("api/v1/calls/:callId/review/suggest", "routes/api.v1.calls.$callId.review.suggest.ts"),
   route("api/v1/calls/:callId/review/assignments", "routes/api.v1.calls.$callId.review.assignments.ts"),
@@ -27,6 +30,8 @@ export default [
   route("api/v1/review/assignments/:assignmentId", "routes/api.v1.review.assignments.$assignmentId.ts"),
   route("api/v1/review/assignments/:assignmentId/conflict", "routes/api.v1.review.assignments.$assignmentId.conflict.ts"),
   route("proposals/:proposalId/pdf", "routes/proposals.$proposalId.pdf.ts"),
+  route("proposals/:proposalId/charges/:chargeId/receipt.pdf", "routes/proposals.$proposalId.charges.$chargeId.receipt[.pdf].ts"),
+  route("admin/charges.csv", "routes/admin.charges[.csv].ts"),
   route("review/:proposalId/pdf", "routes/review.$proposalId.pdf.ts"),
   route("review/:proposalId/files/:fileId", "routes/review.$proposalId.files.$fileId.ts"),
   route("proposals/:proposalId/files/:fileId", "routes/proposals.$proposalId.files.$fileId.ts"),
@@ -53,7 +58,7 @@ export default [
       index("routes/proposals._index.tsx"),
       route("new", "routes/proposals.new.tsx"),
       route(":proposalId", "routes/proposals.$proposalId.tsx", [
-        // tabs in their order: Summary · Targets · Observations · Feasibility sheet · Science case · Team · Change log
+        // tabs in their order: Summary · Targets · Observations · Feasibility sheet · Science case · Team · Change log · Charges
         index("routes/proposals.$proposalId._index.tsx"),
         route("targets", "routes/proposals.$proposalId.targets.tsx"),
         route("observations", "routes/proposals.$proposalId.observations.tsx"),
@@ -61,6 +66,7 @@ export default [
         route("science-case", "routes/proposals.$proposalId.science-case.tsx"),
         route("team", "routes/proposals.$proposalId.team.tsx"),
         route("change-log", "routes/proposals.$proposalId.change-log.tsx"),
+        route("charges", "routes/proposals.$proposalId.charges.tsx"),
         // the readiness strip's actions (send, withdraw, reopen, delete); a GET goes to the summary
         route("submit", "routes/proposals.$proposalId.submit.ts"),
       ]),
@@ -75,6 +81,7 @@ export default [
       route("calls", "routes/admin.calls._index.tsx"),
       route("calls/new", "routes/admin.calls.new.tsx"),
       route("calls/:callId", "routes/admin.calls.$callId.tsx"),
+      route("charges", "routes/admin.charges.tsx"),
     ]),
     route("*", "routes/$.tsx"),
   ]),

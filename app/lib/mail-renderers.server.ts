@@ -14,6 +14,10 @@ export async function renderQueuedMail(mail: OutgoingMail, memo: Map<string, unk
         const { renderProposalReceipt } = await import("./proposal-receipt.server");
         return await renderProposalReceipt(mail.payload ?? {}, memo);
       }
+      case "charge-receipt": {
+        const { renderChargeReceipt } = await import("./payments/receipt.server");
+        return await renderChargeReceipt(mail.payload ?? {});
+      }
     }
   } catch (error) {
     console.error(`[mail] rendering ${mail.kind} for outgoing_mail ${mail.id} failed; sending the stored text:`, error);

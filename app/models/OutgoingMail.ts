@@ -7,7 +7,7 @@ export interface MailAttachment {
   content: string;
 }
 
-export type MailKind = "proposal-receipt";
+export type MailKind = "proposal-receipt" | "charge-receipt";
 
 export class OutgoingMail extends Model<InferAttributes<OutgoingMail>, InferCreationAttributes<OutgoingMail>> {
   declare id: CreationOptional<number>;

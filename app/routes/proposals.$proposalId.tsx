@@ -34,6 +34,7 @@ const tabs = [
   { to: "science-case", label: "Science case" },
   { to: "team", label: "Team" },
   { to: "change-log", label: "Change log" },
+  { to: "charges", label: "Charges" },
 ];
 
 type Data = Route.ComponentProps["loaderData"];
