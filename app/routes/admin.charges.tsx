@@ -1,7 +1,7 @@
 import { data } from "react-router";
 import { OfficeCharges } from "~/components/payments/OfficeCharges";
 import { requireRole } from "~/lib/auth.server";
-import { fieldErrors } from "~/lib/forms";
+import { fieldErrors, readForm } from "~/lib/forms";
 import { allCharges, waiveCharge } from "~/lib/payments/office.server";
 import { formValues, refusalResponse } from "~/lib/proposal-routes.server";
 import { adminChargesIntent } from "~/lib/schemas/charges";
@@ -18,7 +18,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireRole(request, "admin");
-  const values = formValues(await request.formData());
+  const values = formValues(await readForm(request));
   const parsed = adminChargesIntent.safeParse(values);
   if (!parsed.success) {
     const errors = fieldErrors(parsed.error);

@@ -1,7 +1,7 @@
 import { data, redirect } from "react-router";
 import { ChargesPanel } from "~/components/payments/ChargesPanel";
 import { requireUser } from "~/lib/auth.server";
-import { fieldErrors } from "~/lib/forms";
+import { fieldErrors, readForm } from "~/lib/forms";
 import { startCheckout } from "~/lib/payments/checkout.server";
 import { chargesForTeam, declarePages } from "~/lib/payments/team.server";
 import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
@@ -51,7 +51,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
   await getProposalForUser({ proposalId, user });
-  const values = formValues(await request.formData());
+  const values = formValues(await readForm(request));
   const parsed = proposalChargesIntent.safeParse(values);
   if (!parsed.success) {
     const errors = fieldErrors(parsed.error);

@@ -33,6 +33,13 @@ const expectations: Record<string, Rule> = {
   "/api/v1/admin/users": { get: "admin", post: "admin" },
   "/api/v1/proposals": { get: "signedIn", post: "none" },
   "/api/v1/proposals/:proposalId": { get: "member", post: "none" },
+  "/api/v1/proposals/:proposalId/charges": { get: "member", post: "none" },
+  // no charge with the seeded id: 404 for every signed-in person (the PI's own: charges-pay.test.ts)
+  "/api/v1/charges/:chargeId/checkout": { get: "none", post: "member" },
+  "/api/v1/admin/charges": { get: "admin", post: "none" },
+  // the seeded drafts have no paid charge: 404 for the team too (the receipt itself: charges-pay.test.ts)
+  "/proposals/:proposalId/charges/:chargeId/receipt.pdf": { get: "member", post: "none", getOk: 404 },
+  "/admin/charges.csv": { get: "admin", post: "none" },
   "/proposals/:proposalId/pdf": { get: "member", post: "none" },
   "/proposals/:proposalId/files/:fileId": { get: "member", post: "none" },
   "/api/v1/calls/:callId/review": { get: "chair", post: "none" },
@@ -81,6 +88,7 @@ const expectations: Record<string, Rule> = {
   "/proposals/:proposalId/feasibility": { get: "member", post: "none" },
   "/proposals/:proposalId/science-case": { get: "member", post: "member" },
   "/proposals/:proposalId/change-log": { get: "member", post: "none" },
+  "/proposals/:proposalId/charges": { get: "member", post: "member" },
   "/proposals/:proposalId/submit": { get: "member", post: "member", getOk: 302 }, // a GET goes to the summary
   "/calls": { get: "anyone", post: "none" },
   "/admin?index": { get: "admin", post: "none" },
@@ -91,6 +99,7 @@ const expectations: Record<string, Rule> = {
   "/admin/calls": { get: "admin", post: "none" },
   "/admin/calls/new": { get: "admin", post: "admin" },
   "/admin/calls/:callId": { get: "admin", post: "admin" },
+  "/admin/charges": { get: "admin", post: "admin" },
   "/*": { get: "anyone", post: "none", getOk: 404 },
 };
 
@@ -108,11 +117,12 @@ function instancesOf(pattern: string, ids: SeededIds): Instance[] {
   }
   if (pattern.includes(":proposalId")) {
     return [
-      { label: "proposal A", params: { proposalId: ids.proposalA, callId: ids.callId }, members: ["pi", "coi"] },
-      { label: "proposal B", params: { proposalId: ids.proposalB, callId: ids.callId }, members: ["stranger", "coi"] },
+      { label: "proposal A", params: { proposalId: ids.proposalA, callId: ids.callId, chargeId: 4_000_000_000 }, members: ["pi", "coi"] },
+      { label: "proposal B", params: { proposalId: ids.proposalB, callId: ids.callId, chargeId: 4_000_000_000 }, members: ["stranger", "coi"] },
     ];
   }
   if (pattern === "/*") return [{ label: "unknown page", params: {}, members: [] }];
+  if (pattern.includes(":chargeId")) return [{ label: "no such charge", params: { chargeId: 4_000_000_000 }, members: [] }];
   return [{ label: "", params: { telescopeId: ids.telescopeId, instrumentId: ids.instrumentId, callId: ids.callId, assignmentId: ids.assignmentId, id: 4_000_000_000 }, members: [] }];
 }
 

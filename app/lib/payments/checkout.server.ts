@@ -77,7 +77,7 @@ export async function startCheckout({ user, chargeId, client = stripe, now = () 
     });
   } catch (error) {
     if (isServiceDown(error)) {
-      console.error("payment service unavailable while starting a checkout", error);
+      console.error("payment service unavailable while starting a checkout:", error instanceof Error ? error.message : error);
       throw new PaymentServiceUnavailable();
     }
     throw error;
