@@ -187,6 +187,9 @@ describe("seeing and paying charges", () => {
     const fee = await accessFee(proposalId);
     const { url } = (await checkout(fee.id, pi.cookie)).body as { url: string };
     const sessionId = /\/pay\/(cs_test_\w+)/.exec(url)![1];
+    // back before paying (or before the webhook): the return page waits and says so
+    const early = await (await agent()).get(`/proposals/${proposalId}/charges?checkout=return&session=${sessionId}`).set("Cookie", pi.cookie);
+    expect(early.text).toContain("Waiting for the payment service to confirm the payment of EUR 450.00");
     const declined = await payOnHostedPage(url, "4000 0000 0000 0002");
     expect(declined.headers.get("x-payment-outcome")).toBe("declined");
     expect((await Charge.findByPk(fee.id))?.state).toBe("awaiting_payment");

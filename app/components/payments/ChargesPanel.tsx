@@ -164,7 +164,7 @@ export function ChargesPanel({ data, answer }: { data: Data; answer: Answer }) {
       </section>
       {pageCharge.open && isPi ? <PagesForm offer={pageCharge} answer={answer} /> : null}
       {pageCharge.open && !isPi ? <p className="text-sm text-slate-600">The PI declares the pages of the data-release paper.</p> : null}
-      {!pageCharge.open ? <p className="text-sm text-slate-600">Page charge: {pageCharge.reason}</p> : null}
+      {!pageCharge.open ? <p className="text-sm text-slate-600">{pageCharge.reason}</p> : null}
     </div>
   );
 }

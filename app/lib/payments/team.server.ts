@@ -33,9 +33,9 @@ export type PageChargeOffer =
 /** Whether the PI may declare the paper's pages now, and why not. */
 function pageChargeOffer(access: Awaited<ReturnType<typeof getProposalForUser>>, existing: Charge | undefined, now = new Date()): PageChargeOffer {
   const { proposal, call } = access;
-  if (existing) return { open: false, reason: `Declared: ${existing.pages} pages.`, declaredPages: existing.pages };
-  if (proposal.status !== "accepted") return { open: false, reason: "Only an accepted programme declares a data-release paper.", declaredPages: null };
-  if (!semesterEnded(call, now)) return { open: false, reason: `The paper's pages are declared after the semester, which ends on ${call.semesterEnd}.`, declaredPages: null };
+  if (existing) return { open: false, reason: `The data-release paper's ${existing.pages} pages are declared; its page charge is listed above.`, declaredPages: existing.pages };
+  if (proposal.status !== "accepted") return { open: false, reason: "Only an accepted programme declares a data-release paper (and owes a page charge).", declaredPages: null };
+  if (!semesterEnded(call, now)) return { open: false, reason: `The pages of the data-release paper are declared after the semester, which ends on ${call.semesterEnd}; a page charge is raised then.`, declaredPages: null };
   if (call.pageChargeCents <= 0) return { open: false, reason: "This call has no page charge.", declaredPages: null };
   return { open: true, ratePerPageCents: call.pageChargeCents, currency: call.currency };
 }

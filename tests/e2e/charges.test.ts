@@ -1,0 +1,86 @@
+// A PI pays a charge in Chromium: Pay on the workspace's Charges tab, the fake's hosted page with
+// the test card, back to Nightshare where the return page waits for the signed webhook and shows
+// the charge paid; the receipt arrives in the mail catcher with its PDF. The office then sees it
+// paid in its table and waives another charge with a reason.
+import { describe, expect, it } from "vitest";
+import { Call, Charge, Proposal, ProposalMember, User } from "~/models/index.server";
+import { screenshot, watchConsole } from "../helpers/browser";
+import { appInBrowser } from "../helpers/browser-suite";
+import { mailIds, waitForMail } from "../helpers/maildev";
+import { newUser, sessionCookieFor } from "../helpers/session";
+import { testCall } from "../integration/proposals-fixtures";
+
+describe("paying a charge", () => {
+  const suite = appInBrowser();
+
+  it("goes from Pay to the hosted page and back to paid, with the receipt mailed", { timeout: 120_000 }, async () => {
+    const call: Call = await testCall();
+    await call.update({ currency: "eur", accessFeePerHourCents: 15_000 });
+    const pi = await newUser({ name: "Browser Visiting PI" });
+    await User.update({ isMemberInstitution: false, institution: "Far Valley Institute" }, { where: { id: pi.user.id } });
+    const proposal = await Proposal.create({ callId: call.id, title: "Proper motions of the Thistlecombe field", abstract: "Invented.", scienceCategory: null, semestersRequested: [], createdById: pi.user.id, status: "accepted", code: `041/${call.semesterCode.slice(-3)}`, serial: 41 });
+    await ProposalMember.create({ proposalId: proposal.id, userId: pi.user.id, email: pi.email, role: "pi", acceptedAt: new Date() });
+    // 6.5 h × 150.00 EUR = 975.00 EUR (by hand)
+    const fee = await Charge.create({ proposalId: proposal.id, callId: call.id, kind: "access_fee", semesterCode: call.semesterCode, hours: 6.5, pages: null, rateCents: 15_000, amountCents: 97_500, currency: "eur" });
+    const other = await Charge.create({ proposalId: proposal.id, callId: call.id, kind: "page_charge", semesterCode: call.semesterCode, hours: null, pages: 7, rateCents: 8_000, amountCents: 56_000, currency: "eur" });
+    const before = await mailIds();
+
+    const context = await suite.browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const [name, value] = (await sessionCookieFor(pi.email)).split("=");
+    await context.addCookies([{ name, value, url: suite.server.url }]);
+    const page = await context.newPage();
+    const errors = watchConsole(page);
+    await page.goto(`${suite.server.url}/proposals/${proposal.id}/charges`);
+    const row = page.locator(`[data-charge="${fee.id}"]`);
+    await row.getByText("EUR 975.00").waitFor();
+    expect(await row.locator("[data-state]").textContent()).toBe("raised");
+    await screenshot(page, "charges-01-due");
+
+    await row.getByRole("button", { name: "Pay" }).click();
+    await page.waitForURL(/\/pay\/cs_test_/);
+    await page.getByText("975.00").first().waitFor();
+    await page.getByLabel("Card number").fill("4242 4242 4242 4242");
+    await page.getByLabel("Expiry (MM / YY)").fill("12 / 34");
+    await page.getByLabel("CVC").fill("123");
+    await screenshot(page, "charges-02-hosted-page");
+    await page.getByRole("button", { name: /^Pay / }).click();
+
+    await page.waitForURL(new RegExp(`/proposals/${proposal.id}/charges\\?checkout=return&session=cs_test_`));
+    await page.getByText("was received; the receipt is on its way").waitFor({ timeout: 30_000 });
+    await row.locator('[data-state="paid"]').waitFor();
+    expect(await row.locator("[data-state]").textContent()).toBe("paid");
+    expect(await row.getByRole("link", { name: "Receipt (PDF)" }).getAttribute("href")).toBe(`/proposals/${proposal.id}/charges/${fee.id}/receipt.pdf`);
+    await screenshot(page, "charges-03-paid");
+
+    const mail = await waitForMail(pi.email, /Nightshare receipt R\d{6}\/\w+: EUR 975\.00 paid/, 30_000, { exclude: before });
+    expect(mail.attachments?.map((a) => a.contentType)).toEqual(["application/pdf"]);
+    expect(mail.text).toContain("6.5 h allocated");
+
+    // the office: the paid one in its table, the other waived with a reason
+    const admin = await newUser({ roles: ["admin"], name: "Browser Office" });
+    const office = await suite.browser.newContext({ viewport: { width: 1400, height: 900 } });
+    const [an, av] = (await sessionCookieFor(admin.email)).split("=");
+    await office.addCookies([{ name: an, value: av, url: suite.server.url }]);
+    const desk = await office.newPage();
+    const deskErrors = watchConsole(desk);
+    await desk.goto(`${suite.server.url}/admin/charges`);
+    await desk.getByText("paid (", { exact: false }).click();
+    const paidRow = desk.getByRole("row").filter({ hasText: "EUR 975.00" });
+    expect(await paidRow.locator("[data-state]").textContent()).toBe("paid");
+    await desk.getByText("all (", { exact: false }).click();
+    const otherRow = desk.getByRole("row").filter({ hasText: "EUR 560.00" }).filter({ hasText: proposal.code! });
+    await otherRow.getByRole("button", { name: "Waive…" }).click();
+    await otherRow.getByRole("button", { name: "Waive the charge" }).click();
+    await otherRow.getByText("Give a reason of at least 3 characters.").waitFor();
+    await otherRow.getByLabel(/Reason for waiving/).fill("Paper merged into the consortium's catalogue release");
+    await otherRow.getByRole("button", { name: "Waive the charge" }).click();
+    await desk.getByText(`Charge ${other.id} waived.`).waitFor();
+    expect(await otherRow.locator("[data-state]").textContent()).toBe("waived");
+    await screenshot(desk, "charges-04-office");
+    expect((await Charge.findByPk(other.id))?.waiveReason).toBe("Paper merged into the consortium's catalogue release");
+    expect(errors).toEqual([]);
+    expect(deskErrors).toEqual([]);
+    await context.close();
+    await office.close();
+  });
+});
