@@ -1,7 +1,7 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useEffect, useState } from "react";
 import { useForm } from "react-hook-form";
-import { Form, useNavigation, useRevalidator, useSubmit } from "react-router";
+import { Form, useLocation, useNavigation, useRevalidator, useSubmit } from "react-router";
 import { Field, inputProps } from "~/components/Field";
 import { utc } from "~/components/workspace";
 import { chargeKindLabels, chargeStateLabels, formatMoney } from "~/lib/payments/money";
@@ -86,8 +86,10 @@ function ReturnNotice({ returned, charges }: { returned: CheckoutReturn; charges
 
 function PayButton({ charge, error }: { charge: TeamChargeView; error?: string }) {
   const busy = useNavigation().formData?.get("chargeId") === String(charge.id);
+  // posted to the plain address, so that a refusal does not show the last return notice again
+  const { pathname } = useLocation();
   return (
-    <Form method="post" className="flex flex-col items-end gap-1">
+    <Form method="post" action={pathname} className="flex flex-col items-end gap-1">
       <input type="hidden" name="intent" value="pay" />
       <input type="hidden" name="chargeId" value={charge.id} />
       <button type="submit" className="btn" disabled={busy}>{busy ? "Opening the payment page…" : charge.checkoutOpen ? "Continue to payment" : "Pay"}</button>
@@ -104,14 +106,15 @@ function PagesForm({ offer, answer }: { offer: Extract<PageChargeOffer, { open: 
   const { register, handleSubmit, formState, watch } = useForm({ resolver: zodResolver(declarePagesSchema), defaultValues: { intent: "declare-pages" as const, pages: typed as unknown as number } });
   const error = formState.errors.pages?.message ?? (mine && !mine.ok ? (mine.errors.pages ?? mine.errors.form) : undefined);
   const pages = Number(watch("pages"));
+  const { pathname } = useLocation();
   const preview = Number.isInteger(pages) && pages > 0 ? formatMoney(pages * offer.ratePerPageCents, offer.currency) : null;
   return (
-    <Form method="post" noValidate className="card space-y-3" onSubmit={handleSubmit((_, e) => submit(e?.target as HTMLFormElement))}>
+    <Form method="post" action={pathname} noValidate className="card space-y-3" onSubmit={handleSubmit((_, e) => submit(e?.target as HTMLFormElement))}>
       <h2>Data-release paper</h2>
       <p className="text-sm text-slate-600">
         The semester is over. Declare the number of pages of the programme&apos;s data-release paper in the observatory&apos;s publication; a page charge of {formatMoney(offer.ratePerPageCents, offer.currency)} per page is raised. It is declared once.
       </p>
-      <input type="hidden" {...register("intent")} />
+      <input type="hidden" value="declare-pages" {...register("intent")} />
       <div className="flex flex-wrap items-start gap-3">
         <div className="w-48">
           <Field label="Pages" id="pages" error={error} hint={preview ? `Page charge: ${preview}` : undefined}>

@@ -28,8 +28,8 @@ function WaiveForm({ charge, answer, onDone }: { charge: OfficeChargeView; answe
   const id = `reason-${charge.id}`;
   return (
     <Form method="post" noValidate className="mt-2 space-y-2 rounded border border-slate-300 bg-slate-50 p-2" onSubmit={handleSubmit((_, e) => submit(e?.target as HTMLFormElement))}>
-      <input type="hidden" {...register("intent")} />
-      <input type="hidden" {...register("chargeId")} />
+      <input type="hidden" value="waive" {...register("intent")} />
+      <input type="hidden" value={charge.id} {...register("chargeId")} />
       <Field label={`Reason for waiving ${formatMoney(charge.amountCents, charge.currency)}`} id={id} error={error} hint="Kept in the audit log and shown to the PI.">
         <input autoComplete="off" {...inputProps(id, error)} {...register("reason")} />
       </Field>
