@@ -36,8 +36,17 @@ describe("paying a charge", () => {
     expect(await row.locator("[data-state]").textContent()).toBe("raised");
     await screenshot(page, "charges-01-due");
 
+    // first the PI leaves the payment page: still unpaid, said plainly; then comes back to the same page
     await row.getByRole("button", { name: "Pay" }).click();
     await page.waitForURL(/\/pay\/cs_test_/);
+    const firstPage = page.url();
+    await page.getByRole("link", { name: "Cancel and go back" }).click();
+    await page.getByText("You left the payment page without paying.").waitFor();
+    expect(await row.locator("[data-state]").textContent()).toBe("awaiting payment");
+    await screenshot(page, "charges-01b-left");
+    await row.getByRole("button", { name: "Continue to payment" }).click();
+    await page.waitForURL(/\/pay\/cs_test_/);
+    expect(page.url()).toBe(firstPage);
     await page.getByText("975.00").first().waitFor();
     await page.getByLabel("Card number").fill("4242 4242 4242 4242");
     await page.getByLabel("Expiry (MM / YY)").fill("12 / 34");
@@ -75,8 +84,9 @@ describe("paying a charge", () => {
     await otherRow.getByLabel(/Reason for waiving/).fill("Paper merged into the consortium's catalogue release");
     await otherRow.getByRole("button", { name: "Waive the charge" }).click();
     await desk.getByText(`Charge ${other.id} waived.`).waitFor();
-    expect(await otherRow.locator("[data-state]").textContent()).toBe("waived");
     await screenshot(desk, "charges-04-office");
+    await otherRow.locator('[data-state="waived"]').waitFor({ timeout: 5_000 });
+    expect(await otherRow.locator("[data-state]").textContent()).toBe("waived");
     expect((await Charge.findByPk(other.id))?.waiveReason).toBe("Paper merged into the consortium's catalogue release");
     expect(errors).toEqual([]);
     expect(deskErrors).toEqual([]);

@@ -301,6 +301,23 @@ describe("seeing and paying charges", () => {
     expect((await Charge.findByPk(fee.id))?.state).toBe("raised");
   });
 
+  it("opens a new payment page when the payment service no longer knows the stored one (a restarted fake)", async () => {
+    const { pi, coi, proposalId } = await programme();
+    const fee = await accessFee(proposalId);
+    await fee.update({ state: "awaiting_payment", checkoutSessionId: `cs_test_forgotten_${fee.id}`, checkoutExpiresAt: new Date(Date.now() + 3_600_000) });
+    const res = await checkout(fee.id, pi.cookie);
+    expect(res.status).toBe(200);
+    expect(res.body.reused).toBe(false);
+    const row = await Charge.findByPk(fee.id);
+    expect(row?.checkoutSessionId).not.toBe(`cs_test_forgotten_${fee.id}`);
+    expect(res.body.url).toContain(row!.checkoutSessionId!);
+    // the Co-I reads the same charge without a Pay button
+    const page = await (await agent()).get(`/proposals/${proposalId}/charges`).set("Cookie", coi.cookie);
+    expect(page.status).toBe(200);
+    expect(page.text).toContain("The PI pays.");
+    expect(page.text).not.toContain('name="intent" value="pay"');
+  });
+
   it("gives a clear message and changes nothing when the payment service is down", async () => {
     const { pi, proposalId } = await programme();
     const fee = await accessFee(proposalId);
@@ -338,6 +355,19 @@ describe("the office", () => {
     expect(audit?.actorId).toBe(admin.user.id);
     expect(audit?.details).toMatchObject({ reason: "Instrument downtime cost the programme half its nights", from: "raised" });
     expect((await checkout(fee.id, pi.cookie)).status).toBe(409);
+    expect((await (await agent()).get(`/proposals/${proposalId}/charges/${fee.id}/receipt.pdf`).set("Cookie", pi.cookie)).status).toBe(404);
+
+    // waiving a charge with an open payment page closes that page; its expiry leaves the waiver standing
+    const open = await programme();
+    const waiting = await accessFee(open.proposalId);
+    const { url } = (await checkout(waiting.id, open.pi.cookie)).body as { url: string };
+    const sessionId = /\/pay\/(cs_test_\w+)/.exec(url)![1];
+    expect((await postForm("/admin/charges", admin.cookie, { intent: "waive", chargeId: waiting.id, reason: "Granted as director's discretionary time" })).status).toBe(200);
+    expect((await stripe.checkout.sessions.retrieve(sessionId)).status).toBe("expired");
+    await until(async () => (await PaymentEvent.findOne({ where: { objectId: sessionId, type: "checkout.session.expired" } })) !== null);
+    expect((await Charge.findByPk(waiting.id))?.state).toBe("waived");
+    expect((await AuditEntry.findOne({ where: { action: "charge.waived", entityId: waiting.id } }))?.details).toMatchObject({ from: "awaiting_payment" });
+
     const paidOne = await accessFee((await programme()).proposalId);
     await paidOne.update({ state: "paid", paidAt: new Date() });
     expect((await postForm("/admin/charges", admin.cookie, { intent: "waive", chargeId: paidOne.id, reason: "Too late" })).status).toBe(409);
