@@ -157,9 +157,11 @@ describe("seeing and paying charges", () => {
     expect(withAmount.status).toBe(400);
     expect(withAmount.body.issues.map((i: { path: string }) => i.path)).toEqual(["amount", "amountCents"]);
     expect((await checkout(fee.id, pi.cookie, "[1]")).body.issues[0].path).toBe("(body)");
-    const bad = await checkout(0, pi.cookie);
-    expect(bad.status).toBe(400);
-    expect(bad.body.issues[0].path).toBe("chargeId");
+    for (const id of ["0", "NaN", "1.5", "-1", "abc", "1e3", "9".repeat(40)]) {
+      const bad = await (await agent()).post(`/api/v1/charges/${id}/checkout`).set("Cookie", pi.cookie).set("Content-Type", "application/json").send("");
+      expect(bad.status, id).toBe(400);
+      expect(bad.body.issues[0].path, id).toBe("chargeId");
+    }
     expect((await Charge.findByPk(fee.id))?.state).toBe("raised");
 
     const first = await checkout(fee.id, pi.cookie);

@@ -220,6 +220,7 @@ const formRoutes: FormRoute[] = [
   },
   { path: () => `/proposals/${ids.proposal}/science-case`, who: "owner", intents: [undefined], fields: { file: "text" }, multipart: true },
   { path: () => `/proposals/${ids.proposal}/submit`, who: "owner", intents: [undefined], fields: { intent: "text" } },
+  { path: () => `/proposals/${ids.proposal}/charges`, who: "owner", intents: ["declare-pages", "pay", "bogus"], fields: { pages: "number", chargeId: "id", intent: "text" } },
   { path: () => "/admin/users", who: "admin", intents: ["grant", "revoke"], fields: { userId: "id", role: "text", intent: "text" } },
   { path: () => "/admin/telescopes", who: "admin", intents: ["create"], fields: officeTelescope },
   // never "delete": that would remove the seeded telescope, instrument or call
@@ -229,6 +230,7 @@ const formRoutes: FormRoute[] = [
   { path: () => `/admin/instruments/${ids.instrument}`, who: "admin", intents: ["createFilter", "updateFilter", "deleteFilter"], fields: officeFilter },
   { path: () => "/admin/calls/new", who: "admin", intents: [undefined], fields: officeCall },
   { path: () => `/admin/calls/${ids.call}`, who: "admin", intents: [undefined], fields: officeCall },
+  { path: () => "/admin/charges", who: "admin", intents: ["waive", "bogus"], fields: { chargeId: "id", reason: "text", intent: "text" } },
 ];
 
 async function cookieFor(who: FormRoute["who"]) {
@@ -365,6 +367,9 @@ describe("ids in URLs", () => {
       [`/proposals/${id}/feasibility`, pi],
       [`/proposals/${id}/science-case`, pi],
       [`/proposals/${id}/change-log`, pi],
+      [`/proposals/${id}/charges`, pi],
+      [`/proposals/${id}/charges/${id}/receipt.pdf`, pi],
+      [`/api/v1/proposals/${id}/charges`, pi],
       [`/proposals/${id}/submit`, pi],
       [`/proposals/${id}/pdf`, pi],
       [`/proposals/${id}/files/${id}`, pi],
