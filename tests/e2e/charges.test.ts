@@ -93,4 +93,43 @@ describe("paying a charge", () => {
     await context.close();
     await office.close();
   });
+
+  it("lets the PI declare the data-release paper's pages after the semester, with the error under the field", { timeout: 60_000 }, async () => {
+    const call = await testCall();
+    const yesterday = new Date(Date.now() - 86_400_000).toISOString().slice(0, 10);
+    await call.update({ semesterStart: "2026-02-01", semesterEnd: yesterday, currency: "eur", pageChargeCents: 8_000 });
+    const pi = await newUser({ name: "Browser Member PI" });
+    await User.update({ isMemberInstitution: true, institution: "Consortium Institute" }, { where: { id: pi.user.id } });
+    const proposal = await Proposal.create({ callId: call.id, title: "A catalogue of the Moorvale field", abstract: "Invented.", scienceCategory: null, semestersRequested: [], createdById: pi.user.id, status: "accepted", code: `042/${call.semesterCode.slice(-3)}`, serial: 42 });
+    await ProposalMember.create({ proposalId: proposal.id, userId: pi.user.id, email: pi.email, role: "pi", acceptedAt: new Date() });
+    const context = await suite.browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const [name, value] = (await sessionCookieFor(pi.email)).split("=");
+    await context.addCookies([{ name, value, url: suite.server.url }]);
+    const page = await context.newPage();
+    const errors = watchConsole(page);
+    await page.goto(`${suite.server.url}/proposals/${proposal.id}/charges`);
+    await page.getByText("No charges.", { exact: false }).waitFor();
+    await page.getByLabel("Pages").fill("2.5");
+    await page.getByRole("button", { name: "Declare the pages" }).click();
+    await page.locator("#pages-error").getByText("Give the number of pages as a whole number.").waitFor();
+    expect(await page.getByLabel("Pages").inputValue()).toBe("2.5");
+    await screenshot(page, "charges-05-pages-refused");
+    await page.getByLabel("Pages").fill("12");
+    // 12 pages × 80.00 EUR = 960.00 EUR (by hand)
+    await page.getByText("Page charge: EUR 960.00").waitFor();
+    await page.getByRole("button", { name: "Declare the pages" }).click();
+    await page.getByText("Page charge raised for 12 pages.").waitFor();
+    await screenshot(page, "charges-06a-pages-just-declared");
+    const row = page.locator("[data-charge]");
+    await row.first().waitFor({ timeout: 5_000 });
+    expect(await row.count()).toBe(1);
+    await row.getByText("EUR 960.00").waitFor();
+    expect(await row.locator("[data-state]").textContent()).toBe("raised");
+    await page.getByText("The data-release paper's 12 pages are declared").waitFor();
+    expect(await page.getByLabel("Pages").count()).toBe(0);
+    await screenshot(page, "charges-06-pages-declared");
+    expect((await Charge.findOne({ where: { proposalId: proposal.id } }))?.amountCents).toBe(96_000);
+    expect(errors).toEqual([]);
+    await context.close();
+  });
 });
