@@ -7,6 +7,7 @@ import { memberRoleLabels } from "~/lib/proposal-vocabulary";
 import { proposalIdParam } from "~/lib/proposal-routes.server";
 import { submissionChecklist } from "~/lib/proposal-submit.server";
 import { getProposalForUser, workspaceHeader } from "~/lib/proposals.server";
+import { Charge } from "~/models/index.server";
 import type { Route } from "./+types/proposals.$proposalId";
 import type { action as stripAction } from "./proposals.$proposalId.submit";
 
@@ -23,7 +24,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     access.proposal.status === "draft"
       ? await submissionChecklist({ user, proposalId, access }).then(({ items, ready, requestedHours, requestedHoursBySemester }) => ({ items, ready, requestedHours, requestedHoursBySemester }))
       : null;
-  return { proposal: workspaceHeader(access), readiness, submittedAt: access.proposal.submittedAt?.toISOString() ?? null };
+  // the Charges tab appears once there can be charges: an accepted programme, or one that has some
+  const showCharges = access.proposal.status === "accepted" || (await Charge.count({ where: { proposalId } })) > 0;
+  return { proposal: workspaceHeader(access), readiness, submittedAt: access.proposal.submittedAt?.toISOString() ?? null, showCharges };
 }
 
 const tabs = [
@@ -34,8 +37,8 @@ const tabs = [
   { to: "science-case", label: "Science case" },
   { to: "team", label: "Team" },
   { to: "change-log", label: "Change log" },
-  { to: "charges", label: "Charges" },
 ];
+const chargesTab = { to: "charges", label: "Charges", end: false };
 
 type Data = Route.ComponentProps["loaderData"];
 
@@ -179,7 +182,7 @@ export default function Workspace({ loaderData }: Route.ComponentProps) {
       ) : null}
       <ReadinessStrip p={p} readiness={loaderData.readiness} submittedAt={loaderData.submittedAt} />
       <nav aria-label="Proposal sections" className="flex flex-wrap gap-1 border-b border-slate-300">
-        {tabs.map((tab) => (
+        {(loaderData.showCharges ? [...tabs, chargesTab] : tabs).map((tab) => (
           <NavLink
             key={tab.label}
             to={tab.to}

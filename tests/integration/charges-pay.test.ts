@@ -142,6 +142,9 @@ describe("seeing and paying charges", () => {
     const res = await (await agent()).get(`/api/v1/proposals/${proposalId}/charges`).set("Cookie", other.pi.cookie);
     expect(res.status).toBe(404);
     expect((await (await agent()).get(`/proposals/${proposalId}/charges`).set("Cookie", other.pi.cookie)).status).toBe(404);
+    // the workspace shows the Charges tab for an accepted programme (a draft has none: workspace-flow.test.ts)
+    const summary = await (await agent()).get(`/proposals/${proposalId}`).set("Cookie", coi.cookie);
+    expect(summary.text).toContain(`href="/proposals/${proposalId}/charges"`);
     const bad = await (await agent()).get(`/api/v1/proposals/1e3/charges`).set("Cookie", pi.cookie);
     expect(bad.status).toBe(400);
     expect(bad.body.issues[0].path).toBe("proposalId");
