@@ -132,4 +132,32 @@ describe("paying a charge", () => {
     expect(errors).toEqual([]);
     await context.close();
   });
+
+  it("keeps asking on the return page until the webhook has told us, without a reload", { timeout: 60_000 }, async () => {
+    const call = await testCall();
+    const pi = await newUser({ name: "Browser Waiting PI" });
+    const proposal = await Proposal.create({ callId: call.id, title: "Motions in the Greyfold field", abstract: "Invented.", scienceCategory: null, semestersRequested: [], createdById: pi.user.id, status: "accepted", code: `043/${call.semesterCode.slice(-3)}`, serial: 43 });
+    await ProposalMember.create({ proposalId: proposal.id, userId: pi.user.id, email: pi.email, role: "pi", acceptedAt: new Date() });
+    // 2 h × 150.00 EUR = 300.00 EUR (by hand)
+    const fee = await Charge.create({ proposalId: proposal.id, callId: call.id, kind: "access_fee", semesterCode: call.semesterCode, hours: 2, pages: null, rateCents: 15_000, amountCents: 30_000, currency: "eur" });
+    const context = await suite.browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const cookie = await sessionCookieFor(pi.email);
+    const [name, value] = cookie.split("=");
+    await context.addCookies([{ name, value, url: suite.server.url }]);
+    const opened = await fetch(`${suite.server.url}/api/v1/charges/${fee.id}/checkout`, { method: "POST", headers: { Cookie: cookie, "Content-Type": "application/json" }, body: "{}" });
+    const { url } = (await opened.json()) as { url: string };
+    const sessionId = /\/pay\/(cs_test_\w+)/.exec(url)![1];
+    // the browser is back before the payment is confirmed (here: before it is even made)
+    const page = await context.newPage();
+    const errors = watchConsole(page);
+    await page.goto(`${suite.server.url}/proposals/${proposal.id}/charges?checkout=return&session=${sessionId}`);
+    await page.getByText("Waiting for the payment service to confirm the payment of EUR 300.00").waitFor();
+    await screenshot(page, "charges-07-waiting");
+    const paid = await fetch(url, { method: "POST", redirect: "manual", headers: { "Content-Type": "application/x-www-form-urlencoded" }, body: new URLSearchParams({ card_number: "4242 4242 4242 4242", card_expiry: "12 / 34", card_cvc: "123" }) });
+    expect(paid.status).toBe(303);
+    await page.getByText("EUR 300.00 was received").waitFor({ timeout: 20_000 });
+    expect(await page.locator(`[data-charge="${fee.id}"] [data-state]`).textContent()).toBe("paid");
+    expect(errors).toEqual([]);
+    await context.close();
+  });
 });
