@@ -11,6 +11,9 @@ export default [
   route("api/v1/proposals", "routes/api.v1.proposals.ts"),
   route("api/v1/proposals/:proposalId", "routes/api.v1.proposals.$proposalId.ts"),
   route("api/v1/proposals/:proposalId/epochs", "routes/api.v1.proposals.$proposalId.epochs.ts"),
+  route("api/v1/proposals/:proposalId/charges", "routes/api.v1.proposals.$proposalId.charges.ts"),
+  route("api/v1/charges/:chargeId/checkout", "routes/api.v1.charges.$chargeId.checkout.ts"),
+  route("api/v1/admin/charges", "routes/api.v1.admin.charges.ts"),
   route("api/v1/calls/:callId/review", "routes/api.v1.calls.$callId.review.ts"),
   route("api/v1/calls/:callId/review/suggest", "routes/api.v1.calls.$callId.review.suggest.ts"),
   route("api/v1/calls/:callId/review/assignments", "routes/api.v1.calls.$callId.review.assignments.ts"),
@@ -32,6 +35,8 @@ export default [
   route("api/v1/review/assignments/:assignmentId/conflict", "routes/api.v1.review.assignments.$assignmentId.conflict.ts"),
   route("proposals/:proposalId/pdf", "routes/proposals.$proposalId.pdf.ts"),
   route("proposals/:proposalId/decision-letter.pdf", "routes/proposals.$proposalId.decision-letter[.pdf].ts"),
+  route("proposals/:proposalId/charges/:chargeId/receipt.pdf", "routes/proposals.$proposalId.charges.$chargeId.receipt[.pdf].ts"),
+  route("admin/charges.csv", "routes/admin.charges[.csv].ts"),
   route("review/:proposalId/pdf", "routes/review.$proposalId.pdf.ts"),
   route("review/:proposalId/files/:fileId", "routes/review.$proposalId.files.$fileId.ts"),
   route("proposals/:proposalId/files/:fileId", "routes/proposals.$proposalId.files.$fileId.ts"),
@@ -58,7 +63,7 @@ export default [
       index("routes/proposals._index.tsx"),
       route("new", "routes/proposals.new.tsx"),
       route(":proposalId", "routes/proposals.$proposalId.tsx", [
-        // tabs in their order: Summary · Targets · Observations · Feasibility sheet · Science case · Team · Epoch progress · Change log · Decision
+        // tabs in their order: Summary · Targets · Observations · Feasibility sheet · Science case · Team · Epoch progress · Change log · Decision · Charges
         index("routes/proposals.$proposalId._index.tsx"),
         route("targets", "routes/proposals.$proposalId.targets.tsx"),
         route("observations", "routes/proposals.$proposalId.observations.tsx"),
@@ -68,6 +73,7 @@ export default [
         route("epochs", "routes/proposals.$proposalId.epochs.tsx"),
         route("change-log", "routes/proposals.$proposalId.change-log.tsx"),
         route("decision", "routes/proposals.$proposalId.decision.tsx"),
+        route("charges", "routes/proposals.$proposalId.charges.tsx"),
         // the readiness strip's actions (send, withdraw, reopen, delete); a GET goes to the summary
         route("submit", "routes/proposals.$proposalId.submit.ts"),
       ]),
@@ -85,6 +91,7 @@ export default [
       route("epochs", "routes/admin.epochs._index.tsx"),
       route("epochs/:proposalId", "routes/admin.epochs.$proposalId.tsx"),
       route("calls/:callId/decisions", "routes/admin.calls.$callId.decisions.tsx"),
+      route("charges", "routes/admin.charges.tsx"),
     ]),
     route("*", "routes/$.tsx"),
   ]),

@@ -18,6 +18,10 @@ export async function renderQueuedMail(mail: OutgoingMail, memo: Map<string, unk
         const { renderDecisionLetter } = await import("./decisions/render-mail.server");
         return await renderDecisionLetter(mail.payload ?? {}, memo);
       }
+      case "charge-receipt": {
+        const { renderChargeReceipt } = await import("./payments/receipt.server");
+        return await renderChargeReceipt(mail.payload ?? {});
+      }
     }
   } catch (error) {
     console.error(`[mail] rendering ${mail.kind} for outgoing_mail ${mail.id} failed; sending the stored text:`, error);

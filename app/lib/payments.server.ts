@@ -1,5 +1,5 @@
 import Stripe from "stripe";
-import { UniqueConstraintError } from "sequelize";
+import { UniqueConstraintError, type Transaction } from "sequelize";
 import { z } from "zod";
 import { PaymentEvent, sequelize } from "~/models/index.server";
 import { env } from "./env.server";
@@ -64,8 +64,11 @@ export function verifyWebhook(payload: string, signature: string | null, nowSeco
   return event;
 }
 
-/** Records the event once; a repeated delivery of the same event id changes nothing. */
-export async function recordPaymentEvent(event: Stripe.Event): Promise<{ duplicate: boolean }> {
+/**
+ * Records the event once; a repeated delivery of the same event id changes nothing. `apply` runs in
+ * the same transaction, only for a new event, so the event and its effect commit together.
+ */
+export async function recordPaymentEvent(event: Stripe.Event, apply?: (event: Stripe.Event, transaction: Transaction) => Promise<void>): Promise<{ duplicate: boolean }> {
   try {
     await sequelize.transaction(async (transaction) => {
       const object = event.data.object as { id?: string };
@@ -79,6 +82,7 @@ export async function recordPaymentEvent(event: Stripe.Event): Promise<{ duplica
         },
         { transaction },
       );
+      await apply?.(event, transaction);
     });
     return { duplicate: false };
   } catch (error) {

@@ -1,4 +1,4 @@
-import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
+import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from "sequelize";
 import type { Call } from "./Call";
 import type { Proposal } from "./Proposal";
 import type { User } from "./User";
@@ -30,6 +30,9 @@ export class Charge extends Model<InferAttributes<Charge>, InferCreationAttribut
   declare waiveReason: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
+  declare proposal?: NonAttribute<Proposal>;
+  declare call?: NonAttribute<Call>;
+  declare waivedBy?: NonAttribute<User>;
 
   static initModel(sequelize: Sequelize) {
     Charge.init(

@@ -7,7 +7,7 @@ export interface MailAttachment {
   content: string;
 }
 
-export type MailKind = "proposal-receipt" | "decision-letter";
+export type MailKind = "proposal-receipt" | "decision-letter" | "charge-receipt";
 
 export class OutgoingMail extends Model<InferAttributes<OutgoingMail>, InferCreationAttributes<OutgoingMail>> {
   declare id: CreationOptional<number>;

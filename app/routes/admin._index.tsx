@@ -1,12 +1,12 @@
 import { Link } from "react-router";
 import { requireRole } from "~/lib/auth.server";
-import { Call, Telescope, User } from "~/models/index.server";
+import { Call, Charge, Telescope, User } from "~/models/index.server";
 import type { Route } from "./+types/admin._index";
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireRole(request, "admin");
-  const [users, telescopes, calls] = await Promise.all([User.count(), Telescope.count(), Call.count()]);
-  return { users, telescopes, calls };
+  const [users, telescopes, calls, unpaidCharges] = await Promise.all([User.count(), Telescope.count(), Call.count(), Charge.count({ where: { state: ["raised", "awaiting_payment"] } })]);
+  return { users, telescopes, calls, unpaidCharges };
 }
 
 export default function AdminHome({ loaderData }: Route.ComponentProps) {
@@ -15,6 +15,7 @@ export default function AdminHome({ loaderData }: Route.ComponentProps) {
     { to: "/admin/telescopes", title: "Telescopes and instruments", text: `${loaderData.telescopes} telescopes. Sites, time zones, apertures, detectors and their filters.` },
     { to: "/admin/epochs", title: "Epoch log", text: "Executed and lost epochs of accepted astrometry programmes, one by one or from a night log." },
     { to: "/admin/calls", title: "Calls for proposals", text: `${loaderData.calls} calls. Dates and deadlines, page limits, hours offered and charge rates.` },
+    { to: "/admin/charges", title: "Charges", text: `${loaderData.unpaidCharges} unpaid. Access fees and page charges, their payments and waivers; CSV export.` },
   ];
   return (
     <div className="space-y-4">

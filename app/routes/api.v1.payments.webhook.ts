@@ -1,4 +1,5 @@
 import { data } from "react-router";
+import { applyPaymentEvent } from "~/lib/payments/checkout.server";
 import { recordPaymentEvent, verifyWebhook, WebhookMalformed, WebhookRejected } from "~/lib/payments.server";
 import type { Route } from "./+types/api.v1.payments.webhook";
 
@@ -12,7 +13,7 @@ export async function action({ request }: Route.ActionArgs) {
   const payload = await request.text();
   try {
     const event = verifyWebhook(payload, request.headers.get("stripe-signature"));
-    const { duplicate } = await recordPaymentEvent(event);
+    const { duplicate } = await recordPaymentEvent(event, applyPaymentEvent);
     return data({ received: true, duplicate });
   } catch (error) {
     if (error instanceof WebhookRejected) {

@@ -59,6 +59,20 @@ function describeEntry(e: HistoryEntry): string {
       return `Withdrew the proposal${Array.isArray(d.told) && d.told.length ? `; the team was told by e-mail (${(d.told as string[]).join(", ")})` : ""}.`;
     case "proposal.reopened":
       return "Reopened the proposal as a draft.";
+    case "charge.page_charge_raised":
+      return `Declared ${s("pages")} pages of the data-release paper; a page charge was raised.`;
+    case "charge.checkout_started":
+      return "Opened a payment page for a charge.";
+    case "charge.checkout_expired":
+      return "A payment page expired without payment; the charge stays unpaid.";
+    case "charge.paid":
+      return "A charge was paid; the receipt was mailed to the PI.";
+    case "charge.waived":
+      return `The observatory waived a charge: ${s("reason")}`;
+    case "charge.payment_mismatch":
+      return "A payment confirmation did not match the charge's amount and was not applied.";
+    case "charge.paid_again":
+      return "A second payment for a charge was received; the observatory will refund it.";
     default:
       if (e.action.startsWith("science_case")) return `Science case: ${e.action.split(".")[1]?.replace(/_/g, " ") ?? "changed"}${d.filename ? ` (${s("filename")})` : ""}.`;
       return `${e.action.replace(/[._]/g, " ")}.`;

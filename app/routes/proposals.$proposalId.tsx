@@ -8,7 +8,7 @@ import { proposalIdParam } from "~/lib/proposal-routes.server";
 import { submissionChecklist } from "~/lib/proposal-submit.server";
 import { getProposalForUser, workspaceHeader } from "~/lib/proposals.server";
 import { Op } from "sequelize";
-import { Observation } from "~/models/index.server";
+import { Charge, Observation } from "~/models/index.server";
 import type { Route } from "./+types/proposals.$proposalId";
 import type { action as stripAction } from "./proposals.$proposalId.submit";
 
@@ -29,7 +29,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const epochTab = access.proposal.status === "accepted" && (await Observation.count({ where: { proposalId, baselineYears: { [Op.ne]: null } } })) > 0;
   // the Decision tab once the office has sent the letter
   const decisionTab = access.proposal.decisionSentAt !== null && access.proposal.decisionSentAt !== undefined;
-  return { proposal: workspaceHeader(access), readiness, submittedAt: access.proposal.submittedAt?.toISOString() ?? null, epochTab, decisionTab };
+  // the Charges tab appears once there can be charges: an accepted programme, or one that has some
+  const showCharges = access.proposal.status === "accepted" || (await Charge.count({ where: { proposalId } })) > 0;
+  return { proposal: workspaceHeader(access), readiness, submittedAt: access.proposal.submittedAt?.toISOString() ?? null, epochTab, decisionTab, showCharges };
 }
 
 const tabs = [
@@ -43,6 +45,7 @@ const tabs = [
   { to: "change-log", label: "Change log" },
   { to: "decision", label: "Decision" },
 ];
+const chargesTab = { to: "charges", label: "Charges", end: false };
 
 type Data = Route.ComponentProps["loaderData"];
 
@@ -186,7 +189,7 @@ export default function Workspace({ loaderData }: Route.ComponentProps) {
       ) : null}
       <ReadinessStrip p={p} readiness={loaderData.readiness} submittedAt={loaderData.submittedAt} />
       <nav aria-label="Proposal sections" className="flex flex-wrap gap-1 border-b border-slate-300">
-        {tabs.filter((tab) => (tab.to !== "epochs" || loaderData.epochTab) && (tab.to !== "decision" || loaderData.decisionTab)).map((tab) => (
+        {[...tabs.filter((tab) => (tab.to !== "epochs" || loaderData.epochTab) && (tab.to !== "decision" || loaderData.decisionTab)), ...(loaderData.showCharges ? [chargesTab] : [])].map((tab) => (
           <NavLink
             key={tab.label}
             to={tab.to}

@@ -234,6 +234,7 @@ const formRoutes: FormRoute[] = [
   },
   { path: () => `/proposals/${ids.proposal}/science-case`, who: "owner", intents: [undefined], fields: { file: "text" }, multipart: true },
   { path: () => `/proposals/${ids.proposal}/submit`, who: "owner", intents: [undefined], fields: { intent: "text" } },
+  { path: () => `/proposals/${ids.proposal}/charges`, who: "owner", intents: ["declare-pages", "pay", "bogus"], fields: { pages: "number", chargeId: "id", intent: "text" } },
   { path: () => "/admin/users", who: "admin", intents: ["grant", "revoke"], fields: { userId: "id", role: "text", intent: "text" } },
   { path: () => "/admin/telescopes", who: "admin", intents: ["create"], fields: officeTelescope },
   // never "delete": that would remove the seeded telescope, instrument or call
@@ -249,6 +250,7 @@ const formRoutes: FormRoute[] = [
   { path: () => `/admin/calls/${ids.call}`, who: "admin", intents: [undefined], fields: officeCall },
   // one hostile field at a time: a template never has both its subject and body, so nothing is saved
   { path: () => `/admin/calls/${ids.call}/decisions`, who: "admin", intents: ["send-all", "resend", "save-template", "bogus"], fields: { proposalId: "id", reason: "text", outcome: "text", subject: "text", body: "text", intent: "text" } },
+  { path: () => "/admin/charges", who: "admin", intents: ["waive", "bogus"], fields: { chargeId: "id", reason: "text", intent: "text" } },
 ];
 
 async function cookieFor(who: FormRoute["who"]) {
@@ -395,6 +397,9 @@ describe("ids in URLs", () => {
       [`/proposals/${id}/epochs`, pi],
       [`/api/v1/proposals/${id}/epochs`, admin],
       [`/admin/epochs/${id}`, admin],
+      [`/proposals/${id}/charges`, pi],
+      [`/proposals/${id}/charges/${id}/receipt.pdf`, pi],
+      [`/api/v1/proposals/${id}/charges`, pi],
       [`/proposals/${id}/submit`, pi],
       [`/proposals/${id}/pdf`, pi],
       [`/proposals/${id}/files/${id}`, pi],

@@ -36,6 +36,13 @@ const expectations: Record<string, Rule> = {
   "/api/v1/proposals/:proposalId": { get: "member", post: "none" },
   // observers read accepted programmes only (A and B are drafts: 404 for them); tested in epoch-log.test.ts
   "/api/v1/proposals/:proposalId/epochs": { get: "memberOrAdmin", post: "office" }, // the probe body: 400
+  "/api/v1/proposals/:proposalId/charges": { get: "member", post: "none" },
+  // no charge with the seeded id: 404 for every signed-in person (the PI's own: charges-pay.test.ts)
+  "/api/v1/charges/:chargeId/checkout": { get: "none", post: "member" },
+  "/api/v1/admin/charges": { get: "admin", post: "none" },
+  // the seeded drafts have no paid charge: 404 for the team too (the receipt itself: charges-pay.test.ts)
+  "/proposals/:proposalId/charges/:chargeId/receipt.pdf": { get: "member", post: "none", getOk: 404 },
+  "/admin/charges.csv": { get: "admin", post: "none" },
   "/proposals/:proposalId/pdf": { get: "member", post: "none" },
   "/proposals/:proposalId/decision-letter.pdf": { get: "member", post: "none", getOk: 404 }, // the seeded drafts have no letter
   "/proposals/:proposalId/files/:fileId": { get: "member", post: "none" },
@@ -92,6 +99,7 @@ const expectations: Record<string, Rule> = {
   "/proposals/:proposalId/change-log": { get: "member", post: "none" },
   "/proposals/:proposalId/epochs": { get: "member", post: "member" }, // the probe: 400 (intent must be accept-replan)
   "/proposals/:proposalId/decision": { get: "member", post: "none" },
+  "/proposals/:proposalId/charges": { get: "member", post: "member" },
   "/proposals/:proposalId/submit": { get: "member", post: "member", getOk: 302 }, // a GET goes to the summary
   "/calls": { get: "anyone", post: "none" },
   "/admin?index": { get: "admin", post: "none" },
@@ -106,6 +114,7 @@ const expectations: Record<string, Rule> = {
   // A and B are drafts, not accepted astrometry programmes: 404 for the office too (tested in epoch-log.test.ts)
   "/admin/epochs/:proposalId": { get: "office", post: "office", getOk: 404 },
   "/admin/calls/:callId/decisions": { get: "admin", post: "admin" },
+  "/admin/charges": { get: "admin", post: "admin" },
   "/*": { get: "anyone", post: "none", getOk: 404 },
 };
 
@@ -123,11 +132,12 @@ function instancesOf(pattern: string, ids: SeededIds): Instance[] {
   }
   if (pattern.includes(":proposalId")) {
     return [
-      { label: "proposal A", params: { proposalId: ids.proposalA, callId: ids.callId }, members: ["pi", "coi"] },
-      { label: "proposal B", params: { proposalId: ids.proposalB, callId: ids.callId }, members: ["stranger", "coi"] },
+      { label: "proposal A", params: { proposalId: ids.proposalA, callId: ids.callId, chargeId: 4_000_000_000 }, members: ["pi", "coi"] },
+      { label: "proposal B", params: { proposalId: ids.proposalB, callId: ids.callId, chargeId: 4_000_000_000 }, members: ["stranger", "coi"] },
     ];
   }
   if (pattern === "/*") return [{ label: "unknown page", params: {}, members: [] }];
+  if (pattern.includes(":chargeId")) return [{ label: "no such charge", params: { chargeId: 4_000_000_000 }, members: [] }];
   return [{ label: "", params: { telescopeId: ids.telescopeId, instrumentId: ids.instrumentId, callId: ids.callId, assignmentId: ids.assignmentId, id: 4_000_000_000 }, members: [] }];
 }
 

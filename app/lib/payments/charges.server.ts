@@ -7,6 +7,7 @@
 // Raising twice changes nothing (one charge of a kind per proposal and semester).
 import type { Transaction } from "sequelize";
 import { Allocation, Call, Charge, Proposal, User } from "~/models/index.server";
+import type { ChargeState } from "~/models/Charge";
 
 /** The access fee in minor units: hours × rate, rounded to the nearest minor unit (common practice). */
 export function accessFeeCents(hours: number, ratePerHourCents: number): number {
@@ -23,7 +24,7 @@ export type ChargeView = {
   rateCents: number;
   amountCents: number;
   currency: string;
-  state: Charge["state"];
+  state: ChargeState;
   paidAt: string | null;
   waivedAt: string | null;
   waiveReason: string | null;
@@ -75,4 +76,14 @@ export async function raiseAccessFee({ proposalId, transaction }: { proposalId: 
 /** A proposal's charges, oldest first. */
 export async function chargesOf({ proposalId }: { proposalId: number }): Promise<ChargeView[]> {
   return (await Charge.findAll({ where: { proposalId }, order: [["createdAt", "ASC"], ["id", "ASC"]] })).map(chargeView);
+}
+
+/** The page charge in minor units: pages × the call's rate per page. */
+export function pageChargeCents(pages: number, ratePerPageCents: number): number {
+  return pages * ratePerPageCents;
+}
+
+/** The day after which a call's semester has ended (its end date is the last day of it, UTC). */
+export function semesterEnded(call: Pick<Call, "semesterEnd">, now = new Date()): boolean {
+  return now.toISOString().slice(0, 10) > call.semesterEnd;
 }
