@@ -52,7 +52,7 @@ describe("the epoch log", () => {
     expect(before).toBeGreaterThan(0);
     expect(await piPage.getByTestId("epoch-counts").textContent()).toContain("3 executed, 0 lost, 2 still planned");
     // an accepted astrometry programme has the tab (drafts keep the seven parts: tests/e2e/workspace.test.ts)
-    expect(await piPage.getByRole("navigation", { name: "Proposal sections" }).getByRole("link").allTextContents()).toEqual(["Summary", "Targets", "Observations", "Feasibility sheet", "Science case", "Team", "Epoch progress", "Change log"]);
+    expect(await piPage.getByRole("navigation", { name: "Proposal sections" }).getByRole("link").allTextContents()).toEqual(["Summary", "Targets", "Observations", "Feasibility sheet", "Science case", "Team", "Epoch progress", "Change log", "Charges"]);
     await screenshot(piPage, "epoch-log-01-pi-before");
 
     const context = await suite.browser.newContext({ viewport: { width: 1400, height: 1000 } });

@@ -35,10 +35,16 @@ beforeAll(async () => {
 });
 afterAll(async () => server?.close());
 
+// serials from 901 up within this file's call: codes stay unique (also for the migrations test's down)
+let nextSerial = 900;
+
 async function programme({ member = false, status = "accepted" as Proposal["status"], title = "Charged programme" } = {}) {
   const pi = await newUser({ name: member ? "Member PI" : "Visiting PI" });
   await User.update({ isMemberInstitution: member, institution: member ? "Consortium Institute" : "Far Valley Institute" }, { where: { id: pi.user.id } });
-  const proposal = await Proposal.create({ callId: call.id, title, abstract: "Invented.", scienceCategory: null, semestersRequested: [], createdById: pi.user.id, status, code: `9${Math.floor(Math.random() * 90 + 10)}/${call.semesterCode.slice(-3)}` });
+  const proposal = await Proposal.create({ callId: call.id, title, abstract: "Invented.", scienceCategory: null, semestersRequested: [], createdById: pi.user.id, status, ...(() => {
+    const serial = ++nextSerial;
+    return { serial, code: `${serial}/${call.semesterCode.slice(-3)}` };
+  })() });
   await ProposalMember.create({ proposalId: proposal.id, userId: pi.user.id, email: pi.email, role: "pi", acceptedAt: new Date() });
   const coi = await newUser({ name: "Co-investigator" });
   await ProposalMember.create({ proposalId: proposal.id, userId: coi.user.id, email: coi.email, role: "coi", acceptedAt: new Date() });

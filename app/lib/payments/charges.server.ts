@@ -6,7 +6,7 @@
 // when the PI declares the pages of the data-release paper: pages × the call's page rate.
 // Raising twice changes nothing (one charge of a kind per proposal and semester).
 import type { Transaction } from "sequelize";
-import { Allocation, Call, Charge, Proposal, User } from "~/models/index.server";
+import { Allocation, Call, Charge, Proposal, ProposalMember, User } from "~/models/index.server";
 import type { ChargeState } from "~/models/Charge";
 
 /** The access fee in minor units: hours × rate, rounded to the nearest minor unit (common practice). */
@@ -58,7 +58,8 @@ export async function raiseAccessFee({ proposalId, transaction }: { proposalId: 
   if (!proposal || proposal.status !== "accepted") return null;
   const [call, pi, allocations] = await Promise.all([
     Call.findByPk(proposal.callId as number, { transaction }),
-    User.findByPk(proposal.createdById as number, { transaction }),
+    // the team's PI now (a hand-over moves the role), else the one who created the proposal
+    ProposalMember.findOne({ where: { proposalId, role: "pi" }, transaction }).then((m) => User.findByPk((m?.userId ?? proposal.createdById) as number, { transaction })),
     Allocation.findAll({ where: { proposalId }, transaction }),
   ]);
   if (!call || !pi || pi.isMemberInstitution) return null;
