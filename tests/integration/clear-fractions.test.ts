@@ -2,8 +2,8 @@
 // the month's field with what was typed kept, emptied months removed, audited; the demo seed's
 // invented values are in place for the seeded telescopes.
 import { beforeAll, describe, expect, it } from "vitest";
-import { AuditEntry, Telescope, TelescopeClearFraction } from "~/models/index.server";
-import { DEMO_CLEAR_FRACTIONS } from "../../sequelize/seeders/20261202070100-demo-allocation";
+import { AuditEntry, sequelize, Telescope, TelescopeClearFraction } from "~/models/index.server";
+import { DEMO_CLEAR_FRACTIONS, up } from "../../sequelize/seeders/20261202070100-demo-allocation";
 import { form, request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
 import { newUser } from "../helpers/session";
@@ -54,9 +54,14 @@ describe("expected clear nights per month", () => {
     expect(await TelescopeClearFraction.count({ where: { telescopeId: telescope.id } })).toBe(10);
   });
 
-  it("is seeded for the demo telescopes with the demo's invented values", async () => {
-    const seeded = await Telescope.findOne({ where: { name: "KRO 2.4 m" } });
-    const rows = await TelescopeClearFraction.findAll({ where: { telescopeId: seeded!.id }, order: [["month", "ASC"]] });
+  it("is seeded with the demo's invented values for every telescope (the seeder run again on its own)", async () => {
+    // other test files change the seeded telescopes' months (and put them back): the seeder is
+    // checked on a telescope of this test's own, which it fills like the demo's
+    const fresh = await Telescope.create({ name: `Seeded weather ${Date.now()}`, siteName: "Elsewhere", latitudeDeg: 10, longitudeDeg: 10, elevationM: 100, timeZone: "UTC", apertureM: 0.5 });
+    await up({ context: sequelize });
+    const rows = await TelescopeClearFraction.findAll({ where: { telescopeId: fresh.id }, order: [["month", "ASC"]] });
     expect(rows.map((r) => r.clearFraction)).toEqual(DEMO_CLEAR_FRACTIONS);
+    await TelescopeClearFraction.destroy({ where: { telescopeId: fresh.id } });
+    await fresh.destroy();
   });
 });
