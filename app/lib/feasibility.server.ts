@@ -28,16 +28,21 @@ function byProposal<T extends { proposalId?: unknown }>(rows: T[]): Map<number, 
  * board reads hundreds): proposals, their calls with offers, targets, observations with epochs,
  * the telescopes with instruments and filters, and the semesters the office has set up.
  */
-export async function loadFeasibilityInputs({ proposalIds, proposals: given }: { proposalIds: number[]; proposals?: Proposal[] }): Promise<Map<number, FeasibilityInput>> {
+/** What the inputs need of a proposal (a model, or a plain row the caller has just read). */
+export type FeasibilityProposal = { id: number; callId?: unknown; isMultiSemester: boolean | number; semestersRequested: string[] | string | null };
+
+export async function loadFeasibilityInputs({ proposalIds, proposals: given, calls: givenCalls }: { proposalIds: number[]; proposals?: FeasibilityProposal[]; calls?: Call[] }): Promise<Map<number, FeasibilityInput>> {
   const out = new Map<number, FeasibilityInput>();
   const ids = [...new Set(proposalIds)];
   if (ids.length === 0) return out;
   // a caller that has just read the proposals passes them
-  const proposals = given ? given.filter((p) => ids.includes(p.id)) : await Proposal.findAll({ where: { id: ids } });
+  const wanted = new Set(ids);
+  const proposals: FeasibilityProposal[] = given ? given.filter((p) => wanted.has(p.id)) : await Proposal.findAll({ where: { id: ids } });
   if (proposals.length === 0) return out;
   const callIds = [...new Set(proposals.map((p) => p.callId as number))];
   const [callRows, targets, observations, telescopes, calls] = await Promise.all([
-    Call.findAll({ where: { id: callIds }, include: [{ model: CallOffer, as: "offers" }] }),
+    // a caller that has the calls with their offers passes them
+    givenCalls && callIds.every((id) => givenCalls.some((c) => c.id === id)) ? givenCalls : Call.findAll({ where: { id: callIds }, include: [{ model: CallOffer, as: "offers" }] }),
     // plain rows: hundreds of proposals' targets and observations need no model instances
     Target.findAll({ where: { proposalId: ids }, order: [["id", "ASC"]], raw: true }),
     Observation.findAll({ where: { proposalId: ids }, order: [["id", "ASC"]], raw: true }),
@@ -94,8 +99,9 @@ export async function loadFeasibilityInputs({ proposalIds, proposals: given }: {
           .filter((c) => c.semesterStart > call.semesterEnd)
           .map((c) => ({ code: c.semesterCode, start: c.semesterStart, end: c.semesterEnd })),
       },
-      isMultiSemester: proposal.isMultiSemester,
-      semestersRequested: proposal.semestersRequested ?? [call.semesterCode],
+      // plain rows bring MariaDB's TINYINT and JSON text
+      isMultiSemester: Boolean(proposal.isMultiSemester),
+      semestersRequested: (typeof proposal.semestersRequested === "string" ? (JSON.parse(proposal.semestersRequested) as string[]) : proposal.semestersRequested) ?? [call.semesterCode],
       ...shared,
       targets: (targetsOf.get(proposal.id) ?? []).map((t) => ({
         id: t.id,
@@ -173,8 +179,8 @@ export async function computeFeasibilitySheet({ proposalId }: { proposalId: numb
 }
 
 /** Sheets of many proposals (the ranking board); a sheet that fails to compute is its Error. */
-export async function computeFeasibilitySheets({ proposalIds, proposals }: { proposalIds: number[]; proposals?: Proposal[] }): Promise<Map<number, FeasibilitySheet | Error>> {
-  const inputs = await loadFeasibilityInputs({ proposalIds, proposals });
+export async function computeFeasibilitySheets({ proposalIds, proposals, calls }: { proposalIds: number[]; proposals?: FeasibilityProposal[]; calls?: Call[] }): Promise<Map<number, FeasibilitySheet | Error>> {
+  const inputs = await loadFeasibilityInputs({ proposalIds, proposals, calls });
   const out = new Map<number, FeasibilitySheet | Error>();
   for (const id of proposalIds) {
     const input = inputs.get(id);

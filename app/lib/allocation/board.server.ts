@@ -33,13 +33,14 @@ export async function committedHours({ callId, semesterCode }: { callId: number;
 export async function callBoard({ callId, sheets }: { callId: number; sheets?: Map<number, FeasibilitySheet> }) {
   const [call, proposals] = await Promise.all([
     Call.findByPk(callId, { include: [{ model: CallOffer, as: "offers" }] }),
-    Proposal.findAll({ where: { callId, status: { [Op.in]: [...BOARD_STATES] } }, order: [["serial", "ASC"], ["id", "ASC"]] }),
+    // plain rows (hundreds of proposals): no model instances
+    Proposal.findAll({ where: { callId, status: { [Op.in]: [...BOARD_STATES] } }, order: [["serial", "ASC"], ["id", "ASC"]], raw: true }),
   ]);
   if (!call) callNotFound();
   const ids = proposals.map((p) => p.id);
   // the sheets load beside the grades and the allocation (the pool has connections to spare)
   const [computed, pis, grades, entries, allocations, allocation, committed] = await Promise.all([
-    computeFeasibilitySheets({ proposalIds: ids, proposals }),
+    computeFeasibilitySheets({ proposalIds: ids, proposals, calls: [call] }),
     User.findAll({ where: { id: [...new Set(proposals.map((p) => p.createdById as number))] }, attributes: ["id", "institution"], raw: true }),
     // plain rows (hundreds of grades); DECIMAL comes back as text
     ReviewAssignment.findAll({ where: { callId, status: "submitted", overall: { [Op.ne]: null }, proposalId: { [Op.in]: ids.length ? ids : [0] } }, attributes: ["proposalId", "reviewerId", "overall"], raw: true }),
