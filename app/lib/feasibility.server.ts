@@ -4,7 +4,7 @@ import { createHash } from "node:crypto";
 import { altitudeCurve } from "~/lib/astro/visibility";
 import { buildFeasibilitySheet, type FeasibilityInput, type FeasibilitySheet } from "~/lib/feasibility";
 import { Call, CallOffer, Filter, Instrument, Observation, PlannedEpoch, Proposal, Target, Telescope } from "~/models/index.server";
-import { magnitudesOf } from "~/models/Target";
+import { sheetTarget } from "~/models/Target";
 import { Lru } from "./lru";
 import { plainInstrument } from "./office.server";
 
@@ -103,17 +103,7 @@ export async function loadFeasibilityInputs({ proposalIds, proposals: given, cal
       isMultiSemester: Boolean(proposal.isMultiSemester),
       semestersRequested: (typeof proposal.semestersRequested === "string" ? (JSON.parse(proposal.semestersRequested) as string[]) : proposal.semestersRequested) ?? [call.semesterCode],
       ...shared,
-      targets: (targetsOf.get(proposal.id) ?? []).map((t) => ({
-        id: t.id,
-        name: t.name,
-        raDeg: t.raDeg,
-        decDeg: t.decDeg,
-        pmRaMasPerYr: t.pmRaMasPerYr,
-        pmDecMasPerYr: t.pmDecMasPerYr,
-        magnitudes: magnitudesOf(t),
-        magnitude: t.magnitude,
-        band: t.band,
-      })),
+      targets: (targetsOf.get(proposal.id) ?? []).map(sheetTarget),
       observations: (observationsOf.get(proposal.id) ?? []).map((o) => ({
         id: o.id,
         targetId: o.targetId,

@@ -5,7 +5,7 @@ import { writeAudit } from "~/lib/audit.server";
 import type { TargetInput } from "~/lib/schemas/proposals";
 import { DUPLICATE_RADIUS_ARCSEC, parseTargetCsv, type CsvReport, type CsvRowResult } from "~/lib/target-csv";
 import { Observation, sequelize, Target } from "~/models/index.server";
-import { magnitudesOf } from "~/models/Target";
+import { sheetTarget } from "~/models/Target";
 import { assertEditable, getProposalForUser, ProposalRefused, type Actor } from "./proposals.server";
 
 export const MAX_TARGETS = 1_000;
@@ -38,15 +38,7 @@ export async function targetRows(proposalId: number, transaction?: Transaction):
   const count = new Map<number, number>();
   for (const o of observations) count.set(o.targetId, (count.get(o.targetId) ?? 0) + 1);
   return targets.map((t) => ({
-    id: t.id,
-    name: t.name,
-    raDeg: t.raDeg,
-    decDeg: t.decDeg,
-    pmRaMasPerYr: t.pmRaMasPerYr,
-    pmDecMasPerYr: t.pmDecMasPerYr,
-    magnitudes: magnitudesOf(t),
-    magnitude: t.magnitude,
-    band: t.band,
+    ...sheetTarget(t),
     notes: t.notes,
     observations: count.get(t.id) ?? 0,
   }));

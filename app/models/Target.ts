@@ -77,3 +77,18 @@ function syncMagnitudes(t: Target) {
     t.magnitudes = m !== null && m !== undefined && b ? { [b]: m } : {};
   }
 }
+
+/** A target as the sheet (and the targets tab, which adds its own columns) reads it. */
+export function sheetTarget(t: Target) {
+  return {
+    id: t.id,
+    name: t.name,
+    raDeg: t.raDeg,
+    decDeg: t.decDeg,
+    pmRaMasPerYr: t.pmRaMasPerYr,
+    pmDecMasPerYr: t.pmDecMasPerYr,
+    magnitudes: magnitudesOf(t),
+    magnitude: t.magnitude,
+    band: t.band,
+  };
+}

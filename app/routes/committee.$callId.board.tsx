@@ -17,7 +17,7 @@ import { fieldErrors, idSchema, readForm } from "~/lib/forms";
 import { formValues, refusalResponse } from "~/lib/proposal-routes.server";
 import { chairRankSchema, reasonSchema } from "~/lib/schemas/allocation";
 import { scienceCategoryLabel } from "~/lib/proposal-vocabulary";
-import { apiId } from "~/lib/review/api.server";
+import { pageCallId } from "~/lib/review/chair.server";
 import { Telescope } from "~/models/index.server";
 import { OwedEpochs } from "~/components/epochs/OwedEpochs";
 import { owedBeforeCall } from "~/lib/epochs/epochs.server";
@@ -28,14 +28,6 @@ export const handle = { wide: true };
 
 export function meta({ data: d }: Route.MetaArgs) {
   return [{ title: `Ranking board ${d?.board.call.semesterCode ?? ""} · Committee · Nightshare` }];
-}
-
-function callIdOf(params: { callId?: string }) {
-  try {
-    return apiId(params.callId, "callId");
-  } catch {
-    throw data({ message: "There is no call at this address." }, { status: 404 });
-  }
 }
 
 const boardIntent = z.discriminatedUnion("intent", [
@@ -53,7 +45,7 @@ const boardIntent = z.discriminatedUnion("intent", [
 
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireRole(request, "chair");
-  const callId = callIdOf(params);
+  const callId = pageCallId(params);
   const values = formValues(await readForm(request));
   const parsed = boardIntent.safeParse(values);
   if (!parsed.success) {
@@ -87,7 +79,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
-  const callId = callIdOf(params);
+  const callId = pageCallId(params);
   const sheets = new Map<number, FeasibilitySheet>(); // read once for the board and its RA pressure
   const [board, telescopes, semesterCheck] = await Promise.all([
     callBoard({ callId, sheets }),
