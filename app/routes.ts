@@ -21,6 +21,7 @@ export default [
   route("api/v1/calls/:callId/board", "routes/api.v1.calls.$callId.board.ts"),
   route("api/v1/calls/:callId/board/rank", "routes/api.v1.calls.$callId.board.rank.ts"),
   route("api/v1/calls/:callId/ra-pressure", "routes/api.v1.calls.$callId.ra-pressure.ts"),
+  route("api/v1/calls/:callId/reproducibility", "routes/api.v1.calls.$callId.reproducibility.ts"),
   route("api/v1/calls/:callId/allocation", "routes/api.v1.calls.$callId.allocation.ts"),
   route("api/v1/calls/:callId/allocation/fill-by-rank", "routes/api.v1.calls.$callId.allocation.fill-by-rank.ts"),
   route("api/v1/calls/:callId/allocation/lock", "routes/api.v1.calls.$callId.allocation.lock.ts"),

@@ -79,6 +79,7 @@ export async function callBoard({ callId, sheets }: { callId: number; sheets?: M
       rawMean: score?.rawMean ?? null,
       normalisedScore: score?.normalisedScore ?? null,
       normalisedZ: score?.normalisedZ ?? null,
+      zScores: score?.zScores ?? [],
       spread: score?.spread ?? null,
       disagreement: score?.disagreement ?? false,
       fallbackReviewerIds: score?.fallbackReviewerIds ?? [],

@@ -118,27 +118,28 @@ function walkLine(line: Line, order: Int32Array, n: number, above: Uint8Array, r
   }
 }
 
-/** 0..n-1, the starting order for rankInto. */
+/** 0..n-1, the starting order for a ranking. */
 const identity = (n: number) => Int32Array.from({ length: n }, (_, i) => i);
 
 /**
- * Sorts `order` (a permutation of 0..n-1) by score, best first, ties by index. An insertion sort
- * from the last draw's order: the draws move ranks only a little, so this is near linear and
- * several times faster here than a comparator sort.
+ * Ranks by score, best first, ties by index. Score and index are packed into one unsigned 32-bit
+ * key — ⌈log₂ n⌉ bits for the index, the rest for the score quantised within [lowest, highest]
+ * (23 bits at 300 proposals: steps of 10⁻⁷ of the grades' range; two means closer than that
+ * count as tied) — and sorted by the engine's numeric sort, several times faster than a sort with
+ * a comparator. Above 4 096 proposals it falls back to a comparator sort.
  */
-function rankInto(order: Int32Array, score: Float64Array, n: number) {
-  for (let r = 1; r < n; r++) {
-    const i = order[r];
-    const s = score[i];
-    let k = r - 1;
-    while (k >= 0) {
-      const j = order[k];
-      if (score[j] > s || (score[j] === s && j < i)) break;
-      order[k + 1] = j;
-      k--;
-    }
-    order[k + 1] = i;
-  }
+function ranker(n: number, lowest: number, highest: number) {
+  const indexBits = Math.max(1, Math.ceil(Math.log2(Math.max(2, n))));
+  if (indexBits > 12) return (order: Int32Array, score: Float64Array) => void order.sort((a, b) => score[b] - score[a] || a - b);
+  const slots = 2 ** indexBits;
+  const levels = 2 ** (32 - indexBits) - 1;
+  const scale = highest > lowest ? levels / (highest - lowest) : 0;
+  const keys = new Uint32Array(n);
+  return (order: Int32Array, score: Float64Array) => {
+    for (let i = 0; i < n; i++) keys[i] = Math.round((highest - score[i]) * scale) * slots + i;
+    keys.sort();
+    for (let r = 0; r < n; r++) order[r] = keys[r] & (slots - 1);
+  };
 }
 
 function flatten(inputs: readonly RankedInput[]) {
@@ -146,7 +147,14 @@ function flatten(inputs: readonly RankedInput[]) {
   inputs.forEach((p, i) => (start[i + 1] = start[i] + p.z.length));
   const z = new Float64Array(start[inputs.length]);
   inputs.forEach((p, i) => z.set(p.z, start[i]));
-  return { start, z };
+  let lowest = Infinity;
+  let highest = -Infinity;
+  for (const v of z) {
+    if (v < lowest) lowest = v;
+    if (v > highest) highest = v;
+  }
+  // a mean of any resample or half of a proposal's grades lies within the grades' range
+  return { start, z, lowest, highest };
 }
 
 /**
@@ -158,7 +166,8 @@ export function bootstrapRanks(inputs: readonly RankedInput[], rule: AcceptRule,
   const draws = Math.max(1, Math.floor(options.draws ?? DEFAULT_DRAWS));
   const seed = (options.seed ?? seedOf(inputs, rule)) >>> 0;
   const line = lineOf(inputs, rule);
-  const { start, z } = flatten(inputs);
+  const { start, z, lowest, highest } = flatten(inputs);
+  const rankInto = ranker(n, lowest, highest);
   const rng = xoroshiro128plus(seed);
   const score = new Float64Array(n);
   const order = identity(n);
@@ -172,9 +181,9 @@ export function bootstrapRanks(inputs: readonly RankedInput[], rule: AcceptRule,
       const k = start[i + 1] - s;
       let sum = 0;
       for (let j = 0; j < k; j++) sum += z[s + Math.floor(unit(rng) * k)];
-      score[i] = k > 0 ? sum / k : -Infinity;
+      score[i] = k > 0 ? sum / k : lowest;
     }
-    rankInto(order, score, n);
+    rankInto(order, score);
     for (let r = 0; r < n; r++) rankCounts[order[r] * n + r]++;
     walkLine(line, order, n, above, running);
     for (let i = 0; i < n; i++) aboveCounts[i] += above[i];
@@ -206,7 +215,8 @@ export function splitHalfReproducibility(inputs: readonly RankedInput[], rule: A
   const empty = { expectedAgreement: null, spread: null, quartileAgreement: null, draws, seed, proposals: n, leftOut: inputs.length - n };
   if (n < 2) return empty;
   const line = lineOf(splittable, rule);
-  const { start, z } = flatten(splittable);
+  const { start, z, lowest, highest } = flatten(splittable);
+  const rankInto = ranker(n, lowest, highest);
   const rng = xoroshiro128plus(seed);
   const scoreA = new Float64Array(n);
   const scoreB = new Float64Array(n);
@@ -240,8 +250,8 @@ export function splitHalfReproducibility(inputs: readonly RankedInput[], rule: A
       scoreA[i] = a / half;
       scoreB[i] = b / (k - half);
     }
-    rankInto(orderA, scoreA, n);
-    rankInto(orderB, scoreB, n);
+    rankInto(orderA, scoreA);
+    rankInto(orderB, scoreB);
     walkLine(line, orderA, n, aboveA, running);
     walkLine(line, orderB, n, aboveB, running);
     let accepted = 0;
