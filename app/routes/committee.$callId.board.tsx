@@ -196,7 +196,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
           const outcome = checkOf.get(c.row.original.proposalId);
           if (!outcome || outcome.completionProbability === null) return "–";
           return (
-            <span className={stale ? "text-slate-500" : undefined} title={stale ? "From a check whose inputs have changed since" : undefined}>
+            <span data-testid={`completion-${c.row.original.proposalId}`} className={stale ? "text-slate-500" : undefined} title={stale ? "From a check whose inputs have changed since" : undefined}>
               {Math.round(outcome.completionProbability * 100)} %
               {outcome.flag ? <span className="ml-1 rounded bg-red-100 px-1.5 py-0.5 text-xs text-red-900">{outcome.flag === "assured-below-goal" ? "assured < 90 %" : "queue < 50 %"}</span> : null}
             </span>
