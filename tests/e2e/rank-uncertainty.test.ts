@@ -3,7 +3,8 @@
 // estimate — and all of it changes when the office offers enough hours for every proposal.
 import { describe, expect, it } from "vitest";
 import { callBoard } from "~/lib/allocation/board.server";
-import { CallOffer, Proposal, ReviewAssignment } from "~/models/index.server";
+import { Call, CallOffer, Proposal, ReviewAssignment } from "~/models/index.server";
+import { demoCallPlan } from "../../sequelize/seeders/20261201000100-demo-observatory";
 import { screenshot, watchConsole } from "../helpers/browser";
 import { appInBrowser } from "../helpers/browser-suite";
 import { newUser, sessionCookieFor } from "../helpers/session";
@@ -86,6 +87,30 @@ describe("rank uncertainty on the ranking board", () => {
     for (const i of [0, 1, 5, 7]) expect(await aboveText(i)).toBe("100 %");
     expect(await page.getByTestId("reproducibility").textContent()).toContain("Reproducibility 100 %");
     await screenshot(page, "rank-uncertainty-02-room-for-all");
+    expect(errors).toEqual([]);
+  });
+
+  it("on the demo call in review, every ranked proposal has its interval and the call its estimate", { timeout: 180_000 }, async () => {
+    const chair = await newUser({ roles: ["chair"], name: "Firmness Demo Chair" });
+    const demoCall = (await Call.findOne({ where: { semesterCode: demoCallPlan().review.semesterCode } }))!;
+    const graded = new Set((await ReviewAssignment.findAll({ where: { callId: demoCall.id, status: "submitted" }, attributes: ["proposalId"] })).map((a) => a.proposalId as number));
+    expect(graded.size).toBeGreaterThan(3);
+    const context = await suite.browser.newContext({ viewport: { width: 1500, height: 1100 } });
+    const [name, value] = (await sessionCookieFor(chair.email)).split("=");
+    await context.addCookies([{ name, value, url: suite.server.url }]);
+    const page = await context.newPage();
+    const errors = watchConsole(page);
+    await page.goto(`${suite.server.url}/committee/${demoCall.id}/board`);
+    await page.getByRole("heading", { name: "How firm is this ranking?" }).waitFor();
+    for (const id of graded) {
+      expect(await page.getByTestId(`rank-${id}`).textContent()).toMatch(/^\d+ \(\d+–\d+\)/);
+      expect(await page.getByTestId(`above-${id}`).textContent()).toMatch(/^\d+ %/);
+    }
+    const sentence = (await page.getByTestId("reproducibility").textContent())!;
+    expect(sentence).toMatch(/^Reproducibility \d+ % ± \d+ %/);
+    console.log(`demo call ${demoCall.semesterCode}: ${sentence}`);
+    await page.getByRole("heading", { name: "How firm is this ranking?" }).scrollIntoViewIfNeeded();
+    await screenshot(page, "rank-uncertainty-03-demo-call");
     expect(errors).toEqual([]);
   });
 });

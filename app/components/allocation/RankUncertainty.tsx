@@ -28,7 +28,7 @@ export function ReproducibilityCard({ uncertainty, telescopeName }: { uncertaint
       ) : (
         <p data-testid="reproducibility">
           Reproducibility <strong>{percent(r.expectedAgreement)}</strong> ± {percent(r.spread)}: if each proposal's reviewers were split into two random halves, the second half would accept on average {percent(r.expectedAgreement)} of the proposals the first half puts above the allocation line
-          <span className="text-slate-600"> ({r.draws} splits, seed {r.seed}; {r.proposals} proposals{r.leftOut ? `, ${r.leftOut} with a single grade left out` : ""})</span>.
+          <span className="text-slate-600"> ({r.draws} splits, seed {r.seed}; {r.proposals} proposals{r.leftOut ? `; ${r.leftOut} with a single grade keep their place but are not counted` : ""})</span>.
         </p>
       )}
       <p className="text-sm text-slate-700">
@@ -41,7 +41,7 @@ export function ReproducibilityCard({ uncertainty, telescopeName }: { uncertaint
         {coinFlip.cells.length ? ` (${coinFlip.cells.map((c) => `${telescopeName(c.telescopeId)} ${c.moonCategory} ${c.hours.toFixed(1)} h`).join(", ")})` : ""}. Their rows are shaded.
       </p>
       <p className="text-sm text-slate-700">
-        The rank interval is the 16th to 84th percentile of a proposal's rank over {DEFAULT_DRAWS} draws that resample each proposal's own normalised grades with replacement; "above line" is the share of draws in which its requested hours still fit within the offered hours of every telescope × moon category it asks for, counting down the computed ranking. The chair's moves are not drawn.
+        The rank interval is the 16th to 84th percentile of a proposal's rank over {DEFAULT_DRAWS} draws that resample each proposal's own normalised grades with replacement; "above line" is the share of draws in which, counting down that draw's ranking as fill by rank does, its requested hours still fit within what is left of the offered hours in every telescope × moon category it asks for (a request that does not fit takes nothing). The chair's moves are not drawn.
       </p>
     </section>
   );

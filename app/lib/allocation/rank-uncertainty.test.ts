@@ -35,20 +35,22 @@ describe("rank bootstrap", () => {
     expect(rows[0].probabilityAboveLine! + rows[1].probabilityAboveLine!).toBeCloseTo(1, 12);
   });
 
-  it("walks the hours line per telescope × moon cell, like the allocation page's running totals", () => {
+  it("walks the hours line per telescope × moon cell as fill by rank does for offered hours", () => {
     // no spread within a proposal: every draw gives the same order 1, 2, 3, 4
     const cell = (key: string, hours: number) => ({ key, hours });
     const inputs: RankedInput[] = [
       { proposalId: 11, z: [1, 1], requested: [cell("7|dark", 10)] },
       { proposalId: 12, z: [0.5, 0.5], requested: [cell("7|dark", 10), cell("7|grey", 2)] },
-      { proposalId: 13, z: [0, 0], requested: [cell("7|dark", 10)] }, // 30 > 25: below
+      { proposalId: 13, z: [0, 0], requested: [cell("7|dark", 10)] }, // 30 > 25: below, and adds nothing
       { proposalId: 14, z: [-0.5], requested: [cell("7|grey", 3)] }, // grey 5 ≤ 5: above although 13 is not
       { proposalId: 15, z: [-1], requested: [] },
       { proposalId: 16, z: [-2], requested: [cell("9|bright", 1)] }, // a cell the call does not offer
+      { proposalId: 17, z: [-3], requested: [cell("7|dark", 5)] }, // 25 ≤ 25: fits beside 11 and 12
+      { proposalId: 18, z: [-4], requested: [cell("7|dark", 0.5)] }, // dark is full now
     ];
     const { rows } = bootstrapRanks(inputs, { kind: "hours", offered: [cell("7|dark", 25), cell("7|grey", 5)] }, { draws: 50 });
-    expect(rows.map((r) => r.probabilityAboveLine)).toEqual([1, 1, 0, 1, null, 0]);
-    expect(rows.map((r) => r.rankInterval)).toEqual([1, 2, 3, 4, 5, 6].map((r) => ({ low: r, high: r })));
+    expect(rows.map((r) => r.probabilityAboveLine)).toEqual([1, 1, 0, 1, null, 0, 1, 0]);
+    expect(rows.map((r) => r.rankInterval)).toEqual([1, 2, 3, 4, 5, 6, 7, 8].map((r) => ({ low: r, high: r })));
   });
 
   it("widens the interval with the reviewers' disagreement and keeps the order of the means", () => {
@@ -76,11 +78,20 @@ describe("rank bootstrap", () => {
 });
 
 describe("split-half reproducibility", () => {
-  it("leaves out proposals with one grade and says how many", () => {
+  it("does not count proposals with one grade and says how many", () => {
     const r = splitHalfReproducibility([a, b, { proposalId: 3, z: [0.4], requested: [] }], { kind: "top", count: 1 }, { splits: 200 });
     expect(r.proposals).toBe(2);
     expect(r.leftOut).toBe(1);
     expect(r.expectedAgreement).not.toBeNull();
+  });
+
+  it("keeps a single-graded proposal's place on the line", () => {
+    // two places: the single-graded first takes one, so a and b compete for the other; without its
+    // place both would always be accepted and the agreement would be 1
+    const single = { proposalId: 3, z: [5], requested: [] };
+    const r = splitHalfReproducibility([a, b, single], { kind: "top", count: 2 }, { splits: 500 });
+    expect(r.expectedAgreement!).toBeLessThan(0.9);
+    expect(splitHalfReproducibility([a, b], { kind: "top", count: 2 }, { splits: 500 }).expectedAgreement).toBe(1);
   });
 
   it("has nothing to say about fewer than two splittable proposals", () => {

@@ -3,14 +3,16 @@
 //
 // Bootstrap: each draw resamples every ranked proposal's own normalised grades (z-scores) with
 // replacement, all proposals jointly, ranks the means and walks the allocation line. The line is
-// the one the allocation page draws: down the order, the running total of requested hours per
-// telescope × moon category of the call's semester; a proposal lies above it when every cell it
-// asks for still fits within the offered hours after its own request.
+// the one fill by rank draws for offered hours: down the order, a proposal lies above it when every
+// telescope × moon category of the call's semester it asks for still holds its request within the
+// offered hours, and then its hours join the running totals; a proposal that does not fit adds
+// nothing, so one too large for the call does not push everyone below it under the line.
 //
 // Reproducibility: the proposal's reviewers are split in two random halves many times; each half
 // ranks the call and walks the same line. The estimate is the mean (and standard deviation) over
 // the splits of the fraction of the first half's accepted list that the second half accepts too.
-// Proposals with fewer than two grades cannot be split and stay out of that estimate.
+// A proposal with a single grade cannot be split: it keeps that grade in both halves (so it still
+// takes its place on the line) but is not counted in the agreement.
 import { xoroshiro128plus } from "pure-rand/generator/xoroshiro128plus";
 import type { RandomGenerator } from "pure-rand/types/RandomGenerator";
 
@@ -49,7 +51,7 @@ export type Reproducibility = {
   quartileAgreement: [number, number, number, number] | null;
   draws: number;
   seed: number;
-  /** proposals in the estimate (two grades or more) and left out (fewer) */
+  /** proposals counted in the estimate (two grades or more) and not counted (fewer: they keep their place on the line) */
   proposals: number;
   leftOut: number;
 };
@@ -106,15 +108,15 @@ function walkLine(line: Line, order: Int32Array, n: number, above: Uint8Array, r
   running.fill(0);
   for (let r = 0; r < n; r++) {
     const i = order[r];
-    let fits = true;
     const base = i * (C + 1);
-    for (let c = 0; c <= C; c++) {
+    let fits = true;
+    for (let c = 0; c <= C && fits; c++) {
       const h = req[base + c];
-      if (h === 0) continue;
-      running[c] += h;
-      if (running[c] > (c < C ? offered[c] : 0) + EPS) fits = false;
+      if (h !== 0 && running[c] + h > (c < C ? offered[c] : 0) + EPS) fits = false;
     }
-    if (fits) above[i] = 1;
+    if (!fits) continue;
+    above[i] = 1;
+    for (let c = 0; c < C; c++) running[c] += req[base + c];
   }
 }
 
@@ -208,32 +210,39 @@ export function bootstrapRanks(inputs: readonly RankedInput[], rule: AcceptRule,
 
 /** Split-half reproducibility of the accepted list (see the head of this file). */
 export function splitHalfReproducibility(inputs: readonly RankedInput[], rule: AcceptRule, options: { splits?: number; seed?: number } = {}): Reproducibility {
-  const splittable = inputs.filter((p) => p.z.length >= 2);
-  const n = splittable.length;
+  const all = inputs.filter((p) => p.z.length >= 1);
+  const N = all.length;
+  const splittable = Uint8Array.from(all, (p) => (p.z.length >= 2 ? 1 : 0));
+  const n = splittable.reduce((s, v) => s + v, 0);
   const draws = Math.max(1, Math.floor(options.splits ?? DEFAULT_SPLITS));
   const seed = (options.seed ?? seedOf(inputs, rule)) >>> 0;
   const empty = { expectedAgreement: null, spread: null, quartileAgreement: null, draws, seed, proposals: n, leftOut: inputs.length - n };
   if (n < 2) return empty;
-  const line = lineOf(splittable, rule);
-  const { start, z, lowest, highest } = flatten(splittable);
-  const rankInto = ranker(n, lowest, highest);
+  const line = lineOf(all, rule);
+  const { start, z, lowest, highest } = flatten(all);
+  const rankInto = ranker(N, lowest, highest);
   const rng = xoroshiro128plus(seed);
-  const scoreA = new Float64Array(n);
-  const scoreB = new Float64Array(n);
-  const orderA = identity(n);
-  const orderB = identity(n);
-  const aboveA = new Uint8Array(n);
-  const aboveB = new Uint8Array(n);
+  const scoreA = new Float64Array(N);
+  const scoreB = new Float64Array(N);
+  const orderA = identity(N);
+  const orderB = identity(N);
+  const aboveA = new Uint8Array(N);
+  const aboveB = new Uint8Array(N);
   const running = new Float64Array(line.kind === "hours" ? line.C + 1 : 0);
-  const quartileOfB = new Uint8Array(n);
-  const perm = new Float64Array(start[n]);
+  const quartileOfB = new Uint8Array(N);
+  const perm = new Float64Array(start[N]);
   const agreements: number[] = [];
   const quartileSums = [0, 0, 0, 0];
-  const quartile = (r: number) => Math.min(3, Math.floor((4 * r) / n));
+  const quartileSeen = [0, 0, 0, 0];
+  const quartile = (r: number) => Math.min(3, Math.floor((4 * r) / N));
   for (let d = 0; d < draws; d++) {
-    for (let i = 0; i < n; i++) {
+    for (let i = 0; i < N; i++) {
       const s = start[i];
       const k = start[i + 1] - s;
+      if (k === 1) {
+        scoreA[i] = scoreB[i] = z[s];
+        continue;
+      }
       // Fisher–Yates shuffle of the proposal's grades, then the first ⌊k/2⌋ or ⌈k/2⌉ (at random) form half A
       for (let j = 0; j < k; j++) perm[s + j] = z[s + j];
       for (let j = k - 1; j > 0; j--) {
@@ -252,25 +261,31 @@ export function splitHalfReproducibility(inputs: readonly RankedInput[], rule: A
     }
     rankInto(orderA, scoreA);
     rankInto(orderB, scoreB);
-    walkLine(line, orderA, n, aboveA, running);
-    walkLine(line, orderB, n, aboveB, running);
+    walkLine(line, orderA, N, aboveA, running);
+    walkLine(line, orderB, N, aboveB, running);
     let accepted = 0;
     let both = 0;
-    for (let i = 0; i < n; i++) {
-      if (!aboveA[i]) continue;
+    for (let i = 0; i < N; i++) {
+      if (!aboveA[i] || !splittable[i]) continue;
       accepted++;
       both += aboveB[i];
     }
     if (accepted > 0) agreements.push(both / accepted);
-    for (let r = 0; r < n; r++) quartileOfB[orderB[r]] = quartile(r);
+    for (let r = 0; r < N; r++) quartileOfB[orderB[r]] = quartile(r);
     const same = [0, 0, 0, 0];
     const size = [0, 0, 0, 0];
-    for (let r = 0; r < n; r++) {
+    for (let r = 0; r < N; r++) {
+      const i = orderA[r];
+      if (!splittable[i]) continue;
       const q = quartile(r);
       size[q]++;
-      if (quartileOfB[orderA[r]] === q) same[q]++;
+      if (quartileOfB[i] === q) same[q]++;
     }
-    for (let q = 0; q < 4; q++) quartileSums[q] += size[q] ? same[q] / size[q] : 0;
+    for (let q = 0; q < 4; q++) {
+      if (!size[q]) continue;
+      quartileSums[q] += same[q] / size[q];
+      quartileSeen[q]++;
+    }
   }
   if (agreements.length === 0) return empty;
   let m = 0;
@@ -281,7 +296,7 @@ export function splitHalfReproducibility(inputs: readonly RankedInput[], rule: A
   return {
     expectedAgreement: m,
     spread: Math.sqrt(v / agreements.length),
-    quartileAgreement: quartileSums.map((s) => s / draws) as [number, number, number, number],
+    quartileAgreement: quartileSums.map((s, q) => (quartileSeen[q] ? s / quartileSeen[q] : 0)) as [number, number, number, number],
     draws,
     seed,
     proposals: n,
