@@ -173,7 +173,13 @@ export default function ReviewProposal({ loaderData }: Route.ComponentProps) {
         <h2>Summary</h2>
         <p className="whitespace-pre-wrap">{p.abstract || "No abstract."}</p>
         <h3 className="font-semibold">Team</h3>
-        <ul className="text-sm">{p.team.map((m, i) => <li key={i}>{memberRoleLabels[m.role]}: {m.name ?? "(not signed in yet)"}, {m.institution ?? "no institution given"}</li>)}</ul>
+        {p.teamHidden ? (
+          <p className="text-sm text-slate-700" data-testid="team-hidden">
+            {as === "reviewer" ? "Dual-anonymous review: the team's names and institutions are not shown. Judge the proposal on its content." : "Dual-anonymous review: the team is hidden until every grade is in and you reveal the teams on the call's review page."}
+          </p>
+        ) : (
+          <ul className="text-sm">{p.team.map((m, i) => <li key={i}>{memberRoleLabels[m.role]}: {m.name ?? "(not signed in yet)"}, {m.institution ?? "no institution given"}</li>)}</ul>
+        )}
       </section>
 
       <section className="card space-y-2">
