@@ -51,7 +51,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       }
     : null;
   const base = { reading: { ...reading, feasibilitySheet: null }, feasibility, now: new Date().toISOString() };
-  if (access.as === "reviewer") return { ...base, as: "reviewer" as const, review: await reviewForProposal({ user, proposalId }), reviews: null };
+  if (access.as === "reviewer") {
+    // the page gets the review, not the proposal and call records behind it (their ids name the PI's account)
+    const { proposal: _proposal, call: _call, ...review } = await reviewForProposal({ user, proposalId });
+    return { ...base, as: "reviewer" as const, review, reviews: null };
+  }
   // the chair reads every review of the proposal, committee comments included
   const board = await reviewBoard({ callId: access.call.id });
   const reviews = board.assignments

@@ -8,6 +8,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
 }
 
 export async function down({ context: qi }: { context: QueryInterface }) {
-  await qi.removeColumn("call_reviews", "teamsRevealedAt");
-  await qi.removeColumn("calls", "teamVisibility");
+  // Raw SQL: Sequelize 6's removeColumn trips over the MariaDB driver's result ("Cannot delete property 'meta'").
+  await qi.sequelize.query("ALTER TABLE call_reviews DROP COLUMN teamsRevealedAt");
+  await qi.sequelize.query("ALTER TABLE calls DROP COLUMN teamVisibility");
 }

@@ -129,6 +129,7 @@ describe("a reviewer of a dual-anonymous call", () => {
     const page = view.find(([w]) => w === `/review/${anon.proposal.id}`)![1];
     expect(page).toContain("Dual-anonymous review: the team");
     expect(page).toContain(anon.proposal.title); // the proposal itself is there
+    expect(page).not.toContain("createdById"); // nor the id of the PI's account
     const api = JSON.parse(view.find(([w]) => w.startsWith("/api/v1/proposals"))![1]);
     expect(api.proposal.team).toEqual([]);
     expect(api.proposal.teamHidden).toBe(true);
