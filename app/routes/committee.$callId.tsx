@@ -197,7 +197,7 @@ export default function CallReviewPage({ loaderData }: Route.ComponentProps) {
               <h3 className="font-semibold">
                 <Link to={`/review/${p.proposalId}`}>{p.code ?? `#${p.proposalId}`} · {p.title}</Link>
               </h3>
-              <p className="text-sm text-slate-600">{scienceCategoryLabel(p.category) ?? "no category"} · PI at {p.piInstitution ?? "?"} · {done.length}/{rows.filter((a) => a.status !== "conflict").length} submitted{mean !== null ? ` · mean overall ${mean.toFixed(2)}` : ""}</p>
+              <p className="text-sm text-slate-600">{scienceCategoryLabel(p.category) ?? "no category"} · {board.teamsHidden ? "team hidden" : `PI at ${p.piInstitution ?? "?"}`} · {done.length}/{rows.filter((a) => a.status !== "conflict").length} submitted{mean !== null ? ` · mean overall ${mean.toFixed(2)}` : ""}</p>
               <ul className="mt-1 space-y-1">
                 {rows.map((a) => (
                   <li key={a.assignmentId} className="text-sm">

@@ -3,7 +3,7 @@
 // The PI of an open dual-anonymous call sees the warnings on the science-case tab.
 import { describe, expect, it } from "vitest";
 import { storeScienceCase } from "~/lib/science-case.server";
-import { CallReview, Proposal, ReviewAssignment, ReviewPanelMember, User } from "~/models/index.server";
+import { Call, CallReview, Proposal, ReviewAssignment, ReviewPanelMember, User } from "~/models/index.server";
 import { screenshot, watchConsole } from "../helpers/browser";
 import { appInBrowser } from "../helpers/browser-suite";
 import { newUser, sessionCookieFor } from "../helpers/session";
@@ -81,5 +81,27 @@ describe("dual-anonymous review in the browser", () => {
     ]);
     await expect.poll(() => page.getByTestId("anonymity-summary").innerText()).toMatch(/may name the team on page 2 \(3 findings\)/);
     await screenshot(page, "anonymity-04-pi-warnings");
+  });
+
+  it("the office makes a call dual-anonymous on the call form", { timeout: 60_000 }, async () => {
+    const admin = await newUser({ roles: ["admin"], name: "Anonymity Office" });
+    const call = await testCall();
+    const page = await signedIn(suite, admin.email);
+    const errors = watchConsole(page);
+    await page.goto(`${suite.server.url}/admin/calls/${call.id}`);
+    await page.waitForSelector('html[data-hydrated="yes"]');
+    const named = page.getByRole("radio", { name: /^Named: reviewers see the team/ });
+    const anonymous = page.getByRole("radio", { name: /^Dual-anonymous: reviewers never see the team/ });
+    expect(await named.isChecked()).toBe(true);
+    expect(await anonymous.isChecked()).toBe(false);
+    await anonymous.check();
+    await page.getByRole("group", { name: "Reviewers see the team" }).screenshot({ path: "tests/screenshots/anonymity-05-call-form-option.png" });
+    await page.getByRole("button", { name: "Save the call" }).click();
+    await page.waitForURL(/\/admin\/calls\?saved=/);
+    expect((await Call.findByPk(call.id))!.teamVisibility).toBe("dual_anonymous");
+    await page.goto(`${suite.server.url}/admin/calls/${call.id}`);
+    expect(await page.getByRole("radio", { name: /^Dual-anonymous/ }).isChecked()).toBe(true);
+    await screenshot(page, "anonymity-06-call-form");
+    expect(errors).toEqual([]);
   });
 });
