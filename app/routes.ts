@@ -17,6 +17,7 @@ export default [
   route("api/v1/calls/:callId/review", "routes/api.v1.calls.$callId.review.ts"),
   route("api/v1/calls/:callId/review/suggest", "routes/api.v1.calls.$callId.review.suggest.ts"),
   route("api/v1/calls/:callId/review/assignments", "routes/api.v1.calls.$callId.review.assignments.ts"),
+  route("api/v1/calls/:callId/review/teams", "routes/api.v1.calls.$callId.review.teams.ts"),
   route("api/v1/calls/:callId/reviews", "routes/api.v1.calls.$callId.reviews.ts"),
   route("api/v1/calls/:callId/board", "routes/api.v1.calls.$callId.board.ts"),
   route("api/v1/calls/:callId/board/rank", "routes/api.v1.calls.$callId.board.rank.ts"),

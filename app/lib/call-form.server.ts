@@ -22,6 +22,7 @@ export function callToForm(call: Awaited<ReturnType<typeof getCall>>, timeZone: 
     accessFee: call.accessFeePerHourCents / 100,
     pageCharge: call.pageChargeCents / 100,
     offers: call.offers,
+    teamVisibility: call.teamVisibility,
   };
 }
 
@@ -39,6 +40,7 @@ export function emptyCallForm(latest: { semesterCode: string; semesterEnd: strin
     accessFee: 0,
     pageCharge: 0,
     offers: {},
+    teamVisibility: "named",
     ...(latest ? nextSemester(latest) : {}),
   };
 }

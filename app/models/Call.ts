@@ -1,4 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from "sequelize";
+import { teamVisibilities, type TeamVisibility } from "~/lib/domain";
 import type { CallOffer } from "./CallOffer";
 
 export class Call extends Model<InferAttributes<Call>, InferCreationAttributes<Call>> {
@@ -16,6 +17,8 @@ export class Call extends Model<InferAttributes<Call>, InferCreationAttributes<C
   declare currency: CreationOptional<string>;
   declare accessFeePerHourCents: CreationOptional<number>;
   declare pageChargeCents: CreationOptional<number>;
+  /** whether reviewers see the team: "named", or "dual_anonymous" (hidden from reviewers, and from the chair until revealed) */
+  declare teamVisibility: CreationOptional<TeamVisibility>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare offers?: NonAttribute<CallOffer[]>;
@@ -34,6 +37,7 @@ export class Call extends Model<InferAttributes<Call>, InferCreationAttributes<C
         currency: { type: DataTypes.STRING(3), allowNull: false, defaultValue: "eur" },
         accessFeePerHourCents: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
         pageChargeCents: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+        teamVisibility: { type: DataTypes.ENUM(...teamVisibilities), allowNull: false, defaultValue: "named" },
         createdAt: DataTypes.DATE(3),
         updatedAt: DataTypes.DATE(3),
       },

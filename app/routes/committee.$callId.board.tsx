@@ -15,6 +15,7 @@ import { raPressureSection } from "~/lib/allocation/ra-pressure.server";
 import { latestSemesterCheck } from "~/lib/allocation/semester-check.server";
 import type { FeasibilitySheet } from "~/lib/feasibility";
 import { DISAGREEMENT_SPAN, MIN_GRADES } from "~/lib/allocation/normalise";
+import { HIDDEN_TEAM } from "~/lib/domain";
 import { requireRole } from "~/lib/auth.server";
 import { fieldErrors, idSchema, readForm } from "~/lib/forms";
 import { formValues, refusalResponse } from "~/lib/proposal-routes.server";
@@ -264,6 +265,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
           Each reviewer's overall merits become z-scores within that reviewer's own grades in this call; a proposal's normalised score is the mean of its reviewers' z-scores, mapped back to the 1–10 scale around the panel's mean ({fixed(board.panel.mean, 2)}) and spread ({fixed(board.panel.sd, 2)}).
           A reviewer with fewer than {MIN_GRADES} grades, or one grade for everything, is placed on the panel's scale instead. Reviewers disagree when their z-scores span more than {DISAGREEMENT_SPAN}.
         </p>
+        {board.proposals.some((p) => p.piInstitution === HIDDEN_TEAM) ? <p className="text-sm text-slate-700" data-testid="teams-hidden">Dual-anonymous review: PI institutions are hidden until you reveal the teams on the <Link to={`/committee/${board.call.id}`}>call's review page</Link>, once every grade is in.</p> : null}
         <SortableTable table={table} empty="No proposal on the board matches." rowClassName={(row) => (inCoinFlipBand(row.probabilityAboveLine) ? "bg-amber-50 hover:bg-amber-100" : undefined)} />
       </section>
       <section className="card space-y-3">

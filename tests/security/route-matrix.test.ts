@@ -49,6 +49,8 @@ const expectations: Record<string, Rule> = {
   "/api/v1/calls/:callId/review": { get: "chair", post: "none" },
   "/api/v1/calls/:callId/review/suggest": { get: "none", post: "chair" },
   "/api/v1/calls/:callId/review/assignments": { get: "none", post: "none" }, // PUT (tested in review.test.ts)
+  // the seeded call is named: the POST is a 409 (dual-anonymous reveals in review-anonymity.test.ts)
+  "/api/v1/calls/:callId/review/teams": { get: "chair", post: "chair" },
   "/api/v1/calls/:callId/reviews": { get: "chair", post: "none" },
   "/api/v1/calls/:callId/board": { get: "chair", post: "none" },
   "/api/v1/calls/:callId/board/rank": { get: "none", post: "chair" },

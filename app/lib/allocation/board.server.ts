@@ -5,6 +5,7 @@
 import { Op } from "sequelize";
 import { moonCategories, type MoonCategory } from "~/lib/domain";
 import { computeFeasibilitySheets, type FeasibilitySheet } from "~/lib/feasibility.server";
+import { blankTeamsUntilRevealed } from "~/lib/review/anonymity.server";
 import { callNotFound } from "~/lib/review/chair.server";
 import { Allocation, BoardEntry, Call, CallAllocation, CallOffer, Proposal, ReviewAssignment, User } from "~/models/index.server";
 import { normaliseGrades } from "./normalise";
@@ -128,7 +129,7 @@ export async function callBoard({ callId, sheets }: { callId: number; sheets?: M
     reviewers: normalised.reviewers,
     locked: Boolean(allocation?.lockedAt),
     settings: { assuredShareLimit: allocation?.assuredShareLimit ?? 0.8, fillerMargin: allocation?.fillerMargin ?? 0.3 },
-    proposals: rows,
+    proposals: await blankTeamsUntilRevealed(callId, rows), // dual-anonymous: no PI institution before the reveal
     oversubscription,
   };
 }

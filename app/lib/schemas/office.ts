@@ -2,7 +2,7 @@
 // before sending) and the action (checked again). Numbers arrive as typed text; an empty field is
 // a message, never a silent 0.
 import { z } from "zod";
-import { moonCategories } from "~/lib/domain";
+import { moonCategories, teamVisibilities } from "~/lib/domain";
 import { canonicalTimeZone, isValidTimeZone, startOfDateInZone, zonedLocalToUtc } from "~/lib/zoned-time";
 
 interface NumberRule {
@@ -166,6 +166,7 @@ export const callSchema = z
     currency: z.enum(currencies, "Choose the currency of the charges."),
     accessFee: money("Access fee"),
     pageCharge: money("Page charge"),
+    teamVisibility: z.enum(teamVisibilities, "Choose whether reviewers see the team.").optional(),
   })
   .transform((call, ctx) => {
     const opensAt = zonedLocalToUtc(call.opensAt, call.timeZone);
@@ -210,6 +211,8 @@ export const callSchema = z
       currency: call.currency,
       accessFeePerHourCents: Math.round(call.accessFee * 100),
       pageChargeCents: Math.round(call.pageCharge * 100),
+      // left out of a body, the call keeps what it had (a new call is named)
+      ...(call.teamVisibility ? { teamVisibility: call.teamVisibility } : {}),
       offers,
     };
   });
