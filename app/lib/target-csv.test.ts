@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { parseTargetCsv, refusedCsvText, splitCsvLine } from "./target-csv";
+import { refusedCsvText } from "./target-csv";
+import { parseTargetCsv } from "./target-csv.server";
 
 describe("target CSV import", () => {
   it("accepts sexagesimal and decimal positions with optional columns", () => {
@@ -63,8 +64,15 @@ describe("target CSV import", () => {
   });
 
   it("handles quoted cells and semicolons", () => {
-    expect(splitCsvLine('"Field, north",10,"say ""hi"""', ",")).toEqual(["Field, north", "10", 'say "hi"']);
     const report = parseTargetCsv("name;ra;dec\nSemi;10;10");
     expect(report.rows[0].ok).toBe(true);
+  });
+
+  it("keeps a quoted line break inside its cell and counts the lines after it", () => {
+    // before csv-parse, the text was split into lines first and this row broke in two
+    const report = parseTargetCsv('name,ra,dec\n"Field\nnorth",10,10\n"Next,\nwith a comma",11,11\nLast,12,12');
+    expect(report.error).toBeUndefined();
+    expect(report.rows.map((r) => [r.line, r.ok])).toEqual([[2, true], [4, true], [6, true]]);
+    expect(report.rows[0].ok && report.rows[0].target.name).toBe("Field\nnorth");
   });
 });

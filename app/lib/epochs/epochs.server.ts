@@ -12,7 +12,8 @@ import { feasibilitySheetOf, loadFeasibilityInput, loadFeasibilityInputs } from 
 import { getProposalForUser, notFound, ProposalRefused } from "~/lib/proposals.server";
 import { Call, ExecutedEpoch, Instrument, Observation, PlannedEpoch, Proposal, sequelize, Target, Telescope } from "~/models/index.server";
 import type { EpochRecordSource } from "~/models/ExecutedEpoch";
-import { parseNightLogCsv, type NightLogReport } from "./night-log-csv";
+import type { NightLogReport } from "./night-log-csv";
+import { parseNightLogCsv } from "./night-log-csv.server";
 import { epochPrecision, meetsRequired, parallaxFactorsAt, plannedEpochTime, precisionReached, type PrecisionReached } from "./progress";
 import { replanRemaining, type Replan } from "./replan";
 import { parseObservedAt, type EpochRecordInput } from "./schema";
