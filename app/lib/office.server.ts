@@ -367,6 +367,10 @@ function plainCall(c: Call) {
     currency: c.currency,
     accessFeePerHourCents: c.accessFeePerHourCents,
     pageChargeCents: c.pageChargeCents,
+    reviewMode: c.reviewMode,
+    reviewsPerSubmitter: c.reviewsPerSubmitter,
+    separateCompetitors: c.separateCompetitors,
+    unreviewedPolicy: c.unreviewedPolicy,
   };
 }
 

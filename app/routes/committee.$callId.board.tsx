@@ -1,4 +1,5 @@
 import { createColumnHelper, getCoreRowModel, getFilteredRowModel, getSortedRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
+import { ReviewDutyBadge } from "~/components/allocation/ReviewDutyBadge";
 import { useMemo, useState } from "react";
 import { data, Form, Link, useActionData, useNavigation } from "react-router";
 import { z } from "zod";
@@ -138,6 +139,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
       column.accessor((r) => (r.category ? scienceCategoryLabel(r.category) : ""), { id: "category", header: "Category" }),
       column.accessor((r) => r.piInstitution ?? "", { id: "institution", header: "PI institution" }),
       column.accessor("reviews", { header: "Reviews" }),
+      ...(board.proposals.some((r) => r.reviewDuty) ? [column.accessor((r) => (r.reviewDuty?.late ? 1 : 0), { id: "reviewDuty", header: "Team's reviews", cell: (c) => <ReviewDutyBadge duty={c.row.original.reviewDuty} withheld={c.row.original.rankWithheld} /> })] : []),
       column.accessor("rawMean", { header: "Raw mean", cell: (c) => fixed(c.getValue(), 2) }),
       column.accessor("normalisedScore", {
         header: "Normalised",
@@ -170,7 +172,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
         },
       }),
     ];
-  }, [call.semesterCode, checkOf, stale]);
+  }, [call.semesterCode, checkOf, stale, board.proposals]);
   const table = useReactTable({
     data: board.proposals,
     columns,

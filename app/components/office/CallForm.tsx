@@ -3,9 +3,10 @@ import { Form, useNavigation } from "react-router";
 import { moonCategories } from "~/lib/domain";
 import { callSchema, currencies, offerField } from "~/lib/schemas/office";
 import { formatInZone, formatUtc, zonedLocalToUtc } from "~/lib/zoned-time";
+import { CallReviewOptions, type ReviewOptionValues } from "./CallReviewOptions";
 import { fieldId, FormError, Message, NumberField, OfficeFields, TextField, useField, useOfficeForm, type FormResult } from "./fields";
 
-export interface CallFormValues {
+export interface CallFormValues extends ReviewOptionValues {
   semesterCode: string;
   title: string;
   /** wall clock at the observatory, YYYY-MM-DDTHH:MM */
@@ -239,6 +240,8 @@ export function CallForm({
           <NumberField prefix={p} name="pageCharge" label="Page charge" unit="per page" defaultValue={v("pageCharge")} error={errors.pageCharge} hint="0 for none" />
         </div>
       </fieldset>
+
+      <CallReviewOptions prefix={p} initial={initial} typed={result?.values} errors={errors} />
 
       <button type="submit" className="btn" disabled={busy}>
         {busy ? "Saving…" : submitLabel}

@@ -3,6 +3,7 @@
 // a message, never a silent 0.
 import { z } from "zod";
 import { moonCategories } from "~/lib/domain";
+import { DEFAULT_REVIEWS_PER_SUBMITTER, MAX_REVIEWS_PER_SUBMITTER, reviewModes, unreviewedPolicies, type ReviewMode, type UnreviewedPolicy } from "~/lib/review/vocabulary";
 import { canonicalTimeZone, isValidTimeZone, startOfDateInZone, zonedLocalToUtc } from "~/lib/zoned-time";
 
 interface NumberRule {
@@ -144,6 +145,25 @@ function monthsAfter(date: string, months: number) {
   return d.toISOString().slice(0, 10);
 }
 
+// ---- distributed review (call options): a field left out of the body keeps the default
+const reviewOptionFields = {
+  reviewMode: z.enum(reviewModes, "Choose who reviews the proposals.").default("panel"),
+  reviewsPerSubmitter: z.preprocess(
+    (value) => (value === undefined ? String(DEFAULT_REVIEWS_PER_SUBMITTER) : value),
+    numberField("Reviews per submitting team", { min: 1, max: MAX_REVIEWS_PER_SUBMITTER, integer: true }),
+  ),
+  // a checkbox: present ("on") or absent
+  separateCompetitors: z.preprocess((value) => value === true || value === "on" || value === "true", z.boolean()),
+  unreviewedPolicy: z.enum(unreviewedPolicies, "Choose what happens to a proposal whose team does not deliver its reviews.").default("flag"),
+};
+type ReviewOptions = { reviewMode: ReviewMode; reviewsPerSubmitter: number; separateCompetitors: boolean; unreviewedPolicy: UnreviewedPolicy };
+const reviewOptionsOf = (call: ReviewOptions): ReviewOptions => ({
+  reviewMode: call.reviewMode,
+  reviewsPerSubmitter: call.reviewsPerSubmitter,
+  separateCompetitors: call.separateCompetitors,
+  unreviewedPolicy: call.unreviewedPolicy,
+});
+
 /**
  * The call form. Dates and times are typed as the observatory's wall clock (`timeZone`, which the
  * server sets to the observatory's zone); the result carries UTC instants. Cells of the offered-hours
@@ -166,6 +186,7 @@ export const callSchema = z
     currency: z.enum(currencies, "Choose the currency of the charges."),
     accessFee: money("Access fee"),
     pageCharge: money("Page charge"),
+    ...reviewOptionFields,
   })
   .transform((call, ctx) => {
     const opensAt = zonedLocalToUtc(call.opensAt, call.timeZone);
@@ -210,6 +231,7 @@ export const callSchema = z
       currency: call.currency,
       accessFeePerHourCents: Math.round(call.accessFee * 100),
       pageChargeCents: Math.round(call.pageCharge * 100),
+      ...reviewOptionsOf(call),
       offers,
     };
   });
