@@ -3,6 +3,7 @@
 // conflict rules and the competitor rule (same telescope × moon category); a submitter without the
 // reviewer role grades on the desk through the assignment alone; late teams are flagged on the
 // board or left unranked; the team rates the helpfulness of each comment, the chair sees the mean.
+import { Op } from "sequelize";
 import { beforeAll, describe, expect, it } from "vitest";
 import { callBoard } from "~/lib/allocation/board.server";
 import { anonymisedComments } from "~/lib/decisions/anonymise";
@@ -11,6 +12,7 @@ import { Call, CallReview, DecisionLetter, Observation, Proposal, ProposalMember
 import { form, request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
 import { newUser } from "../helpers/session";
+import { DISTRIBUTED_DEMO_TITLE } from "../../sequelize/seeders/20261202090600-demo-distributed";
 import { readyProposal, testCall } from "./proposals-fixtures";
 
 type Person = Awaited<ReturnType<typeof newUser>>;
@@ -324,5 +326,29 @@ describe("helpfulness of the comments", () => {
     // the reviewer's desk shows nothing of it
     const desk = await (await request()).get("/review").set("Cookie", pi.D1.cookie);
     expect(desk.text).not.toContain("helpful");
+  });
+});
+
+describe("the demo's distributed call (seeded relative to today)", () => {
+  it("ten proposals in review, each designated reviewer with four, reviews partly in, no conflicted pair", async () => {
+    const seeded = await Call.findOne({ where: { reviewMode: "distributed", title: { [Op.like]: `${DISTRIBUTED_DEMO_TITLE}%` } } });
+    expect(seeded).not.toBeNull();
+    expect(seeded!.deadlineAt.getTime()).toBeLessThan(Date.now());
+    const proposals = await Proposal.findAll({ where: { callId: seeded!.id } });
+    expect(proposals.length).toBe(10);
+    expect(proposals.every((x) => x.status === "in_review" && x.designatedReviewerId)).toBe(true);
+    const rows = await ReviewAssignment.findAll({ where: { callId: seeded!.id } });
+    const reviewers = [...new Set(proposals.map((x) => x.designatedReviewerId))];
+    for (const r of reviewers) expect(rows.filter((a) => a.reviewerId === r).length).toBe(4);
+    const submitted = rows.filter((a) => a.status === "submitted").length;
+    expect(submitted).toBeGreaterThan(0);
+    expect(submitted).toBeLessThan(rows.length);
+    const state = await (await request()).get(`/api/v1/calls/${seeded!.id}/review`).set("Cookie", chair.cookie);
+    expect(state.status).toBe(200);
+    const conflicted = new Set(state.body.conflicts.map((c: { proposalId: number; reviewerId: number }) => `${c.proposalId}:${c.reviewerId}`));
+    expect(state.body.conflicts.some((c: { reason: string }) => /same telescope and moon category/.test(c.reason))).toBe(true);
+    expect(rows.filter((a) => conflicted.has(`${a.proposalId}:${a.reviewerId}`))).toEqual([]);
+    const review = await CallReview.findOne({ where: { callId: seeded!.id } });
+    expect(review!.reviewDeadlineAt!.getTime()).toBeGreaterThan(Date.now());
   });
 });
