@@ -125,7 +125,11 @@ export default function Assignments({ loaderData }: Route.ComponentProps) {
           <button type="button" className="btn-quiet" onClick={() => save(false)} disabled={busy || !dirty}>Save the matrix</button>
           <button type="button" className="btn" onClick={() => save(true)} disabled={busy || pairs.size === 0}>Commit and e-mail the reviewers</button>
         </div>
-        <p className="text-xs text-slate-500">The suggestion is a {method}: every proposal gets {k} reviewers free of conflicts where possible, loads stay within one, and reviewers who know the category come first.</p>
+        <p className="text-xs text-slate-500">
+          {distributed
+            ? `The suggestion is a ${method}: every designated reviewer gets ${call.reviewsPerSubmitter} proposals free of conflicts where possible, the reviews are spread evenly over the proposals, and proposals of the reviewer's own category come first.`
+            : `The suggestion is a ${method}: every proposal gets ${k} reviewers free of conflicts where possible, loads stay within one, and reviewers who know the category come first.`}
+        </p>
         {suggestion ? (
           <div className="rounded-md border border-night-200 bg-night-50 p-3 text-sm" aria-label="Suggestion">
             <p>Suggested: {suggestion.assignments.length} pairs; loads {Math.min(...suggestion.loads.map((l) => l.count))}–{Math.max(...suggestion.loads.map((l) => l.count))}{suggestion.balanced ? "" : " (the conflicts do not allow loads within one)"}.</p>
@@ -143,7 +147,12 @@ export default function Assignments({ loaderData }: Route.ComponentProps) {
         ) : null}
         {message ? <p role={message.tone === "error" ? "alert" : "status"} className={message.tone === "error" ? "rounded-md border border-red-200 bg-red-50 px-3 py-2 text-red-800" : "rounded-md border border-emerald-300 bg-emerald-50 px-3 py-2 text-emerald-900"}>{message.text}</p> : null}
         <p className="text-sm" aria-live="polite">
-          {pairs.size} pairs · loads {counts.length ? `${Math.min(...counts)}–${Math.max(...counts)}` : "—"}{spread > 1 ? " (more than one apart)" : ""} · {short.length ? `${short.length} proposal${short.length === 1 ? "" : "s"} with fewer than ${k}` : `every proposal has ${k}`}
+          {pairs.size} pairs · loads {counts.length ? `${Math.min(...counts)}–${Math.max(...counts)}` : "—"}{spread > 1 ? " (more than one apart)" : ""} · {distributed
+            ? (() => {
+                const under = counts.filter((c) => c < call.reviewsPerSubmitter).length;
+                return under ? `${under} reviewer${under === 1 ? "" : "s"} with fewer than ${call.reviewsPerSubmitter}` : `every reviewer has ${call.reviewsPerSubmitter}`;
+              })()
+            : short.length ? `${short.length} proposal${short.length === 1 ? "" : "s"} with fewer than ${k}` : `every proposal has ${k}`}
           {dirty ? " · unsaved changes" : ""} · {review.committedAt ? "committed" : "not committed"}
         </p>
       </section>

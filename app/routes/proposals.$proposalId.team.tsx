@@ -1,7 +1,7 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useEffect } from "react";
 import { useForm } from "react-hook-form";
-import { data, redirect, useActionData, useFetcher } from "react-router";
+import { data, Link, redirect, useActionData, useFetcher } from "react-router";
 import { Field, inputProps } from "~/components/Field";
 import { useWorkspace } from "~/components/workspace";
 import { requireUser } from "~/lib/auth.server";
@@ -138,6 +138,7 @@ function TeamReviewer({ loaderData, editable, isPi }: { loaderData: Route.Compon
       <p data-testid="designated-reviewer">
         {current ? <>Reviewer: <strong>{current.name ?? current.email}</strong></> : <span className="text-amber-800">No reviewer chosen yet; the proposal cannot be submitted without one.</span>}
       </p>
+      {current?.isYou && !editable ? <p className="text-sm">Your assignments appear on the <Link to="/review">review desk</Link> once the chair commits them (you are told by e-mail).</p> : null}
       {editable && isPi ? (
         <fetcher.Form method="post" className="flex flex-wrap items-end gap-3">
           <input type="hidden" name="intent" value="designate-reviewer" />

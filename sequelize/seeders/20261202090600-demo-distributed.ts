@@ -58,7 +58,7 @@ const comments = [
   "The case is interesting, although the team could explain better why this field and not a neighbouring one.",
 ];
 const technical = [
-  "The feasibility sheet shows the requested moon category leaves enough usable hours, and the exposure reaches the signal-to-noise the analysis needs. The overheads look right for three frames per epoch.",
+  "The feasibility sheet shows the requested moon category leaves enough usable hours, and the exposure reaches the signal-to-noise the analysis needs. The overheads look right for six frames per visit.",
   "The exposure plan is sensible, but the airmass limit leaves little margin at the end of the semester; the team should say what it does if the first nights are lost to weather.",
 ];
 const endings = [
@@ -125,7 +125,7 @@ export async function up({ context: sequelize }: { context: Sequelize }) {
           code: proposalCode(call.semesterCode, serial),
           serial,
           title: d.title,
-          abstract: `${d.title}: one field observed once in the semester with the ${d.telescope} m in ${d.moon} time, to the signal-to-noise the measurement needs. A pilot programme of the submitter-reviewed call.`,
+          abstract: `${d.title}: one field observed six times in the semester with the ${d.telescope} m in ${d.moon} time, to the signal-to-noise the measurement needs. A pilot programme of the submitter-reviewed call.`,
           scienceCategory: d.category,
           status: "in_review",
           isMultiSemester: false,
@@ -159,8 +159,8 @@ export async function up({ context: sequelize }: { context: Sequelize }) {
           filterId: filter.id,
           snrGoal: 50,
           exposureSeconds: null,
-          framesPerEpoch: 3,
-          epochsPerSemester: 1,
+          framesPerEpoch: 6,
+          epochsPerSemester: 6,
           baselineYears: null,
           requiredPmPrecisionMasPerYr: null,
           moonCategory: d.moon,
