@@ -103,6 +103,8 @@ export async function up({ context: sequelize }: { context: Sequelize }) {
       },
       transaction,
     });
+    // a call left from an earlier seed whose columns were rolled back (migrations down and up) is put right
+    if (call.reviewMode !== "distributed") await call.update({ reviewMode: "distributed", reviewsPerSubmitter: 4, separateCompetitors: true, unreviewedPolicy: "flag" }, { transaction });
     const telescopes = await Telescope.findAll({ include: [{ model: Instrument, as: "instruments", include: [{ model: Filter, as: "filters" }] }], transaction });
     const byAperture = (a: "2.4" | "1.0") => telescopes.find((t) => t.apertureM === Number(a));
     if (!(await CallOffer.count({ where: { callId: call.id }, transaction }))) {
@@ -114,7 +116,11 @@ export async function up({ context: sequelize }: { context: Sequelize }) {
     const audits: { actorId: number; action: string; entityType: string; entityId: number; proposalId: number; details: Record<string, unknown> }[] = [];
     let serial = (await Proposal.max<number, Proposal>("serial", { where: { callId: call.id }, transaction })) ?? 0;
     for (const [index, d] of demos.entries()) {
-      if (await Proposal.findOne({ where: { title: d.title }, transaction })) continue;
+      const found = await Proposal.findOne({ where: { title: d.title }, transaction });
+      if (found) {
+        if (!found.designatedReviewerId) await found.update({ designatedReviewerId: (await userFor(d.reviewerCoi ?? d.pi, transaction)).id }, { transaction });
+        continue;
+      }
       const pi = await userFor(d.pi, transaction);
       const coi = d.reviewerCoi ? await userFor(d.reviewerCoi, transaction) : null;
       serial += 1;

@@ -5,8 +5,8 @@
 import { Op } from "sequelize";
 import { describe, expect, it } from "vitest";
 import { anonymisedComments } from "~/lib/decisions/anonymise";
-import { Call, DecisionLetter, Proposal, ProposalMember, ReviewAssignment, ReviewHelpfulness, User } from "~/models/index.server";
-import { DISTRIBUTED_DEMO_TITLE } from "../../sequelize/seeders/20261202090600-demo-distributed";
+import { sequelize, Call, DecisionLetter, Proposal, ProposalMember, ReviewAssignment, ReviewHelpfulness, User } from "~/models/index.server";
+import { DISTRIBUTED_DEMO_TITLE, up as seedDistributedDemo } from "../../sequelize/seeders/20261202090600-demo-distributed";
 import { screenshot, watchConsole } from "../helpers/browser";
 import { appInBrowser } from "../helpers/browser-suite";
 import { newUser, sessionCookieFor } from "../helpers/session";
@@ -101,6 +101,7 @@ describe("distributed review in the browser", () => {
 
   it("the chair reads the demo's distributed call: the matrix with helpfulness, the board with the team's reviews", { timeout: 120_000 }, async () => {
     const chair = await newUser({ roles: ["chair"], name: "Browser Distributed Chair" });
+    await seedDistributedDemo({ context: sequelize }); // idempotent; puts the demo right after a migrations round trip
     const call = (await Call.findOne({ where: { reviewMode: "distributed", title: { [Op.like]: `${DISTRIBUTED_DEMO_TITLE}%` } } }))!;
     const { context, page, errors } = await pageAs(chair.email);
     await page.goto(`${suite.server.url}/committee/${call.id}/assignments`);

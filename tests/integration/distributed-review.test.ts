@@ -8,11 +8,11 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { callBoard } from "~/lib/allocation/board.server";
 import { anonymisedComments } from "~/lib/decisions/anonymise";
 import { helpfulnessByReviewer } from "~/lib/review/helpfulness.server";
-import { Call, CallReview, DecisionLetter, Observation, Proposal, ProposalMember, ReviewAssignment, ReviewHelpfulness, User } from "~/models/index.server";
+import { sequelize, Call, CallReview, DecisionLetter, Observation, Proposal, ProposalMember, ReviewAssignment, ReviewHelpfulness, User } from "~/models/index.server";
 import { form, request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
 import { newUser } from "../helpers/session";
-import { DISTRIBUTED_DEMO_TITLE } from "../../sequelize/seeders/20261202090600-demo-distributed";
+import { DISTRIBUTED_DEMO_TITLE, up as seedDistributedDemo } from "../../sequelize/seeders/20261202090600-demo-distributed";
 import { readyProposal, testCall } from "./proposals-fixtures";
 
 type Person = Awaited<ReturnType<typeof newUser>>;
@@ -330,6 +330,10 @@ describe("helpfulness of the comments", () => {
 });
 
 describe("the demo's distributed call (seeded relative to today)", () => {
+  // the seeder is idempotent and puts the call right if an earlier test file rolled migrations back
+  beforeAll(async () => {
+    await seedDistributedDemo({ context: sequelize });
+  });
   it("ten proposals in review, each designated reviewer with four, reviews partly in, no conflicted pair", async () => {
     const seeded = await Call.findOne({ where: { reviewMode: "distributed", title: { [Op.like]: `${DISTRIBUTED_DEMO_TITLE}%` } } });
     expect(seeded).not.toBeNull();
