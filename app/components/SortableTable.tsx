@@ -1,7 +1,7 @@
 import { flexRender, type Table } from "@tanstack/react-table";
 
 /** A TanStack table with clickable, announced sort headers and a message when no row matches. */
-export function SortableTable<Row>({ table, empty }: { table: Table<Row>; empty: string }) {
+export function SortableTable<Row>({ table, empty, rowClassName }: { table: Table<Row>; empty: string; rowClassName?: (row: Row) => string | undefined }) {
   const columnCount = table.getVisibleLeafColumns().length;
   return (
     <div className="overflow-x-auto rounded-lg border border-slate-200 bg-white">
@@ -25,7 +25,7 @@ export function SortableTable<Row>({ table, empty }: { table: Table<Row>; empty:
         </thead>
         <tbody>
           {table.getRowModel().rows.map((row) => (
-            <tr key={row.id} className="hover:bg-night-50">
+            <tr key={row.id} className={rowClassName?.(row.original) ?? "hover:bg-night-50"}>
               {row.getVisibleCells().map((cell) => (
                 <td key={cell.id}>{flexRender(cell.column.columnDef.cell, cell.getContext())}</td>
               ))}

@@ -27,6 +27,7 @@ export function callToForm(call: Awaited<ReturnType<typeof getCall>>, timeZone: 
     separateCompetitors: call.separateCompetitors,
     unreviewedPolicy: call.unreviewedPolicy,
     offers: call.offers,
+    teamVisibility: call.teamVisibility,
   };
 }
 
@@ -48,6 +49,7 @@ export function emptyCallForm(latest: { semesterCode: string; semesterEnd: strin
     separateCompetitors: false,
     unreviewedPolicy: "flag",
     offers: {},
+    teamVisibility: "named",
     ...(latest ? nextSemester(latest) : {}),
   };
 }

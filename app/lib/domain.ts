@@ -25,3 +25,13 @@ export type AllocationTier = (typeof allocationTiers)[number];
 /** Why an epoch was lost (the epoch log). */
 export const lostCauses = ["weather", "technical"] as const;
 export type LostCause = (typeof lostCauses)[number];
+
+/** Whether a call's reviewers see the team (dual-anonymous: hidden from reviewers, and from the chair until the reveal). */
+export const teamVisibilities = ["named", "dual_anonymous"] as const;
+export type TeamVisibility = (typeof teamVisibilities)[number];
+export const teamVisibilityLabels: Record<TeamVisibility, string> = {
+  named: "Named: reviewers see the team",
+  dual_anonymous: "Dual-anonymous: reviewers never see the team",
+};
+/** Shown where a dual-anonymous call's team (a PI's institution) would be, before the chair's reveal. */
+export const HIDDEN_TEAM = "hidden";

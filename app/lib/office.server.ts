@@ -367,6 +367,7 @@ function plainCall(c: Call) {
     currency: c.currency,
     accessFeePerHourCents: c.accessFeePerHourCents,
     pageChargeCents: c.pageChargeCents,
+    teamVisibility: c.teamVisibility,
     reviewMode: c.reviewMode,
     reviewsPerSubmitter: c.reviewsPerSubmitter,
     separateCompetitors: c.separateCompetitors,

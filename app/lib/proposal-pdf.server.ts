@@ -463,7 +463,8 @@ export async function newWriter(doc: PDFDocument) {
   return new Writer(doc, regular, bold);
 }
 
-export async function buildProposalPdf({ proposalId }: { proposalId: number }): Promise<Uint8Array> {
+/** `anonymous`: for the committee of a dual-anonymous call, without the team (names, institutions, e-mails). */
+export async function buildProposalPdf({ proposalId, anonymous = false }: { proposalId: number; anonymous?: boolean }): Promise<Uint8Array> {
   const proposal = await Proposal.findByPk(proposalId, {
     include: [
       { model: Call, as: "call" },
@@ -504,7 +505,8 @@ export async function buildProposalPdf({ proposalId }: { proposalId: number }): 
   const members = [...(proposal.members ?? [])].sort((a, b) => (a.role === b.role ? a.id - b.id : a.role === "pi" ? -1 : 1));
   const who = (m: ProposalMember) => `${m.user?.name ?? m.email}${m.user?.institution ? `, ${m.user.institution}` : ""}${!m.user ? " (invited)" : ""}`;
   w.heading("Team", 11);
-  for (const m of members) w.paragraph(`${m.role === "pi" ? "PI" : "Co-I"}: ${who(m)}`, 10, { gap: 0 });
+  if (anonymous) w.paragraph("Dual-anonymous review: the team is not shown to the committee.", 10, { gap: 0, color: GREY });
+  else for (const m of members) w.paragraph(`${m.role === "pi" ? "PI" : "Co-I"}: ${who(m)}`, 10, { gap: 0 });
   w.y -= 4;
   w.heading("Abstract", 11);
   w.paragraph(proposal.abstract || "(no abstract yet)", 10);
@@ -537,7 +539,7 @@ export async function buildProposalPdf({ proposalId }: { proposalId: number }): 
   const technicalCount = w.pages.length;
 
   if (scienceCase) {
-    const source = await PDFDocument.load(scienceCase, { updateMetadata: false });
+    const source = await PDFDocument.load(scienceCase, { updateMetadata: false }); // pages only: the source's metadata stays behind
     const copied = await doc.copyPages(source, source.getPageIndices());
     for (const p of copied) w.pages.push(doc.addPage(p));
   } else {

@@ -10,6 +10,7 @@ import { buildProposalPdf } from "~/lib/proposal-pdf.server";
 import { receiptMail, type ReceiptPayload } from "~/lib/proposal-receipt.server";
 import { ABSTRACT_WORD_LIMIT, codeForFileName, proposalCode, scienceCategoryLabel, wordCount } from "~/lib/proposal-vocabulary";
 import { designatedReviewerName, designatedReviewerProblem } from "~/lib/proposal-team.server";
+import { selfReferenceCheck } from "~/lib/review/self-reference.server";
 import { latestScienceCase } from "~/lib/science-case.server";
 import { Observation, ProposalMember, sequelize, Target } from "~/models/index.server";
 import { assertPi, deadlinePassed, getProposalForUser, ProposalRefused, type Access, type Actor } from "./proposals.server";
@@ -113,7 +114,9 @@ export async function submissionChecklist({ user, proposalId, access: given }: {
   });
 
   const ready = proposal.status === "draft" && items.every((i) => i.ok);
-  return { items, ready, requestedHours, requestedHoursBySemester, access };
+  // dual-anonymous calls: where the science case names the team (warnings; they never block)
+  const selfReference = scienceCase ? await selfReferenceCheck({ proposalId, call }) : null;
+  return { items, ready, requestedHours, requestedHoursBySemester, selfReference, access };
 }
 
 export async function submitProposal({ user, proposalId }: { user: Actor; proposalId: number }) {

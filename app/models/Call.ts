@@ -1,5 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from "sequelize";
 import type { ReviewMode, UnreviewedPolicy } from "~/lib/review/vocabulary";
+import { teamVisibilities, type TeamVisibility } from "~/lib/domain";
 import type { CallOffer } from "./CallOffer";
 
 export class Call extends Model<InferAttributes<Call>, InferCreationAttributes<Call>> {
@@ -17,6 +18,8 @@ export class Call extends Model<InferAttributes<Call>, InferCreationAttributes<C
   declare currency: CreationOptional<string>;
   declare accessFeePerHourCents: CreationOptional<number>;
   declare pageChargeCents: CreationOptional<number>;
+  /** whether reviewers see the team: "named", or "dual_anonymous" (hidden from reviewers, and from the chair until revealed) */
+  declare teamVisibility: CreationOptional<TeamVisibility>;
   // distributed review (migration 20261202090500): each submitting team reviews k others
   declare reviewMode: CreationOptional<ReviewMode>;
   declare reviewsPerSubmitter: CreationOptional<number>;
@@ -41,6 +44,7 @@ export class Call extends Model<InferAttributes<Call>, InferCreationAttributes<C
         currency: { type: DataTypes.STRING(3), allowNull: false, defaultValue: "eur" },
         accessFeePerHourCents: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
         pageChargeCents: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+        teamVisibility: { type: DataTypes.ENUM(...teamVisibilities), allowNull: false, defaultValue: "named" },
         reviewMode: { type: DataTypes.ENUM("panel", "distributed"), allowNull: false, defaultValue: "panel" },
         reviewsPerSubmitter: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 8 },
         separateCompetitors: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },

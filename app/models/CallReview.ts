@@ -9,6 +9,8 @@ export class CallReview extends Model<InferAttributes<CallReview>, InferCreation
   declare perProposal: CreationOptional<number>;
   declare startedAt: CreationOptional<Date | null>;
   declare committedAt: CreationOptional<Date | null>;
+  /** dual-anonymous calls: when the chair revealed the teams (audited as review.teams_revealed) */
+  declare teamsRevealedAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -20,6 +22,7 @@ export class CallReview extends Model<InferAttributes<CallReview>, InferCreation
         perProposal: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 3 },
         startedAt: DataTypes.DATE(3),
         committedAt: DataTypes.DATE(3),
+        teamsRevealedAt: DataTypes.DATE(3),
         createdAt: DataTypes.DATE(3),
         updatedAt: DataTypes.DATE(3),
       },

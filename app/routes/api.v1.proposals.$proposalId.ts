@@ -11,7 +11,7 @@ import type { Route } from "./+types/api.v1.proposals.$proposalId";
 
 /**
  * GET /api/v1/proposals/:proposalId: one proposal of the user's, with its feasibility sheet; the chair
- * and the proposal's non-conflicted reviewers get the committee's read-only view (team names and institutions).
+ * and the proposal's non-conflicted reviewers get the committee's read-only view (team names and institutions, left out for a dual-anonymous call's reviewers and, until the reveal, its chair).
  */
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);

@@ -9,10 +9,14 @@ import { SortableTable } from "~/components/SortableTable";
 import { SemesterCheck } from "~/components/allocation/SemesterCheck";
 import { fillAllocationByRank, lockAllocation, moveOnBoard, unlockAllocation } from "~/lib/allocation/allocate.server";
 import { callBoard } from "~/lib/allocation/board.server";
+import { boardUncertainty } from "~/lib/allocation/board-uncertainty";
+import { inCoinFlipBand } from "~/lib/allocation/rank-uncertainty";
+import { RankIntervalBar, ReproducibilityCard } from "~/components/allocation/RankUncertainty";
 import { raPressureSection } from "~/lib/allocation/ra-pressure.server";
 import { latestSemesterCheck } from "~/lib/allocation/semester-check.server";
 import type { FeasibilitySheet } from "~/lib/feasibility";
 import { DISAGREEMENT_SPAN, MIN_GRADES } from "~/lib/allocation/normalise";
+import { HIDDEN_TEAM } from "~/lib/domain";
 import { requireRole } from "~/lib/auth.server";
 import { fieldErrors, idSchema, readForm } from "~/lib/forms";
 import { formValues, refusalResponse } from "~/lib/proposal-routes.server";
@@ -88,7 +92,14 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     latestSemesterCheck({ callId }),
   ]);
   const [raPressure, owed] = await Promise.all([raPressureSection({ callId, telescopeId: new URL(request.url).searchParams.get("telescopeId"), sheets }), owedBeforeCall({ callId })]);
-  return { board, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })), semesterCheck, raPressure, owed };
+  const { rows: drawn, reproducibility, coinFlip } = boardUncertainty(board);
+  // the page needs each row's interval, not the grades the bootstrap drew from
+  const proposals = board.proposals.map(({ zScores: _z, ...row }) => ({
+    ...row,
+    rankInterval: drawn.get(row.proposalId)?.rankInterval ?? null,
+    probabilityAboveLine: drawn.get(row.proposalId)?.probabilityAboveLine ?? null,
+  }));
+  return { board: { ...board, proposals }, uncertainty: { reproducibility, coinFlip }, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })), semesterCheck, raPressure, owed };
 }
 
 type Row = Route.ComponentProps["loaderData"]["board"]["proposals"][number];
@@ -96,7 +107,8 @@ const column = createColumnHelper<Row>();
 const fixed = (value: number | null, digits: number) => (value === null ? "–" : value.toFixed(digits));
 
 export default function RankingBoard({ loaderData }: Route.ComponentProps) {
-  const { board, telescopes, semesterCheck, raPressure, owed } = loaderData;
+  const { board, uncertainty, telescopes, semesterCheck, raPressure, owed } = loaderData;
+  const ranked = board.proposals.filter((p) => p.computedRank !== null).length;
   const actionData = useActionData<typeof action>();
   const busy = useNavigation().state !== "idle";
   const err = (field: string) => (actionData && !actionData.ok ? actionData.errors[field] : undefined);
@@ -128,7 +140,30 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
     const hours = (row: Row, thisSemester: boolean) =>
       row.requested.filter((r) => (r.semesterCode === call.semesterCode) === thisSemester).reduce((sum, r) => sum + r.hours, 0);
     return [
-      column.accessor("computedRank", { header: "Rank", cell: (c) => c.getValue() ?? "–", sortUndefined: "last" }),
+      column.accessor("computedRank", {
+        header: "Rank (68 %)",
+        sortUndefined: "last",
+        cell: (c) => {
+          const { rankInterval } = c.row.original;
+          const rank = c.getValue();
+          if (rank === null || !rankInterval) return "–";
+          return (
+            <span className="whitespace-nowrap" data-testid={`rank-${c.row.original.proposalId}`}>
+              {rank} <span className="text-xs text-slate-600">({rankInterval.low}–{rankInterval.high})</span>{" "}
+              <RankIntervalBar rank={rank} interval={rankInterval} count={ranked} />
+            </span>
+          );
+        },
+      }),
+      column.accessor("probabilityAboveLine", {
+        header: "Above line",
+        sortUndefined: "last",
+        cell: (c) => {
+          const p = c.getValue();
+          if (p === null) return c.row.original.computedRank === null ? "–" : <span className="text-xs text-slate-600" title="It asks no hours of this semester">no hours</span>;
+          return <span className="whitespace-nowrap" data-testid={`above-${c.row.original.proposalId}`}>{Math.round(p * 100)} %{inCoinFlipBand(p) ? <span className="ml-1 rounded bg-amber-200 px-1 text-xs text-amber-950">coin flip</span> : null}</span>;
+        },
+      }),
       column.accessor("chairRank", {
         header: "Chair's rank",
         sortUndefined: "last",
@@ -164,7 +199,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
           const outcome = checkOf.get(c.row.original.proposalId);
           if (!outcome || outcome.completionProbability === null) return "–";
           return (
-            <span className={stale ? "text-slate-500" : undefined} title={stale ? "From a check whose inputs have changed since" : undefined}>
+            <span data-testid={`completion-${c.row.original.proposalId}`} className={stale ? "text-slate-500" : undefined} title={stale ? "From a check whose inputs have changed since" : undefined}>
               {Math.round(outcome.completionProbability * 100)} %
               {outcome.flag ? <span className="ml-1 rounded bg-red-100 px-1.5 py-0.5 text-xs text-red-900">{outcome.flag === "assured-below-goal" ? "assured < 90 %" : "queue < 50 %"}</span> : null}
             </span>
@@ -172,7 +207,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
         },
       }),
     ];
-  }, [call.semesterCode, checkOf, stale, board.proposals]);
+  }, [call.semesterCode, checkOf, stale, ranked, board.proposals]);
   const table = useReactTable({
     data: board.proposals,
     columns,
@@ -222,6 +257,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
         </table>
         <OwedEpochs owed={owed} />
       </section>
+      <ReproducibilityCard uncertainty={uncertainty} telescopeName={telescopeName} />
       <section className="space-y-2">
         <div className="flex flex-wrap items-end justify-between gap-2">
           <h2>Proposals</h2>
@@ -231,7 +267,8 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
           Each reviewer's overall merits become z-scores within that reviewer's own grades in this call; a proposal's normalised score is the mean of its reviewers' z-scores, mapped back to the 1–10 scale around the panel's mean ({fixed(board.panel.mean, 2)}) and spread ({fixed(board.panel.sd, 2)}).
           A reviewer with fewer than {MIN_GRADES} grades, or one grade for everything, is placed on the panel's scale instead. Reviewers disagree when their z-scores span more than {DISAGREEMENT_SPAN}.
         </p>
-        <SortableTable table={table} empty="No proposal on the board matches." />
+        {board.proposals.some((p) => p.piInstitution === HIDDEN_TEAM) ? <p className="text-sm text-slate-700" data-testid="teams-hidden">Dual-anonymous review: PI institutions are hidden until you reveal the teams on the <Link to={`/committee/${board.call.id}`}>call's review page</Link>, once every grade is in.</p> : null}
+        <SortableTable table={table} empty="No proposal on the board matches." rowClassName={(row) => (inCoinFlipBand(row.probabilityAboveLine) ? "bg-amber-50 hover:bg-amber-100" : undefined)} />
       </section>
       <section className="card space-y-3">
         <h2>Allocation</h2>

@@ -6,6 +6,7 @@ import { observatoryTimeZone } from "~/lib/office.server";
 import { scienceCategoryLabel } from "~/lib/proposal-vocabulary";
 import { formValues, refusalResponse } from "~/lib/proposal-routes.server";
 import { chairReopenReview, pageCallId, reassign, remindReviewer, reviewBoard, saveReviewSetup, startReview } from "~/lib/review/chair.server";
+import { revealTeams, teamRevealState } from "~/lib/review/anonymity.server";
 import { reviewerCandidates } from "~/lib/review/facts.server";
 import { reviewStatusLabels, type ReviewStatus } from "~/lib/review/vocabulary";
 import { reviewSetupSchema } from "~/lib/schemas/review";
@@ -21,8 +22,8 @@ export function meta({ data: d }: Route.MetaArgs) {
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
   const callId = pageCallId(params);
-  const [board, candidates, timeZone] = await Promise.all([reviewBoard({ callId }), reviewerCandidates(), observatoryTimeZone()]);
-  return { board, candidates, timeZone, now: new Date().toISOString() };
+  const [board, candidates, timeZone, teams] = await Promise.all([reviewBoard({ callId }), reviewerCandidates(), observatoryTimeZone(), teamRevealState({ callId })]);
+  return { board, candidates, timeZone, teams, now: new Date().toISOString() };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -53,6 +54,10 @@ export async function action({ request, params }: Route.ActionArgs) {
       await reassign({ actor: user, callId, assignmentId: id("assignmentId"), reviewerId: id("reviewerId") });
       return { ok: true as const, intent, message: "Reassigned; the new reviewer was told.", errors: {} as Record<string, string>, values };
     }
+    if (intent === "reveal") {
+      const { already } = await revealTeams({ actor: user, callId });
+      return { ok: true as const, intent, message: already ? "The teams were already revealed." : "The teams are revealed to the chair; reviewers still do not see them.", errors: {} as Record<string, string>, values };
+    }
     if (intent === "reopen") {
       await chairReopenReview({ actor: user, callId, assignmentId: id("assignmentId") });
       return { ok: true as const, intent, message: "Review reopened for the reviewer.", errors: {} as Record<string, string>, values };
@@ -73,7 +78,7 @@ const statusTone: Record<ReviewStatus | "overdue", string> = {
 };
 
 export default function CallReviewPage({ loaderData }: Route.ComponentProps) {
-  const { board, candidates, timeZone, now } = loaderData;
+  const { board, candidates, timeZone, now, teams } = loaderData;
   const actionData = useActionData<typeof action>();
   const navigation = useNavigation();
   const busy = navigation.state !== "idle";
@@ -105,6 +110,22 @@ export default function CallReviewPage({ loaderData }: Route.ComponentProps) {
           )
         ) : null}
       </section>
+
+      {teams.dualAnonymous ? (
+        <section className="card space-y-2" aria-label="Teams">
+          <h2>Teams: dual-anonymous review</h2>
+          {teams.revealedAt ? (
+            <p>Revealed to the chair on {formatUtc(teams.revealedAt)} (recorded in the audit log). Reviewers still do not see the teams.</p>
+          ) : (
+            <>
+              <p>Reviewers never see the teams of this call. You see them once every grade is in: {teams.submitted} of {teams.expected} assigned reviews submitted. Conflicts are found from the real teams and shown by their rule only.</p>
+              <Form method="post">
+                <button className="btn" name="intent" value="reveal" disabled={busy || !teams.canReveal} title={teams.canReveal ? undefined : "Every committed review must be submitted first"}>Reveal the teams</button>
+              </Form>
+            </>
+          )}
+        </section>
+      ) : null}
 
       <section className="card space-y-3">
         <h2>Review deadline and panel</h2>
@@ -186,7 +207,7 @@ export default function CallReviewPage({ loaderData }: Route.ComponentProps) {
               <h3 className="font-semibold">
                 <Link to={`/review/${p.proposalId}`}>{p.code ?? `#${p.proposalId}`} · {p.title}</Link>
               </h3>
-              <p className="text-sm text-slate-600">{scienceCategoryLabel(p.category) ?? "no category"} · PI at {p.piInstitution ?? "?"} · {done.length}/{rows.filter((a) => a.status !== "conflict").length} submitted{mean !== null ? ` · mean overall ${mean.toFixed(2)}` : ""}</p>
+              <p className="text-sm text-slate-600">{scienceCategoryLabel(p.category) ?? "no category"} · {board.teamsHidden ? "team hidden" : `PI at ${p.piInstitution ?? "?"}`} · {done.length}/{rows.filter((a) => a.status !== "conflict").length} submitted{mean !== null ? ` · mean overall ${mean.toFixed(2)}` : ""}</p>
               <ul className="mt-1 space-y-1">
                 {rows.map((a) => (
                   <li key={a.assignmentId} className="text-sm">

@@ -5,6 +5,8 @@ import { Field, inputProps } from "~/components/Field";
 import { requireUser } from "~/lib/auth.server";
 import { proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
 import { getProposalForUser } from "~/lib/proposals.server";
+import { SelfReferenceWarnings } from "~/components/SelfReferenceWarnings";
+import { selfReferenceCheck } from "~/lib/review/self-reference.server";
 import { SCIENCE_CASE_MAX_BYTES } from "~/lib/science-case";
 import { readLimitedFormData, scienceCaseHistory, storeScienceCase } from "~/lib/science-case.server";
 import type { Route } from "./+types/proposals.$proposalId.science-case";
@@ -25,6 +27,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     editable: access.editable,
     maxBytes: SCIENCE_CASE_MAX_BYTES,
     history: await scienceCaseHistory({ proposalId, user }),
+    selfReference: await selfReferenceCheck({ proposalId, call: access.call }),
   };
 }
 
@@ -59,7 +62,7 @@ function size(bytes: number) {
 }
 
 export default function ScienceCase({ loaderData, actionData }: Route.ComponentProps) {
-  const { proposalId, pageLimit, editable, history, maxBytes } = loaderData;
+  const { proposalId, pageLimit, editable, history, maxBytes, selfReference } = loaderData;
   const navigation = useNavigation();
   const busy = navigation.state === "submitting";
   const [clientError, setClientError] = useState<string | null>(null);
@@ -70,6 +73,7 @@ export default function ScienceCase({ loaderData, actionData }: Route.ComponentP
   const href = (id: number, inline = false) => `/proposals/${proposalId}/files/${id}${inline ? "?inline=1" : ""}`;
   return (
     <div className="grid gap-6 lg:grid-cols-[3fr_2fr]">
+      {selfReference ? <div className="lg:col-span-2"><SelfReferenceWarnings check={selfReference} /></div> : null}
       <section className="card space-y-4">
         <h2>Science case</h2>
         <p className="text-sm text-slate-700">

@@ -1,4 +1,5 @@
 import { Link, NavLink, Outlet, useFetcher } from "react-router";
+import { SelfReferenceSummary } from "~/components/SelfReferenceWarnings";
 import { StatusBadge } from "~/components/StatusBadge";
 import { utc } from "~/components/workspace";
 import { requireUser } from "~/lib/auth.server";
@@ -23,7 +24,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   // The checklist is for drafts only: a submitted or decided proposal shows its state instead.
   const readiness =
     access.proposal.status === "draft"
-      ? await submissionChecklist({ user, proposalId, access }).then(({ items, ready, requestedHours, requestedHoursBySemester }) => ({ items, ready, requestedHours, requestedHoursBySemester }))
+      ? await submissionChecklist({ user, proposalId, access }).then(({ items, ready, requestedHours, requestedHoursBySemester, selfReference }) => ({ items, ready, requestedHours, requestedHoursBySemester, selfReference }))
       : null;
   // Epoch progress is a tab once an astrometry programme is accepted (the route answers for any proposal)
   const epochTab = access.proposal.status === "accepted" && (await Observation.count({ where: { proposalId, baselineYears: { [Op.ne]: null } } })) > 0;
@@ -90,6 +91,7 @@ function ReadinessStrip({ p, readiness, submittedAt }: { p: Data["proposal"]; re
                   ))}
                 </ul>
               ) : null}
+              {readiness.selfReference ? <SelfReferenceSummary check={readiness.selfReference} href={`/proposals/${p.id}/science-case`} /> : null}
               {readiness.requestedHoursBySemester.length ? (
                 <p className="text-xs text-slate-600">
                   Requested:{" "}

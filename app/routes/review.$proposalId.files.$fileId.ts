@@ -1,6 +1,7 @@
 import { requireUser } from "~/lib/auth.server";
 import { proposalIdParam } from "~/lib/proposal-routes.server";
-import { committeeFile } from "~/lib/review/read.server";
+import { withoutAuthorship } from "~/lib/review/anonymity.server";
+import { ANONYMOUS_FILENAME, committeeFile } from "~/lib/review/read.server";
 import type { Route } from "./+types/review.$proposalId.files.$fileId";
 
 /** A stored file (the science case) for the committee; 404 for anyone else and for other proposals' files. */
@@ -8,14 +9,17 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
   const fileId = /^\d{1,10}$/.test(params.fileId) ? Number(params.fileId) : 0;
-  const file = await committeeFile({ user, proposalId, fileId });
+  const { file, hideTeam } = await committeeFile({ user, proposalId, fileId });
   const inline = new URL(request.url).searchParams.get("inline") === "1";
-  const ascii = file.filename.replace(/[^\x20-\x7e]/g, "_").replace(/["\\]/g, "_");
-  return new Response(new Uint8Array(file.data), {
+  // dual-anonymous: a neutral file name and no authorship metadata
+  const filename = hideTeam ? ANONYMOUS_FILENAME : file.filename;
+  const bytes = hideTeam && file.contentType === "application/pdf" ? await withoutAuthorship(new Uint8Array(file.data)) : new Uint8Array(file.data);
+  const ascii = filename.replace(/[^\x20-\x7e]/g, "_").replace(/["\\]/g, "_");
+  return new Response(Buffer.from(bytes), {
     headers: {
       "Content-Type": file.contentType,
-      "Content-Length": String(file.sizeBytes),
-      "Content-Disposition": `${inline ? "inline" : "attachment"}; filename="${ascii}"; filename*=UTF-8''${encodeURIComponent(file.filename)}`,
+      "Content-Length": String(bytes.byteLength),
+      "Content-Disposition": `${inline ? "inline" : "attachment"}; filename="${ascii}"; filename*=UTF-8''${encodeURIComponent(filename)}`,
       "X-Content-Type-Options": "nosniff",
       "Cache-Control": "private, no-store",
     },

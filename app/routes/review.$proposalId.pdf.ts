@@ -7,8 +7,8 @@ import type { Route } from "./+types/review.$proposalId.pdf";
 /** The proposal PDF for the chair and the proposal's non-conflicted reviewers (404 for anyone else). */
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  const { proposal } = await committeeAccess({ user, proposalId: proposalIdParam(params) });
-  const bytes = await buildProposalPdf({ proposalId: proposal.id });
+  const { proposal, hideTeam } = await committeeAccess({ user, proposalId: proposalIdParam(params) });
+  const bytes = await buildProposalPdf({ proposalId: proposal.id, anonymous: hideTeam });
   return new Response(Buffer.from(bytes), {
     headers: {
       "Content-Type": "application/pdf",

@@ -51,7 +51,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       }
     : null;
   const base = { reading: { ...reading, feasibilitySheet: null }, feasibility, now: new Date().toISOString() };
-  if (access.as === "reviewer") return { ...base, as: "reviewer" as const, review: await reviewForProposal({ user, proposalId }), reviews: null };
+  if (access.as === "reviewer") {
+    // the page gets the review, not the proposal and call records behind it (their ids name the PI's account)
+    const { proposal: _proposal, call: _call, ...review } = await reviewForProposal({ user, proposalId });
+    return { ...base, as: "reviewer" as const, review, reviews: null };
+  }
   // the chair reads every review of the proposal, committee comments included
   const board = await reviewBoard({ callId: access.call.id });
   const reviews = board.assignments
@@ -173,7 +177,13 @@ export default function ReviewProposal({ loaderData }: Route.ComponentProps) {
         <h2>Summary</h2>
         <p className="whitespace-pre-wrap">{p.abstract || "No abstract."}</p>
         <h3 className="font-semibold">Team</h3>
-        <ul className="text-sm">{p.team.map((m, i) => <li key={i}>{memberRoleLabels[m.role]}: {m.name ?? "(not signed in yet)"}, {m.institution ?? "no institution given"}</li>)}</ul>
+        {p.teamHidden ? (
+          <p className="text-sm text-slate-700" data-testid="team-hidden">
+            {as === "reviewer" ? "Dual-anonymous review: the team's names and institutions are not shown. Judge the proposal on its content." : "Dual-anonymous review: the team is hidden until every grade is in and you reveal the teams on the call's review page."}
+          </p>
+        ) : (
+          <ul className="text-sm">{p.team.map((m, i) => <li key={i}>{memberRoleLabels[m.role]}: {m.name ?? "(not signed in yet)"}, {m.institution ?? "no institution given"}</li>)}</ul>
+        )}
       </section>
 
       <section className="card space-y-2">

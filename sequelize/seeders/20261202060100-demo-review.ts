@@ -1,7 +1,9 @@
 // Demo review: the call whose deadline has passed most recently (found by query, whatever dates the
 // earlier seeders chose) is put in review with a panel of the demo reviewers, the suggested
-// assignment committed, and about half of the reviews submitted. Scores differ per reviewer: the
-// first demo reviewer is lenient, the third harsh. Comments are written for the demo.
+// assignment committed, and most reviews submitted: every proposal's first, and all of them for
+// three proposals in four (so the board can show how firm its ranking is). Scores differ per reviewer: the
+// first demo reviewer is lenient, the third harsh; each reviewer also has an opinion of their own
+// of each proposal (up to ±1). Comments are written for the demo.
 // Idempotent: a call whose review is already committed is left alone.
 import { Op, type Sequelize } from "sequelize";
 import { callFacts } from "~/lib/review/facts.server";
@@ -87,11 +89,17 @@ export async function up({ context: sequelize }: { context: Sequelize }) {
     });
     const emailOf = new Map(reviewers.map((r) => [r.id, r.email]));
     let n = 0;
+    const reviewsSeen = new Map<number, number>();
     for (const [i, pair] of suggestion.assignments.entries()) {
       if (await ReviewAssignment.findOne({ where: { proposalId: pair.proposalId, reviewerId: pair.reviewerId }, transaction })) continue;
-      // about half submitted: every other assignment in the suggestion's order
-      const submitted = i % 2 === 0;
-      const base = 5 + ((pair.proposalId * 7) % 5) / 2; // 5 … 7, per proposal
+      // every proposal's first review is in, and its others for three proposals in four; of the
+      // reviews still out, every other one is a draft
+      const nth = reviewsSeen.get(pair.proposalId) ?? 0;
+      reviewsSeen.set(pair.proposalId, nth + 1);
+      const submitted = nth === 0 || pair.proposalId % 4 !== 3;
+      const draft = !submitted && i % 2 === 0;
+      // 5 … 7 per proposal, and the reviewer's own view of it: −1 … +1 in half steps (invented)
+      const base = 5 + ((pair.proposalId * 7) % 5) / 2 + (((pair.proposalId * 13 + pair.reviewerId * 7) % 5) - 2) / 2;
       const bias = biasByEmail[emailOf.get(pair.reviewerId) ?? ""] ?? 0;
       const comment = [openings[pair.proposalId % openings.length], middles[(pair.proposalId + pair.reviewerId) % middles.length], closings[(pair.reviewerId + n) % closings.length]].join(" ");
       await ReviewAssignment.create(
@@ -100,12 +108,12 @@ export async function up({ context: sequelize }: { context: Sequelize }) {
           proposalId: pair.proposalId,
           reviewerId: pair.reviewerId,
           committedAt: now,
-          status: submitted ? "submitted" : i % 4 === 1 ? "draft" : "assigned",
-          science: submitted || i % 4 === 1 ? clamp(base + bias + 0.5) : null,
+          status: submitted ? "submitted" : draft ? "draft" : "assigned",
+          science: submitted || draft ? clamp(base + bias + 0.5) : null,
           feasibility: submitted ? clamp(base + bias) : null,
           legacy: submitted ? clamp(base + bias - 1) : null,
           overall: submitted ? clamp(base + bias) : null,
-          commentToPi: submitted ? comment : i % 4 === 1 ? openings[n % openings.length] : null,
+          commentToPi: submitted ? comment : draft ? openings[n % openings.length] : null,
           commentToCommittee: submitted ? committeeNotes[n % committeeNotes.length] || null : null,
           submittedAt: submitted ? now : null,
         },

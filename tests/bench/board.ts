@@ -15,6 +15,7 @@ export async function runBoardBench(): Promise<string[]> {
     const { Observation, Proposal, ReviewAssignment, Target, User } = await import("../../app/models/index.server");
     const { readyProposal, testCall } = await import("../integration/proposals-fixtures");
     const { callBoard } = await import("../../app/lib/allocation/board.server");
+    const { boardUncertainty } = await import("../../app/lib/allocation/board-uncertainty");
     const { allocationSheet } = await import("../../app/lib/allocation/sheet.server");
     const { latestSemesterCheck, semesterCheckFacts, factsHash } = await import("../../app/lib/allocation/semester-check.server");
 
@@ -65,6 +66,28 @@ export async function runBoardBench(): Promise<string[]> {
     await callBoard({ callId: call.id });
     (services.sequelize as unknown as { options: { logging: unknown } }).options.logging = orig;
     lines.push(`board: SQL statements per read                           ${statements}`);
+    // the rank bootstrap (2000 draws) and split-half reproducibility (1000 splits) on this board:
+    // computed afresh (the inputs' cache bypassed) and as the board page reads it (cache by inputs)
+    const fresh: number[] = [];
+    for (let i = 0; i < 5; i++) {
+      const b = await callBoard({ callId: call.id });
+      t = performance.now();
+      boardUncertainty(b, { fresh: true });
+      fresh.push(performance.now() - t);
+    }
+    lines.push(`rank bootstrap + reproducibility alone, computed afresh, median of 5  ${fmt(median(fresh))}`);
+    const withFresh: number[] = [];
+    const withCache: number[] = [];
+    for (let i = 0; i < 7; i++) {
+      t = performance.now();
+      boardUncertainty(await callBoard({ callId: call.id }), { fresh: true });
+      withFresh.push(performance.now() - t);
+      t = performance.now();
+      boardUncertainty(await callBoard({ callId: call.id }));
+      withCache.push(performance.now() - t);
+    }
+    lines.push(`board with rank uncertainty, uncertainty afresh, median of 7 ${verdict(median(withFresh), 300)}`);
+    lines.push(`board with rank uncertainty, inputs unchanged (cached), median of 7 ${verdict(median(withCache), 300)}`);
     const sheetTimes: number[] = [];
     for (let i = 0; i < 5; i++) {
       t = performance.now();

@@ -39,7 +39,7 @@ describe("the ranking board", () => {
     await page.goto(`${suite.server.url}/committee/${call.id}/board`);
     await page.getByRole("heading", { name: `Ranking board for ${call.semesterCode}` }).waitFor();
     const proposalsSection = page.locator("section", { has: page.getByRole("heading", { name: "Proposals" }) });
-    const titles = () => proposalsSection.locator("tbody tr td:nth-child(4)").allTextContents();
+    const titles = () => proposalsSection.locator("tbody tr td:nth-child(5)").allTextContents();
     await expect.poll(titles).toEqual(["Board browser programme 0", "Board browser programme 1", "Board browser programme 2"]);
     await screenshot(page, "board-01-ranked");
 
@@ -68,12 +68,12 @@ describe("the ranking board", () => {
     await expect.poll(() => page.getByLabel("Reason", { exact: true }).inputValue()).toBe("");
     expect(await page.getByLabel("Move proposal").inputValue()).toBe("");
     await page.getByRole("button", { name: /^Rank/ }).click();
-    const chairRanks = () => proposalsSection.locator("tbody tr td:nth-child(2)").allTextContents();
+    const chairRanks = () => proposalsSection.locator("tbody tr td:nth-child(3)").allTextContents();
     await expect.poll(async () => (await chairRanks()).filter((t) => t.startsWith("1 ")).length).toBe(1);
 
     await page.getByRole("button", { name: "Fill by rank" }).click();
     await page.getByText(/^Filled by rank: 3 assured/).waitFor();
-    const tiers = () => proposalsSection.locator("tbody tr td:nth-child(14)").allTextContents();
+    const tiers = () => proposalsSection.locator("tbody tr td:nth-child(15)").allTextContents();
     await expect.poll(tiers).toEqual(["assured", "assured", "assured"]);
     await screenshot(page, "board-03-filled");
 

@@ -72,7 +72,7 @@ describe("the semester check on the ranking board", () => {
     await page.getByText("Run of ").waitFor();
     // the board's own table carries each programme's completion beside its allocation
     const proposalsSection = page.locator("section", { has: page.getByRole("heading", { name: "Proposals" }) });
-    await expect.poll(() => proposalsSection.locator("tbody td").filter({ hasText: /^100 %$/ }).count()).toBe(3);
+    await expect.poll(() => proposalsSection.locator('tbody [data-testid^="completion-"]').filter({ hasText: /^100 %$/ }).count()).toBe(3);
     await expect.poll(() => page.getByText(/1000 realisations, seed 2027/).count()).toBe(1);
     const telescopes = page.getByRole("table", { name: "Semester check per telescope" });
     expect(await telescopes.locator("tbody tr").count()).toBeGreaterThan(0);

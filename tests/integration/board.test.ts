@@ -4,7 +4,7 @@
 import { mean, standardDeviation, zScore } from "simple-statistics";
 import { beforeAll, describe, expect, it } from "vitest";
 import { computeFeasibilitySheet } from "~/lib/feasibility.server";
-import { Allocation, AuditEntry, BoardEntry, CallAllocation, Proposal, ReviewAssignment, Telescope } from "~/models/index.server";
+import { Allocation, AuditEntry, BoardEntry, CallAllocation, CallOffer, Proposal, ReviewAssignment, Telescope } from "~/models/index.server";
 import { request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
 import { newUser } from "../helpers/session";
@@ -123,6 +123,77 @@ describe("GET /api/v1/calls/:callId/board", () => {
     expect(bad.status).toBe(400);
     expect(JSON.stringify(bad.body)).toContain("callId");
     expect((await app.get(`/api/v1/calls/99999999/board`).set("Cookie", chair.cookie)).status).toBe(404);
+  });
+});
+
+describe("rank uncertainty: GET …/board and GET …/reproducibility", () => {
+  type Row = { proposalId: number; computedRank: number; rankInterval: { low: number; high: number }; probabilityAboveLine: number | null; requested: { telescopeId: number; moonCategory: string; semesterCode: string; hours: number }[] };
+
+  it("gives the probability of lying above a one-proposal line that exhaustive enumeration of the resamples gives", async () => {
+    const app = await request();
+    const first = (await app.get(`/api/v1/calls/${call.id}/board`).set("Cookie", chair.cookie)).body.proposals as Row[];
+    // everything fits in 300 h: every ranked proposal is always above the line
+    expect(first.map((r) => r.probabilityAboveLine)).toEqual([1, 1, 1, 1]);
+    for (const r of first) {
+      expect(r.rankInterval.low).toBeLessThanOrEqual(r.computedRank);
+      expect(r.rankInterval.high).toBeGreaterThanOrEqual(r.computedRank);
+    }
+    // every proposal asks the same hours of one cell: offer room for one of them only
+    const asked = first[0].requested.find((r) => r.semesterCode === call.semesterCode && r.hours > 0)!;
+    const where = { callId: call.id, telescopeId: asked.telescopeId, moonCategory: asked.moonCategory as "dark" };
+    const offer = (await CallOffer.findOne({ where }))!;
+    const committed = asked.moonCategory === "dark" && asked.telescopeId === telescopeId ? 40 : 0;
+    await offer.update({ hoursOffered: committed + asked.hours * 1.5 });
+    try {
+      const rows = (await app.get(`/api/v1/calls/${call.id}/board`).set("Cookie", chair.cookie)).body.proposals as Row[];
+      // The reference: z-scores from simple-statistics, then every resample of every proposal's
+      // grades enumerated (27 × 4 × 27 × 4 joint outcomes), ties to the better computed rank.
+      const z = merits.map((row) => {
+        const own = row.filter((m): m is number => m !== null);
+        return row.map((m) => (m === null ? null : zScore(m, mean(own), standardDeviation(own))));
+      });
+      const zOf = (proposalId: number) => { const c = proposals.findIndex((p) => p.id === proposalId); return z.map((r) => r[c]).filter((v): v is number => v !== null); };
+      const resampleMeans = (v: number[]) => Array.from({ length: v.length ** v.length }, (_, code) => { let sum = 0; for (let j = 0, c = code; j < v.length; j++, c = Math.floor(c / v.length)) sum += v[c % v.length]; return sum / v.length; });
+      const means = rows.map((r) => resampleMeans(zOf(r.proposalId)));
+      const wins = new Array(rows.length).fill(0);
+      let total = 0;
+      const walk = (i: number, picked: number[]) => {
+        if (i === rows.length) {
+          let best = 0;
+          for (let k = 1; k < picked.length; k++) if (picked[k] > picked[best]) best = k;
+          wins[best]++;
+          total++;
+          return;
+        }
+        for (const m of means[i]) walk(i + 1, [...picked, m]);
+      };
+      walk(0, []);
+      for (const [i, r] of rows.entries()) {
+        const exact = wins[i] / total;
+        const sigma = Math.sqrt((exact * (1 - exact)) / 2000);
+        expect(Math.abs(r.probabilityAboveLine! - exact), `proposal ${r.proposalId}: ${r.probabilityAboveLine} against ${exact}`).toBeLessThanOrEqual(4 * sigma + 1e-12);
+      }
+      const again = (await app.get(`/api/v1/calls/${call.id}/board`).set("Cookie", chair.cookie)).body.proposals as Row[];
+      expect(again).toEqual(rows);
+      const repro = await app.get(`/api/v1/calls/${call.id}/reproducibility`).set("Cookie", chair.cookie);
+      expect(repro.status).toBe(200);
+      expect(Object.keys(repro.body)).toEqual(expect.arrayContaining(["expectedAgreement", "spread", "draws", "seed"]));
+      expect(repro.body.expectedAgreement).toBeGreaterThanOrEqual(0);
+      expect(repro.body.expectedAgreement).toBeLessThanOrEqual(1);
+      expect(repro.body.proposals).toBe(4);
+      expect((await app.get(`/api/v1/calls/${call.id}/reproducibility`).set("Cookie", chair.cookie)).body).toEqual(repro.body);
+    } finally {
+      await offer.update({ hoursOffered: 300 });
+    }
+  });
+
+  it("is the chair's: a reviewer gets 403, a bad id 400 naming the field, an unknown call 404", async () => {
+    const app = await request();
+    expect((await app.get(`/api/v1/calls/${call.id}/reproducibility`).set("Cookie", reviewer.cookie)).status).toBe(403);
+    const bad = await app.get(`/api/v1/calls/1x/reproducibility`).set("Cookie", chair.cookie);
+    expect(bad.status).toBe(400);
+    expect(bad.body.issues[0].path).toBe("callId");
+    expect((await app.get(`/api/v1/calls/99999999/reproducibility`).set("Cookie", chair.cookie)).status).toBe(404);
   });
 });
 

@@ -72,7 +72,7 @@ beforeAll(async () => {
 const row = (p: Proposal, call: TestCall, hours: unknown = 5) => ({ proposalId: p.id, ...cell, semesterCode: call.semesterCode, hours });
 
 describe("who may reach the board and the allocation", () => {
-  const apiGets = () => [`/api/v1/calls/${callA.id}/board`, `/api/v1/calls/${callA.id}/ra-pressure?telescopeId=${cell.telescopeId}`];
+  const apiGets = () => [`/api/v1/calls/${callA.id}/board`, `/api/v1/calls/${callA.id}/reproducibility`, `/api/v1/calls/${callA.id}/ra-pressure?telescopeId=${cell.telescopeId}`];
   const apiWrites = () => [
     ["POST", `/api/v1/calls/${callA.id}/board/rank`, { proposalId: a[1].id, chairRank: 1, reason: "forged" }],
     ["PUT", `/api/v1/calls/${callA.id}/allocation`, { rows: [row(a[1], callA)] }],
@@ -148,6 +148,7 @@ describe("who may reach the board and the allocation", () => {
       ["PATCH", `/api/v1/calls/${callA.id}/board/rank`, "POST"],
       ["POST", `/api/v1/calls/${callA.id}/board`, "GET"],
       ["POST", `/api/v1/calls/${callA.id}/ra-pressure`, "GET"],
+      ["POST", `/api/v1/calls/${callA.id}/reproducibility`, "GET"],
       ["GET", `/api/v1/calls/${callA.id}/semester-check`, "POST"],
       ["DELETE", `/api/v1/semester-checks/1`, "GET"],
     ];
@@ -208,7 +209,7 @@ describe("another call's ids", () => {
   it("answers malformed and unknown ids in the path and the query with 400 or 404, never a 5xx", async () => {
     const app = await request();
     for (const id of ["0", "-1", "1.5", "1e3", "abc", "9".repeat(40), "..%2F..%2Fetc%2Fpasswd", "%00", "4294967296"]) {
-      for (const path of [`/api/v1/calls/${id}/board`, `/api/v1/semester-checks/${id}`, `/api/v1/calls/${callA.id}/ra-pressure?telescopeId=${id}`]) {
+      for (const path of [`/api/v1/calls/${id}/board`, `/api/v1/calls/${id}/reproducibility`, `/api/v1/semester-checks/${id}`, `/api/v1/calls/${callA.id}/ra-pressure?telescopeId=${id}`]) {
         const res = await app.get(path).set("Cookie", chair.cookie);
         expect.soft([400, 404], `GET ${path}: ${res.status} ${res.text.slice(0, 120)}`).toContain(res.status);
         expect.soft(res.headers["content-type"], path).toMatch(/application\/json/);

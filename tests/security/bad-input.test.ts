@@ -407,6 +407,7 @@ describe("ids in URLs", () => {
       [`/admin/instruments/${id}`, admin],
       [`/admin/calls/${id}`, admin],
       [`/api/v1/calls/${id}/board`, chair],
+      [`/api/v1/calls/${id}/reproducibility`, chair],
       [`/api/v1/calls/${id}/ra-pressure?telescopeId=${ids.telescope}`, chair],
       [`/api/v1/calls/${boardCallId}/ra-pressure?telescopeId=${id}`, chair],
       [`/api/v1/semester-checks/${id}`, chair],

@@ -49,10 +49,13 @@ const expectations: Record<string, Rule> = {
   "/api/v1/calls/:callId/review": { get: "chair", post: "none" },
   "/api/v1/calls/:callId/review/suggest": { get: "none", post: "chair" },
   "/api/v1/calls/:callId/review/assignments": { get: "none", post: "none" }, // PUT (tested in review.test.ts)
+  // the seeded call is named: the POST is a 409 (dual-anonymous reveals in review-anonymity.test.ts)
+  "/api/v1/calls/:callId/review/teams": { get: "chair", post: "chair" },
   "/api/v1/calls/:callId/reviews": { get: "chair", post: "none" },
   "/api/v1/calls/:callId/board": { get: "chair", post: "none" },
   "/api/v1/calls/:callId/board/rank": { get: "none", post: "chair" },
   "/api/v1/calls/:callId/ra-pressure": { get: "chair", post: "none", getOk: 400 }, // no telescopeId: 400 naming it
+  "/api/v1/calls/:callId/reproducibility": { get: "chair", post: "none" },
   "/api/v1/calls/:callId/allocation": { get: "none", post: "none" }, // PUT (tested in board.test.ts)
   "/api/v1/calls/:callId/allocation/fill-by-rank": { get: "none", post: "chair" },
   "/api/v1/calls/:callId/allocation/lock": { get: "none", post: "chair" },

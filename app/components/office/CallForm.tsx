@@ -1,6 +1,6 @@
 import { useState } from "react";
 import { Form, useNavigation } from "react-router";
-import { moonCategories } from "~/lib/domain";
+import { moonCategories, teamVisibilities, teamVisibilityLabels, type TeamVisibility } from "~/lib/domain";
 import { callSchema, currencies, offerField } from "~/lib/schemas/office";
 import { formatInZone, formatUtc, zonedLocalToUtc } from "~/lib/zoned-time";
 import { CallReviewOptions, type ReviewOptionValues } from "./CallReviewOptions";
@@ -19,6 +19,7 @@ export interface CallFormValues extends ReviewOptionValues {
   accessFee: number | string;
   pageCharge: number | string;
   offers: Record<number, Record<string, number>>;
+  teamVisibility: TeamVisibility;
 }
 
 const moonLabels = { dark: "Dark", grey: "Grey", bright: "Bright" } as const;
@@ -239,6 +240,20 @@ export function CallForm({
           />
           <NumberField prefix={p} name="pageCharge" label="Page charge" unit="per page" defaultValue={v("pageCharge")} error={errors.pageCharge} hint="0 for none" />
         </div>
+      </fieldset>
+
+      <fieldset className="card space-y-2" aria-describedby={`${fieldId(p, "teamVisibility")}-hint`}>
+        <legend className="px-1 text-lg font-semibold text-night-900">Reviewers see the team</legend>
+        {teamVisibilities.map((option) => (
+          <label key={option} className="flex items-start gap-2 font-normal">
+            <input type="radio" {...register("teamVisibility")} value={option} defaultChecked={(v("teamVisibility") ?? "named") === option} className="mt-1" />
+            <span>{teamVisibilityLabels[option]}</span>
+          </label>
+        ))}
+        <p id={`${fieldId(p, "teamVisibility")}-hint`} className="text-sm text-slate-600">
+          Dual-anonymous: reviewers never see names, institutions or e-mails of the team (pages, PDF, API); conflicts are still found from the real team. The PI is warned before the deadline where the science case names the team; the chair sees the teams only after every grade is in, by an audited reveal.
+        </p>
+        <Message id={fieldId(p, "teamVisibility")} error={errors.teamVisibility} />
       </fieldset>
 
       <CallReviewOptions prefix={p} initial={initial} typed={result?.values} errors={errors} />

@@ -5,6 +5,7 @@
 import { Op } from "sequelize";
 import { moonCategories, type MoonCategory } from "~/lib/domain";
 import { computeFeasibilitySheets, type FeasibilitySheet } from "~/lib/feasibility.server";
+import { blankTeamsUntilRevealed } from "~/lib/review/anonymity.server";
 import { callNotFound } from "~/lib/review/chair.server";
 import { Allocation, BoardEntry, Call, CallAllocation, CallOffer, Proposal, ReviewAssignment, User } from "~/models/index.server";
 import { applyReviewDuty, reviewDuties, type ReviewDuty } from "~/lib/review/duty.server";
@@ -80,6 +81,7 @@ export async function callBoard({ callId, sheets }: { callId: number; sheets?: M
       rawMean: score?.rawMean ?? null,
       normalisedScore: score?.normalisedScore ?? null,
       normalisedZ: score?.normalisedZ ?? null,
+      zScores: score?.zScores ?? [],
       spread: score?.spread ?? null,
       disagreement: score?.disagreement ?? false,
       fallbackReviewerIds: score?.fallbackReviewerIds ?? [],
@@ -131,7 +133,7 @@ export async function callBoard({ callId, sheets }: { callId: number; sheets?: M
     reviewers: normalised.reviewers,
     locked: Boolean(allocation?.lockedAt),
     settings: { assuredShareLimit: allocation?.assuredShareLimit ?? 0.8, fillerMargin: allocation?.fillerMargin ?? 0.3 },
-    proposals: rows,
+    proposals: await blankTeamsUntilRevealed(callId, rows), // dual-anonymous: no PI institution before the reveal
     oversubscription,
   };
 }

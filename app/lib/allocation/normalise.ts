@@ -20,6 +20,8 @@ export type NormalisedProposal = {
   proposalId: number;
   reviews: number;
   rawMean: number;
+  /** Its reviewers' z-scores (the rank bootstrap resamples them). */
+  zScores: number[];
   /** Mean of the reviewers' z-scores. */
   normalisedZ: number;
   /** The same, mapped back to the 1–10 scale around the panel's mean and spread. */
@@ -80,6 +82,7 @@ export function normaliseGrades(grades: readonly Grade[]) {
       proposalId,
       reviews: own.length,
       rawMean: mean(own.map((g) => g.overall)),
+      zScores: zs,
       normalisedZ,
       normalisedScore: clampMerit(panel.mean + normalisedZ * (panel.sd > 0 ? panel.sd : 0)),
       spread,

@@ -11,7 +11,8 @@ import { enqueueMail } from "~/lib/mail-queue.server";
 import { plainMail } from "~/lib/mail-templates.server";
 import { deadlinePassed, ProposalRefused } from "~/lib/proposals.server";
 import { Call, CallReview, Proposal, ReviewAssignment, ReviewPanelMember, RoleGrant, sequelize, User } from "~/models/index.server";
-import { pairKey } from "./conflicts";
+import { conflictReasonWithoutTeam, HIDDEN_TEAM, teamHidden } from "./anonymity.server";
+import { pairKey, type Conflict } from "./conflicts";
 import { callFacts, type CallFacts } from "./facts.server";
 import { suggestAssignments } from "./suggest";
 import { CHAIR_REOPEN_DAYS, DEFAULT_PER_PROPOSAL, type ReviewStatus } from "./vocabulary";
@@ -136,7 +137,11 @@ export async function saveReviewSetup({ actor, callId, reviewDeadlineAt, perProp
   });
 }
 
-const conflictList = (facts: CallFacts) => [...facts.conflicts.values()].map((c) => ({ proposalId: c.proposalId, reviewerId: c.reviewerId, rule: c.rule, reason: c.reason }));
+/** Dual-anonymous before the reveal: the chair's pages show conflicts by their rule, without the team's names or institutions. */
+const hidesTeam = (facts: CallFacts) => teamHidden(facts.call, facts.review, "chair");
+const chairReason = (facts: CallFacts, c: Conflict) => (hidesTeam(facts) ? conflictReasonWithoutTeam(c) : c.reason);
+
+const conflictList = (facts: CallFacts) => [...facts.conflicts.values()].map((c) => ({ proposalId: c.proposalId, reviewerId: c.reviewerId, rule: c.rule, reason: chairReason(facts, c) }));
 
 function loadsOf(facts: CallFacts, assignments: { reviewerId: number; status: string }[]) {
   return facts.panel.map((r) => ({ reviewerId: r.reviewerId, count: assignments.filter((a) => a.reviewerId === r.reviewerId && a.status !== "conflict").length }));
@@ -180,7 +185,8 @@ export async function reviewBoard({ callId }: { callId: number }) {
       committedAt: facts.review?.committedAt?.toISOString() ?? null,
     },
     panel: facts.panel.map(({ email: _e, ...r }) => r),
-    proposals: facts.proposals,
+    proposals: hidesTeam(facts) ? facts.proposals.map((p) => ({ ...p, piInstitution: HIDDEN_TEAM })) : facts.proposals,
+    teamsHidden: hidesTeam(facts),
     assignments,
     conflicts: conflictList(facts),
     loads: loadsOf(facts, assignments),
@@ -236,7 +242,7 @@ function checkPair(facts: CallFacts, proposalId: number, reviewerId: number, fie
   if (!facts.proposals.some((p) => p.proposalId === proposalId)) throw new ProposalRefused(`Proposal ${proposalId} is not in review in call ${facts.call.semesterCode}.`, 400, field);
   if (!facts.panel.some((r) => r.reviewerId === reviewerId)) throw new ProposalRefused(`User ${reviewerId} is not on the panel of call ${facts.call.semesterCode}.`, 400, field);
   const conflict = facts.conflicts.get(pairKey(proposalId, reviewerId));
-  if (conflict) throw new ProposalRefused(`${describePair(facts, proposalId, reviewerId)} is a conflict: the reviewer ${conflict.reason}.`, 400, field);
+  if (conflict) throw new ProposalRefused(`${describePair(facts, proposalId, reviewerId)} is a conflict: the reviewer ${chairReason(facts, conflict)}.`, 400, field);
 }
 
 function listMail({ reviewer, call, deadline, items }: { reviewer: { name: string | null; email: string }; call: Call; deadline: Date | null; items: { code: string | null; title: string }[] }) {

@@ -5,19 +5,22 @@ import { computeFeasibilitySheet } from "~/lib/feasibility.server";
 import { targetRows } from "~/lib/proposal-targets.server";
 import { notFound } from "~/lib/proposals.server";
 import { latestScienceCase } from "~/lib/science-case.server";
-import { Call, Filter, Instrument, Observation, Proposal, ProposalMember, StoredFile, Target, User } from "~/models/index.server";
+import { Call, CallReview, Filter, Instrument, Observation, Proposal, ProposalMember, StoredFile, Target, User } from "~/models/index.server";
+import { teamHidden } from "./anonymity.server";
 import { CHAIR_READABLE } from "./chair.server";
 import { assignmentForProposal } from "./desk.server";
 
 export type Reader = Pick<SessionUser, "id" | "email" | "roles">;
 
+export type CommitteeAccess = { as: "chair" | "reviewer"; proposal: Proposal; call: Call; /** dual-anonymous: the team is not shown to this reader */ hideTeam: boolean };
+
 /** "chair" or "reviewer" if this user may read the proposal as the committee, else a 404. */
-export async function committeeAccess({ user, proposalId }: { user: Reader; proposalId: number }): Promise<{ as: "chair" | "reviewer"; proposal: Proposal; call: Call }> {
+export async function committeeAccess({ user, proposalId }: { user: Reader; proposalId: number }): Promise<CommitteeAccess> {
   if (!Number.isSafeInteger(proposalId) || proposalId <= 0) notFound();
   // a reviewer, or a submitter of a distributed call, through their assignment
   try {
     const { proposal, call } = await assignmentForProposal({ user, proposalId });
-    return { as: "reviewer", proposal, call };
+    return { as: "reviewer", proposal, call, hideTeam: teamHidden(call, null, "reviewer") };
   } catch (error) {
     if (!user.roles.includes("chair")) throw error;
   }
@@ -25,15 +28,15 @@ export async function committeeAccess({ user, proposalId }: { user: Reader; prop
     const proposal = await Proposal.findByPk(proposalId);
     if (proposal && (CHAIR_READABLE as readonly string[]).includes(proposal.status)) {
       const call = await Call.findByPk(proposal.callId as number);
-      if (call) return { as: "chair", proposal, call };
+      if (call) return { as: "chair", proposal, call, hideTeam: teamHidden(call, await CallReview.findOne({ where: { callId: call.id } }), "chair") };
     }
   }
   notFound();
 }
 
-export async function committeeReading({ proposal, call }: { proposal: Proposal; call: Call }) {
+export async function committeeReading({ proposal, call, hideTeam }: Pick<CommitteeAccess, "proposal" | "call" | "hideTeam">) {
   const [members, targets, observations, scienceCase] = await Promise.all([
-    ProposalMember.findAll({ where: { proposalId: proposal.id }, include: [{ model: User, as: "user" }], order: [["role", "DESC"], ["id", "ASC"]] }),
+    hideTeam ? [] : ProposalMember.findAll({ where: { proposalId: proposal.id }, include: [{ model: User, as: "user" }], order: [["role", "DESC"], ["id", "ASC"]] }),
     targetRows(proposal.id),
     Observation.findAll({ where: { proposalId: proposal.id }, include: [{ model: Target, as: "target" }, { model: Instrument, as: "instrument" }, { model: Filter, as: "filter" }], order: [["targetId", "ASC"], ["id", "ASC"]] }),
     latestScienceCase({ proposalId: proposal.id }),
@@ -59,6 +62,7 @@ export async function committeeReading({ proposal, call }: { proposal: Proposal;
       isTargetOfOpportunity: proposal.isTargetOfOpportunity,
       submittedAt: proposal.submittedAt?.toISOString() ?? null,
       call: { id: call.id, semesterCode: call.semesterCode },
+      teamHidden: hideTeam,
       team: members.map((m) => ({ name: m.user?.name ?? null, institution: m.user?.institution ?? null, role: m.role })),
       targets: targets.map((t) => ({ id: t.id, name: t.name, raDeg: t.raDeg, decDeg: t.decDeg, magnitude: t.magnitude, band: t.band })),
       observations: observations.map((o) => ({
@@ -74,16 +78,19 @@ export async function committeeReading({ proposal, call }: { proposal: Proposal;
         maxAirmass: o.maxAirmass,
       })),
     },
-    scienceCase: scienceCase ? { id: scienceCase.id, filename: scienceCase.filename, pageCount: scienceCase.pageCount } : null,
+    // a file name often carries the PI's name
+    scienceCase: scienceCase ? { id: scienceCase.id, filename: hideTeam ? ANONYMOUS_FILENAME : scienceCase.filename, pageCount: scienceCase.pageCount } : null,
     feasibilitySheet,
     feasibilityError,
   };
 }
 
+export const ANONYMOUS_FILENAME = "science-case.pdf";
+
 /** A stored file of a proposal the committee member may read; 404 otherwise. */
 export async function committeeFile({ user, proposalId, fileId }: { user: Reader; proposalId: number; fileId: number }) {
-  await committeeAccess({ user, proposalId });
+  const { hideTeam } = await committeeAccess({ user, proposalId });
   const file = Number.isSafeInteger(fileId) && fileId > 0 ? await StoredFile.findOne({ where: { id: fileId, proposalId } }) : null;
   if (!file) notFound();
-  return file;
+  return { file, hideTeam };
 }

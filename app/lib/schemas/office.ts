@@ -2,7 +2,7 @@
 // before sending) and the action (checked again). Numbers arrive as typed text; an empty field is
 // a message, never a silent 0.
 import { z } from "zod";
-import { moonCategories } from "~/lib/domain";
+import { moonCategories, teamVisibilities } from "~/lib/domain";
 import { DEFAULT_REVIEWS_PER_SUBMITTER, MAX_REVIEWS_PER_SUBMITTER, reviewModes, unreviewedPolicies, type ReviewMode, type UnreviewedPolicy } from "~/lib/review/vocabulary";
 import { canonicalTimeZone, isValidTimeZone, startOfDateInZone, zonedLocalToUtc } from "~/lib/zoned-time";
 
@@ -145,24 +145,22 @@ function monthsAfter(date: string, months: number) {
   return d.toISOString().slice(0, 10);
 }
 
-// ---- distributed review (call options): a field left out of the body keeps the default
+// ---- distributed review (call options). Left out of a body (reviewMode absent), the call keeps
+// what it had and a new call is panel-reviewed; with reviewMode present, an absent checkbox is "off".
 const reviewOptionFields = {
-  reviewMode: z.enum(reviewModes, "Choose who reviews the proposals.").default("panel"),
+  reviewMode: z.enum(reviewModes, "Choose who reviews the proposals.").optional(),
   reviewsPerSubmitter: z.preprocess(
     (value) => (value === undefined ? String(DEFAULT_REVIEWS_PER_SUBMITTER) : value),
     numberField("Reviews per submitting team", { min: 1, max: MAX_REVIEWS_PER_SUBMITTER, integer: true }),
   ),
-  // a checkbox: present ("on") or absent
   separateCompetitors: z.preprocess((value) => value === true || value === "on" || value === "true", z.boolean()),
   unreviewedPolicy: z.enum(unreviewedPolicies, "Choose what happens to a proposal whose team does not deliver its reviews.").default("flag"),
 };
 type ReviewOptions = { reviewMode: ReviewMode; reviewsPerSubmitter: number; separateCompetitors: boolean; unreviewedPolicy: UnreviewedPolicy };
-const reviewOptionsOf = (call: ReviewOptions): ReviewOptions => ({
-  reviewMode: call.reviewMode,
-  reviewsPerSubmitter: call.reviewsPerSubmitter,
-  separateCompetitors: call.separateCompetitors,
-  unreviewedPolicy: call.unreviewedPolicy,
-});
+const reviewOptionsOf = (call: Omit<ReviewOptions, "reviewMode"> & { reviewMode?: ReviewMode }): Partial<ReviewOptions> =>
+  call.reviewMode
+    ? { reviewMode: call.reviewMode, reviewsPerSubmitter: call.reviewsPerSubmitter, separateCompetitors: call.separateCompetitors, unreviewedPolicy: call.unreviewedPolicy }
+    : {};
 
 /**
  * The call form. Dates and times are typed as the observatory's wall clock (`timeZone`, which the
@@ -186,6 +184,7 @@ export const callSchema = z
     currency: z.enum(currencies, "Choose the currency of the charges."),
     accessFee: money("Access fee"),
     pageCharge: money("Page charge"),
+    teamVisibility: z.enum(teamVisibilities, "Choose whether reviewers see the team.").optional(),
     ...reviewOptionFields,
   })
   .transform((call, ctx) => {
@@ -231,6 +230,8 @@ export const callSchema = z
       currency: call.currency,
       accessFeePerHourCents: Math.round(call.accessFee * 100),
       pageChargeCents: Math.round(call.pageCharge * 100),
+      // left out of a body, the call keeps what it had (a new call is named)
+      ...(call.teamVisibility ? { teamVisibility: call.teamVisibility } : {}),
       ...reviewOptionsOf(call),
       offers,
     };
