@@ -7,6 +7,7 @@ import { Op } from "sequelize";
 import { beforeAll, describe, expect, it } from "vitest";
 import { callBoard } from "~/lib/allocation/board.server";
 import { anonymisedComments } from "~/lib/decisions/anonymise";
+import { updateCall } from "~/lib/office.server";
 import { helpfulnessByReviewer } from "~/lib/review/helpfulness.server";
 import { sequelize, Call, CallReview, DecisionLetter, Observation, Proposal, ProposalMember, ReviewAssignment, ReviewHelpfulness, User } from "~/models/index.server";
 import { form, request } from "../helpers/app";
@@ -113,6 +114,20 @@ describe("the team's reviewer, before submission", () => {
       serial += 1;
       await Proposal.update({ status: "submitted", serial, code: `${serial}/${call.semesterCode.slice(2)}`, submittedAt: new Date() }, { where: { id: prop[n].id } });
     }
+  });
+});
+
+describe("the call's review mode once proposals are in", () => {
+  it("the office cannot switch a call with submitted proposals back to panel review", async () => {
+    const admin = await newUser({ roles: ["admin"], name: "Distributed Office" });
+    const c = (await Call.findByPk(call.id))!;
+    const values = {
+      semesterCode: c.semesterCode, title: c.title, opensAt: c.opensAt, deadlineAt: c.deadlineAt, semesterStart: c.semesterStart, semesterEnd: c.semesterEnd,
+      pageLimit: c.pageLimit, currency: c.currency as "eur", accessFeePerHourCents: c.accessFeePerHourCents, pageChargeCents: c.pageChargeCents,
+      reviewMode: "panel" as const, reviewsPerSubmitter: 3, separateCompetitors: false, unreviewedPolicy: "flag" as const, offers: [],
+    };
+    await expect(updateCall({ actor: admin.user, callId: call.id, values })).rejects.toThrow(/Who reviews cannot change: 6 proposals were already submitted/);
+    expect((await Call.findByPk(call.id))!.reviewMode).toBe("distributed");
   });
 });
 
