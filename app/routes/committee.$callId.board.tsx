@@ -140,13 +140,15 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
     const hours = (row: Row, thisSemester: boolean) =>
       row.requested.filter((r) => (r.semesterCode === call.semesterCode) === thisSemester).reduce((sum, r) => sum + r.hours, 0);
     return [
-      column.accessor("computedRank", {
+      // undefined, not null, for "no rank": sortUndefined only places undefined last
+      column.accessor((r) => r.computedRank ?? undefined, {
+        id: "computedRank",
         header: "Rank (68 %)",
         sortUndefined: "last",
         cell: (c) => {
           const { rankInterval } = c.row.original;
           const rank = c.getValue();
-          if (rank === null || !rankInterval) return "–";
+          if (rank === undefined || !rankInterval) return "–";
           return (
             <span className="whitespace-nowrap" data-testid={`rank-${c.row.original.proposalId}`}>
               {rank} <span className="text-xs text-slate-600">({rankInterval.low}–{rankInterval.high})</span>{" "}

@@ -5,7 +5,7 @@
 import { Op } from "sequelize";
 import { describe, expect, it } from "vitest";
 import { anonymisedComments } from "~/lib/decisions/anonymise";
-import { sequelize, Call, DecisionLetter, Proposal, ProposalMember, ReviewAssignment, ReviewHelpfulness, User } from "~/models/index.server";
+import { sequelize, Call, CallReview, DecisionLetter, Proposal, ProposalMember, ReviewAssignment, ReviewHelpfulness, User } from "~/models/index.server";
 import { DISTRIBUTED_DEMO_TITLE, up as seedDistributedDemo } from "../../sequelize/seeders/20261202090600-demo-distributed";
 import { screenshot, watchConsole } from "../helpers/browser";
 import { appInBrowser } from "../helpers/browser-suite";
@@ -115,6 +115,24 @@ describe("distributed review in the browser", () => {
     await page.getByRole("columnheader", { name: "Team's reviews" }).waitFor();
     expect(await page.getByTestId("review-duty").count()).toBe(10);
     await screenshot(page, "distributed-05-board");
+    // after the review deadline under "not ranked", the late teams' proposals are listed last
+    const review = (await CallReview.findOne({ where: { callId: call.id } }))!;
+    const deadline = review.reviewDeadlineAt;
+    await review.update({ reviewDeadlineAt: new Date(Date.now() - 60_000) });
+    await call.update({ unreviewedPolicy: "unranked" });
+    try {
+      await page.goto(`${suite.server.url}/committee/${call.id}/board`);
+      await page.getByRole("columnheader", { name: "Team's reviews" }).waitFor();
+      const duties = await page.getByTestId("review-duty").allTextContents();
+      const withheld = duties.map((t) => t.includes("not ranked"));
+      expect(withheld.filter(Boolean).length).toBeGreaterThan(0);
+      expect(withheld.filter(Boolean).length).toBeLessThan(10);
+      expect(withheld.slice(withheld.indexOf(true)).every(Boolean)).toBe(true);
+      await screenshot(page, "distributed-06-board-unranked");
+    } finally {
+      await review.update({ reviewDeadlineAt: deadline });
+      await call.update({ unreviewedPolicy: "flag" });
+    }
     expect(errors).toEqual([]);
     await context.close();
   });
