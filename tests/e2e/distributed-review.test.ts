@@ -4,6 +4,7 @@
 // demo's distributed call. Screenshots in tests/screenshots/distributed-*.png.
 import { Op } from "sequelize";
 import { describe, expect, it } from "vitest";
+import { callBoard } from "~/lib/allocation/board.server";
 import { anonymisedComments } from "~/lib/decisions/anonymise";
 import { sequelize, Call, CallReview, DecisionLetter, Proposal, ProposalMember, ReviewAssignment, ReviewHelpfulness, User } from "~/models/index.server";
 import { DISTRIBUTED_DEMO_TITLE, up as seedDistributedDemo } from "../../sequelize/seeders/20261202090600-demo-distributed";
@@ -128,6 +129,13 @@ describe("distributed review in the browser", () => {
       expect(withheld.filter(Boolean).length).toBeGreaterThan(0);
       expect(withheld.filter(Boolean).length).toBeLessThan(10);
       expect(withheld.slice(withheld.indexOf(true)).every(Boolean)).toBe(true);
+      // a withheld proposal has no rank and no chance above the allocation line either
+      const withheldIds = (await callBoard({ callId: call.id })).proposals.filter((r) => r.rankWithheld).map((r) => r.proposalId);
+      expect(withheldIds.length).toBe(withheld.filter(Boolean).length);
+      for (const id of withheldIds) {
+        expect(await page.getByTestId(`rank-${id}`).count()).toBe(0);
+        expect(await page.getByTestId(`above-${id}`).count()).toBe(0);
+      }
       await screenshot(page, "distributed-06-board-unranked");
     } finally {
       await review.update({ reviewDeadlineAt: deadline });

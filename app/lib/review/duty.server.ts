@@ -37,11 +37,12 @@ export async function reviewDuties({ callId, now = new Date() }: { callId: numbe
   return { policy: call.unreviewedPolicy, duties };
 }
 
-export type DutyRow = { proposalId: number; computedRank: number | null; reviewDuty: ReviewDuty | null; rankWithheld: string | null };
+export type DutyRow = { proposalId: number; computedRank: number | null; reviewDuty: ReviewDuty | null; rankWithheld: string | null; zScores?: readonly number[] };
 
 /**
  * Puts each row's duty on it; under "unranked" a late team's proposal loses its computed rank
- * (with the reason) and the others are renumbered 1, 2, 3 … in their order. Rows change in place.
+ * (with the reason; its z-scores leave the rank bootstrap) and the others are renumbered 1, 2, 3 …
+ * in their order. Rows change in place.
  */
 export function applyReviewDuty(rows: DutyRow[], duty: { policy: UnreviewedPolicy; duties: Map<number, ReviewDuty> } | null) {
   for (const row of rows) {
@@ -49,6 +50,8 @@ export function applyReviewDuty(rows: DutyRow[], duty: { policy: UnreviewedPolic
     row.rankWithheld = null;
     if (duty?.policy === "unranked" && row.reviewDuty?.late) {
       row.computedRank = null;
+      // nor a place in the rank bootstrap, which draws from the row's z-scores
+      if (row.zScores) row.zScores = [];
       row.rankWithheld = `not ranked: the team delivered ${row.reviewDuty.delivered} of its ${row.reviewDuty.owed} reviews by the review deadline`;
     }
   }
