@@ -2,6 +2,7 @@
 // and a stored call turned back into the form's wall-clock values.
 import { listTelescopes, observatoryTimeZone, type getCall } from "./office.server";
 import { utcToZonedLocal } from "./zoned-time";
+import { DEFAULT_REVIEWS_PER_SUBMITTER } from "./review/vocabulary";
 import type { CallFormValues } from "~/components/office/CallForm";
 
 export async function callFormContext() {
@@ -21,6 +22,10 @@ export function callToForm(call: Awaited<ReturnType<typeof getCall>>, timeZone: 
     currency: call.currency,
     accessFee: call.accessFeePerHourCents / 100,
     pageCharge: call.pageChargeCents / 100,
+    reviewMode: call.reviewMode,
+    reviewsPerSubmitter: call.reviewsPerSubmitter,
+    separateCompetitors: call.separateCompetitors,
+    unreviewedPolicy: call.unreviewedPolicy,
     offers: call.offers,
     teamVisibility: call.teamVisibility,
   };
@@ -39,6 +44,10 @@ export function emptyCallForm(latest: { semesterCode: string; semesterEnd: strin
     currency: "eur",
     accessFee: 0,
     pageCharge: 0,
+    reviewMode: "panel",
+    reviewsPerSubmitter: DEFAULT_REVIEWS_PER_SUBMITTER,
+    separateCompetitors: false,
+    unreviewedPolicy: "flag",
     offers: {},
     teamVisibility: "named",
     ...(latest ? nextSemester(latest) : {}),

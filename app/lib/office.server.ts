@@ -368,6 +368,10 @@ function plainCall(c: Call) {
     accessFeePerHourCents: c.accessFeePerHourCents,
     pageChargeCents: c.pageChargeCents,
     teamVisibility: c.teamVisibility,
+    reviewMode: c.reviewMode,
+    reviewsPerSubmitter: c.reviewsPerSubmitter,
+    separateCompetitors: c.separateCompetitors,
+    unreviewedPolicy: c.unreviewedPolicy,
   };
 }
 
@@ -447,6 +451,11 @@ export async function updateCall({ actor, callId, values }: { actor: Actor; call
             "semesterCode",
           );
         }
+      }
+      // distributed review: the teams name their reviewer before they submit, so the mode is fixed once one has
+      if (fields.reviewMode && fields.reviewMode !== call.reviewMode) {
+        const sent = await Proposal.count({ where: { callId, status: { [Op.ne]: "draft" } }, transaction });
+        if (sent) throw new OfficeRefusal(`Who reviews cannot change: ${sent} proposal${sent === 1 ? " was" : "s were"} already submitted under the current rule.`, "reviewMode");
       }
       const before = offersForAudit(
         (call.offers ?? []).map((o) => ({ telescopeId: o.telescopeId, moonCategory: o.moonCategory, hoursOffered: o.hoursOffered })),

@@ -9,6 +9,7 @@ import { enqueueMail } from "~/lib/mail-queue.server";
 import { buildProposalPdf } from "~/lib/proposal-pdf.server";
 import { receiptMail, type ReceiptPayload } from "~/lib/proposal-receipt.server";
 import { ABSTRACT_WORD_LIMIT, codeForFileName, proposalCode, scienceCategoryLabel, wordCount } from "~/lib/proposal-vocabulary";
+import { designatedReviewerName, designatedReviewerProblem } from "~/lib/proposal-team.server";
 import { selfReferenceCheck } from "~/lib/review/self-reference.server";
 import { latestScienceCase } from "~/lib/science-case.server";
 import { Observation, ProposalMember, sequelize, Target } from "~/models/index.server";
@@ -92,6 +93,18 @@ export async function submissionChecklist({ user, proposalId, access: given }: {
     href: `${base}/science-case`,
   });
 
+  if (call.reviewMode === "distributed") {
+    const problem = await designatedReviewerProblem({ proposal });
+    const name = problem ? null : await designatedReviewerName({ proposal });
+    items.push({
+      key: "reviewer",
+      label: "The team's reviewer chosen",
+      ok: problem === null,
+      detail: problem ?? `${name} reviews ${call.reviewsPerSubmitter} proposals of ${call.semesterCode} for the team.`,
+      href: `${base}/team`,
+    });
+  }
+
   const late = deadlinePassed(call);
   items.push({
     key: "deadline",
@@ -123,6 +136,10 @@ export async function submitProposal({ user, proposalId }: { user: Actor; propos
     const { proposal, call } = again;
     if (proposal.status !== "draft") throw new ProposalRefused(`The proposal is already ${proposal.status.replace("_", " ")}.`, 409);
     if (deadlinePassed(call)) throw new ProposalRefused(`The deadline of call ${call.semesterCode} has passed.`, 409);
+    if (call.reviewMode === "distributed") {
+      const problem = await designatedReviewerProblem({ proposal, transaction });
+      if (problem) throw new ProposalRefused(`Not submitted: ${problem}`, 409);
+    }
     const keptCode = proposal.code !== null;
     if (!keptCode) {
       const [row] = await sequelize.query<{ maxSerial: number | null }>("SELECT MAX(serial) AS maxSerial FROM proposals WHERE callId = :callId", {

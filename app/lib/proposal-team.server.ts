@@ -20,6 +20,8 @@ export type TeamMember = {
   /** invited by an address that already has an account (name and institution come from it) */
   hasAccount: boolean;
   isYou: boolean;
+  /** the member's account, once they have signed in */
+  userId: number | null;
 };
 
 export async function listTeam({ user, proposalId }: { user: Actor; proposalId: number }): Promise<TeamMember[]> {
@@ -44,6 +46,7 @@ export async function teamRows({ user, proposalId }: { user: Actor; proposalId: 
       joined: m.userId !== null,
       hasAccount: account !== null,
       isYou: m.userId === user.id,
+      userId: (m.userId as number | null) ?? null,
     };
   });
 }
@@ -91,6 +94,8 @@ export async function removeMember({ user, proposalId, memberId }: { user: Actor
     const self = member.id === access.membership.id;
     if (!self) assertPi(access, "remove other members");
     await member.destroy({ transaction });
+    // the team's reviewer for a distributed call must be on the team: leaving clears the choice
+    if (member.userId !== null && access.proposal.designatedReviewerId === member.userId) await access.proposal.update({ designatedReviewerId: null }, { transaction });
     await writeAudit(
       { actorId: user.id, action: self ? "member.left" : "member.removed", entityType: "proposal_member", entityId: memberId, proposalId, details: { email: member.email } },
       transaction,
@@ -116,4 +121,38 @@ export async function handOverPi({ user, proposalId, memberId }: { user: Actor; 
       transaction,
     );
   });
+}
+
+/**
+ * Distributed review: the PI names the team member (the PI or a Co-I who has signed in) who will
+ * review for the team. Only while the proposal is a draft; the submission checks it again.
+ */
+export async function designateReviewer({ user, proposalId, memberId }: { user: Actor; proposalId: number; memberId: number }) {
+  return sequelize.transaction(async (transaction) => {
+    const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
+    assertPi(access, "choose the team's reviewer");
+    assertEditable(access);
+    if (access.call.reviewMode !== "distributed") throw new ProposalRefused(`Call ${access.call.semesterCode} is reviewed by the committee's panel; the team names no reviewer.`, 409, "memberId");
+    const member = await ProposalMember.findOne({ where: { id: memberId, proposalId }, transaction });
+    if (!member) throw new ProposalRefused("That person is not on this team (any more).", 400, "memberId");
+    if (member.userId === null) throw new ProposalRefused(`${member.email} has not signed in yet; choose someone who has, or wait until they have.`, 409, "memberId");
+    const before = access.proposal.designatedReviewerId ?? null;
+    await access.proposal.update({ designatedReviewerId: member.userId as number }, { transaction });
+    await writeAudit({ actorId: user.id, action: "proposal.reviewer_designated", entityType: "proposal", entityId: proposalId, proposalId, details: { before, after: member.userId, email: member.email } }, transaction);
+    return { email: member.email };
+  });
+}
+
+/** The designated reviewer's check (checklist and submission): a member of the team with an account. */
+export async function designatedReviewerProblem({ proposal, transaction }: { proposal: { id: number; designatedReviewerId?: number | null }; transaction?: import("sequelize").Transaction }): Promise<string | null> {
+  if (!proposal.designatedReviewerId) return "No reviewer chosen yet: the PI names the team's reviewer (the PI or a Co-I) on the Team tab.";
+  const member = await ProposalMember.findOne({ where: { proposalId: proposal.id, userId: proposal.designatedReviewerId }, include: [{ model: User, as: "user" }], transaction });
+  if (!member) return "The chosen reviewer is no longer on the team; choose another on the Team tab.";
+  return null;
+}
+
+export async function designatedReviewerName({ proposal }: { proposal: { id: number; designatedReviewerId?: number | null } }) {
+  if (!proposal.designatedReviewerId) return null;
+  const u = await User.findByPk(proposal.designatedReviewerId);
+  return u ? (u.name ?? u.email) : null;
 }

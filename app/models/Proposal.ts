@@ -27,6 +27,8 @@ export class Proposal extends Model<InferAttributes<Proposal>, InferCreationAttr
   /** when the decision letter was sent (app/lib/decisions/send.server.ts) */
   declare decisionSentAt: CreationOptional<Date | null>;
   declare createdById: ForeignKey<User["id"]>;
+  /** distributed review: the team member (PI or a Co-I with an account) who reviews for the team */
+  declare designatedReviewerId: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare call?: NonAttribute<Call>;
@@ -51,6 +53,7 @@ export class Proposal extends Model<InferAttributes<Proposal>, InferCreationAttr
         version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
         submittedAt: DataTypes.DATE(3),
         decisionSentAt: DataTypes.DATE(3),
+        designatedReviewerId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
         createdAt: DataTypes.DATE(3),
         updatedAt: DataTypes.DATE(3),
       },

@@ -16,6 +16,7 @@ import { PlannedEpoch } from "./PlannedEpoch";
 import { Proposal } from "./Proposal";
 import { ProposalMember } from "./ProposalMember";
 import { ReviewAssignment } from "./ReviewAssignment";
+import { ReviewHelpfulness } from "./ReviewHelpfulness";
 import { ReviewerProfile } from "./ReviewerProfile";
 import { ReviewPanelMember } from "./ReviewPanelMember";
 import { RoleGrant } from "./RoleGrant";
@@ -40,6 +41,7 @@ for (const model of [
   CallReview, ReviewPanelMember, ReviewerProfile, ReviewAssignment,
   TelescopeClearFraction, CallAllocation, BoardEntry, Allocation, SemesterCheck,
   Charge, ExecutedEpoch, DecisionTemplate, DecisionBatch, DecisionLetter, DecisionMail,
+  ReviewHelpfulness,
 ]) {
   model.initModel(sequelize);
 }
@@ -95,6 +97,8 @@ ReviewAssignment.belongsTo(Call, { foreignKey: "callId", as: "call" });
 ReviewAssignment.belongsTo(Proposal, { foreignKey: "proposalId", as: "proposal" });
 ReviewAssignment.belongsTo(User, { foreignKey: "reviewerId", as: "reviewer" });
 Proposal.hasMany(ReviewAssignment, { foreignKey: "proposalId", as: "reviewAssignments" });
+ReviewHelpfulness.belongsTo(ReviewAssignment, { foreignKey: "assignmentId", as: "assignment" });
+ReviewHelpfulness.belongsTo(User, { foreignKey: "raterId", as: "rater" });
 
 Telescope.hasMany(TelescopeClearFraction, { foreignKey: "telescopeId", as: "clearFractions" });
 TelescopeClearFraction.belongsTo(Telescope, { foreignKey: "telescopeId", as: "telescope" });
@@ -132,5 +136,5 @@ export {
   StoredFile, Target, Telescope, User, UserSession, RateLimitKey,
   CallReview, ReviewPanelMember, ReviewerProfile, ReviewAssignment,
   TelescopeClearFraction, CallAllocation, BoardEntry, Allocation, SemesterCheck, Charge, ExecutedEpoch,
-  DecisionTemplate, DecisionBatch, DecisionLetter, DecisionMail,
+  DecisionTemplate, DecisionBatch, DecisionLetter, DecisionMail, ReviewHelpfulness,
 };

@@ -1,11 +1,10 @@
-import { requireRole } from "~/lib/auth.server";
 import { json, methodNotAllowed } from "~/lib/review/api.server";
-import { listMyAssignments } from "~/lib/review/desk.server";
+import { listMyAssignments, requireDeskUser } from "~/lib/review/desk.server";
 import type { Route } from "./+types/api.v1.review.assignments";
 
 /** GET /api/v1/review/assignments (reviewer): mine. */
 export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireRole(request, "reviewer");
+  const user = await requireDeskUser(request);
   return json({ assignments: await listMyAssignments({ user }) });
 }
 

@@ -4,6 +4,7 @@ import { requireRole } from "~/lib/auth.server";
 import { scienceCategoryLabel } from "~/lib/proposal-vocabulary";
 import { apiId } from "~/lib/review/api.server";
 import { reviewBoard } from "~/lib/review/chair.server";
+import { helpfulnessByReviewer } from "~/lib/review/helpfulness.server";
 import { SUGGESTION_METHOD } from "~/lib/review/suggest";
 import type { Route } from "./+types/committee.$callId.assignments";
 
@@ -19,11 +20,18 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   } catch {
     throw data({ message: "There is no call at this address." }, { status: 404 });
   }
-  return { board: await reviewBoard({ callId }), method: SUGGESTION_METHOD };
+  const [board, helpfulness] = await Promise.all([reviewBoard({ callId }), helpfulnessByReviewer({ callId })]);
+  return { board, helpfulness, method: SUGGESTION_METHOD };
 }
 
 type Pair = { proposalId: number; reviewerId: number };
-type Suggestion = { assignments: Pair[]; loads: { reviewerId: number; count: number }[]; impossible: { proposalId: number; reason: string }[]; balanced: boolean };
+type Suggestion = {
+  assignments: Pair[];
+  loads: { reviewerId: number; count: number }[];
+  impossible: { proposalId: number; reason: string }[];
+  short?: { reviewerId: number; count: number; reason: string }[];
+  balanced: boolean;
+};
 const key = (p: number, r: number) => `${p}:${r}`;
 
 async function callApi(url: string, method: string, body: unknown) {
@@ -33,8 +41,10 @@ async function callApi(url: string, method: string, body: unknown) {
 }
 
 export default function Assignments({ loaderData }: Route.ComponentProps) {
-  const { board, method } = loaderData;
+  const { board, method, helpfulness } = loaderData;
   const { call, review } = board;
+  const distributed = call.reviewMode === "distributed";
+  const reviewerName = (id: number) => board.panel.find((r) => r.reviewerId === id)?.name ?? `user ${id}`;
   const revalidator = useRevalidator();
   const saved = useMemo(() => new Set(board.assignments.filter((a) => a.status !== "conflict").map((a) => key(a.proposalId, a.reviewerId))), [board.assignments]);
   const [pairs, setPairs] = useState<Set<string>>(saved);
@@ -100,20 +110,35 @@ export default function Assignments({ loaderData }: Route.ComponentProps) {
       {!review.startedAt ? <p role="alert" className="rounded-md border border-amber-300 bg-amber-50 px-3 py-2">Put the call's proposals in review first (on the <Link to={`/committee/${call.id}`}>call's review page</Link>).</p> : null}
       <section className="card space-y-3">
         <div className="flex flex-wrap items-end gap-3">
-          <div>
-            <label htmlFor="perProposal">Reviewers per proposal</label>
-            <input id="perProposal" className="input w-24" type="number" min={1} max={10} value={perProposal} onChange={(e) => setPerProposal(e.target.value)} />
-          </div>
+          {distributed ? (
+            <p className="max-w-xl text-sm" data-testid="distributed-note">
+              Reviewed by its submitters: each team's designated reviewer gets {call.reviewsPerSubmitter} proposals of the call, never their own{call.separateCompetitors ? " nor one asking for the same telescope and moon category as theirs" : ""}.
+            </p>
+          ) : (
+            <div>
+              <label htmlFor="perProposal">Reviewers per proposal</label>
+              <input id="perProposal" className="input w-24" type="number" min={1} max={10} value={perProposal} onChange={(e) => setPerProposal(e.target.value)} />
+            </div>
+          )}
           <button type="button" className="btn" onClick={suggest} disabled={busy}>Suggest reviewers</button>
           {suggestion ? <button type="button" className="btn" onClick={accept} disabled={busy}>Accept the suggestion</button> : null}
           <button type="button" className="btn-quiet" onClick={() => save(false)} disabled={busy || !dirty}>Save the matrix</button>
           <button type="button" className="btn" onClick={() => save(true)} disabled={busy || pairs.size === 0}>Commit and e-mail the reviewers</button>
         </div>
-        <p className="text-xs text-slate-500">The suggestion is a {method}: every proposal gets {k} reviewers free of conflicts where possible, loads stay within one, and reviewers who know the category come first.</p>
+        <p className="text-xs text-slate-500">
+          {distributed
+            ? `The suggestion is a ${method}: every designated reviewer gets ${call.reviewsPerSubmitter} proposals free of conflicts where possible, the reviews are spread evenly over the proposals, and proposals of the reviewer's own category come first.`
+            : `The suggestion is a ${method}: every proposal gets ${k} reviewers free of conflicts where possible, loads stay within one, and reviewers who know the category come first.`}
+        </p>
         {suggestion ? (
           <div className="rounded-md border border-night-200 bg-night-50 p-3 text-sm" aria-label="Suggestion">
             <p>Suggested: {suggestion.assignments.length} pairs; loads {Math.min(...suggestion.loads.map((l) => l.count))}–{Math.max(...suggestion.loads.map((l) => l.count))}{suggestion.balanced ? "" : " (the conflicts do not allow loads within one)"}.</p>
-            {suggestion.impossible.length ? (
+            {suggestion.short?.length ? (
+              <ul className="mt-1 list-disc pl-5 text-amber-900" aria-label="Reviewers with fewer proposals">
+                {suggestion.short.map((x) => <li key={x.reviewerId}>{reviewerName(x.reviewerId)} gets {x.count}: {x.reason}.</li>)}
+              </ul>
+            ) : distributed ? <p>Every designated reviewer gets {call.reviewsPerSubmitter} proposals.</p> : null}
+            {distributed && !suggestion.impossible.length ? null : suggestion.impossible.length ? (
               <ul className="mt-1 list-disc pl-5 text-red-800">
                 {suggestion.impossible.map((x) => <li key={x.proposalId}>Impossible for {proposalLabel(x.proposalId)}: {x.reason}.</li>)}
               </ul>
@@ -122,7 +147,12 @@ export default function Assignments({ loaderData }: Route.ComponentProps) {
         ) : null}
         {message ? <p role={message.tone === "error" ? "alert" : "status"} className={message.tone === "error" ? "rounded-md border border-red-200 bg-red-50 px-3 py-2 text-red-800" : "rounded-md border border-emerald-300 bg-emerald-50 px-3 py-2 text-emerald-900"}>{message.text}</p> : null}
         <p className="text-sm" aria-live="polite">
-          {pairs.size} pairs · loads {counts.length ? `${Math.min(...counts)}–${Math.max(...counts)}` : "—"}{spread > 1 ? " (more than one apart)" : ""} · {short.length ? `${short.length} proposal${short.length === 1 ? "" : "s"} with fewer than ${k}` : `every proposal has ${k}`}
+          {pairs.size} pairs · loads {counts.length ? `${Math.min(...counts)}–${Math.max(...counts)}` : "—"}{spread > 1 ? " (more than one apart)" : ""} · {distributed
+            ? (() => {
+                const under = counts.filter((c) => c < call.reviewsPerSubmitter).length;
+                return under ? `${under} reviewer${under === 1 ? "" : "s"} with fewer than ${call.reviewsPerSubmitter}` : `every reviewer has ${call.reviewsPerSubmitter}`;
+              })()
+            : short.length ? `${short.length} proposal${short.length === 1 ? "" : "s"} with fewer than ${k}` : `every proposal has ${k}`}
           {dirty ? " · unsaved changes" : ""} · {review.committedAt ? "committed" : "not committed"}
         </p>
       </section>
@@ -136,6 +166,7 @@ export default function Assignments({ loaderData }: Route.ComponentProps) {
                   <span className="block">{r.name}</span>
                   <span className="block text-xs font-normal text-slate-500">{r.institution ?? ""}</span>
                   <span className="block text-xs font-normal" data-load={r.reviewerId}>load {r.count}</span>
+                  <HelpfulnessCell figures={helpfulness.find((h) => h.reviewerId === r.reviewerId)} reviewerId={r.reviewerId} />
                 </th>
               ))}
             </tr>
@@ -172,5 +203,14 @@ export default function Assignments({ loaderData }: Route.ComponentProps) {
         </table>
       </div>
     </div>
+  );
+}
+
+/** The mean helpfulness the teams gave this reviewer's comments, and how many ratings (never who gave them). */
+function HelpfulnessCell({ figures, reviewerId }: { figures?: { mean: number; ratings: number }; reviewerId: number }) {
+  return (
+    <span className="block text-xs font-normal text-slate-600" data-helpfulness={reviewerId} title="Mean helpfulness of the reviewer's comments, rated 1–5 by the teams that received them">
+      {figures ? `helpful ${figures.mean.toFixed(1)}/5 (${figures.ratings} rating${figures.ratings === 1 ? "" : "s"})` : "no helpfulness ratings"}
+    </span>
   );
 }

@@ -1,4 +1,5 @@
 import { createColumnHelper, getCoreRowModel, getFilteredRowModel, getSortedRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
+import { ReviewDutyBadge } from "~/components/allocation/ReviewDutyBadge";
 import { useMemo, useState } from "react";
 import { data, Form, Link, useActionData, useNavigation } from "react-router";
 import { z } from "zod";
@@ -139,13 +140,15 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
     const hours = (row: Row, thisSemester: boolean) =>
       row.requested.filter((r) => (r.semesterCode === call.semesterCode) === thisSemester).reduce((sum, r) => sum + r.hours, 0);
     return [
-      column.accessor("computedRank", {
+      // undefined, not null, for "no rank": sortUndefined only places undefined last
+      column.accessor((r) => r.computedRank ?? undefined, {
+        id: "computedRank",
         header: "Rank (68 %)",
         sortUndefined: "last",
         cell: (c) => {
           const { rankInterval } = c.row.original;
           const rank = c.getValue();
-          if (rank === null || !rankInterval) return "–";
+          if (rank === undefined || !rankInterval) return "–";
           return (
             <span className="whitespace-nowrap" data-testid={`rank-${c.row.original.proposalId}`}>
               {rank} <span className="text-xs text-slate-600">({rankInterval.low}–{rankInterval.high})</span>{" "}
@@ -173,6 +176,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
       column.accessor((r) => (r.category ? scienceCategoryLabel(r.category) : ""), { id: "category", header: "Category" }),
       column.accessor((r) => r.piInstitution ?? "", { id: "institution", header: "PI institution" }),
       column.accessor("reviews", { header: "Reviews" }),
+      ...(board.proposals.some((r) => r.reviewDuty) ? [column.accessor((r) => (r.reviewDuty?.late ? 1 : 0), { id: "reviewDuty", header: "Team's reviews", cell: (c) => <ReviewDutyBadge duty={c.row.original.reviewDuty} withheld={c.row.original.rankWithheld} /> })] : []),
       column.accessor("rawMean", { header: "Raw mean", cell: (c) => fixed(c.getValue(), 2) }),
       column.accessor("normalisedScore", {
         header: "Normalised",
@@ -205,7 +209,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
         },
       }),
     ];
-  }, [call.semesterCode, checkOf, stale, ranked]);
+  }, [call.semesterCode, checkOf, stale, ranked, board.proposals]);
   const table = useReactTable({
     data: board.proposals,
     columns,

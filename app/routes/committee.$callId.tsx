@@ -135,10 +135,19 @@ export default function CallReviewPage({ loaderData }: Route.ComponentProps) {
             <Field label={`Review deadline (${timeZone})`} id="reviewDeadline" error={err("reviewDeadline")} hint={review.reviewDeadlineAt ? `${formatInZone(review.reviewDeadlineAt, timeZone)} = ${formatUtc(review.reviewDeadlineAt)}` : undefined}>
               <input {...inputProps("reviewDeadline", err("reviewDeadline"))} type="datetime-local" name="reviewDeadline" defaultValue={deadlineLocal} />
             </Field>
-            <Field label="Reviewers per proposal" id="perProposal" error={err("perProposal")}>
-              <input {...inputProps("perProposal", err("perProposal"))} type="number" min={1} max={10} name="perProposal" defaultValue={(typed("perProposal") as string | undefined) ?? review.perProposal} />
-            </Field>
+            {call.reviewMode === "distributed" ? (
+              <input type="hidden" name="perProposal" value={review.perProposal} />
+            ) : (
+              <Field label="Reviewers per proposal" id="perProposal" error={err("perProposal")}>
+                <input {...inputProps("perProposal", err("perProposal"))} type="number" min={1} max={10} name="perProposal" defaultValue={(typed("perProposal") as string | undefined) ?? review.perProposal} />
+              </Field>
+            )}
           </div>
+          {call.reviewMode === "distributed" ? (
+            <p className="text-sm" data-testid="distributed-panel">
+              This call is reviewed by its submitters: the panel is the {board.panel.length} reviewer{board.panel.length === 1 ? "" : "s"} the teams designated, each with {call.reviewsPerSubmitter} proposals to review. They need no reviewer role.
+            </p>
+          ) : (
           <fieldset>
             <legend className="text-sm font-semibold">Panel (users holding the reviewer role)</legend>
             <div className="mt-1 grid gap-1 sm:grid-cols-2">
@@ -153,6 +162,7 @@ export default function CallReviewPage({ loaderData }: Route.ComponentProps) {
             </div>
             {err("panel") ? <p className="field-error" role="alert">{err("panel")}</p> : null}
           </fieldset>
+          )}
           <button className="btn" disabled={busy}>Save deadline and panel</button>
         </Form>
         <p><Link to={`/committee/${call.id}/board`} className="font-semibold">Open the ranking board →</Link></p>

@@ -1,22 +1,74 @@
+import { data, useFetcher } from "react-router";
 import { utc } from "~/components/workspace";
 import { requireUser } from "~/lib/auth.server";
 import { decisionForUser } from "~/lib/decisions/decisions.server";
 import { chargesText } from "~/lib/decisions/template";
 import { outcomeLabels } from "~/lib/decisions/vocabulary";
-import { proposalIdParam } from "~/lib/proposal-routes.server";
+import { fieldErrors, readForm } from "~/lib/forms";
+import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
+import { getProposalForUser } from "~/lib/proposals.server";
+import { myHelpfulness, rateComment } from "~/lib/review/helpfulness.server";
+import { HELPFULNESS_MAX, HELPFULNESS_MIN } from "~/lib/review/vocabulary";
+import { helpfulnessSchema } from "~/lib/schemas/review";
 import type { Route } from "./+types/proposals.$proposalId.decision";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
   const { letter } = await decisionForUser({ user, proposalId });
-  return { proposalId, letter };
+  return { proposalId, letter, helpfulness: letter ? await myHelpfulness({ user, proposalId }) : [] };
+}
+
+/** The team rates how helpful each comment was (1–5; anonymous: nobody sees who rated). */
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const proposalId = proposalIdParam(params);
+  await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
+  const values = formValues(await readForm(request)) as Record<string, string>;
+  const parsed = helpfulnessSchema.safeParse(values);
+  if (!parsed.success) return data({ ok: false as const, assignmentId: values.assignmentId ?? null, errors: fieldErrors(parsed.error), values }, { status: 400 });
+  try {
+    await rateComment({ user, proposalId, assignmentId: parsed.data.assignmentId, rating: parsed.data.rating });
+    return { ok: true as const, assignmentId: String(parsed.data.assignmentId), errors: {} as Record<string, string>, values };
+  } catch (error) {
+    const refused = refusalResponse(error, values);
+    return data({ ...refused.data, ok: false as const, assignmentId: values.assignmentId ?? null }, { status: refused.init?.status ?? 400 });
+  }
+}
+
+function RateComment({ assignmentId, rating, label }: { assignmentId: number; rating: number | null; label: string }) {
+  const fetcher = useFetcher<typeof action>();
+  const answer = fetcher.data && fetcher.data.assignmentId === String(assignmentId) ? fetcher.data : undefined;
+  const error = answer && !answer.ok ? (answer.errors.rating ?? answer.errors.assignmentId ?? answer.errors.form) : undefined;
+  const shown = fetcher.formData ? Number(fetcher.formData.get("rating")) : rating;
+  return (
+    <fetcher.Form method="post" className="mt-2 flex flex-wrap items-center gap-2 text-sm" aria-label={`How helpful was ${label}?`}>
+      <input type="hidden" name="assignmentId" value={assignmentId} />
+      <span className="text-slate-600">How helpful was this comment?</span>
+      {Array.from({ length: HELPFULNESS_MAX - HELPFULNESS_MIN + 1 }, (_, i) => HELPFULNESS_MIN + i).map((n) => (
+        <button
+          key={n}
+          type="submit"
+          name="rating"
+          value={n}
+          aria-pressed={shown === n}
+          className={`rounded border px-2 py-0.5 tabular-nums ${shown === n ? "border-night-700 bg-night-700 text-white" : "border-slate-300 bg-white"}`}
+          title={n === HELPFULNESS_MIN ? "not helpful" : n === HELPFULNESS_MAX ? "very helpful" : undefined}
+        >
+          {n}
+        </button>
+      ))}
+      <span className="text-xs text-slate-500">1 not helpful · 5 very helpful · anonymous</span>
+      {answer?.ok ? <span role="status" className="text-emerald-700">Saved.</span> : null}
+      {error ? <span role="alert" className="field-error">{error}</span> : null}
+    </fetcher.Form>
+  );
 }
 
 const moonWords = { dark: "dark", grey: "grey", bright: "bright" } as const;
 
 export default function Decision({ loaderData }: Route.ComponentProps) {
-  const { letter, proposalId } = loaderData;
+  const { letter, proposalId, helpfulness } = loaderData;
   if (!letter) {
     return (
       <section className="card" role="status">
@@ -49,12 +101,16 @@ export default function Decision({ loaderData }: Route.ComponentProps) {
       <section className="card space-y-3">
         <h2>Reviewers' comments</h2>
         {f.comments.length === 0 ? <p className="text-slate-600">The reviewers left no comments for the PI.</p> : null}
-        {f.comments.map((c) => (
-          <div key={c.label}>
-            <h3 className="text-sm font-semibold">{c.label}</h3>
-            <p className="whitespace-pre-wrap text-sm">{c.text}</p>
-          </div>
-        ))}
+        {f.comments.map((c) => {
+          const rate = helpfulness.find((h) => h.label === c.label);
+          return (
+            <div key={c.label} data-testid="decision-comment">
+              <h3 className="text-sm font-semibold">{c.label}</h3>
+              <p className="whitespace-pre-wrap text-sm">{c.text}</p>
+              {rate ? <RateComment assignmentId={rate.assignmentId} rating={rate.rating} label={c.label} /> : null}
+            </div>
+          );
+        })}
       </section>
       <section className="card">
         <h2>The letter</h2>

@@ -1,21 +1,25 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useEffect } from "react";
 import { useForm } from "react-hook-form";
-import { data, redirect, useActionData, useFetcher } from "react-router";
+import { data, Link, redirect, useActionData, useFetcher } from "react-router";
 import { Field, inputProps } from "~/components/Field";
 import { useWorkspace } from "~/components/workspace";
 import { requireUser } from "~/lib/auth.server";
 import { fieldErrors, readForm } from "~/lib/forms";
 import { getProposalForUser } from "~/lib/proposals.server";
 import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
-import { handOverPi, inviteCoI, listTeam, removeMember } from "~/lib/proposal-team.server";
+import { designateReviewer, handOverPi, inviteCoI, listTeam, removeMember } from "~/lib/proposal-team.server";
 import { memberRoleLabels } from "~/lib/proposal-vocabulary";
 import { inviteSchema, memberSchema } from "~/lib/schemas/proposals";
 import type { Route } from "./+types/proposals.$proposalId.team";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  return { members: await listTeam({ user, proposalId: proposalIdParam(params) }) };
+  const proposalId = proposalIdParam(params);
+  const { proposal, call } = await getProposalForUser({ proposalId, user });
+  const members = await listTeam({ user, proposalId });
+  const reviewer = call.reviewMode === "distributed" ? { designatedUserId: proposal.designatedReviewerId ?? null, perSubmitter: call.reviewsPerSubmitter, semesterCode: call.semesterCode } : null;
+  return { members, reviewer };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -31,6 +35,12 @@ export async function action({ request, params }: Route.ActionArgs) {
       const invited = await inviteCoI({ user, proposalId, email: parsed.data.email });
       const who = invited.name ? `${invited.name}${invited.institution ? ` (${invited.institution})` : ""} at ${parsed.data.email.toLowerCase()}` : parsed.data.email.toLowerCase();
       return { ok: true as const, intent, message: `Invitation sent to ${who}.`, errors: {} as Record<string, string>, values: {} as Record<string, string> };
+    }
+    if (intent === "designate-reviewer") {
+      const parsed = memberSchema.safeParse(values);
+      if (!parsed.success) return data({ ok: false as const, intent, errors: fieldErrors(parsed.error), values }, { status: 400 });
+      const { email } = await designateReviewer({ user, proposalId, memberId: parsed.data.memberId });
+      return { ok: true as const, intent, message: `${email} will review for the team.`, errors: {} as Record<string, string>, values };
     }
     if (intent === "remove" || intent === "hand-over") {
       const parsed = memberSchema.safeParse(values);
@@ -108,6 +118,46 @@ function MemberActions({ member, isPi }: { member: Route.ComponentProps["loaderD
   );
 }
 
+/** Distributed review: the PI names who reviews for the team (required before submission). */
+function TeamReviewer({ loaderData, editable, isPi }: { loaderData: Route.ComponentProps["loaderData"]; editable: boolean; isPi: boolean }) {
+  const fetcher = useFetcher<typeof action>();
+  const actionData = useActionData<typeof action>();
+  const answer = fetcher.data ?? actionData;
+  const result = answer?.intent === "designate-reviewer" ? answer : undefined;
+  const r = loaderData.reviewer;
+  if (!r) return null;
+  const joined = loaderData.members.filter((m) => m.joined);
+  const current = loaderData.members.find((m) => m.joined && m.userId === r.designatedUserId);
+  const error = result && !result.ok ? (result.errors.memberId ?? result.errors.form) : undefined;
+  return (
+    <section className="card space-y-3" aria-labelledby="team-reviewer">
+      <h2 id="team-reviewer">The team's reviewer</h2>
+      <p className="text-sm text-slate-600">
+        Call {r.semesterCode} is reviewed by its submitters: one person of each team grades {r.perSubmitter} other proposals of the call before the review deadline. A team whose reviewer does not deliver is flagged to the committee.
+      </p>
+      <p data-testid="designated-reviewer">
+        {current ? <>Reviewer: <strong>{current.name ?? current.email}</strong></> : <span className="text-amber-800">No reviewer chosen yet; the proposal cannot be submitted without one.</span>}
+      </p>
+      {current?.isYou && !editable ? <p className="text-sm">Your assignments appear on the <Link to="/review">review desk</Link> once the chair commits them (you are told by e-mail).</p> : null}
+      {editable && isPi ? (
+        <fetcher.Form method="post" className="flex flex-wrap items-end gap-3">
+          <input type="hidden" name="intent" value="designate-reviewer" />
+          <Field label="Who reviews for the team" id="designate-member" error={error}>
+            <select id="designate-member" className="input" aria-invalid={error ? true : undefined} aria-describedby={error ? "designate-member-error" : undefined} name="memberId" defaultValue={current?.id ?? ""}>
+              <option value="" disabled>Choose a member…</option>
+              {joined.map((m) => (
+                <option key={m.id} value={m.id}>{m.name ?? m.email}{m.role === "pi" ? " (PI)" : " (Co-I)"}</option>
+              ))}
+            </select>
+          </Field>
+          <button type="submit" className="btn" disabled={fetcher.state !== "idle"}>Save the reviewer</button>
+          {result?.ok ? <p role="status" className="text-sm text-emerald-700">{result.message}</p> : null}
+        </fetcher.Form>
+      ) : null}
+    </section>
+  );
+}
+
 export default function Team({ loaderData }: Route.ComponentProps) {
   const workspace = useWorkspace();
   return (
@@ -131,6 +181,7 @@ export default function Team({ loaderData }: Route.ComponentProps) {
           </tbody>
         </table>
       </div>
+      <TeamReviewer loaderData={loaderData} editable={workspace.editable} isPi={workspace.isPi} />
       {workspace.editable ? <InviteForm /> : <p className="text-sm text-slate-600">The team can change only while the proposal is a draft.</p>}
       <p className="text-sm text-slate-600">Co-Is edit the draft; only the PI submits, withdraws, removes other members or hands the PI role over.</p>
     </div>

@@ -3,9 +3,8 @@ import { useEffect, useState } from "react";
 import { Link } from "react-router";
 import { Countdown } from "~/components/Countdown";
 import { SortableTable } from "~/components/SortableTable";
-import { requireRole } from "~/lib/auth.server";
 import { scienceCategoryLabel } from "~/lib/proposal-vocabulary";
-import { listMyAssignments, type DeskRow } from "~/lib/review/desk.server";
+import { listMyAssignments, type DeskRow, requireDeskUser } from "~/lib/review/desk.server";
 import { reviewStatusLabels } from "~/lib/review/vocabulary";
 import { formatUtc } from "~/lib/zoned-time";
 import type { Route } from "./+types/review._index";
@@ -15,7 +14,7 @@ export function meta() {
 }
 
 export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireRole(request, "reviewer");
+  const user = await requireDeskUser(request);
   return { name: user.name ?? user.email, rows: await listMyAssignments({ user }), now: new Date().toISOString() };
 }
 

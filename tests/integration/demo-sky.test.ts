@@ -12,6 +12,7 @@ import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { demoProposals } from "../../sequelize/seeders/20261201000300-demo-proposals";
 import { surveyFields } from "../../sequelize/demo-survey";
+import { distributedDemoTargets } from "../../sequelize/seeders/20261202090600-demo-distributed";
 
 type Point = { name: string; ra: number; dec: number };
 type Feature = { id: string | number; properties: { mag?: number | string }; geometry: { coordinates: [number, number] } };
@@ -45,7 +46,10 @@ const fixtureTargets: FixtureTarget[] = JSON.parse(
 ).targets;
 
 const turned = (p: Point): Point => ({ ...p, name: `${p.name} turned by 12 h`, ra: (p.ra + 180) % 360 });
-const seedTargets: Point[] = demoProposals.flatMap((d) => d.targets.map((t) => ({ name: t.name, ra: t.ra, dec: t.dec })));
+const seedTargets: Point[] = [
+  ...demoProposals.flatMap((d) => d.targets.map((t) => ({ name: t.name, ra: t.ra, dec: t.dec }))),
+  ...distributedDemoTargets,
+];
 
 // Invented targets in the tests and the sky tools' defaults (hand-copied; update with them).
 const exampleTargets: Point[] = [

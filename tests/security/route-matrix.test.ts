@@ -101,7 +101,7 @@ const expectations: Record<string, Rule> = {
   "/proposals/:proposalId/science-case": { get: "member", post: "member" },
   "/proposals/:proposalId/change-log": { get: "member", post: "none" },
   "/proposals/:proposalId/epochs": { get: "member", post: "member" }, // the probe: 400 (intent must be accept-replan)
-  "/proposals/:proposalId/decision": { get: "member", post: "none" },
+  "/proposals/:proposalId/decision": { get: "member", post: "member" }, // the helpfulness rating; the probe: 400 (rating access: distributed-review.test.ts)
   "/proposals/:proposalId/charges": { get: "member", post: "member" },
   "/proposals/:proposalId/submit": { get: "member", post: "member", getOk: 302 }, // a GET goes to the summary
   "/calls": { get: "anyone", post: "none" },

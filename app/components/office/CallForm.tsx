@@ -3,9 +3,10 @@ import { Form, useNavigation } from "react-router";
 import { moonCategories, teamVisibilities, teamVisibilityLabels, type TeamVisibility } from "~/lib/domain";
 import { callSchema, currencies, offerField } from "~/lib/schemas/office";
 import { formatInZone, formatUtc, zonedLocalToUtc } from "~/lib/zoned-time";
+import { CallReviewOptions, type ReviewOptionValues } from "./CallReviewOptions";
 import { fieldId, FormError, Message, NumberField, OfficeFields, TextField, useField, useOfficeForm, type FormResult } from "./fields";
 
-export interface CallFormValues {
+export interface CallFormValues extends ReviewOptionValues {
   semesterCode: string;
   title: string;
   /** wall clock at the observatory, YYYY-MM-DDTHH:MM */
@@ -254,6 +255,8 @@ export function CallForm({
         </p>
         <Message id={fieldId(p, "teamVisibility")} error={errors.teamVisibility} />
       </fieldset>
+
+      <CallReviewOptions prefix={p} initial={initial} typed={result?.values} errors={errors} />
 
       <button type="submit" className="btn" disabled={busy}>
         {busy ? "Saving…" : submitLabel}

@@ -8,6 +8,7 @@ import { computeFeasibilitySheets, type FeasibilitySheet } from "~/lib/feasibili
 import { blankTeamsUntilRevealed } from "~/lib/review/anonymity.server";
 import { callNotFound } from "~/lib/review/chair.server";
 import { Allocation, BoardEntry, Call, CallAllocation, CallOffer, Proposal, ReviewAssignment, User } from "~/models/index.server";
+import { applyReviewDuty, reviewDuties, type ReviewDuty } from "~/lib/review/duty.server";
 import { normaliseGrades } from "./normalise";
 
 /** Proposals that stand on the board: in review, or with an outcome from a lock. */
@@ -91,12 +92,15 @@ export async function callBoard({ callId, sheets }: { callId: number; sheets?: M
       waitlisted: entry?.waitlisted ?? false,
       requested,
       requestedError,
+      reviewDuty: null as ReviewDuty | null,
+      rankWithheld: null as string | null,
       allocation: allocations
         .filter((a) => a.proposalId === p.id)
         .map((a) => ({ telescopeId: a.telescopeId as number, moonCategory: a.moonCategory, semesterCode: a.semesterCode, hours: a.hours })),
     });
   }
-  // Proposals without a submitted review sort last.
+  applyReviewDuty(rows, await reviewDuties({ callId })); // distributed review: late teams flagged (or unranked)
+  // Proposals without a submitted review (or whose rank is withheld) sort last.
   rows.sort((a, b) => (a.computedRank ?? Infinity) - (b.computedRank ?? Infinity) || a.proposalId - b.proposalId);
 
   const requestedByCell = new Map<string, number>();

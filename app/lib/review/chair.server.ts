@@ -75,17 +75,44 @@ export async function startReview({ actor, callId, now = new Date() }: { actor: 
     const [moved] = await Proposal.update({ status: "in_review" }, { where: { callId, status: "submitted" }, transaction });
     const [review] = await CallReview.findOrCreate({ where: { callId }, defaults: { callId, reviewDeadlineAt: null, perProposal: DEFAULT_PER_PROPOSAL }, transaction });
     if (!review.startedAt) await review.update({ startedAt: now }, { transaction });
-    await writeAudit({ actorId: actor.id, action: "review.started", entityType: "call", entityId: callId, details: { semesterCode: call.semesterCode, moved } }, transaction);
+    const panel = call.reviewMode === "distributed" ? await seatDesignatedReviewers({ callId, transaction }) : null;
+    await writeAudit({ actorId: actor.id, action: "review.started", entityType: "call", entityId: callId, details: { semesterCode: call.semesterCode, moved, ...(panel ? { designatedReviewers: panel.length } : {}) } }, transaction);
     return { moved };
   });
 }
 
-/** Review deadline, reviewers per proposal and the panel (users holding the reviewer role). */
+/**
+ * Distributed review: the panel is the reviewers the teams of the proposals in review designated
+ * (they need no reviewer role; their desk access comes from their assignments). Adds the missing
+ * ones; a reviewer no longer designated leaves the panel unless they hold assignments.
+ */
+export async function seatDesignatedReviewers({ callId, transaction }: { callId: number; transaction: Transaction }) {
+  const proposals = await Proposal.findAll({ where: { callId, status: "in_review" }, attributes: ["id", "designatedReviewerId"], transaction });
+  const wanted = [...new Set(proposals.map((p) => p.designatedReviewerId).filter((id): id is number => id !== null && id !== undefined))];
+  const current = await ReviewPanelMember.findAll({ where: { callId }, transaction });
+  for (const reviewerId of wanted) if (!current.some((m) => m.reviewerId === reviewerId)) await ReviewPanelMember.create({ callId, reviewerId }, { transaction });
+  const leaving = current.filter((m) => !wanted.includes(m.reviewerId as number));
+  for (const m of leaving) {
+    if (await ReviewAssignment.count({ where: { callId, reviewerId: m.reviewerId, status: { [Op.ne]: "conflict" } }, transaction })) continue;
+    await m.destroy({ transaction });
+  }
+  return wanted;
+}
+
+/** Review deadline, reviewers per proposal and the panel (users holding the reviewer role; a distributed call's are its designated reviewers). */
 export async function saveReviewSetup({ actor, callId, reviewDeadlineAt, perProposal, panel }: { actor: Chair; callId: number; reviewDeadlineAt: Date; perProposal: number; panel: number[] }) {
   return sequelize.transaction(async (transaction) => {
     const call = await Call.findByPk(callId, { transaction, lock: transaction.LOCK.UPDATE });
     if (!call) callNotFound();
     if (reviewDeadlineAt.getTime() <= call.deadlineAt.getTime()) throw new ProposalRefused("The review deadline must come after the call's deadline.", 400, "reviewDeadline");
+    if (call.reviewMode === "distributed") {
+      const seated = await seatDesignatedReviewers({ callId, transaction });
+      const [review] = await CallReview.findOrCreate({ where: { callId }, defaults: { callId, reviewDeadlineAt, perProposal }, transaction });
+      const before = { reviewDeadlineAt: review.reviewDeadlineAt?.toISOString() ?? null };
+      await review.update({ reviewDeadlineAt }, { transaction });
+      await writeAudit({ actorId: actor.id, action: "review.setup_saved", entityType: "call", entityId: callId, details: { before, reviewDeadlineAt: reviewDeadlineAt.toISOString(), designatedReviewers: seated } }, transaction);
+      return;
+    }
     const wanted = [...new Set(panel)];
     const reviewers = await RoleGrant.findAll({ where: { role: "reviewer", userId: wanted }, transaction });
     if (reviewers.length !== wanted.length) throw new ProposalRefused("Choose the panel among users holding the reviewer role.", 400, "panel");
@@ -141,7 +168,16 @@ export async function reviewBoard({ callId }: { callId: number }) {
     reopenedUntil: a.reopenedUntil?.toISOString() ?? null,
   }));
   return {
-    call: { id: facts.call.id, semesterCode: facts.call.semesterCode, title: facts.call.title, deadlineAt: facts.call.deadlineAt.toISOString(), deadlinePassed: deadlinePassed(facts.call) },
+    call: {
+      id: facts.call.id,
+      semesterCode: facts.call.semesterCode,
+      title: facts.call.title,
+      deadlineAt: facts.call.deadlineAt.toISOString(),
+      deadlinePassed: deadlinePassed(facts.call),
+      reviewMode: facts.call.reviewMode,
+      reviewsPerSubmitter: facts.call.reviewsPerSubmitter,
+      separateCompetitors: facts.call.separateCompetitors,
+    },
     review: {
       reviewDeadlineAt: facts.review?.reviewDeadlineAt?.toISOString() ?? null,
       perProposal: facts.review?.perProposal ?? DEFAULT_PER_PROPOSAL,
@@ -170,16 +206,29 @@ export async function reviewState({ callId }: { callId: number }) {
   };
 }
 
-/** The suggestion for the call's proposals in review and its panel; changes nothing. */
+/**
+ * The suggestion for the call's proposals in review and its panel; changes nothing. A distributed
+ * call gives each designated reviewer the call's k proposals instead (`perProposal` is not used).
+ */
 export async function suggestForCall({ callId, perProposal }: { callId: number; perProposal: number }) {
   const facts = await factsOrNotFound(callId);
+  const distributed = facts.call.reviewMode === "distributed";
   const result = suggestAssignments({
     proposals: facts.proposals.map((p) => ({ proposalId: p.proposalId, category: p.category })),
     reviewers: facts.panel.map((r) => ({ reviewerId: r.reviewerId, categories: r.categories })),
-    perProposal,
+    perProposal: distributed ? facts.panel.length : perProposal,
+    perReviewer: distributed ? facts.call.reviewsPerSubmitter : undefined,
     isConflict: (p, r) => facts.conflicts.has(pairKey(p, r)),
   });
-  return { assignments: result.assignments, loads: result.loads, impossible: result.impossible, balanced: result.balanced, categoryMatches: result.categoryMatches };
+  return {
+    assignments: result.assignments,
+    loads: result.loads,
+    impossible: result.impossible,
+    short: result.short,
+    balanced: result.balanced,
+    categoryMatches: result.categoryMatches,
+    ...(distributed ? { perReviewer: facts.call.reviewsPerSubmitter } : {}),
+  };
 }
 
 function describePair(facts: CallFacts, proposalId: number, reviewerId: number) {

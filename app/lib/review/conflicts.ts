@@ -4,11 +4,23 @@
 //   institution – the reviewer's institution equals a team member's, after normalising the names;
 //   competitor  – the reviewer is PI or Co-I of another proposal of the same call and category;
 //   declared    – the reviewer declared a conflict for this proposal.
+// In a distributed review every reviewer is on a team of the call, so "competitor" there means
+// (when the call keeps competitors apart) a shared telescope × moon category among the hours the
+// two proposals request (`requests`), and nothing at all when it does not.
 
 export type ConflictRule = "team" | "institution" | "competitor" | "declared";
 
 export type TeamMemberFacts = { userId: number | null; email: string; institution: string | null; name?: string | null };
-export type ProposalFacts = { proposalId: number; code: string | null; category: string | null; team: TeamMemberFacts[] };
+export type ProposalFacts = {
+  proposalId: number;
+  code: string | null;
+  category: string | null;
+  team: TeamMemberFacts[];
+  /** "telescopeId|moonCategory" cells of the call's semester in which the proposal requests hours */
+  requests?: readonly string[];
+};
+/** What makes two proposals of one call competitors: the science category (panel), a requested cell (distributed), or nothing. */
+export type Competition = "category" | "requests" | "none";
 export type ReviewerFacts = { reviewerId: number; email: string; institution: string | null };
 export type DeclaredConflict = { proposalId: number; reviewerId: number; reason: string };
 export type Conflict = { proposalId: number; reviewerId: number; rule: ConflictRule; reason: string };
@@ -30,7 +42,17 @@ export function normaliseInstitution(name: string | null | undefined): string {
 const isMember = (m: TeamMemberFacts, r: ReviewerFacts) => m.userId === r.reviewerId || m.email.trim().toLowerCase() === r.email.trim().toLowerCase();
 
 /** The first reason for each conflicted pair (in the order of the rules above), keyed `proposalId:reviewerId`. */
-export function detectConflicts({ proposals, reviewers, declared = [] }: { proposals: ProposalFacts[]; reviewers: ReviewerFacts[]; declared?: DeclaredConflict[] }): Map<string, Conflict> {
+export function detectConflicts({
+  proposals,
+  reviewers,
+  declared = [],
+  competition = "category",
+}: {
+  proposals: ProposalFacts[];
+  reviewers: ReviewerFacts[];
+  declared?: DeclaredConflict[];
+  competition?: Competition;
+}): Map<string, Conflict> {
   const out = new Map<string, Conflict>();
   const add = (c: Conflict) => {
     const key = pairKey(c.proposalId, c.reviewerId);
@@ -51,9 +73,17 @@ export function detectConflicts({ proposals, reviewers, declared = [] }: { propo
         add({ proposalId: p.proposalId, reviewerId: r.reviewerId, rule: "institution", reason: `same institution as a team member (${colleague.institution})` });
         continue;
       }
-      const rival = p.category ? onTeam.find((o) => o.proposalId !== p.proposalId && o.category === p.category) : undefined;
-      if (rival) {
-        add({ proposalId: p.proposalId, reviewerId: r.reviewerId, rule: "competitor", reason: `on the team of ${rival.code ?? `proposal ${rival.proposalId}`}, a competing proposal in the same call and category` });
+      if (competition === "category") {
+        const rival = p.category ? onTeam.find((o) => o.proposalId !== p.proposalId && o.category === p.category) : undefined;
+        if (rival) {
+          add({ proposalId: p.proposalId, reviewerId: r.reviewerId, rule: "competitor", reason: `on the team of ${rival.code ?? `proposal ${rival.proposalId}`}, a competing proposal in the same call and category` });
+        }
+      } else if (competition === "requests") {
+        const cells = new Set(p.requests ?? []);
+        const rival = onTeam.find((o) => o.proposalId !== p.proposalId && (o.requests ?? []).some((c) => cells.has(c)));
+        if (rival) {
+          add({ proposalId: p.proposalId, reviewerId: r.reviewerId, rule: "competitor", reason: `on the team of ${rival.code ?? `proposal ${rival.proposalId}`}, which asks for the same telescope and moon category` });
+        }
       }
     }
   }

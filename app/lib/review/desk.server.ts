@@ -2,7 +2,7 @@
 // reviewer sees a proposal only through a committed assignment of theirs that is not conflicted
 // (declared or found by the rules now); for anything else the proposal does not exist (404).
 import { Op, type Transaction } from "sequelize";
-import type { SessionUser } from "~/lib/auth.server";
+import { requireRole, requireUser, type SessionUser } from "~/lib/auth.server";
 import { writeAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
 import { enqueueMail } from "~/lib/mail-queue.server";
@@ -20,6 +20,26 @@ function isReviewer(user: Reviewer) {
   return user.roles.includes("reviewer");
 }
 
+/**
+ * Whether this user reaches the desk for an assignment of this call: the reviewer role, or a
+ * distributed call (its reviewers are the submitters, who need no role; the assignment is the access).
+ */
+function deskOpenFor(user: Reviewer, call: Pick<Call, "reviewMode">) {
+  return isReviewer(user) || call.reviewMode === "distributed";
+}
+
+/** The desk's guard: the reviewer role, or a committed assignment in a distributed call; else the role's 403. */
+export async function requireDeskUser(request: Request) {
+  const user = await requireUser(request);
+  if (isReviewer(user)) return user;
+  const distributed = await ReviewAssignment.count({
+    where: { reviewerId: user.id, committedAt: { [Op.ne]: null } },
+    include: [{ model: Call, as: "call", where: { reviewMode: "distributed" }, required: true }],
+  });
+  if (distributed > 0) return user;
+  return requireRole(request, "reviewer");
+}
+
 /** The last moment this review may change: the call's review deadline, or the chair's reopening. */
 export function editableUntil(review: CallReview | null, a: Pick<ReviewAssignment, "reopenedUntil">): Date | null {
   const deadline = review?.reviewDeadlineAt ?? null;
@@ -31,7 +51,7 @@ export function editableUntil(review: CallReview | null, a: Pick<ReviewAssignmen
 
 /** The reviewer's own assignment by id, or 404 (also after a declared conflict). */
 async function myAssignment({ user, assignmentId, transaction, lock = false }: { user: Reviewer; assignmentId: number; transaction?: Transaction; lock?: boolean }) {
-  if (!isReviewer(user) || !Number.isSafeInteger(assignmentId) || assignmentId <= 0) notFound();
+  if (!Number.isSafeInteger(assignmentId) || assignmentId <= 0) notFound();
   const a = await ReviewAssignment.findOne({
     where: { id: assignmentId, reviewerId: user.id, committedAt: { [Op.ne]: null }, status: { [Op.ne]: "conflict" } },
     transaction,
@@ -42,13 +62,13 @@ async function myAssignment({ user, assignmentId, transaction, lock = false }: {
   if (!proposal || proposal.status === "withdrawn" || proposal.status === "draft") notFound();
   if (await pairConflict({ callId: a.callId as number, proposalId: proposal.id, reviewerId: user.id, transaction })) notFound();
   const [call, review] = await Promise.all([Call.findByPk(a.callId as number, { transaction }), CallReview.findOne({ where: { callId: a.callId }, transaction })]);
-  if (!call) notFound();
+  if (!call || !deskOpenFor(user, call)) notFound();
   return { assignment: a, proposal, call, review };
 }
 
 /** The reviewer's assignment for a proposal (the desk's pages are addressed by proposal). */
 export async function assignmentForProposal({ user, proposalId }: { user: Reviewer; proposalId: number }) {
-  if (!isReviewer(user) || !Number.isSafeInteger(proposalId) || proposalId <= 0) notFound();
+  if (!Number.isSafeInteger(proposalId) || proposalId <= 0) notFound();
   const a = await ReviewAssignment.findOne({ where: { proposalId, reviewerId: user.id, committedAt: { [Op.ne]: null }, status: { [Op.ne]: "conflict" } } });
   if (!a) notFound();
   return myAssignment({ user, assignmentId: a.id });
@@ -68,10 +88,10 @@ export type DeskRow = {
 
 /** The reviewer's committed assignments (conflicts declared stay listed, without a link). */
 export async function listMyAssignments({ user }: { user: Reviewer }): Promise<DeskRow[]> {
-  if (!isReviewer(user)) return [];
   const rows = await ReviewAssignment.findAll({
     where: { reviewerId: user.id, committedAt: { [Op.ne]: null } },
-    include: [{ model: Proposal, as: "proposal" }, { model: Call, as: "call" }],
+    // without the reviewer role, only a distributed call's assignments reach the desk
+    include: [{ model: Proposal, as: "proposal" }, { model: Call, as: "call", ...(isReviewer(user) ? {} : { where: { reviewMode: "distributed" }, required: true }) }],
     order: [["id", "ASC"]],
   });
   const reviews = await CallReview.findAll({ where: { callId: [...new Set(rows.map((r) => r.callId as number))] } });

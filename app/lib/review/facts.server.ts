@@ -2,7 +2,8 @@
 // and the conflicts between them. No access checks here: the callers scope by the user's rights.
 import { Op, type Transaction } from "sequelize";
 import { Call, CallReview, Proposal, ProposalMember, ReviewAssignment, ReviewerProfile, ReviewPanelMember, RoleGrant, User } from "~/models/index.server";
-import { detectConflicts, pairKey, type Conflict, type ProposalFacts } from "./conflicts";
+import { computeFeasibilitySheets } from "~/lib/feasibility.server";
+import { detectConflicts, pairKey, type Competition, type Conflict, type ProposalFacts } from "./conflicts";
 
 /** Proposals that take part in a call's review (submitted ones before the chair starts it). */
 export const REVIEWED_STATUSES = ["in_review"] as const;
@@ -58,6 +59,32 @@ async function teams(proposalIds: number[], transaction?: Transaction) {
   return { byProposal, pis };
 }
 
+/** How a call's review treats competitors: the panel's category rule, or the distributed call's own choice. */
+export function competitionOf(call: Pick<Call, "reviewMode" | "separateCompetitors">): Competition {
+  if (call.reviewMode !== "distributed") return "category";
+  return call.separateCompetitors ? "requests" : "none";
+}
+
+/**
+ * The telescope × moon cells of the call's semester in which each proposal requests hours (its
+ * feasibility sheet's totals, as the ranking board reads them). A sheet that fails counts as no request.
+ */
+export async function requestedCells({ call, proposalIds }: { call: Call; proposalIds: number[] }): Promise<Map<number, string[]>> {
+  const out = new Map<number, string[]>();
+  if (proposalIds.length === 0) return out;
+  const sheets = await computeFeasibilitySheets({ proposalIds, calls: [call] });
+  for (const id of proposalIds) {
+    const sheet = sheets.get(id);
+    if (!sheet || sheet instanceof Error) {
+      if (sheet) console.error(`feasibility sheet of proposal ${id} failed`, sheet);
+      out.set(id, []);
+      continue;
+    }
+    out.set(id, [...new Set(sheet.totals.filter((t) => t.semesterCode === call.semesterCode && t.hours > 0).map((t) => `${t.telescopeId}|${t.moonCategory}`))]);
+  }
+  return out;
+}
+
 export type CallFacts = {
   call: Call;
   review: CallReview | null;
@@ -77,12 +104,22 @@ export async function callFacts({ callId, transaction, statuses = REVIEWED_STATU
     ReviewAssignment.findAll({ where: { callId, status: "conflict" }, transaction }),
   ]);
   const { byProposal, pis } = await teams(competing.map((p) => p.id), transaction);
-  const facts: ProposalFacts[] = competing.map((p) => ({ proposalId: p.id, code: p.code, category: p.scienceCategory, team: byProposal.get(p.id) ?? [] }));
+  const competition = competitionOf(call);
+  const cells = competition === "requests" ? await requestedCells({ call, proposalIds: competing.map((p) => p.id) }) : new Map<number, string[]>();
+  const facts: ProposalFacts[] = competing.map((p) => ({ proposalId: p.id, code: p.code, category: p.scienceCategory, team: byProposal.get(p.id) ?? [], requests: cells.get(p.id) }));
   const reviewed = competing.filter((p) => statuses.includes(p.status));
+  if (call.reviewMode === "distributed") {
+    // a submitter knows the category of the proposals they are on the team of
+    for (const r of panel) {
+      const own = competing.filter((p) => p.scienceCategory && (byProposal.get(p.id) ?? []).some((m) => m.userId === r.reviewerId)).map((p) => p.scienceCategory as string);
+      r.categories = [...new Set([...r.categories, ...own])];
+    }
+  }
   const all = detectConflicts({
     proposals: facts,
     reviewers: panel.map((r) => ({ reviewerId: r.reviewerId, email: r.email, institution: r.institution })),
     declared: declared.map((d) => ({ proposalId: d.proposalId as number, reviewerId: d.reviewerId as number, reason: d.conflictReason ?? "no reason given" })),
+    competition,
   });
   const reviewedIds = new Set(reviewed.map((p) => p.id));
   const conflicts = new Map([...all].filter(([, c]) => reviewedIds.has(c.proposalId)));
@@ -97,15 +134,25 @@ export async function callFacts({ callId, transaction, statuses = REVIEWED_STATU
 
 /** The conflict of one pair, if any (for access checks: the rules are applied on every request). */
 export async function pairConflict({ callId, proposalId, reviewerId, transaction }: { callId: number; proposalId: number; reviewerId: number; transaction?: Transaction }) {
-  const [reviewer, competing] = await Promise.all([
+  const [reviewer, competing, call] = await Promise.all([
     User.findByPk(reviewerId, { transaction }),
     Proposal.findAll({ where: { callId, status: { [Op.in]: [...COMPETING_STATUSES] } }, attributes: ["id", "code", "scienceCategory"], transaction }),
+    Call.findByPk(callId, { transaction }),
   ]);
-  if (!reviewer) return null;
+  if (!reviewer || !call) return null;
   const { byProposal } = await teams(competing.map((p) => p.id), transaction);
+  const competition = competitionOf(call);
+  let cells = new Map<number, string[]>();
+  if (competition === "requests") {
+    // only the sheets that matter for this pair: the proposal and the reviewer's own teams'
+    const reviewerEmail = reviewer.email.trim().toLowerCase();
+    const own = competing.filter((p) => (byProposal.get(p.id) ?? []).some((m) => m.userId === reviewerId || m.email.trim().toLowerCase() === reviewerEmail)).map((p) => p.id);
+    cells = await requestedCells({ call, proposalIds: [...new Set([proposalId, ...own])] });
+  }
   const conflicts = detectConflicts({
-    proposals: competing.map((p) => ({ proposalId: p.id, code: p.code, category: p.scienceCategory, team: byProposal.get(p.id) ?? [] })),
+    proposals: competing.map((p) => ({ proposalId: p.id, code: p.code, category: p.scienceCategory, team: byProposal.get(p.id) ?? [], requests: cells.get(p.id) })),
     reviewers: [{ reviewerId, email: reviewer.email, institution: reviewer.institution }],
+    competition,
   });
   return conflicts.get(pairKey(proposalId, reviewerId)) ?? null;
 }

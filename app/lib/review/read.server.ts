@@ -17,13 +17,12 @@ export type CommitteeAccess = { as: "chair" | "reviewer"; proposal: Proposal; ca
 /** "chair" or "reviewer" if this user may read the proposal as the committee, else a 404. */
 export async function committeeAccess({ user, proposalId }: { user: Reader; proposalId: number }): Promise<CommitteeAccess> {
   if (!Number.isSafeInteger(proposalId) || proposalId <= 0) notFound();
-  if (user.roles.includes("reviewer")) {
-    try {
-      const { proposal, call } = await assignmentForProposal({ user, proposalId });
-      return { as: "reviewer", proposal, call, hideTeam: teamHidden(call, null, "reviewer") };
-    } catch (error) {
-      if (!user.roles.includes("chair")) throw error;
-    }
+  // a reviewer, or a submitter of a distributed call, through their assignment
+  try {
+    const { proposal, call } = await assignmentForProposal({ user, proposalId });
+    return { as: "reviewer", proposal, call, hideTeam: teamHidden(call, null, "reviewer") };
+  } catch (error) {
+    if (!user.roles.includes("chair")) throw error;
   }
   if (user.roles.includes("chair")) {
     const proposal = await Proposal.findByPk(proposalId);

@@ -155,3 +155,59 @@ describe("suggestion (min-cost flow)", () => {
     expect(result.assignments).toEqual([{ proposalId: 7, reviewerId: 1 }]);
   });
 });
+
+describe("distributed review: a quota per reviewer (perReviewer)", () => {
+  it("ten teams, k = 8: everyone gets 8, never their own proposal, every proposal gets 8", () => {
+    const proposals = Array.from({ length: 10 }, (_, i) => ({ proposalId: 100 + i, category: CATS[i % 3] }));
+    const reviewers = Array.from({ length: 10 }, (_, j) => ({ reviewerId: 500 + j, categories: [CATS[j % 3]] }));
+    const s = suggestAssignments({ proposals, reviewers, perProposal: 10, perReviewer: 8, isConflict: (p, r) => p - 100 === r - 500 });
+    expect(s.loads.map((l) => l.count)).toEqual(Array(10).fill(8));
+    expect(s.assignments.some((a) => a.proposalId - 100 === a.reviewerId - 500)).toBe(false);
+    for (const p of proposals) expect(s.assignments.filter((a) => a.proposalId === p.proposalId).length).toBe(8);
+    expect(s.short).toEqual([]);
+  });
+
+  it("a call too small for k: each gets what the conflicts leave, and the shortfall is said", () => {
+    const proposals = Array.from({ length: 4 }, (_, i) => ({ proposalId: 100 + i, category: null }));
+    const reviewers = Array.from({ length: 4 }, (_, j) => ({ reviewerId: 500 + j, categories: [] }));
+    const s = suggestAssignments({ proposals, reviewers, perProposal: 4, perReviewer: 8, isConflict: (p, r) => p - 100 === r - 500 });
+    expect(s.loads.map((l) => l.count)).toEqual([3, 3, 3, 3]);
+    expect(s.short.map((x) => x.reason)).toEqual(Array(4).fill("only 3 proposals of the call are free of conflicts with this reviewer (8 wanted)"));
+  });
+
+  // Independent check by exhaustive search on small random calls: every reviewer's choice of at most
+  // k clean proposals; among the choices placing the most reviews, the smallest possible largest
+  // load of a proposal. The solver must place as many and reach that largest load.
+  it("places the most reviews the quotas allow and spreads them with the smallest largest load (exhaustive, 300 seeds)", () => {
+    for (let seed = 1; seed <= 300; seed++) {
+      const { proposals, reviewers, conflicts, isConflict } = randomPanel(seed * 7919, 4, 4, 0.3);
+      const k = 1 + (seed % 3);
+      const s = suggestAssignments({ proposals, reviewers, perProposal: reviewers.length, perReviewer: k, isConflict });
+      for (const a of s.assignments) expect(conflicts.has(`${a.proposalId}:${a.reviewerId}`)).toBe(false);
+      for (const l of s.loads) expect(l.count).toBeLessThanOrEqual(k);
+      const options = reviewers.map((r) => {
+        const clean = proposals.map((p, i) => (isConflict(p.proposalId, r.reviewerId) ? -1 : i)).filter((i) => i >= 0);
+        return combinations(clean, Math.min(k, clean.length));
+      });
+      let bestTotal = -1;
+      let bestMax = Infinity;
+      const loads = new Array(proposals.length).fill(0);
+      const walk = (j: number, total: number) => {
+        if (j === reviewers.length) {
+          const max = Math.max(0, ...loads);
+          if (total > bestTotal || (total === bestTotal && max < bestMax)) (bestTotal = total), (bestMax = max);
+          return;
+        }
+        for (const c of options[j]) {
+          for (const i of c) loads[i]++;
+          walk(j + 1, total + c.length);
+          for (const i of c) loads[i]--;
+        }
+      };
+      walk(0, 0);
+      expect(s.assignments.length, `seed ${seed}`).toBe(bestTotal);
+      const got = proposals.map((p) => s.assignments.filter((a) => a.proposalId === p.proposalId).length);
+      expect(Math.max(0, ...got), `seed ${seed}`).toBe(bestMax);
+    }
+  });
+});

@@ -11,6 +11,12 @@
 //      costs at least B more, so max − min ≤ 1 whenever that is possible at all;
 //   3. among balanced ones, the most category matches.
 // A convex arc keeps the reduced costs non-negative after each augmentation, so Dijkstra stays valid.
+//
+// Distributed review (`perReviewer` = k): the quota is on the reviewers' side. Each reviewer → sink
+// arc has capacity min(k, the reviewer's clean proposals) at cost 0, so the maximum flow gives every
+// reviewer as many of their k as the conflicts allow; the convex cost moves to the proposals' side
+// (source → proposal: 0 per unit up to ⌊supply/P⌋, then B·1, B·2, … as unit arcs of capacity 1),
+// so that among those flows the reviews are spread evenly over the proposals, then matched by category.
 
 export type SuggestProposal = { proposalId: number; category: string | null };
 export type SuggestReviewer = { reviewerId: number; categories: readonly string[] };
@@ -18,6 +24,8 @@ export type SuggestInput = {
   proposals: SuggestProposal[];
   reviewers: SuggestReviewer[];
   perProposal: number;
+  /** distributed review: each reviewer gets this many proposals (fewer only where conflicts leave fewer) */
+  perReviewer?: number;
   /** true for a pair that must never be assigned */
   isConflict: (proposalId: number, reviewerId: number) => boolean;
 };
@@ -25,6 +33,8 @@ export type Suggestion = {
   assignments: { proposalId: number; reviewerId: number }[];
   loads: { reviewerId: number; count: number }[];
   impossible: { proposalId: number; reason: string }[];
+  /** distributed review: reviewers who get fewer than `perReviewer`, and why */
+  short: { reviewerId: number; count: number; reason: string }[];
   /** max − min load ≤ 1 over the panel */
   balanced: boolean;
   categoryMatches: number;
@@ -32,7 +42,7 @@ export type Suggestion = {
 
 export const SUGGESTION_METHOD = "minimum-cost flow, successive shortest paths with Dijkstra on reduced costs (Johnson potentials)";
 
-export function suggestAssignments({ proposals, reviewers, perProposal, isConflict }: SuggestInput): Suggestion {
+export function suggestAssignments({ proposals, reviewers, perProposal, perReviewer, isConflict }: SuggestInput): Suggestion {
   const P = proposals.length;
   const R = reviewers.length;
   const k = Math.max(0, Math.floor(perProposal));
@@ -43,8 +53,15 @@ export function suggestAssignments({ proposals, reviewers, perProposal, isConfli
     return list;
   });
   const wanted = proposals.map((_, i) => Math.min(k, clean[i].length));
-  const total = wanted.reduce((a, b) => a + b, 0);
-  const floor = R > 0 ? Math.floor(total / R) : 0;
+  const distributed = perReviewer !== undefined;
+  // distributed: what each reviewer can take (their quota, or fewer clean proposals)
+  const cleanPerReviewer = new Int32Array(R);
+  for (const c of clean) for (const j of c) cleanPerReviewer[j]++;
+  const quota = Array.from({ length: R }, (_, j) => Math.min(Math.max(0, Math.floor(perReviewer ?? 0)), cleanPerReviewer[j]));
+  const supply = quota.reduce((a, b) => a + b, 0);
+  const demand = wanted.reduce((a, b) => a + b, 0);
+  const total = distributed ? Math.min(demand, supply) : demand;
+  const floor = distributed ? (P > 0 ? Math.floor(supply / P) : 0) : R > 0 ? Math.floor(total / R) : 0;
   const B = total + 1;
 
   // nodes: 0 source, 1..P proposals, P+1..P+R reviewers, P+R+1 sink
@@ -53,7 +70,9 @@ export function suggestAssignments({ proposals, reviewers, perProposal, isConfli
   const V = T + 1;
   let pairs = 0;
   for (const c of clean) pairs += c.length;
-  const M = 2 * (P + pairs + R);
+  let sourceArcs = P;
+  if (distributed) for (let i = 0; i < P; i++) sourceArcs += Math.max(0, wanted[i] - floor);
+  const M = 2 * (sourceArcs + pairs + R);
   const head = new Int32Array(V).fill(-1);
   const to = new Int32Array(M);
   const cap = new Int32Array(M);
@@ -64,7 +83,13 @@ export function suggestAssignments({ proposals, reviewers, perProposal, isConfli
     to[m] = v, cap[m] = c, cost[m] = w, next[m] = head[u], (head[u] = m++);
     to[m] = u, cap[m] = 0, cost[m] = -w, next[m] = head[v], (head[v] = m++);
   };
-  for (let i = 0; i < P; i++) addEdge(S, 1 + i, wanted[i], 0);
+  for (let i = 0; i < P; i++) {
+    if (!distributed) addEdge(S, 1 + i, wanted[i], 0);
+    else {
+      addEdge(S, 1 + i, Math.min(floor, wanted[i]), 0);
+      for (let u = 1; u <= wanted[i] - floor; u++) addEdge(S, 1 + i, 1, B * u);
+    }
+  }
   for (let i = 0; i < P; i++) {
     const cat = proposals[i].category;
     for (const j of clean[i]) addEdge(1 + i, P + 1 + j, 1, cat && reviewers[j].categories.includes(cat) ? 0 : 1);
@@ -72,10 +97,11 @@ export function suggestAssignments({ proposals, reviewers, perProposal, isConfli
   // reviewer → sink: one arc whose cost follows the load (convex); kept current after each augmentation
   const load = new Int32Array(R);
   const sinkEdge = new Int32Array(R);
-  const marginal = (unit: number) => (unit <= floor ? 0 : B * (unit - floor)); // cost of the unit-th review
+  // cost of the unit-th review (distributed: the quota is the arc's capacity, the balance is on the proposals)
+  const marginal = (unit: number) => (distributed || unit <= floor ? 0 : B * (unit - floor));
   for (let j = 0; j < R; j++) {
     sinkEdge[j] = m;
-    addEdge(P + 1 + j, T, P, marginal(1));
+    addEdge(P + 1 + j, T, distributed ? quota[j] : P, marginal(1));
   }
   const setLoad = (j: number, l: number) => {
     load[j] = l;
@@ -178,6 +204,10 @@ export function suggestAssignments({ proposals, reviewers, perProposal, isConfli
   }
   const impossible: Suggestion["impossible"] = [];
   for (let i = 0; i < P; i++) {
+    if (distributed) {
+      if (got[i] === 0) impossible.push({ proposalId: proposals[i].proposalId, reason: clean[i].length === 0 ? "every designated reviewer has a conflict with it" : "no designated reviewer had room for it" });
+      continue;
+    }
     if (got[i] < k) {
       const n = clean[i].length;
       impossible.push({
@@ -187,7 +217,22 @@ export function suggestAssignments({ proposals, reviewers, perProposal, isConfli
     }
   }
   const loads = reviewers.map((r, j) => ({ reviewerId: r.reviewerId, count: load[j] }));
+  const wantedPerReviewer = Math.max(0, Math.floor(perReviewer ?? 0));
+  const short: Suggestion["short"] = !distributed
+    ? []
+    : reviewers.flatMap((r, j) =>
+        load[j] >= wantedPerReviewer
+          ? []
+          : [{
+              reviewerId: r.reviewerId,
+              count: load[j],
+              reason:
+                cleanPerReviewer[j] < wantedPerReviewer
+                  ? `only ${cleanPerReviewer[j]} proposal${cleanPerReviewer[j] === 1 ? " of the call is" : "s of the call are"} free of conflicts with this reviewer (${wantedPerReviewer} wanted)`
+                  : `the call's other reviewers took the proposals this reviewer could have had (${wantedPerReviewer} wanted)`,
+            }],
+      );
   const counts = loads.map((l) => l.count);
   const balanced = counts.length === 0 || Math.max(...counts) - Math.min(...counts) <= 1;
-  return { assignments, loads, impossible, balanced, categoryMatches };
+  return { assignments, loads, impossible, short, balanced, categoryMatches };
 }

@@ -29,3 +29,16 @@ export type MeritKey = (typeof meritCriteria)[number]["key"];
 
 /** 1, 1.5, … 10 */
 export const meritSteps = Array.from({ length: (MERIT_MAX - MERIT_MIN) * 2 + 1 }, (_, i) => MERIT_MIN + i / 2);
+
+// Distributed review (a call option): every submitted proposal's team reviews others of the call.
+export const reviewModes = ["panel", "distributed"] as const;
+export type ReviewMode = (typeof reviewModes)[number];
+export const reviewModeLabels: Record<ReviewMode, string> = { panel: "By the committee's panel", distributed: "By the submitters (each team reviews others)" };
+/** what happens to a proposal whose designated reviewer misses the review deadline */
+export const unreviewedPolicies = ["flag", "unranked"] as const;
+export type UnreviewedPolicy = (typeof unreviewedPolicies)[number];
+export const unreviewedPolicyLabels: Record<UnreviewedPolicy, string> = { flag: "Flag it on the ranking board", unranked: "Flag it and leave it out of the computed ranking" };
+export const DEFAULT_REVIEWS_PER_SUBMITTER = 8;
+export const MAX_REVIEWS_PER_SUBMITTER = 30;
+export const HELPFULNESS_MIN = 1;
+export const HELPFULNESS_MAX = 5;

@@ -3,6 +3,7 @@
 // a message, never a silent 0.
 import { z } from "zod";
 import { moonCategories, teamVisibilities } from "~/lib/domain";
+import { DEFAULT_REVIEWS_PER_SUBMITTER, MAX_REVIEWS_PER_SUBMITTER, reviewModes, unreviewedPolicies, type ReviewMode, type UnreviewedPolicy } from "~/lib/review/vocabulary";
 import { canonicalTimeZone, isValidTimeZone, startOfDateInZone, zonedLocalToUtc } from "~/lib/zoned-time";
 
 interface NumberRule {
@@ -144,6 +145,23 @@ function monthsAfter(date: string, months: number) {
   return d.toISOString().slice(0, 10);
 }
 
+// ---- distributed review (call options). Left out of a body (reviewMode absent), the call keeps
+// what it had and a new call is panel-reviewed; with reviewMode present, an absent checkbox is "off".
+const reviewOptionFields = {
+  reviewMode: z.enum(reviewModes, "Choose who reviews the proposals.").optional(),
+  reviewsPerSubmitter: z.preprocess(
+    (value) => (value === undefined ? String(DEFAULT_REVIEWS_PER_SUBMITTER) : value),
+    numberField("Reviews per submitting team", { min: 1, max: MAX_REVIEWS_PER_SUBMITTER, integer: true }),
+  ),
+  separateCompetitors: z.preprocess((value) => value === true || value === "on" || value === "true", z.boolean()),
+  unreviewedPolicy: z.enum(unreviewedPolicies, "Choose what happens to a proposal whose team does not deliver its reviews.").default("flag"),
+};
+type ReviewOptions = { reviewMode: ReviewMode; reviewsPerSubmitter: number; separateCompetitors: boolean; unreviewedPolicy: UnreviewedPolicy };
+const reviewOptionsOf = (call: Omit<ReviewOptions, "reviewMode"> & { reviewMode?: ReviewMode }): Partial<ReviewOptions> =>
+  call.reviewMode
+    ? { reviewMode: call.reviewMode, reviewsPerSubmitter: call.reviewsPerSubmitter, separateCompetitors: call.separateCompetitors, unreviewedPolicy: call.unreviewedPolicy }
+    : {};
+
 /**
  * The call form. Dates and times are typed as the observatory's wall clock (`timeZone`, which the
  * server sets to the observatory's zone); the result carries UTC instants. Cells of the offered-hours
@@ -167,6 +185,7 @@ export const callSchema = z
     accessFee: money("Access fee"),
     pageCharge: money("Page charge"),
     teamVisibility: z.enum(teamVisibilities, "Choose whether reviewers see the team.").optional(),
+    ...reviewOptionFields,
   })
   .transform((call, ctx) => {
     const opensAt = zonedLocalToUtc(call.opensAt, call.timeZone);
@@ -213,6 +232,7 @@ export const callSchema = z
       pageChargeCents: Math.round(call.pageCharge * 100),
       // left out of a body, the call keeps what it had (a new call is named)
       ...(call.teamVisibility ? { teamVisibility: call.teamVisibility } : {}),
+      ...reviewOptionsOf(call),
       offers,
     };
   });

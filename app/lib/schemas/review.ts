@@ -78,3 +78,12 @@ export const reviewSetupSchema = z.object({
     .transform((v) => (Array.isArray(v) ? v : typeof v === "string" && v ? [v] : []))
     .pipe(z.array(z.string().regex(/^\d{1,10}$/, "Choose the panel from the list.").transform(Number))),
 });
+
+/** The team's rating of one comment (decision tab). */
+export const helpfulnessSchema = z.object({
+  assignmentId: z.string({ error: "Choose a comment to rate." }).regex(/^[1-9]\d{0,9}$/, "Choose a comment to rate.").transform(Number),
+  rating: z
+    .string({ error: "Choose a rating from 1 to 5." })
+    .regex(/^[1-5]$/, "Choose a rating from 1 (not helpful) to 5 (very helpful).")
+    .transform(Number),
+});
