@@ -64,13 +64,16 @@ export function issueLine(field: string, message: string): string {
 }
 
 /**
- * A refusal of bad input: `{ message, status, field? }`. Thrown by the parsing helpers below and
- * turned into a field message (forms) or a JSON 4xx (API) by the responders.
+ * The one refusal type, `{ message, status, field }`: bad input, or a rule of the domain the user
+ * can act on (a locked allocation, a read-only proposal, the PI's own right). The data layer and
+ * the parsing helpers below throw it; the responders turn it into a field message (forms) or a
+ * JSON 4xx (API).
  */
 export class Refusal extends Error {
   readonly status: number;
-  readonly field?: string;
-  constructor(message: string, { status = 400, field }: { status?: number; field?: string } = {}) {
+  /** the form field (or JSON path) it belongs to; "form" for the form as a whole */
+  readonly field: string;
+  constructor(message: string, { status = 400, field = "form" }: { status?: number; field?: string } = {}) {
     super(message);
     this.status = status;
     this.field = field;

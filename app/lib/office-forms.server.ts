@@ -2,7 +2,6 @@
 import { data } from "react-router";
 import type { z } from "zod";
 import { fieldErrors, idSchema, Refusal, type FieldErrors } from "./forms";
-import { OfficeRefusal } from "./office.server";
 
 export function formValues(formData: FormData) {
   const values: Record<string, string> = {};
@@ -31,11 +30,10 @@ export async function attempt<R>(
   try {
     return await work();
   } catch (error) {
-    if (error instanceof OfficeRefusal) {
+    if (error instanceof Refusal) {
       if (error.status === 404) throw data({ message: error.message }, { status: 404 });
       return refused(intent, values, { [error.field]: error.message }, rowId);
     }
-    if (error instanceof Refusal) return refused(intent, values, { [error.field ?? "form"]: error.message }, rowId);
     throw error;
   }
 }
@@ -55,7 +53,7 @@ export async function orNotFound<T>(read: Promise<T>): Promise<T> {
   try {
     return await read;
   } catch (error) {
-    if (error instanceof OfficeRefusal && error.status === 404) throw data({ message: error.message }, { status: 404 });
+    if (error instanceof Refusal && error.status === 404) throw data({ message: error.message }, { status: 404 });
     throw error;
   }
 }

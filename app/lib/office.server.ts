@@ -1,22 +1,13 @@
 // The observatory office's set-up: telescopes, their instruments and filters, and calls.
-// Every change and its audit entry are one transaction; refusals are OfficeRefusal with the field
+// Every change and its audit entry are one transaction; refusals are Refusal with the field
 // the message belongs to, never a database error surfacing as a 500.
+import { Refusal } from "~/lib/forms";
 import { ForeignKeyConstraintError, Op, UniqueConstraintError, type Transaction } from "sequelize";
 import { moonCategories, type MoonCategory } from "~/lib/domain";
 import type { CallInput, FilterInput, InstrumentInput, TelescopeInput } from "~/lib/schemas/office";
 import { Call, CallOffer, Filter, Instrument, Observation, Proposal, sequelize, Telescope } from "~/models/index.server";
 import { writeAudit } from "./audit.server";
 import type { SessionUser } from "./auth.server";
-
-export class OfficeRefusal extends Error {
-  constructor(
-    message: string,
-    readonly field = "form",
-    readonly status = 400,
-  ) {
-    super(message);
-  }
-}
 
 type Actor = Pick<SessionUser, "id">;
 
@@ -43,7 +34,7 @@ async function audit(
 }
 
 function notFound(what: string): never {
-  throw new OfficeRefusal(`That ${what} does not exist (it may have been deleted).`, "form", 404);
+  throw new Refusal(`That ${what} does not exist (it may have been deleted).`, { status: 404, field: "form" });
 }
 
 // ---------------------------------------------------------------- telescopes
@@ -123,7 +114,7 @@ async function uniqueName<T>(work: () => Promise<T>, field: string, message: str
   try {
     return await work();
   } catch (error) {
-    if (error instanceof UniqueConstraintError) throw new OfficeRefusal(message, field);
+    if (error instanceof UniqueConstraintError) throw new Refusal(message, { field: field });
     throw error;
   }
 }
@@ -163,9 +154,7 @@ async function observationsUsing(where: { instrumentId?: number | number[]; filt
 }
 
 function inUse(what: string, observations: number, extra = "") {
-  return new OfficeRefusal(
-    `${what} cannot be deleted: ${observations} observation${observations === 1 ? "" : "s"} in proposals use${observations === 1 ? "s" : ""} it${extra}. Change those observations first, or keep it.`,
-  );
+  return new Refusal(`${what} cannot be deleted: ${observations} observation${observations === 1 ? "" : "s"} in proposals use${observations === 1 ? "s" : ""} it${extra}. Change those observations first, or keep it.`);
 }
 
 export async function deleteTelescope({ actor, telescopeId }: { actor: Actor; telescopeId: number }) {
@@ -180,7 +169,7 @@ export async function deleteTelescope({ actor, telescopeId }: { actor: Actor; te
       });
       if (offers.length) {
         const codes = [...new Set(offers.map((o) => (o as CallOffer & { call?: Call }).call?.semesterCode))].join(", ");
-        throw new OfficeRefusal(`${telescope.name} cannot be deleted: the call${codes.includes(",") ? "s" : ""} ${codes} offer${codes.includes(",") ? "" : "s"} hours on it. Remove those offers first.`);
+        throw new Refusal(`${telescope.name} cannot be deleted: the call${codes.includes(",") ? "s" : ""} ${codes} offer${codes.includes(",") ? "" : "s"} hours on it. Remove those offers first.`);
       }
       const instrumentIds = (await Instrument.findAll({ where: { telescopeId }, attributes: ["id"], transaction })).map((i) => i.id);
       const used = instrumentIds.length ? await observationsUsing({ instrumentId: instrumentIds }, transaction) : 0;
@@ -190,7 +179,7 @@ export async function deleteTelescope({ actor, telescopeId }: { actor: Actor; te
       return { name: telescope.name };
     });
   } catch (error) {
-    if (error instanceof ForeignKeyConstraintError) throw new OfficeRefusal("That telescope is still in use and cannot be deleted.");
+    if (error instanceof ForeignKeyConstraintError) throw new Refusal("That telescope is still in use and cannot be deleted.");
     throw error;
   }
 }
@@ -228,7 +217,7 @@ export async function createInstrument({ actor, telescopeId, values }: { actor: 
     const telescope = await Telescope.findByPk(telescopeId, { transaction });
     if (!telescope) notFound("telescope");
     const clash = await Instrument.count({ where: { telescopeId, name: values.name }, transaction });
-    if (clash) throw new OfficeRefusal(`${telescope.name} already has an instrument called “${values.name}”.`, "name");
+    if (clash) throw new Refusal(`${telescope.name} already has an instrument called “${values.name}”.`, { field: "name" });
     const instrument = await Instrument.create({ ...values, telescopeId }, { transaction });
     await audit(transaction, actor, "instrument.created", "instrument", instrument.id, { telescopeId, values });
     return instrument.id;
@@ -243,7 +232,7 @@ export async function updateInstrument({ actor, instrumentId, values }: { actor:
       where: { telescopeId: instrument.telescopeId, name: values.name, id: { [Op.ne]: instrumentId } },
       transaction,
     });
-    if (clash) throw new OfficeRefusal(`This telescope already has an instrument called “${values.name}”.`, "name");
+    if (clash) throw new Refusal(`This telescope already has an instrument called “${values.name}”.`, { field: "name" });
     const changed = changes(instrument.get({ plain: true }), values);
     if (!Object.keys(changed).length) return { changed: false };
     await instrument.update(values, { transaction });
@@ -267,7 +256,7 @@ export async function deleteInstrument({ actor, instrumentId }: { actor: Actor; 
       return { telescopeId: instrument.telescopeId, name: instrument.name };
     });
   } catch (error) {
-    if (error instanceof ForeignKeyConstraintError) throw new OfficeRefusal("That instrument is still in use and cannot be deleted.");
+    if (error instanceof ForeignKeyConstraintError) throw new Refusal("That instrument is still in use and cannot be deleted.");
     throw error;
   }
 }
@@ -275,7 +264,7 @@ export async function deleteInstrument({ actor, instrumentId }: { actor: Actor; 
 // ---------------------------------------------------------------- filters
 
 function bandTaken(band: string) {
-  return new OfficeRefusal(`This instrument already has a ${band} filter.`, "band");
+  return new Refusal(`This instrument already has a ${band} filter.`, { field: "band" });
 }
 
 export async function createFilter({ actor, instrumentId, values }: { actor: Actor; instrumentId: number; values: FilterInput }) {
@@ -336,7 +325,7 @@ export async function deleteFilter({ actor, instrumentId, filterId }: { actor: A
       return { band: filter.band };
     });
   } catch (error) {
-    if (error instanceof ForeignKeyConstraintError) throw new OfficeRefusal("That filter is still in use and cannot be deleted.");
+    if (error instanceof ForeignKeyConstraintError) throw new Refusal("That filter is still in use and cannot be deleted.");
     throw error;
   }
 }
@@ -394,13 +383,13 @@ export async function getCall({ callId }: { callId: number }) {
 }
 
 function semesterTaken(code: string) {
-  return new OfficeRefusal(`Semester ${code} already has a call; edit that one, or choose another semester.`, "semesterCode");
+  return new Refusal(`Semester ${code} already has a call; edit that one, or choose another semester.`, { field: "semesterCode" });
 }
 
 async function writeOffers(callId: number, offers: CallInput["offers"], transaction: Transaction) {
   const ids = [...new Set(offers.map((o) => o.telescopeId))];
   const known = await Telescope.count({ where: { id: ids }, transaction });
-  if (known !== ids.length) throw new OfficeRefusal("One of the telescopes in the grid no longer exists; reload the page.", "offers");
+  if (known !== ids.length) throw new Refusal("One of the telescopes in the grid no longer exists; reload the page.", { field: "offers" });
   await CallOffer.destroy({ where: { callId }, transaction });
   // Cells of zero hours are not stored: a telescope with no hours is simply not part of the call.
   const rows = offers.filter((o) => o.hoursOffered > 0).map((o) => ({ ...o, callId }));
@@ -446,16 +435,13 @@ export async function updateCall({ actor, callId, values }: { actor: Actor; call
         if (await Call.count({ where: { semesterCode: fields.semesterCode }, transaction })) throw semesterTaken(fields.semesterCode);
         const coded = await Proposal.count({ where: { callId, code: { [Op.ne]: null } }, transaction });
         if (coded) {
-          throw new OfficeRefusal(
-            `The semester code cannot change: ${coded} submitted proposal${coded === 1 ? " carries" : "s carry"} ${call.semesterCode} in ${coded === 1 ? "its" : "their"} code.`,
-            "semesterCode",
-          );
+          throw new Refusal(`The semester code cannot change: ${coded} submitted proposal${coded === 1 ? " carries" : "s carry"} ${call.semesterCode} in ${coded === 1 ? "its" : "their"} code.`, { field: "semesterCode" });
         }
       }
       // distributed review: the teams name their reviewer before they submit, so the mode is fixed once one has
       if (fields.reviewMode && fields.reviewMode !== call.reviewMode) {
         const sent = await Proposal.count({ where: { callId, status: { [Op.ne]: "draft" } }, transaction });
-        if (sent) throw new OfficeRefusal(`Who reviews cannot change: ${sent} proposal${sent === 1 ? " was" : "s were"} already submitted under the current rule.`, "reviewMode");
+        if (sent) throw new Refusal(`Who reviews cannot change: ${sent} proposal${sent === 1 ? " was" : "s were"} already submitted under the current rule.`, { field: "reviewMode" });
       }
       const before = offersForAudit(
         (call.offers ?? []).map((o) => ({ telescopeId: o.telescopeId, moonCategory: o.moonCategory, hoursOffered: o.hoursOffered })),

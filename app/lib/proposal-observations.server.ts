@@ -1,8 +1,9 @@
 // Observations of a proposal: per target, an instrument and filter from the call's telescopes.
+import { Refusal } from "~/lib/forms";
 import { writeAudit } from "~/lib/audit.server";
 import type { ObservationInput } from "~/lib/schemas/proposals";
 import { CallOffer, Filter, Instrument, Observation, sequelize, Target, Telescope } from "~/models/index.server";
-import { assertEditable, getProposalForUser, ProposalRefused, type Actor } from "./proposals.server";
+import { assertEditable, getProposalForUser, type Actor } from "./proposals.server";
 import type { Transaction } from "sequelize";
 
 export type InstrumentOption = {
@@ -90,11 +91,11 @@ export async function observationRows({ access }: { access: Awaited<ReturnType<t
 
 async function checkChoices(proposalId: number, callId: number, input: ObservationInput, transaction: Transaction) {
   const target = await Target.findOne({ where: { id: input.targetId, proposalId }, transaction });
-  if (!target) throw new ProposalRefused("Choose one of this proposal's targets.", 400, "targetId");
+  if (!target) throw new Refusal("Choose one of this proposal's targets.", { status: 400, field: "targetId" });
   const options = await instrumentOptions({ callId, transaction });
   const instrument = options.find((o) => o.instrumentId === input.instrumentId);
-  if (!instrument) throw new ProposalRefused("Choose an instrument on a telescope that this call offers.", 400, "instrumentId");
-  if (!instrument.filters.some((f) => f.id === input.filterId)) throw new ProposalRefused(`Choose one of the filters of ${instrument.instrumentName}.`, 400, "filterId");
+  if (!instrument) throw new Refusal("Choose an instrument on a telescope that this call offers.", { status: 400, field: "instrumentId" });
+  if (!instrument.filters.some((f) => f.id === input.filterId)) throw new Refusal(`Choose one of the filters of ${instrument.instrumentName}.`, { status: 400, field: "filterId" });
   return { target, instrument };
 }
 
@@ -122,7 +123,7 @@ export async function updateObservation({ user, proposalId, observationId, input
     const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
     assertEditable(access);
     const observation = await Observation.findOne({ where: { id: observationId, proposalId }, transaction });
-    if (!observation) throw new ProposalRefused("That observation is not part of this proposal (any more).", 400, "form");
+    if (!observation) throw new Refusal("That observation is not part of this proposal (any more).", { status: 400, field: "form" });
     const { target } = await checkChoices(proposalId, access.call.id, input, transaction);
     await observation.update(columns(input), { transaction });
     await writeAudit({ actorId: user.id, action: "observation.updated", entityType: "observation", entityId: observationId, proposalId, details: { target: target.name } }, transaction);
@@ -134,7 +135,7 @@ export async function deleteObservation({ user, proposalId, observationId }: { u
   return sequelize.transaction(async (transaction) => {
     assertEditable(await getProposalForUser({ proposalId, user, transaction, lock: true }));
     const observation = await Observation.findOne({ where: { id: observationId, proposalId }, include: [{ model: Target, as: "target" }], transaction });
-    if (!observation) throw new ProposalRefused("That observation is not part of this proposal (any more).", 400, "form");
+    if (!observation) throw new Refusal("That observation is not part of this proposal (any more).", { status: 400, field: "form" });
     await observation.destroy({ transaction });
     await writeAudit({ actorId: user.id, action: "observation.deleted", entityType: "observation", entityId: observationId, proposalId, details: { target: observation.target?.name ?? null } }, transaction);
   });

@@ -1,7 +1,7 @@
 // Small helpers shared by the workspace's loaders and actions.
 import { data } from "react-router";
 import { idSchema, Refusal } from "./forms";
-import { notFound, ProposalRefused } from "./proposals.server";
+import { notFound } from "./proposals.server";
 
 /** The :proposalId of the URL as a number; anything else is a proposal that does not exist. */
 export function proposalIdParam(params: { proposalId?: string }): number {
@@ -12,11 +12,8 @@ export function proposalIdParam(params: { proposalId?: string }): number {
 
 /** A refusal from the data layer as the form's field error (what the user typed comes back too). */
 export function refusalResponse<V>(error: unknown, values: V) {
-  if (error instanceof ProposalRefused) {
-    return data({ ok: false as const, errors: { [error.field]: error.message } as Record<string, string>, values }, { status: error.status });
-  }
   if (error instanceof Refusal) {
-    return data({ ok: false as const, errors: { [error.field ?? "form"]: error.message } as Record<string, string>, values }, { status: error.status });
+    return data({ ok: false as const, errors: { [error.field]: error.message } as Record<string, string>, values }, { status: error.status });
   }
   throw error;
 }

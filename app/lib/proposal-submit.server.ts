@@ -2,6 +2,7 @@
 // (`014/27A`: the serial per call, given under a lock on the call's row, then the short semester), the state and the
 // audit entry and the receipt to the PI and every Co-I (queued in that same transaction; the mail
 // worker builds the proposal PDF when it sends, see proposal-receipt.server.ts).
+import { Refusal } from "~/lib/forms";
 import { QueryTypes, type Transaction } from "sequelize";
 import { writeAudit } from "~/lib/audit.server";
 import { computeFeasibilitySheet } from "~/lib/feasibility.server";
@@ -13,7 +14,7 @@ import { designatedReviewerName, designatedReviewerProblem } from "~/lib/proposa
 import { selfReferenceCheck } from "~/lib/review/self-reference.server";
 import { latestScienceCase } from "~/lib/science-case.server";
 import { Observation, ProposalMember, sequelize, Target } from "~/models/index.server";
-import { assertPi, deadlinePassed, getProposalForUser, ProposalRefused, type Access, type Actor } from "./proposals.server";
+import { assertPi, deadlinePassed, getProposalForUser, type Access, type Actor } from "./proposals.server";
 
 export type ChecklistItem = { key: string; label: string; ok: boolean; detail: string; href?: string };
 
@@ -122,10 +123,10 @@ export async function submissionChecklist({ user, proposalId, access: given }: {
 export async function submitProposal({ user, proposalId }: { user: Actor; proposalId: number }) {
   const { items, access } = await submissionChecklist({ user, proposalId });
   assertPi(access, "submit the proposal");
-  if (access.proposal.status !== "draft") throw new ProposalRefused(`The proposal is already ${access.proposal.status.replace("_", " ")}.`, 409);
+  if (access.proposal.status !== "draft") throw new Refusal(`The proposal is already ${access.proposal.status.replace("_", " ")}.`, { status: 409 });
   const missing = items.filter((i) => !i.ok);
   if (missing.length) {
-    throw new ProposalRefused(`Not submitted: ${missing.map((i) => `${i.label.toLowerCase()} (${i.detail.replace(/\.$/, "")})`).join("; ")}.`, 409);
+    throw new Refusal(`Not submitted: ${missing.map((i) => `${i.label.toLowerCase()} (${i.detail.replace(/\.$/, "")})`).join("; ")}.`, { status: 409 });
   }
 
   const submitted = await sequelize.transaction(async (transaction) => {
@@ -134,11 +135,11 @@ export async function submitProposal({ user, proposalId }: { user: Actor; propos
     const again = await getProposalForUser({ proposalId, user, transaction, lock: true });
     assertPi(again, "submit the proposal");
     const { proposal, call } = again;
-    if (proposal.status !== "draft") throw new ProposalRefused(`The proposal is already ${proposal.status.replace("_", " ")}.`, 409);
-    if (deadlinePassed(call)) throw new ProposalRefused(`The deadline of call ${call.semesterCode} has passed.`, 409);
+    if (proposal.status !== "draft") throw new Refusal(`The proposal is already ${proposal.status.replace("_", " ")}.`, { status: 409 });
+    if (deadlinePassed(call)) throw new Refusal(`The deadline of call ${call.semesterCode} has passed.`, { status: 409 });
     if (call.reviewMode === "distributed") {
       const problem = await designatedReviewerProblem({ proposal, transaction });
-      if (problem) throw new ProposalRefused(`Not submitted: ${problem}`, 409);
+      if (problem) throw new Refusal(`Not submitted: ${problem}`, { status: 409 });
     }
     const keptCode = proposal.code !== null;
     if (!keptCode) {

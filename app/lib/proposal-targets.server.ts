@@ -1,4 +1,5 @@
 // Targets of a proposal: add, edit, delete, and CSV import with a per-row report.
+import { Refusal } from "~/lib/forms";
 import { Op, type Transaction } from "sequelize";
 import { angularSeparationDeg } from "~/lib/astro/coordinates";
 import { writeAudit } from "~/lib/audit.server";
@@ -7,7 +8,7 @@ import { DUPLICATE_RADIUS_ARCSEC, type CsvReport, type CsvRowResult } from "~/li
 import { parseTargetCsv } from "~/lib/target-csv.server";
 import { Observation, sequelize, Target } from "~/models/index.server";
 import { sheetTarget } from "~/models/Target";
-import { assertEditable, getProposalForUser, ProposalRefused, type Actor } from "./proposals.server";
+import { assertEditable, getProposalForUser, type Actor } from "./proposals.server";
 
 export const MAX_TARGETS = 1_000;
 
@@ -60,10 +61,10 @@ function columns(input: TargetInput) {
 async function assertNoDuplicate(proposalId: number, input: TargetInput, transaction: Transaction, exceptId?: number) {
   const others = await Target.findAll({ where: { proposalId, ...(exceptId ? { id: { [Op.ne]: exceptId } } : {}) }, transaction });
   const sameName = others.find((t) => t.name.trim().toLowerCase() === input.name.toLowerCase());
-  if (sameName) throw new ProposalRefused(`"${sameName.name}" is already a target of this proposal.`, 400, "name");
+  if (sameName) throw new Refusal(`"${sameName.name}" is already a target of this proposal.`, { status: 400, field: "name" });
   const near = others.find((t) => angularSeparationDeg(t.raDeg, t.decDeg, input.raDeg, input.decDeg) * 3600 < DUPLICATE_RADIUS_ARCSEC);
-  if (near) throw new ProposalRefused(`This position is within ${DUPLICATE_RADIUS_ARCSEC}″ of "${near.name}", already a target.`, 400, "ra");
-  if (!exceptId && others.length >= MAX_TARGETS) throw new ProposalRefused(`A proposal has at most ${MAX_TARGETS} targets.`, 400, "name");
+  if (near) throw new Refusal(`This position is within ${DUPLICATE_RADIUS_ARCSEC}″ of "${near.name}", already a target.`, { status: 400, field: "ra" });
+  if (!exceptId && others.length >= MAX_TARGETS) throw new Refusal(`A proposal has at most ${MAX_TARGETS} targets.`, { status: 400, field: "name" });
 }
 
 export async function createTarget({ user, proposalId, input }: { user: Actor; proposalId: number; input: TargetInput }) {
@@ -80,7 +81,7 @@ export async function updateTarget({ user, proposalId, targetId, input }: { user
   return sequelize.transaction(async (transaction) => {
     assertEditable(await getProposalForUser({ proposalId, user, transaction, lock: true }));
     const target = await Target.findOne({ where: { id: targetId, proposalId }, transaction });
-    if (!target) throw new ProposalRefused("That target is not part of this proposal (any more).", 400, "form");
+    if (!target) throw new Refusal("That target is not part of this proposal (any more).", { status: 400, field: "form" });
     await assertNoDuplicate(proposalId, input, transaction, targetId);
     const before = { name: target.name, raDeg: target.raDeg, decDeg: target.decDeg };
     await target.update(columns(input), { transaction });
@@ -93,7 +94,7 @@ export async function deleteTarget({ user, proposalId, targetId }: { user: Actor
   return sequelize.transaction(async (transaction) => {
     assertEditable(await getProposalForUser({ proposalId, user, transaction, lock: true }));
     const target = await Target.findOne({ where: { id: targetId, proposalId }, transaction });
-    if (!target) throw new ProposalRefused("That target is not part of this proposal (any more).", 400, "form");
+    if (!target) throw new Refusal("That target is not part of this proposal (any more).", { status: 400, field: "form" });
     const observations = await Observation.count({ where: { targetId }, transaction });
     await target.destroy({ transaction });
     await writeAudit({ actorId: user.id, action: "target.deleted", entityType: "target", entityId: targetId, proposalId, details: { name: target.name, observations } }, transaction);

@@ -1,12 +1,13 @@
 // The team of a proposal: Co-Is invited by address (mailed through the queue), removed, and the
 // PI role handed over. An invitation to an existing account is theirs at once; one to a new address
 // is claimed when the invitee signs in with it (never by a read).
+import { Refusal } from "~/lib/forms";
 import { writeAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
 import { enqueueMail } from "~/lib/mail-queue.server";
 import { plainMail } from "~/lib/mail-templates.server";
 import { ProposalMember, sequelize, User } from "~/models/index.server";
-import { assertEditable, assertPi, getProposalForUser, ProposalRefused, type Actor } from "./proposals.server";
+import { assertEditable, assertPi, getProposalForUser, type Actor } from "./proposals.server";
 
 export const MAX_TEAM_SIZE = 60;
 
@@ -57,9 +58,9 @@ export async function inviteCoI({ user, proposalId, email }: { user: Actor; prop
     const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
     assertEditable(access);
     const existing = await ProposalMember.findOne({ where: { proposalId, email: address }, transaction });
-    if (existing) throw new ProposalRefused(`${address} is already on the team.`, 400, "email");
+    if (existing) throw new Refusal(`${address} is already on the team.`, { status: 400, field: "email" });
     if ((await ProposalMember.count({ where: { proposalId }, transaction })) >= MAX_TEAM_SIZE) {
-      throw new ProposalRefused(`A team has at most ${MAX_TEAM_SIZE} members.`, 400, "email");
+      throw new Refusal(`A team has at most ${MAX_TEAM_SIZE} members.`, { status: 400, field: "email" });
     }
     const account = await User.findOne({ where: { email: address }, transaction });
     const member = await ProposalMember.create(
@@ -89,8 +90,8 @@ export async function removeMember({ user, proposalId, memberId }: { user: Actor
     const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
     assertEditable(access);
     const member = await ProposalMember.findOne({ where: { id: memberId, proposalId }, transaction });
-    if (!member) throw new ProposalRefused("That person is not on this team (any more).", 400, "memberId");
-    if (member.role === "pi") throw new ProposalRefused("The PI cannot be removed; hand the PI role to a Co-I first.", 409, "memberId");
+    if (!member) throw new Refusal("That person is not on this team (any more).", { status: 400, field: "memberId" });
+    if (member.role === "pi") throw new Refusal("The PI cannot be removed; hand the PI role to a Co-I first.", { status: 409, field: "memberId" });
     const self = member.id === access.membership.id;
     if (!self) assertPi(access, "remove other members");
     await member.destroy({ transaction });
@@ -110,9 +111,9 @@ export async function handOverPi({ user, proposalId, memberId }: { user: Actor; 
     assertPi(access, "hand over the PI role");
     assertEditable(access);
     const member = await ProposalMember.findOne({ where: { id: memberId, proposalId }, transaction });
-    if (!member || member.role !== "coi") throw new ProposalRefused("Choose a Co-I of this proposal.", 400, "memberId");
+    if (!member || member.role !== "coi") throw new Refusal("Choose a Co-I of this proposal.", { status: 400, field: "memberId" });
     if (member.userId === null) {
-      throw new ProposalRefused(`${member.email} has not signed in yet; the PI role can go to them once they have.`, 409, "memberId");
+      throw new Refusal(`${member.email} has not signed in yet; the PI role can go to them once they have.`, { status: 409, field: "memberId" });
     }
     await access.membership.update({ role: "coi" }, { transaction });
     await member.update({ role: "pi" }, { transaction });
@@ -132,10 +133,10 @@ export async function designateReviewer({ user, proposalId, memberId }: { user: 
     const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
     assertPi(access, "choose the team's reviewer");
     assertEditable(access);
-    if (access.call.reviewMode !== "distributed") throw new ProposalRefused(`Call ${access.call.semesterCode} is reviewed by the committee's panel; the team names no reviewer.`, 409, "memberId");
+    if (access.call.reviewMode !== "distributed") throw new Refusal(`Call ${access.call.semesterCode} is reviewed by the committee's panel; the team names no reviewer.`, { status: 409, field: "memberId" });
     const member = await ProposalMember.findOne({ where: { id: memberId, proposalId }, transaction });
-    if (!member) throw new ProposalRefused("That person is not on this team (any more).", 400, "memberId");
-    if (member.userId === null) throw new ProposalRefused(`${member.email} has not signed in yet; choose someone who has, or wait until they have.`, 409, "memberId");
+    if (!member) throw new Refusal("That person is not on this team (any more).", { status: 400, field: "memberId" });
+    if (member.userId === null) throw new Refusal(`${member.email} has not signed in yet; choose someone who has, or wait until they have.`, { status: 409, field: "memberId" });
     const before = access.proposal.designatedReviewerId ?? null;
     await access.proposal.update({ designatedReviewerId: member.userId as number }, { transaction });
     await writeAudit({ actorId: user.id, action: "proposal.reviewer_designated", entityType: "proposal", entityId: proposalId, proposalId, details: { before, after: member.userId, email: member.email } }, transaction);

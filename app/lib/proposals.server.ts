@@ -1,6 +1,7 @@
 // The PI's proposals: every function takes one typed object and is scoped by the caller. A user
 // sees a proposal only through a membership (by user id, or by the invited address until sign-in
 // claims it); for anyone else the proposal does not exist (404, never 403).
+import { Refusal } from "~/lib/forms";
 import { data } from "react-router";
 import { Op, QueryTypes, type Transaction } from "sequelize";
 import type { SessionUser } from "~/lib/auth.server";
@@ -16,17 +17,6 @@ import { AuditEntry, Call, Proposal, ProposalMember, sequelize, User } from "~/m
 import type { MemberRole } from "~/models/ProposalMember";
 
 export type Actor = Pick<SessionUser, "id" | "email">;
-
-/** A refusal the user can act on: shown next to `field` (or above the form) with `status`. */
-export class ProposalRefused extends Error {
-  constructor(
-    message: string,
-    readonly status: 400 | 403 | 409 = 400,
-    readonly field = "form",
-  ) {
-    super(message);
-  }
-}
 
 export function notFound(): never {
   throw data({ error: "No such proposal.", message: "There is no proposal at this address, or you are not on its team." }, { status: 404 });
@@ -84,17 +74,14 @@ export async function getProposalForUser({
 /** Throws unless the proposal is a draft (submitted proposals are read-only). */
 export function assertEditable(access: Access) {
   if (!access.editable) {
-    throw new ProposalRefused(
-      `This proposal is ${access.proposal.status === "in_review" ? "in review" : access.proposal.status}, so it is read-only.${
+    throw new Refusal(`This proposal is ${access.proposal.status === "in_review" ? "in review" : access.proposal.status}, so it is read-only.${
         access.proposal.status === "submitted" ? " The PI can withdraw it before the deadline and reopen it as a draft to change it." : access.proposal.status === "withdrawn" ? " The PI can reopen it as a draft before the deadline." : ""
-      }`,
-      409,
-    );
+      }`, { status: 409 });
   }
 }
 
 export function assertPi(access: Access, what: string) {
-  if (!access.isPi) throw new ProposalRefused(`Only the PI can ${what}.`, 403);
+  if (!access.isPi) throw new Refusal(`Only the PI can ${what}.`, { status: 403 });
 }
 
 export type ProposalSummary = {
@@ -158,13 +145,9 @@ export async function openCalls({ now = new Date() }: { now?: Date } = {}) {
 export async function createProposal({ user, ...input }: { user: Actor } & z.output<typeof newProposalSchema>) {
   return sequelize.transaction(async (transaction) => {
     const call = await Call.findByPk(input.callId, { transaction });
-    if (!call) throw new ProposalRefused("Choose one of the open calls.", 400, "callId");
+    if (!call) throw new Refusal("Choose one of the open calls.", { status: 400, field: "callId" });
     if (!callIsOpen(call)) {
-      throw new ProposalRefused(
-        deadlinePassed(call) ? `The deadline of call ${call.semesterCode} has passed.` : `Call ${call.semesterCode} opens on ${call.opensAt.toISOString().slice(0, 10)}.`,
-        400,
-        "callId",
-      );
+      throw new Refusal(deadlinePassed(call) ? `The deadline of call ${call.semesterCode} has passed.` : `Call ${call.semesterCode} opens on ${call.opensAt.toISOString().slice(0, 10)}.`, { status: 400, field: "callId" });
     }
     const proposal = await Proposal.create(
       { callId: call.id, title: input.title, abstract: input.abstract ?? "", scienceCategory: null, semestersRequested: [call.semesterCode], createdById: user.id },
@@ -218,9 +201,9 @@ export async function updateOverview({ user, proposalId, version, ...input }: { 
     const allowed = upcomingSemesters(call.semesterCode);
     const semesters = input.isMultiSemester ? allowed.filter((s) => input.semestersRequested.includes(s)) : [call.semesterCode];
     const strange = input.semestersRequested.filter((s) => !allowed.includes(s));
-    if (input.isMultiSemester && strange.length) throw new ProposalRefused(`Choose among ${allowed.join(", ")}.`, 400, "semestersRequested");
+    if (input.isMultiSemester && strange.length) throw new Refusal(`Choose among ${allowed.join(", ")}.`, { status: 400, field: "semestersRequested" });
     if (input.isMultiSemester && !semesters.includes(call.semesterCode)) {
-      throw new ProposalRefused(`The programme must include the call's own semester, ${call.semesterCode}.`, 400, "semestersRequested");
+      throw new Refusal(`The programme must include the call's own semester, ${call.semesterCode}.`, { status: 400, field: "semestersRequested" });
     }
     const mine: OverviewValues = { ...input, semestersRequested: semesters };
     if (proposal.version !== version) {
@@ -265,8 +248,8 @@ export async function withdrawProposal({ user, proposalId }: { user: Actor; prop
     const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
     assertPi(access, "withdraw the proposal");
     const { proposal, call } = access;
-    if (!["draft", "submitted"].includes(proposal.status)) throw new ProposalRefused(`A proposal that is ${proposal.status.replace("_", " ")} cannot be withdrawn here.`, 409);
-    if (deadlinePassed(call)) throw new ProposalRefused(`The deadline of call ${call.semesterCode} has passed; write to the observatory office to withdraw.`, 409);
+    if (!["draft", "submitted"].includes(proposal.status)) throw new Refusal(`A proposal that is ${proposal.status.replace("_", " ")} cannot be withdrawn here.`, { status: 409 });
+    if (deadlinePassed(call)) throw new Refusal(`The deadline of call ${call.semesterCode} has passed; write to the observatory office to withdraw.`, { status: 409 });
     const from = proposal.status;
     proposal.status = "withdrawn";
     await proposal.save({ transaction });
@@ -296,8 +279,8 @@ export async function reopenProposal({ user, proposalId }: { user: Actor; propos
     const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
     assertPi(access, "reopen the proposal");
     const { proposal, call } = access;
-    if (proposal.status !== "withdrawn") throw new ProposalRefused("Only a withdrawn proposal can be reopened.", 409);
-    if (deadlinePassed(call)) throw new ProposalRefused(`The deadline of call ${call.semesterCode} has passed, so the proposal cannot be reopened.`, 409);
+    if (proposal.status !== "withdrawn") throw new Refusal("Only a withdrawn proposal can be reopened.", { status: 409 });
+    if (deadlinePassed(call)) throw new Refusal(`The deadline of call ${call.semesterCode} has passed, so the proposal cannot be reopened.`, { status: 409 });
     proposal.status = "draft";
     await proposal.save({ transaction });
     await writeAudit({ actorId: user.id, action: "proposal.reopened", entityType: "proposal", entityId: proposalId, proposalId, details: { code: proposal.code } }, transaction);
@@ -315,9 +298,9 @@ export async function deleteDraft({ user, proposalId }: { user: Actor; proposalI
     const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
     assertPi(access, "delete the draft");
     const { proposal, call } = access;
-    if (!["draft", "withdrawn"].includes(proposal.status)) throw new ProposalRefused(`A proposal that is ${proposal.status.replace("_", " ")} cannot be deleted.`, 409);
+    if (!["draft", "withdrawn"].includes(proposal.status)) throw new Refusal(`A proposal that is ${proposal.status.replace("_", " ")} cannot be deleted.`, { status: 409 });
     if (proposal.code) {
-      throw new ProposalRefused(`This proposal was submitted once as ${proposal.code}, so it stays on record; withdraw it instead.`, 409);
+      throw new Refusal(`This proposal was submitted once as ${proposal.code}, so it stays on record; withdraw it instead.`, { status: 409 });
     }
     const members = await ProposalMember.findAll({ where: { proposalId }, order: [["id", "ASC"]], transaction });
     await proposal.destroy({ transaction });

@@ -5,8 +5,8 @@ import { createHash } from "node:crypto";
 import { PDFArray, PDFDict, PDFDocument, PDFHexString, PDFName, PDFStream, PDFString, type PDFObject } from "pdf-lib";
 import { data } from "react-router";
 import { writeAudit } from "~/lib/audit.server";
-import { readForm } from "~/lib/forms";
-import { assertEditable, getProposalForUser, ProposalRefused, type Actor } from "~/lib/proposals.server";
+import { readForm, Refusal } from "~/lib/forms";
+import { assertEditable, getProposalForUser, type Actor } from "~/lib/proposals.server";
 import { sequelize, StoredFile, User } from "~/models/index.server";
 
 import { SCIENCE_CASE_KIND, SCIENCE_CASE_MAX_BYTES } from "~/lib/science-case";
@@ -15,7 +15,7 @@ export { SCIENCE_CASE_KIND, SCIENCE_CASE_MAX_BYTES };
 
 export type ScienceCaseInfo = { id: number; filename: string; pageCount: number; sizeBytes: number; createdAt: string; sha256: string; uploadedBy: string | null };
 
-const refuse = (message: string) => new ProposalRefused(message, 400, "file");
+const refuse = (message: string) => new Refusal(message, { status: 400, field: "file" });
 
 function megabytes(n: number) {
   return `${(n / (1024 * 1024)).toFixed(1)} MB`;

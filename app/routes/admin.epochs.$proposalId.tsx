@@ -8,9 +8,9 @@ import { Field, inputProps } from "~/components/Field";
 import { lostCauses } from "~/lib/domain";
 import { astrometryProgrammes, epochProgress, recordEpoch, requireEpochOffice, telescopeChoices } from "~/lib/epochs/epochs.server";
 import { epochFormSchema, formFieldOf, OBSERVED_AT_HINT } from "~/lib/epochs/schema";
-import { plainIssue, readForm } from "~/lib/forms";
+import { plainIssue, readForm, Refusal } from "~/lib/forms";
 import { formValues, proposalIdParam } from "~/lib/proposal-routes.server";
-import { notFound, ProposalRefused } from "~/lib/proposals.server";
+import { notFound } from "~/lib/proposals.server";
 import type { Route } from "./+types/admin.epochs.$proposalId";
 
 export function meta() {
@@ -54,7 +54,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const row = await recordEpoch({ user, proposalId, input: parsed.data, source: "form" });
     return { ok: true as const, message: row.lostCause ? `Lost epoch recorded (${row.lostCause}).` : `Epoch recorded: ${row.precisionMas?.toFixed(2)} mas (${row.precisionSource}).`, errors: {} as Record<string, string>, values: {} as Record<string, string> };
   } catch (error) {
-    if (error instanceof ProposalRefused) return data({ ok: false as const, errors: { [error.field === "proposalId" ? "form" : error.field]: error.message }, values }, { status: error.status });
+    if (error instanceof Refusal) return data({ ok: false as const, errors: { [error.field === "proposalId" ? "form" : error.field]: error.message }, values }, { status: error.status });
     throw error;
   }
 }

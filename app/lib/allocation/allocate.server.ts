@@ -1,10 +1,10 @@
 // The chair's changes to a call's allocation: positions on the board (with a required reason),
 // hours and tiers, the lock and the unlock. Every change is one transaction with its audit row,
 // and a change to a locked allocation is refused with a 409.
+import { Refusal } from "~/lib/forms";
 import { Op, type Transaction } from "sequelize";
 import { writeAudit } from "~/lib/audit.server";
 import type { AllocationTier, MoonCategory } from "~/lib/domain";
-import { ProposalRefused } from "~/lib/proposals.server";
 import { callNotFound } from "~/lib/review/chair.server";
 import { Allocation, AuditEntry, BoardEntry, Call, CallAllocation, CallOffer, DecisionLetter, Proposal, sequelize } from "~/models/index.server";
 import { BOARD_STATES, callBoard } from "./board.server";
@@ -14,7 +14,7 @@ type Chair = { id: number };
 export type AllocationRow = { proposalId: number; telescopeId: number; moonCategory: MoonCategory; semesterCode: string; hours: number };
 export type TierRow = { proposalId: number; tier: AllocationTier | null; waitlisted?: boolean };
 
-const lockedRefusal = () => new ProposalRefused("The allocation is locked. The chair must unlock it, with a reason, before anything changes.", 409, "allocation");
+const lockedRefusal = () => new Refusal("The allocation is locked. The chair must unlock it, with a reason, before anything changes.", { status: 409, field: "allocation" });
 
 /**
  * The call's allocation row exists before a transaction locks it. Created inside the transactions,
@@ -43,7 +43,7 @@ async function openAllocation(callId: number, transaction: Transaction, { mustBe
 
 async function boardProposal(callId: number, proposalId: number, transaction: Transaction, field = "proposalId") {
   const proposal = await Proposal.findOne({ where: { id: proposalId, callId, status: { [Op.in]: [...BOARD_STATES] } }, transaction });
-  if (!proposal) throw new ProposalRefused(`Proposal ${proposalId} is not on this call's board.`, 400, field);
+  if (!proposal) throw new Refusal(`Proposal ${proposalId} is not on this call's board.`, { status: 400, field: field });
   return proposal;
 }
 
@@ -79,7 +79,7 @@ export async function saveAllocation({ actor, callId, rows, tiers, basedOn }: { 
   return sequelize.transaction(async (transaction) => {
     const { call } = await openAllocation(callId, transaction);
     if (basedOn !== undefined && (await allocationVersion(callId, transaction)) !== basedOn) {
-      throw new ProposalRefused("Someone saved this allocation after you opened the page, so yours was not saved (it would have replaced theirs). Your values are still here: note them, reload, and enter them again.", 409, "form");
+      throw new Refusal("Someone saved this allocation after you opened the page, so yours was not saved (it would have replaced theirs). Your values are still here: note them, reload, and enter them again.", { status: 409, field: "form" });
     }
     const offers = await CallOffer.findAll({ where: { callId }, transaction });
     const offered = new Set(offers.map((o) => `${o.telescopeId}|${o.moonCategory}`));
@@ -90,16 +90,16 @@ export async function saveAllocation({ actor, callId, rows, tiers, basedOn }: { 
     for (const id of proposalIds) proposals.set(id, await boardProposal(callId, id, transaction, `${pathOf(id)}.proposalId`));
     const tiered = new Set<number>();
     for (const [i, t] of tiers.entries()) {
-      if (tiered.has(t.proposalId)) throw new ProposalRefused("The same proposal appears twice among the tiers.", 400, `tiers.${i}.proposalId`);
+      if (tiered.has(t.proposalId)) throw new Refusal("The same proposal appears twice among the tiers.", { status: 400, field: `tiers.${i}.proposalId` });
       tiered.add(t.proposalId);
     }
     const seen = new Set<string>();
     for (const [i, row] of rows.entries()) {
-      if (!offered.has(`${row.telescopeId}|${row.moonCategory}`)) throw new ProposalRefused(`The call offers no ${row.moonCategory} time on telescope ${row.telescopeId}.`, 400, `rows.${i}.telescopeId`);
+      if (!offered.has(`${row.telescopeId}|${row.moonCategory}`)) throw new Refusal(`The call offers no ${row.moonCategory} time on telescope ${row.telescopeId}.`, { status: 400, field: `rows.${i}.telescopeId` });
       const allowed = [call.semesterCode, ...(proposals.get(row.proposalId)!.semestersRequested ?? [])];
-      if (!allowed.includes(row.semesterCode)) throw new ProposalRefused(`Semester ${row.semesterCode} is neither the call's nor one the proposal asks for (${allowed.join(", ")}).`, 400, `rows.${i}.semesterCode`);
+      if (!allowed.includes(row.semesterCode)) throw new Refusal(`Semester ${row.semesterCode} is neither the call's nor one the proposal asks for (${allowed.join(", ")}).`, { status: 400, field: `rows.${i}.semesterCode` });
       const key = `${row.proposalId}|${row.telescopeId}|${row.moonCategory}|${row.semesterCode}`;
-      if (seen.has(key)) throw new ProposalRefused("The same proposal, telescope, moon category and semester appear twice.", 400, `rows.${i}`);
+      if (seen.has(key)) throw new Refusal("The same proposal, telescope, moon category and semester appear twice.", { status: 400, field: `rows.${i}` });
       seen.add(key);
     }
     // as on the page: hours need a tier and rule out the waitlist (a tier not sent stays as stored)
@@ -109,8 +109,8 @@ export async function saveAllocation({ actor, callId, rows, tiers, basedOn }: { 
       const given = tiers.find((t) => t.proposalId === row.proposalId);
       const tier = given ? given.tier : (stored.get(row.proposalId)?.tier ?? null);
       const waitlisted = given?.waitlisted ?? stored.get(row.proposalId)?.waitlisted ?? false;
-      if (tier === null) throw new ProposalRefused(`Proposal ${row.proposalId} has hours but no tier: give it assured, queue or filler.`, 400, `rows.${i}.hours`);
-      if (waitlisted) throw new ProposalRefused(`Proposal ${row.proposalId} is waitlisted, so it has no hours: set them to 0 or take it off the waitlist.`, 400, `rows.${i}.hours`);
+      if (tier === null) throw new Refusal(`Proposal ${row.proposalId} has hours but no tier: give it assured, queue or filler.`, { status: 400, field: `rows.${i}.hours` });
+      if (waitlisted) throw new Refusal(`Proposal ${row.proposalId} is waitlisted, so it has no hours: set them to 0 or take it off the waitlist.`, { status: 400, field: `rows.${i}.hours` });
     }
     await Allocation.destroy({ where: { callId, proposalId: { [Op.in]: proposalIds.length ? proposalIds : [0] } }, transaction });
     const kept = rows.filter((r) => r.hours > 0);
@@ -150,9 +150,9 @@ export async function unlockAllocation({ actor, callId, reason }: { actor: Chair
   await ensureAllocationRow(callId);
   return sequelize.transaction(async (transaction) => {
     const { allocation } = await openAllocation(callId, transaction, { mustBeUnlocked: false });
-    if (!allocation.lockedAt) throw new ProposalRefused("The allocation is not locked.", 409, "allocation");
+    if (!allocation.lockedAt) throw new Refusal("The allocation is not locked.", { status: 409, field: "allocation" });
     const sent = await DecisionLetter.count({ where: { callId }, transaction });
-    if (sent > 0) throw new ProposalRefused(`The decisions have been sent (${sent} letter${sent === 1 ? "" : "s"}); the allocation stays locked.`, 409, "allocation");
+    if (sent > 0) throw new Refusal(`The decisions have been sent (${sent} letter${sent === 1 ? "" : "s"}); the allocation stays locked.`, { status: 409, field: "allocation" });
     const proposals = await Proposal.findAll({ where: { callId, status: { [Op.in]: ["accepted", "waitlisted", "declined"] } }, transaction, lock: transaction.LOCK.UPDATE });
     for (const p of proposals) await p.update({ status: "in_review" }, { transaction });
     await allocation.update({ lockedAt: null, lockedById: null }, { transaction });

@@ -1,4 +1,3 @@
-import { ProposalRefused } from "~/lib/proposals.server";
 
 /** A file download that no cache keeps (the board's numbers are the chair's only). */
 export function downloadResponse(filename: string, contentType: string, body: string): Response {
@@ -15,6 +14,7 @@ export const csvResponse = (filename: string, csv: string) => downloadResponse(f
 
 /** A refusal as plain text with its status (a download link has no form to put a message by). */
 export function refusalText(error: unknown): Response {
-  if (error instanceof ProposalRefused) return new Response(error.message, { status: error.status, headers: { "Content-Type": "text/plain; charset=utf-8" } });
+  if (error instanceof Refusal) return new Response(error.message, { status: error.status, headers: { "Content-Type": "text/plain; charset=utf-8" } });
   throw error;
-}
+}import { Refusal } from "~/lib/forms";
+

@@ -1,10 +1,11 @@
 // The board's exports: the ranked list and the allocation as CSV (RFC 4180, via csv-stringify),
 // and an accepted programme's planned astrometric epochs as iCalendar (RFC 5545, via ics).
+import { Refusal } from "~/lib/forms";
 import { stringify } from "csv-stringify/sync";
 import { Op } from "sequelize";
 import { createEvents, type EventAttributes } from "ics";
 import { computeFeasibilitySheet } from "~/lib/feasibility.server";
-import { notFound, ProposalRefused } from "~/lib/proposals.server";
+import { notFound } from "~/lib/proposals.server";
 import { Proposal, Telescope } from "~/models/index.server";
 import { BOARD_STATES, callBoard } from "./board.server";
 import { boardOrder } from "./fill";
@@ -86,7 +87,7 @@ export async function epochsIcs({ callId, proposalId }: { callId: number; propos
   // a draft or another call's proposal is not on this board: as if it did not exist
   const proposal = await Proposal.findOne({ where: { id: proposalId, callId, status: { [Op.in]: [...BOARD_STATES] } } });
   if (!proposal) notFound();
-  if (proposal.status !== "accepted") throw new ProposalRefused("Only an accepted programme has planned epochs to export; lock the allocation first.", 409, "proposalId");
+  if (proposal.status !== "accepted") throw new Refusal("Only an accepted programme has planned epochs to export; lock the allocation first.", { status: 409, field: "proposalId" });
   const sheet = await computeFeasibilitySheet({ proposalId });
   const code = proposal.code ?? `proposal-${proposal.id}`;
   const events: EventAttributes[] = [];
@@ -112,7 +113,7 @@ export async function epochsIcs({ callId, proposalId }: { callId: number; propos
       });
     }
   }
-  if (events.length === 0) throw new ProposalRefused("This programme has no astrometric epochs to export.", 409, "proposalId");
+  if (events.length === 0) throw new Refusal("This programme has no astrometric epochs to export.", { status: 409, field: "proposalId" });
   const { error, value } = createEvents(events);
   if (error || !value) throw error ?? new Error("iCalendar could not be written");
   return { filename: `${code.replace(/[^\w.-]+/g, "-")}-epochs.ics`, ics: value };

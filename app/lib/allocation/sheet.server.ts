@@ -3,8 +3,8 @@
 // proposal's requested and allocated hours, and later semesters' cells for multi-semester
 // programmes. Saving turns the page's rows into `saveAllocation`'s rows and maps its refusals
 // back onto the page's field names.
+import { Refusal } from "~/lib/forms";
 import type { AllocationTier, MoonCategory } from "~/lib/domain";
-import { ProposalRefused } from "~/lib/proposals.server";
 import type { AllocationSheet } from "~/lib/schemas/allocation";
 import { Telescope } from "~/models/index.server";
 import { allocationVersion, saveAllocation } from "./allocate.server";
@@ -101,11 +101,11 @@ export async function saveAllocationSheet({ actor, callId, sheet }: { actor: { i
       basedOn: sheet.basedOn,
     });
   } catch (error) {
-    if (error instanceof ProposalRefused) {
+    if (error instanceof Refusal) {
       // saveAllocation numbers its flat rows; a proposal off the board is no one field of the page
       const m = error.field.endsWith("proposalId") ? null : /^rows\.(\d+)/.exec(error.field);
       const field = m ? (pathOf[Number(m[1])] ?? "form") : "form";
-      throw new ProposalRefused(error.message, error.status, field);
+      throw new Refusal(error.message, { status: error.status, field: field });
     }
     throw error;
   }

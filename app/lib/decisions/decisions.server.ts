@@ -1,7 +1,8 @@
 // Reading decisions: the office's list for a call (outcome, preview, sending state), the PI's
 // view of their own proposal's decision, and the templates the office edits.
+import { Refusal } from "~/lib/forms";
 import { writeAudit } from "~/lib/audit.server";
-import { getProposalForUser, ProposalRefused, type Actor } from "~/lib/proposals.server";
+import { getProposalForUser, type Actor } from "~/lib/proposals.server";
 import { DecisionBatch, DecisionLetter, DecisionTemplate, sequelize } from "~/models/index.server";
 import { decidedProposals, lettersFacts, lockedCall, templatesFor } from "./facts.server";
 import { batchProgress, letterMailStates } from "./send.server";
@@ -65,7 +66,7 @@ export async function letterRowForUser({ user, proposalId }: { user: Actor; prop
 export async function saveTemplate({ actor, outcome, subject, body }: { actor: { id: number }; outcome: DecisionOutcome; subject: string; body: string }) {
   for (const [field, text] of [["subject", subject], ["body", body]] as const) {
     const problems = templateProblems(text);
-    if (problems.length) throw new ProposalRefused(problems.join(" "), 400, field);
+    if (problems.length) throw new Refusal(problems.join(" "), { status: 400, field: field });
   }
   return sequelize.transaction(async (transaction) => {
     const existing = await DecisionTemplate.findOne({ where: { outcome }, transaction, lock: transaction.LOCK.UPDATE });

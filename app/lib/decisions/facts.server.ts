@@ -1,8 +1,8 @@
 // What a decision letter shows, read from the locked allocation, the board and the submitted
 // reviews: hours per telescope, moon category and semester, the tier, the charge, and the
 // comments to the PI (anonymised; never a comment to the committee, a name or an institution).
+import { Refusal } from "~/lib/forms";
 import { Op, type Transaction } from "sequelize";
-import { ProposalRefused } from "~/lib/proposals.server";
 import { callNotFound } from "~/lib/review/chair.server";
 import { Allocation, BoardEntry, Call, CallAllocation, DecisionTemplate, Proposal, ProposalMember, ReviewAssignment, Telescope, User } from "~/models/index.server";
 import type { Charge } from "~/models/Charge";
@@ -11,7 +11,7 @@ import { DEFAULT_TEMPLATES } from "./template";
 import { decisionOutcomes, type DecisionOutcome, type LetterFacts } from "./vocabulary";
 
 export const notLockedRefusal = () =>
-  new ProposalRefused("Decisions are sent from a locked allocation only: the chair locks it on the ranking board first.", 409, "allocation");
+  new Refusal("Decisions are sent from a locked allocation only: the chair locks it on the ranking board first.", { status: 409, field: "allocation" });
 
 /** The call, if its allocation is locked; 404 without the call, 409 while it is not locked. */
 export async function lockedCall({ callId, transaction }: { callId: number; transaction?: Transaction }) {

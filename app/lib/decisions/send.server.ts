@@ -4,12 +4,12 @@
 // queue, records `decisionSentAt` and the audit entry. A second "send all" finds nothing unsent
 // and queues nothing; a single letter is re-sent only on purpose (audited). The batch's progress
 // is the state of the mails it queued, so a mail-catcher outage shows as retrying, never as lost.
+import { Refusal } from "~/lib/forms";
 import { QueryTypes } from "sequelize";
 import { writeAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
 import { enqueueMail } from "~/lib/mail-queue.server";
 import { raiseAccessFee } from "~/lib/payments/charges.server";
-import { ProposalRefused } from "~/lib/proposals.server";
 import { CallAllocation, DecisionBatch, DecisionLetter, DecisionMail, Proposal, ProposalMember, User, sequelize } from "~/models/index.server";
 import type { Transaction } from "sequelize";
 import { decidedProposals, lettersFacts, notLockedRefusal, requireLocked, templatesFor } from "./facts.server";
@@ -114,7 +114,7 @@ export async function resendLetter({ actor, callId, proposalId, reason }: { acto
   return sequelize.transaction(async (transaction) => {
     const proposal = await Proposal.findOne({ where: { id: proposalId, callId }, transaction, lock: transaction.LOCK.UPDATE });
     const letter = proposal ? await DecisionLetter.findOne({ where: { proposalId }, transaction }) : null;
-    if (!proposal || !letter) throw new ProposalRefused("This proposal's decision has not been sent yet; use Send all.", 409, "proposalId");
+    if (!proposal || !letter) throw new Refusal("This proposal's decision has not been sent yet; use Send all.", { status: 409, field: "proposalId" });
     const batch = await DecisionBatch.create({ callId, kind: "resend", createdById: actor.id, letters: 1 }, { transaction });
     const count = await queueLetter(letter, batch.id, proposal, transaction);
     await writeAudit(

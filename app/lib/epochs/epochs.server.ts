@@ -1,6 +1,7 @@
 // The epoch log on the database: who may record and read it, recording one epoch or a night log,
 // the progress a PI sees (executed against planned, precision so far and projected, a re-plan),
 // accepting the re-plan, and what multi-semester programmes are still owed.
+import { Refusal } from "~/lib/forms";
 import { data } from "react-router";
 import { Op, type Transaction } from "sequelize";
 import { EPOCH_TOLERANCE_NIGHTS } from "~/lib/astro/astrometry";
@@ -9,7 +10,7 @@ import { writeAudit } from "~/lib/audit.server";
 import { requireUser, type SessionUser } from "~/lib/auth.server";
 import { baselineSemesters, type FeasibilitySheet } from "~/lib/feasibility";
 import { feasibilitySheetOf, loadFeasibilityInput, loadFeasibilityInputs } from "~/lib/feasibility.server";
-import { getProposalForUser, notFound, ProposalRefused } from "~/lib/proposals.server";
+import { getProposalForUser, notFound } from "~/lib/proposals.server";
 import { Call, ExecutedEpoch, Instrument, Observation, PlannedEpoch, Proposal, sequelize, Target, Telescope } from "~/models/index.server";
 import type { EpochRecordSource } from "~/models/ExecutedEpoch";
 import type { NightLogReport } from "./night-log-csv";
@@ -58,7 +59,7 @@ async function astrometricObservations(proposalId: number, transaction?: Transac
 }
 
 function refuse(message: string, field: string, status: 400 | 403 | 409 = 400): never {
-  throw new ProposalRefused(message, status, field);
+  throw new Refusal(message, { status: status, field: field });
 }
 
 /** Saves one epoch (inside `transaction`): its precision, the planned epoch it fulfils, the audit row. */

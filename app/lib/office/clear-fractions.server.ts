@@ -1,9 +1,9 @@
 // The office's expected clear fraction per telescope and month: the weather the RA-pressure
 // chart and the semester check use. A month without a value is reported as not set.
+import { Refusal } from "~/lib/forms";
 import type { ClearFractionsInput } from "~/lib/schemas/office";
 import { sequelize, Telescope, TelescopeClearFraction } from "~/models/index.server";
 import { writeAudit } from "~/lib/audit.server";
-import { OfficeRefusal } from "~/lib/office.server";
 
 export type MonthClearFraction = { month: number; clearFraction: number | null };
 
@@ -17,7 +17,7 @@ export async function clearFractionsOf({ telescopeId }: { telescopeId: number })
 export async function saveClearFractions({ actor, telescopeId, values }: { actor: { id: number }; telescopeId: number; values: ClearFractionsInput }) {
   return sequelize.transaction(async (transaction) => {
     const telescope = await Telescope.findByPk(telescopeId, { transaction, lock: transaction.LOCK.UPDATE });
-    if (!telescope) throw new OfficeRefusal("That telescope does not exist (it may have been deleted).", "form", 404);
+    if (!telescope) throw new Refusal("That telescope does not exist (it may have been deleted).", { status: 404, field: "form" });
     const before = new Map((await TelescopeClearFraction.findAll({ where: { telescopeId }, transaction })).map((r) => [r.month, r.clearFraction]));
     const changes: Record<number, { from: number | null; to: number | null }> = {};
     for (let month = 1; month <= 12; month++) {

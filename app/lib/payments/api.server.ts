@@ -1,13 +1,12 @@
 // The charges' JSON routes: refusals as `{ error, issues: [{ path, message }] }` with their status.
 import { data } from "react-router";
 import { Refusal } from "~/lib/forms";
-import { ProposalRefused } from "~/lib/proposals.server";
 
 const NO_STORE = { "Cache-Control": "private, no-store" };
 
 export function refusalJson(error: unknown): never {
-  if (error instanceof ProposalRefused || error instanceof Refusal) {
-    const path = error instanceof ProposalRefused ? error.field : (error.field ?? "(body)");
+  if (error instanceof Refusal) {
+    const path = error.field;
     const headers: Record<string, string> = { ...NO_STORE, ...(error.status === 503 ? { "Retry-After": "60" } : {}) };
     throw data({ error: error.message, issues: [{ path, message: error.message }] }, { status: error.status, headers });
   }

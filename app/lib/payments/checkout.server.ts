@@ -8,7 +8,7 @@ import { writeAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
 import { Refusal } from "~/lib/forms";
 import { enqueueMail } from "~/lib/mail-queue.server";
-import { getProposalForUser, ProposalRefused, type Actor } from "~/lib/proposals.server";
+import { getProposalForUser, type Actor } from "~/lib/proposals.server";
 import { stripe } from "~/lib/payments.server";
 import { Call, Charge, Proposal, sequelize } from "~/models/index.server";
 import { chargeKindLabels, formatMoney } from "./money";
@@ -42,15 +42,15 @@ export async function startCheckout({ user, chargeId, client = stripe, now = () 
   try {
     return await sequelize.transaction(async (transaction) => {
       const charge = (await Charge.findByPk(chargeId, { transaction, lock: transaction.LOCK.UPDATE }))!;
-      if (charge.state === "paid") throw new ProposalRefused("This charge is already paid.", 409, "chargeId");
-      if (charge.state === "waived") throw new ProposalRefused("The observatory waived this charge; there is nothing to pay.", 409, "chargeId");
+      if (charge.state === "paid") throw new Refusal("This charge is already paid.", { status: 409, field: "chargeId" });
+      if (charge.state === "waived") throw new Refusal("The observatory waived this charge; there is nothing to pay.", { status: 409, field: "chargeId" });
       const at = now();
       if (charge.state === "awaiting_payment" && charge.checkoutSessionId && charge.checkoutExpiresAt && charge.checkoutExpiresAt.getTime() > at.getTime() + 5 * 60_000) {
         const existing = await client.checkout.sessions.retrieve(charge.checkoutSessionId).catch((error: unknown) => {
           if (error instanceof Stripe.errors.StripeInvalidRequestError && error.statusCode === 404) return null; // the fake restarted
           throw error;
         });
-        if (existing?.status === "complete") throw new ProposalRefused("This charge's payment went through; its confirmation is on its way. Reload the page in a moment.", 409, "chargeId");
+        if (existing?.status === "complete") throw new Refusal("This charge's payment went through; its confirmation is on its way. Reload the page in a moment.", { status: 409, field: "chargeId" });
         if (existing?.status === "open" && existing.url && existing.amount_total === charge.amountCents) return { url: existing.url, chargeId, reused: true };
       }
       const pi = access.membership;
@@ -91,7 +91,7 @@ export async function chargeOfPi({ user, chargeId }: { user: Actor; chargeId: nu
   const access = await getProposalForUser({ proposalId: probe.proposalId as number, user }).catch(() => {
     throw notFoundCharge();
   });
-  if (!access.isPi) throw new ProposalRefused("Only the PI pays the programme's charges.", 403, "chargeId");
+  if (!access.isPi) throw new Refusal("Only the PI pays the programme's charges.", { status: 403, field: "chargeId" });
   return access;
 }
 

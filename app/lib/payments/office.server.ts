@@ -3,7 +3,7 @@
 import { stringify } from "csv-stringify/sync";
 import { writeAudit } from "~/lib/audit.server";
 import { Refusal } from "~/lib/forms";
-import { ProposalRefused, type Actor } from "~/lib/proposals.server";
+import { type Actor } from "~/lib/proposals.server";
 import { stripe } from "~/lib/payments.server";
 import { Call, Charge, Proposal, ProposalMember, sequelize, User } from "~/models/index.server";
 import { chargeView, type ChargeView } from "./charges.server";
@@ -50,8 +50,8 @@ export async function waiveCharge({ actor, chargeId, reason }: { actor: Actor; c
   const { charge, openSession } = await sequelize.transaction(async (transaction) => {
     const charge = await Charge.findByPk(chargeId, { transaction, lock: transaction.LOCK.UPDATE });
     if (!charge) throw new Refusal("There is no such charge.", { status: 404, field: "chargeId" });
-    if (charge.state === "paid") throw new ProposalRefused("This charge is paid; a paid charge is refunded, not waived.", 409, "chargeId");
-    if (charge.state === "waived") throw new ProposalRefused("This charge is already waived.", 409, "chargeId");
+    if (charge.state === "paid") throw new Refusal("This charge is paid; a paid charge is refunded, not waived.", { status: 409, field: "chargeId" });
+    if (charge.state === "waived") throw new Refusal("This charge is already waived.", { status: 409, field: "chargeId" });
     const openSession = charge.state === "awaiting_payment" ? charge.checkoutSessionId : null;
     const from = charge.state;
     await charge.update({ state: "waived", waivedAt: new Date(), waivedById: actor.id, waiveReason: reason }, { transaction });

@@ -2,7 +2,7 @@
 // paper's pages (the page charge). Scoped by the caller: someone off the team gets a 404.
 import { writeAudit } from "~/lib/audit.server";
 import { Refusal } from "~/lib/forms";
-import { getProposalForUser, ProposalRefused, type Actor } from "~/lib/proposals.server";
+import { getProposalForUser, type Actor } from "~/lib/proposals.server";
 import { Charge, sequelize } from "~/models/index.server";
 import { chargeView, pageChargeCents, semesterEnded, type ChargeView } from "./charges.server";
 
@@ -58,10 +58,10 @@ export async function chargesForTeam({ user, proposalId, now = new Date() }: { u
 export async function declarePages({ user, proposalId, pages, now = new Date() }: { user: Actor; proposalId: number; pages: number; now?: Date }): Promise<ChargeView> {
   return sequelize.transaction(async (transaction) => {
     const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
-    if (!access.isPi) throw new ProposalRefused("Only the PI declares the paper's pages.", 403, "pages");
+    if (!access.isPi) throw new Refusal("Only the PI declares the paper's pages.", { status: 403, field: "pages" });
     const existing = await Charge.findOne({ where: { proposalId, kind: "page_charge" }, transaction });
     const offer = pageChargeOffer(access, existing ?? undefined, now);
-    if (!offer.open) throw new ProposalRefused(offer.reason, 409, "pages");
+    if (!offer.open) throw new Refusal(offer.reason, { status: 409, field: "pages" });
     if (!Number.isInteger(pages) || pages < 1) throw new Refusal("Give the number of pages as a whole number from 1.", { field: "pages" });
     const amountCents = pageChargeCents(pages, offer.ratePerPageCents);
     const charge = await Charge.create(

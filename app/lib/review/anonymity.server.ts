@@ -2,12 +2,12 @@
 // institutions or e-mails; the chair sees them only after every grade is in and the teams are
 // revealed (audited). The conflict rules keep reading the real team on the server (facts.server.ts);
 // only what is shown is cut here.
+import { Refusal } from "~/lib/forms";
 import { PDFDict, PDFDocument, PDFName } from "pdf-lib";
 import type { Transaction } from "sequelize";
 import type { SessionUser } from "~/lib/auth.server";
 import { writeAudit } from "~/lib/audit.server";
 import { HIDDEN_TEAM } from "~/lib/domain";
-import { ProposalRefused } from "~/lib/proposals.server";
 import { Call, CallReview, ReviewAssignment, sequelize } from "~/models/index.server";
 import { callNotFound } from "./chair.server";
 import type { Conflict } from "./conflicts";
@@ -81,14 +81,14 @@ export async function revealTeams({ actor, callId, now = new Date() }: { actor: 
   return sequelize.transaction(async (transaction) => {
     const call = await Call.findByPk(callId, { transaction, lock: transaction.LOCK.UPDATE });
     if (!call) callNotFound();
-    if (call.teamVisibility !== "dual_anonymous") throw new ProposalRefused(`Call ${call.semesterCode} is not dual-anonymous: its teams are not hidden.`, 409, "form");
+    if (call.teamVisibility !== "dual_anonymous") throw new Refusal(`Call ${call.semesterCode} is not dual-anonymous: its teams are not hidden.`, { status: 409, field: "form" });
     const review = await CallReview.findOne({ where: { callId }, transaction, lock: transaction.LOCK.UPDATE });
     if (review?.teamsRevealedAt) return { revealedAt: review.teamsRevealedAt.toISOString(), already: true };
     const grades = await gradesOf(callId, transaction);
-    if (!review?.committedAt || grades.expected === 0) throw new ProposalRefused(`The teams of ${call.semesterCode} can be revealed once the assignment is committed and every grade is in.`, 409, "form");
+    if (!review?.committedAt || grades.expected === 0) throw new Refusal(`The teams of ${call.semesterCode} can be revealed once the assignment is committed and every grade is in.`, { status: 409, field: "form" });
     if (grades.uncommitted > 0 || grades.submitted < grades.expected) {
       const missing = grades.expected - grades.submitted + grades.uncommitted;
-      throw new ProposalRefused(`${missing} of ${grades.expected + grades.uncommitted} grades are not in yet: the teams of ${call.semesterCode} stay hidden until every review is submitted.`, 409, "form");
+      throw new Refusal(`${missing} of ${grades.expected + grades.uncommitted} grades are not in yet: the teams of ${call.semesterCode} stay hidden until every review is submitted.`, { status: 409, field: "form" });
     }
     await review.update({ teamsRevealedAt: now }, { transaction });
     await writeAudit({ actorId: actor.id, action: "review.teams_revealed", entityType: "call", entityId: callId, details: { semesterCode: call.semesterCode, grades: grades.submitted } }, transaction);

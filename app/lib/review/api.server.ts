@@ -1,8 +1,7 @@
 // Helpers of the review's JSON routes: ids from the URL, JSON bodies, refusals as `{ error, issues }`.
 import { data } from "react-router";
 import type { z } from "zod";
-import { apiIssues } from "~/lib/forms";
-import { ProposalRefused } from "~/lib/proposals.server";
+import { apiIssues, Refusal } from "~/lib/forms";
 
 const NO_STORE = { "Cache-Control": "private, no-store" };
 
@@ -38,7 +37,7 @@ export async function apiAttempt<R>(work: () => Promise<R>) {
   try {
     return await work();
   } catch (error) {
-    if (error instanceof ProposalRefused) throw data({ error: error.message, issues: [{ path: error.field, message: error.message }] }, { status: error.status });
+    if (error instanceof Refusal) throw data({ error: error.message, issues: [{ path: error.field, message: error.message }] }, { status: error.status });
     throw error;
   }
 }

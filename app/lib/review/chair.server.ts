@@ -2,6 +2,7 @@
 // edited, committed), progress, reminders, reassignment and reopening. Every function is for a
 // caller who holds the chair role (the routes check it first); every state change and its audit
 // entry share one transaction.
+import { Refusal } from "~/lib/forms";
 import { data } from "react-router";
 import { Op, type Transaction } from "sequelize";
 import type { SessionUser } from "~/lib/auth.server";
@@ -9,7 +10,7 @@ import { writeAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
 import { enqueueMail } from "~/lib/mail-queue.server";
 import { plainMail } from "~/lib/mail-templates.server";
-import { deadlinePassed, ProposalRefused } from "~/lib/proposals.server";
+import { deadlinePassed } from "~/lib/proposals.server";
 import { Call, CallReview, Proposal, ReviewAssignment, ReviewPanelMember, RoleGrant, sequelize, User } from "~/models/index.server";
 import { conflictReasonWithoutTeam, HIDDEN_TEAM, teamHidden } from "./anonymity.server";
 import { pairKey, type Conflict } from "./conflicts";
@@ -71,7 +72,7 @@ export async function startReview({ actor, callId, now = new Date() }: { actor: 
   return sequelize.transaction(async (transaction) => {
     const call = await Call.findByPk(callId, { transaction, lock: transaction.LOCK.UPDATE });
     if (!call) callNotFound();
-    if (!deadlinePassed(call, now)) throw new ProposalRefused(`The deadline of call ${call.semesterCode} has not passed yet; proposals can be put in review after it.`, 409);
+    if (!deadlinePassed(call, now)) throw new Refusal(`The deadline of call ${call.semesterCode} has not passed yet; proposals can be put in review after it.`, { status: 409 });
     const [moved] = await Proposal.update({ status: "in_review" }, { where: { callId, status: "submitted" }, transaction });
     const [review] = await CallReview.findOrCreate({ where: { callId }, defaults: { callId, reviewDeadlineAt: null, perProposal: DEFAULT_PER_PROPOSAL }, transaction });
     if (!review.startedAt) await review.update({ startedAt: now }, { transaction });
@@ -104,7 +105,7 @@ export async function saveReviewSetup({ actor, callId, reviewDeadlineAt, perProp
   return sequelize.transaction(async (transaction) => {
     const call = await Call.findByPk(callId, { transaction, lock: transaction.LOCK.UPDATE });
     if (!call) callNotFound();
-    if (reviewDeadlineAt.getTime() <= call.deadlineAt.getTime()) throw new ProposalRefused("The review deadline must come after the call's deadline.", 400, "reviewDeadline");
+    if (reviewDeadlineAt.getTime() <= call.deadlineAt.getTime()) throw new Refusal("The review deadline must come after the call's deadline.", { status: 400, field: "reviewDeadline" });
     if (call.reviewMode === "distributed") {
       const seated = await seatDesignatedReviewers({ callId, transaction });
       const [review] = await CallReview.findOrCreate({ where: { callId }, defaults: { callId, reviewDeadlineAt, perProposal }, transaction });
@@ -115,14 +116,14 @@ export async function saveReviewSetup({ actor, callId, reviewDeadlineAt, perProp
     }
     const wanted = [...new Set(panel)];
     const reviewers = await RoleGrant.findAll({ where: { role: "reviewer", userId: wanted }, transaction });
-    if (reviewers.length !== wanted.length) throw new ProposalRefused("Choose the panel among users holding the reviewer role.", 400, "panel");
+    if (reviewers.length !== wanted.length) throw new Refusal("Choose the panel among users holding the reviewer role.", { status: 400, field: "panel" });
     const current = await ReviewPanelMember.findAll({ where: { callId }, transaction });
     const leaving = current.filter((m) => !wanted.includes(m.reviewerId as number));
     if (leaving.length) {
       const busy = await ReviewAssignment.findAll({ where: { callId, reviewerId: leaving.map((m) => m.reviewerId as number), status: { [Op.ne]: "conflict" } }, include: [{ model: User, as: "reviewer" }], transaction });
       if (busy.length) {
         const names = [...new Set(busy.map((b) => b.reviewer?.name ?? b.reviewer?.email ?? `user ${b.reviewerId}`))];
-        throw new ProposalRefused(`${names.join(", ")} still ${names.length === 1 ? "has" : "have"} assignments in this call: remove or reassign them first.`, 409, "panel");
+        throw new Refusal(`${names.join(", ")} still ${names.length === 1 ? "has" : "have"} assignments in this call: remove or reassign them first.`, { status: 409, field: "panel" });
       }
       await ReviewPanelMember.destroy({ where: { id: leaving.map((m) => m.id) }, transaction });
     }
@@ -239,10 +240,10 @@ function describePair(facts: CallFacts, proposalId: number, reviewerId: number) 
 
 /** A pair the chair may assign, or the refusal that says why not. */
 function checkPair(facts: CallFacts, proposalId: number, reviewerId: number, field: string) {
-  if (!facts.proposals.some((p) => p.proposalId === proposalId)) throw new ProposalRefused(`Proposal ${proposalId} is not in review in call ${facts.call.semesterCode}.`, 400, field);
-  if (!facts.panel.some((r) => r.reviewerId === reviewerId)) throw new ProposalRefused(`User ${reviewerId} is not on the panel of call ${facts.call.semesterCode}.`, 400, field);
+  if (!facts.proposals.some((p) => p.proposalId === proposalId)) throw new Refusal(`Proposal ${proposalId} is not in review in call ${facts.call.semesterCode}.`, { status: 400, field: field });
+  if (!facts.panel.some((r) => r.reviewerId === reviewerId)) throw new Refusal(`User ${reviewerId} is not on the panel of call ${facts.call.semesterCode}.`, { status: 400, field: field });
   const conflict = facts.conflicts.get(pairKey(proposalId, reviewerId));
-  if (conflict) throw new ProposalRefused(`${describePair(facts, proposalId, reviewerId)} is a conflict: the reviewer ${chairReason(facts, conflict)}.`, 400, field);
+  if (conflict) throw new Refusal(`${describePair(facts, proposalId, reviewerId)} is a conflict: the reviewer ${chairReason(facts, conflict)}.`, { status: 400, field: field });
 }
 
 function listMail({ reviewer, call, deadline, items }: { reviewer: { name: string | null; email: string }; call: Call; deadline: Date | null; items: { code: string | null; title: string }[] }) {
@@ -269,12 +270,12 @@ export async function replaceAssignments({ actor, callId, pairs, commit = false,
   return sequelize.transaction(async (transaction) => {
     const review = await CallReview.findOne({ where: { callId }, transaction, lock: transaction.LOCK.UPDATE });
     const facts = await factsOrNotFound(callId, transaction);
-    if (!review?.startedAt) throw new ProposalRefused(`Put the proposals of ${facts.call.semesterCode} in review first.`, 409);
+    if (!review?.startedAt) throw new Refusal(`Put the proposals of ${facts.call.semesterCode} in review first.`, { status: 409 });
     const seen = new Set<string>();
     pairs.forEach((p, i) => {
       checkPair(facts, p.proposalId, p.reviewerId, `assignments.${i}`);
       const key = pairKey(p.proposalId, p.reviewerId);
-      if (seen.has(key)) throw new ProposalRefused(`${describePair(facts, p.proposalId, p.reviewerId)} is listed twice.`, 400, `assignments.${i}`);
+      if (seen.has(key)) throw new Refusal(`${describePair(facts, p.proposalId, p.reviewerId)} is listed twice.`, { status: 400, field: `assignments.${i}` });
       seen.add(key);
     });
     const existing = await ReviewAssignment.findAll({ where: { callId }, transaction });
@@ -283,7 +284,7 @@ export async function replaceAssignments({ actor, callId, pairs, commit = false,
     const worked = dropped.filter((a) => a.status === "draft" || a.status === "submitted");
     if (worked.length) {
       const a = worked[0];
-      throw new ProposalRefused(`${describePair(facts, a.proposalId as number, a.reviewerId as number)} has a ${a.status} review; it cannot be removed (the chair can reopen it instead).`, 409, "assignments");
+      throw new Refusal(`${describePair(facts, a.proposalId as number, a.reviewerId as number)} has a ${a.status} review; it cannot be removed (the chair can reopen it instead).`, { status: 409, field: "assignments" });
     }
     const added = pairs.filter((p) => !keep.has(pairKey(p.proposalId, p.reviewerId)));
     if (dropped.length) await ReviewAssignment.destroy({ where: { id: dropped.map((a) => a.id) }, transaction });
@@ -291,7 +292,7 @@ export async function replaceAssignments({ actor, callId, pairs, commit = false,
     const changedReviewers = new Set<number>([...dropped.filter((a) => a.committedAt).map((a) => a.reviewerId as number)]);
     let mailed = 0;
     if (commit) {
-      if (!review.reviewDeadlineAt) throw new ProposalRefused("Set the review deadline before committing the assignment.", 409);
+      if (!review.reviewDeadlineAt) throw new Refusal("Set the review deadline before committing the assignment.", { status: 409 });
       const fresh = await ReviewAssignment.findAll({ where: { callId, committedAt: null, status: { [Op.ne]: "conflict" } }, transaction });
       for (const a of fresh) changedReviewers.add(a.reviewerId as number);
       await ReviewAssignment.update({ committedAt: now }, { where: { callId, committedAt: null }, transaction });
@@ -321,7 +322,7 @@ export async function replaceAssignments({ actor, callId, pairs, commit = false,
 
 async function assignmentOfCall(callId: number, assignmentId: number, transaction: Transaction) {
   const a = await ReviewAssignment.findOne({ where: { id: assignmentId, callId }, include: [{ model: User, as: "reviewer" }, { model: Proposal, as: "proposal" }], transaction, lock: transaction.LOCK.UPDATE });
-  if (!a) throw new ProposalRefused("There is no such assignment in this call.", 400, "assignmentId");
+  if (!a) throw new Refusal("There is no such assignment in this call.", { status: 400, field: "assignmentId" });
   return a;
 }
 
@@ -329,10 +330,10 @@ async function assignmentOfCall(callId: number, assignmentId: number, transactio
 export async function reassign({ actor, callId, assignmentId, reviewerId, now = new Date() }: { actor: Chair; callId: number; assignmentId: number; reviewerId: number; now?: Date }) {
   return sequelize.transaction(async (transaction) => {
     const a = await assignmentOfCall(callId, assignmentId, transaction);
-    if (a.status === "draft" || a.status === "submitted") throw new ProposalRefused(`This review is ${a.status}; it cannot be moved to someone else.`, 409, "reviewerId");
+    if (a.status === "draft" || a.status === "submitted") throw new Refusal(`This review is ${a.status}; it cannot be moved to someone else.`, { status: 409, field: "reviewerId" });
     const facts = await factsOrNotFound(callId, transaction);
     checkPair(facts, a.proposalId as number, reviewerId, "reviewerId");
-    if (await ReviewAssignment.findOne({ where: { proposalId: a.proposalId, reviewerId }, transaction })) throw new ProposalRefused("That reviewer already has this proposal.", 409, "reviewerId");
+    if (await ReviewAssignment.findOne({ where: { proposalId: a.proposalId, reviewerId }, transaction })) throw new Refusal("That reviewer already has this proposal.", { status: 409, field: "reviewerId" });
     const review = await CallReview.findOne({ where: { callId }, transaction });
     if (a.status !== "conflict") await a.destroy({ transaction });
     const created = await ReviewAssignment.create({ callId, proposalId: a.proposalId as number, reviewerId, committedAt: review?.committedAt ? now : null }, { transaction });
@@ -352,7 +353,7 @@ export async function reassign({ actor, callId, assignmentId, reviewerId, now = 
 export async function chairReopenReview({ actor, callId, assignmentId, now = new Date() }: { actor: Chair; callId: number; assignmentId: number; now?: Date }) {
   return sequelize.transaction(async (transaction) => {
     const a = await assignmentOfCall(callId, assignmentId, transaction);
-    if (a.status === "conflict") throw new ProposalRefused("The reviewer declared a conflict on this proposal; reassign it instead.", 409, "assignmentId");
+    if (a.status === "conflict") throw new Refusal("The reviewer declared a conflict on this proposal; reassign it instead.", { status: 409, field: "assignmentId" });
     const until = new Date(now.getTime() + CHAIR_REOPEN_DAYS * 86_400_000);
     const from = a.status;
     await a.update({ reopenedUntil: until, status: a.status === "submitted" ? "draft" : a.status }, { transaction });
@@ -402,7 +403,7 @@ export async function remindReviewer({ actor, callId, reviewerId }: { actor: Cha
     if (!call) callNotFound();
     const reviewer = await User.findByPk(reviewerId, { transaction });
     const items = reviewer ? await outstandingFor({ callId, reviewerId, transaction }) : [];
-    if (!reviewer || items.length === 0) throw new ProposalRefused("This reviewer has no outstanding review in this call.", 409, "reviewerId");
+    if (!reviewer || items.length === 0) throw new Refusal("This reviewer has no outstanding review in this call.", { status: 409, field: "reviewerId" });
     const review = await CallReview.findOne({ where: { callId }, transaction });
     await enqueueMail({ to: reviewer.email, ...reminderMail({ reviewer, call, deadline: review?.reviewDeadlineAt ?? null, items: items.map((a) => ({ code: a.proposal?.code ?? null, title: a.proposal?.title ?? "" })) }) }, transaction);
     await writeAudit({ actorId: actor.id, action: "review.reminder_sent", entityType: "user", entityId: reviewerId, details: { callId, outstanding: items.length, by: "chair" } }, transaction);

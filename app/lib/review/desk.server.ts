@@ -1,13 +1,14 @@
 // The reviewer's side: their assignments, the read-only proposal, the grade, conflicts. A
 // reviewer sees a proposal only through a committed assignment of theirs that is not conflicted
 // (declared or found by the rules now); for anything else the proposal does not exist (404).
+import { Refusal } from "~/lib/forms";
 import { Op, type Transaction } from "sequelize";
 import { requireRole, requireUser, type SessionUser } from "~/lib/auth.server";
 import { writeAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
 import { enqueueMail } from "~/lib/mail-queue.server";
 import { plainMail } from "~/lib/mail-templates.server";
-import { notFound, ProposalRefused } from "~/lib/proposals.server";
+import { notFound } from "~/lib/proposals.server";
 import type { GradeValues } from "~/lib/schemas/review";
 import { Call, CallReview, Proposal, ReviewAssignment, ReviewerProfile, sequelize } from "~/models/index.server";
 import { chairsOf, reviewDeadlineText } from "./chair.server";
@@ -147,8 +148,8 @@ export async function reviewForProposal({ user, proposalId, now = new Date() }: 
 
 function assertOpen(review: CallReview | null, a: ReviewAssignment, now: Date) {
   const until = editableUntil(review, a);
-  if (!until) throw new ProposalRefused("The chair has not set the review deadline yet.", 409, "form");
-  if (now >= until) throw new ProposalRefused(`The review deadline passed on ${reviewDeadlineText(until)}; only the chair can reopen this review.`, 400, "form");
+  if (!until) throw new Refusal("The chair has not set the review deadline yet.", { status: 409, field: "form" });
+  if (now >= until) throw new Refusal(`The review deadline passed on ${reviewDeadlineText(until)}; only the chair can reopen this review.`, { status: 400, field: "form" });
 }
 
 /** Saves the grade as a draft, or submits it (the schema has checked the values). */
@@ -191,7 +192,7 @@ export async function reopenMyReview({ user, assignmentId, now = new Date() }: {
   return sequelize.transaction(async (transaction) => {
     const { assignment: a, review } = await myAssignment({ user, assignmentId, transaction, lock: true });
     assertOpen(review, a, now);
-    if (a.status !== "submitted") throw new ProposalRefused("Only a submitted review can be reopened.", 409, "form");
+    if (a.status !== "submitted") throw new Refusal("Only a submitted review can be reopened.", { status: 409, field: "form" });
     await a.update({ status: "draft" }, { transaction });
     await writeAudit({ actorId: user.id, action: "review.reopened", entityType: "review_assignment", entityId: a.id, proposalId: a.proposalId as number, details: {} }, transaction);
   });

@@ -2,9 +2,10 @@
 // rates every comment to the PI from 1 to 5, one rating per member and review, changeable. The
 // rater is never shown: the reviewer sees nothing, the chair sees per reviewer only the mean and
 // how many ratings there are. No audit entry names the rater for the same reason.
+import { Refusal } from "~/lib/forms";
 import { Op } from "sequelize";
 import { anonymisedOrder } from "~/lib/decisions/anonymise";
-import { getProposalForUser, ProposalRefused, type Actor } from "~/lib/proposals.server";
+import { getProposalForUser, type Actor } from "~/lib/proposals.server";
 import { DecisionLetter, ReviewAssignment, ReviewHelpfulness, sequelize } from "~/models/index.server";
 import { HELPFULNESS_MAX, HELPFULNESS_MIN } from "./vocabulary";
 
@@ -29,10 +30,10 @@ export async function myHelpfulness({ user, proposalId }: { user: Actor; proposa
 export async function rateComment({ user, proposalId, assignmentId, rating }: { user: Actor; proposalId: number; assignmentId: number; rating: number }) {
   return sequelize.transaction(async (transaction) => {
     await getProposalForUser({ proposalId, user, transaction }); // anyone off the team: 404
-    if (!(await DecisionLetter.count({ where: { proposalId }, transaction }))) throw new ProposalRefused("Comments can be rated once the decision has been sent.", 409, "rating");
-    if (!Number.isInteger(rating) || rating < HELPFULNESS_MIN || rating > HELPFULNESS_MAX) throw new ProposalRefused(`Rate from ${HELPFULNESS_MIN} (not helpful) to ${HELPFULNESS_MAX} (very helpful).`, 400, "rating");
+    if (!(await DecisionLetter.count({ where: { proposalId }, transaction }))) throw new Refusal("Comments can be rated once the decision has been sent.", { status: 409, field: "rating" });
+    if (!Number.isInteger(rating) || rating < HELPFULNESS_MIN || rating > HELPFULNESS_MAX) throw new Refusal(`Rate from ${HELPFULNESS_MIN} (not helpful) to ${HELPFULNESS_MAX} (very helpful).`, { status: 400, field: "rating" });
     const review = await ReviewAssignment.findOne({ where: { id: assignmentId, proposalId, status: "submitted", commentToPi: { [Op.ne]: null } }, attributes: ["id", "commentToPi"], transaction });
-    if (!review || (review.commentToPi ?? "").trim() === "") throw new ProposalRefused("There is no such comment on this proposal.", 400, "assignmentId");
+    if (!review || (review.commentToPi ?? "").trim() === "") throw new Refusal("There is no such comment on this proposal.", { status: 400, field: "assignmentId" });
     const [row, created] = await ReviewHelpfulness.findOrCreate({ where: { assignmentId, raterId: user.id }, defaults: { assignmentId, raterId: user.id, rating }, transaction });
     if (!created) await row.update({ rating }, { transaction });
     return { rating };
