@@ -564,8 +564,17 @@ describe("calls", () => {
     const now = Date.now();
     const local = (ms: number) => new Date(ms).toISOString().slice(0, 16);
     // Open now (deadline in ten days) and announced (opens in a month); a closed one is not shown.
-    const openCode = `${2300 + ((Number(code.slice(0, 4)) - 2300 + 150) % 600)}A`;
-    const soonCode = `${2300 + ((Number(code.slice(0, 4)) - 2300 + 150) % 600)}B`;
+    // semesters no other call holds (other files' calls take random semesters too)
+    const taken = new Set((await Call.findAll({ attributes: ["semesterCode"] })).map((c) => c.semesterCode));
+    const free = (half: "A" | "B", from: number) => {
+      for (let k = 0; k < 600; k++) {
+        const candidate = `${2300 + ((from - 2300 + k) % 600)}${half}`;
+        if (!taken.has(candidate)) return (taken.add(candidate), candidate);
+      }
+      throw new Error("no free semester");
+    };
+    const openCode = free("A", Number(code.slice(0, 4)) + 150);
+    const soonCode = free("B", Number(code.slice(0, 4)) + 150);
     const openCall = await Call.create({
       semesterCode: openCode, title: `Open call ${openCode}`, opensAt: new Date(now - 86_400_000), deadlineAt: new Date(now + 10 * 86_400_000),
       semesterStart: local(now + 40 * 86_400_000).slice(0, 10), semesterEnd: local(now + 220 * 86_400_000).slice(0, 10), pageLimit: 3,
@@ -575,7 +584,7 @@ describe("calls", () => {
       semesterCode: soonCode, title: `Announced call ${soonCode}`, opensAt: new Date(now + 30 * 86_400_000), deadlineAt: new Date(now + 90 * 86_400_000),
       semesterStart: local(now + 120 * 86_400_000).slice(0, 10), semesterEnd: local(now + 300 * 86_400_000).slice(0, 10), pageLimit: 5,
     });
-    const closedCode = `${2300 + ((Number(code.slice(0, 4)) - 2300 + 450) % 600)}A`;
+    const closedCode = free("A", Number(code.slice(0, 4)) + 450);
     createdCalls.push(openCode, soonCode, closedCode);
     await Call.create({
       semesterCode: closedCode, title: `Closed call ${closedCode}`, opensAt: new Date(now - 60 * 86_400_000), deadlineAt: new Date(now - 86_400_000),
