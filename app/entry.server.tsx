@@ -7,7 +7,7 @@ import { env } from "./lib/env.server";
 import { databaseFailed, NONCE_HEADER } from "./lib/http/request-state";
 import { isDatabaseUnavailable, RETRY_AFTER_SECONDS } from "./lib/http/service-errors";
 import { startHousekeeping } from "./lib/housekeeping.server";
-import { startMailWorker } from "./lib/mail-queue.server";
+import { startMailWorker } from "./lib/mail/queue.server";
 import { startReminderWorker } from "./lib/review/reminders.server";
 
 export const streamTimeout = 5_000;

@@ -1,5 +1,5 @@
 import type { UseFormRegisterReturn } from "react-hook-form";
-import { ABSTRACT_WORD_LIMIT, wordCount } from "~/lib/proposal-vocabulary";
+import { ABSTRACT_WORD_LIMIT, wordCount } from "~/lib/proposals/vocabulary";
 
 /** The abstract with its word count shown as the user types (the limit is checked again on the server). */
 export function AbstractField({ value, error, registration, disabled }: { value: string; error?: string; registration: UseFormRegisterReturn; disabled?: boolean }) {

@@ -1,12 +1,12 @@
 // Pieces of the feasibility sheet that other screens reuse (the observations tab shows the
-// problems and totals live). Only types come from ~/lib/feasibility: nothing server-side here.
+// problems and totals live). Only types come from ~/lib/proposals/feasibility: nothing server-side here.
 //
 // Live use (agreed with the workspace's observations tab): `useLiveFeasibility(proposalId, key)`
 // loads GET /api/v1/proposals/:id, whose JSON carries the sheet as `feasibilitySheet`, and loads it
 // again whenever `key` changes (e.g. the observation's saved version), without a page reload.
 import { useEffect } from "react";
 import { useFetcher } from "react-router";
-import type { FeasibilitySheet, Problem } from "~/lib/feasibility";
+import type { FeasibilitySheet, Problem } from "~/lib/proposals/feasibility";
 
 export const moonColours = { dark: "#13213a", grey: "#7c8aa0", bright: "#e8a849" } as const;
 

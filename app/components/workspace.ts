@@ -1,5 +1,5 @@
 import { useRouteLoaderData } from "react-router";
-import type { WorkspaceHeader } from "~/lib/proposals.server";
+import type { WorkspaceHeader } from "~/lib/proposals/proposals.server";
 
 /** The workspace layout's data (proposal header, role, editability), for the tabs below it. */
 export function useWorkspace(): WorkspaceHeader {

@@ -3,7 +3,7 @@
 // rate window. Run now and then from the server process, never on a request.
 import { Op } from "sequelize";
 import { SignInRequest } from "~/models/index.server";
-import { pruneSessions } from "./session.server";
+import { pruneSessions } from "./auth/session.server";
 
 const EVERY_MS = 60 * 60_000;
 /** Sign-in requests are counted over 15 minutes; a day of them is kept for the audit trail of abuse. */

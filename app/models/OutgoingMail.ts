@@ -16,7 +16,7 @@ export class OutgoingMail extends Model<InferAttributes<OutgoingMail>, InferCrea
   declare textBody: string;
   declare htmlBody: string | null;
   declare attachments: MailAttachment[] | null;
-  /** A renderer the worker runs when it sends (`app/lib/mail-renderers.server.ts`); null: send as stored. */
+  /** A renderer the worker runs when it sends (`app/lib/mail/renderers.server.ts`); null: send as stored. */
   declare kind: CreationOptional<MailKind | null>;
   declare payload: CreationOptional<Record<string, unknown> | null>;
   declare status: CreationOptional<"pending" | "sent" | "failed">;

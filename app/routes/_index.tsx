@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { getSessionUser } from "~/lib/auth.server";
+import { getSessionUser } from "~/lib/auth/auth.server";
 import { Call } from "~/models/index.server";
 import { Op } from "sequelize";
 import type { Route } from "./+types/_index";

@@ -1,6 +1,6 @@
 import { Form, Link, NavLink, Outlet, useMatches, useRouteLoaderData } from "react-router";
 import { ErrorPage } from "~/components/ErrorPage";
-import { getSessionUser, type SessionUser } from "~/lib/auth.server";
+import { getSessionUser, type SessionUser } from "~/lib/auth/auth.server";
 import { visibleNavItems } from "~/lib/nav";
 import type { Route } from "./+types/_shell";
 

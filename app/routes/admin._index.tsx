@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { Call, Charge, Telescope, User } from "~/models/index.server";
 import type { Route } from "./+types/admin._index";
 

@@ -3,15 +3,15 @@ import { data, Form, Link, useActionData, useNavigation } from "react-router";
 import { Breadcrumbs } from "~/components/office/Breadcrumbs";
 import { BatchProgressBar } from "~/components/decisions/BatchProgressBar";
 import { TemplateEditor } from "~/components/decisions/TemplateEditor";
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { callDecisions, saveTemplate } from "~/lib/decisions/decisions.server";
 import { templatesFor } from "~/lib/decisions/facts.server";
 import { resendLetter, sendDecisions } from "~/lib/decisions/send.server";
 import { money } from "~/lib/decisions/template";
 import { decisionOutcomes, outcomeLabels } from "~/lib/decisions/vocabulary";
 import { fieldErrors, readForm } from "~/lib/forms";
-import { idParam } from "~/lib/office-forms.server";
-import { formValues, refusalResponse } from "~/lib/proposal-routes.server";
+import { idParam } from "~/lib/office/forms.server";
+import { formValues, refusalResponse } from "~/lib/proposals/routes.server";
 import { decisionsIntent } from "~/lib/schemas/decisions";
 import type { Route } from "./+types/admin.calls.$callId.decisions";
 

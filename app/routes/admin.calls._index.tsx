@@ -1,8 +1,8 @@
 import { Link, useSearchParams } from "react-router";
 import { Breadcrumbs } from "~/components/office/Breadcrumbs";
 import { Saved } from "~/components/office/fields";
-import { requireRole } from "~/lib/auth.server";
-import { listCalls, observatoryTimeZone } from "~/lib/office.server";
+import { requireRole } from "~/lib/auth/auth.server";
+import { listCalls, observatoryTimeZone } from "~/lib/office/office.server";
 import { formatInZone, formatUtc } from "~/lib/zoned-time";
 import type { Route } from "./+types/admin.calls._index";
 

@@ -1,9 +1,9 @@
 import { data } from "react-router";
 import { OfficeCharges } from "~/components/payments/OfficeCharges";
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { fieldErrors, readForm } from "~/lib/forms";
 import { allCharges, waiveCharge } from "~/lib/payments/office.server";
-import { formValues, refusalResponse } from "~/lib/proposal-routes.server";
+import { formValues, refusalResponse } from "~/lib/proposals/routes.server";
 import { adminChargesIntent } from "~/lib/schemas/charges";
 import type { Route } from "./+types/admin.charges";
 

@@ -1,5 +1,5 @@
 import { csvResponse } from "~/lib/allocation/download.server";
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { chargesCsv } from "~/lib/payments/office.server";
 import type { Route } from "./+types/admin.charges[.csv]";
 

@@ -9,8 +9,8 @@ import { lostCauses } from "~/lib/domain";
 import { astrometryProgrammes, epochProgress, recordEpoch, requireEpochOffice, telescopeChoices } from "~/lib/epochs/epochs.server";
 import { epochFormSchema, formFieldOf, OBSERVED_AT_HINT } from "~/lib/epochs/schema";
 import { plainIssue, readForm, Refusal } from "~/lib/forms";
-import { formValues, proposalIdParam } from "~/lib/proposal-routes.server";
-import { notFound } from "~/lib/proposals.server";
+import { formValues, proposalIdParam } from "~/lib/proposals/routes.server";
+import { notFound } from "~/lib/proposals/proposals.server";
 import type { Route } from "./+types/admin.epochs.$proposalId";
 
 export function meta() {

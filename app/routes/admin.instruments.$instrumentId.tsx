@@ -4,10 +4,10 @@ import { DeleteButton } from "~/components/office/DeleteButton";
 import { resultFor, Saved } from "~/components/office/fields";
 import { filterColumns, FilterRow } from "~/components/office/FilterRows";
 import { InstrumentForm } from "~/components/office/InstrumentForm";
-import { requireRole } from "~/lib/auth.server";
-import { createFilter, deleteFilter, deleteInstrument, getInstrument, updateFilter, updateInstrument } from "~/lib/office.server";
+import { requireRole } from "~/lib/auth/auth.server";
+import { createFilter, deleteFilter, deleteInstrument, getInstrument, updateFilter, updateInstrument } from "~/lib/office/office.server";
 import { idSchema, readForm } from "~/lib/forms";
-import { attempt, formValues, handle, idParam, orNotFound, refused, unknownIntent } from "~/lib/office-forms.server";
+import { attempt, formValues, handle, idParam, orNotFound, refused, unknownIntent } from "~/lib/office/forms.server";
 import { filterSchema, instrumentSchema } from "~/lib/schemas/office";
 import type { Route } from "./+types/admin.instruments.$instrumentId";
 

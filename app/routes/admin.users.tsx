@@ -10,10 +10,10 @@ import {
 import { SortableTable } from "~/components/SortableTable";
 import { useMemo, useState } from "react";
 import { data, useFetcher } from "react-router";
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { fieldErrors, readForm } from "~/lib/forms";
 import { adminUserActionSchema } from "~/lib/schemas/roles";
-import { changeRole, listUsersWithRoles, RoleChangeRefused, signOutEverywhere } from "~/lib/users.server";
+import { changeRole, listUsersWithRoles, RoleChangeRefused, signOutEverywhere } from "~/lib/auth/users.server";
 import { grantableRoles, type GrantableRole } from "~/lib/domain";
 import type { Route } from "./+types/admin.users";
 

@@ -1,5 +1,5 @@
 import { data } from "react-router";
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { allCharges } from "~/lib/payments/office.server";
 import { methodNotAllowed } from "~/lib/review/api.server";
 import type { Route } from "./+types/api.v1.admin.charges";

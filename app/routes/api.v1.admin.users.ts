@@ -1,8 +1,8 @@
 import { data } from "react-router";
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { apiIssues } from "~/lib/forms";
 import { adminUserActionSchema } from "~/lib/schemas/roles";
-import { changeRole, listUsersWithRoles, RoleChangeRefused, signOutEverywhere } from "~/lib/users.server";
+import { changeRole, listUsersWithRoles, RoleChangeRefused, signOutEverywhere } from "~/lib/auth/users.server";
 import type { Route } from "./+types/api.v1.admin.users";
 
 export async function loader({ request }: Route.LoaderArgs) {

@@ -1,5 +1,5 @@
 import { lockAllocation } from "~/lib/allocation/allocate.server";
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
 import type { Route } from "./+types/api.v1.calls.$callId.allocation.lock";
 

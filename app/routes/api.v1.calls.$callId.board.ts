@@ -1,6 +1,6 @@
 import { callBoard } from "~/lib/allocation/board.server";
 import { boardUncertainty } from "~/lib/allocation/board-uncertainty";
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { apiId, json, methodNotAllowed } from "~/lib/review/api.server";
 import type { Route } from "./+types/api.v1.calls.$callId.board";
 

@@ -1,4 +1,4 @@
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { sendDecisions } from "~/lib/decisions/send.server";
 import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
 import { sendBodySchema } from "~/lib/schemas/decisions";

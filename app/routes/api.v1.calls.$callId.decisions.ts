@@ -1,4 +1,4 @@
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { callDecisions } from "~/lib/decisions/decisions.server";
 import { notLockedRefusal } from "~/lib/decisions/facts.server";
 import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/review/api.server";

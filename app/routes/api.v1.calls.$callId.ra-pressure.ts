@@ -1,6 +1,6 @@
 import { data } from "react-router";
 import { callRaPressure } from "~/lib/allocation/ra-pressure.server";
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { apiId, json, methodNotAllowed } from "~/lib/review/api.server";
 import type { Route } from "./+types/api.v1.calls.$callId.ra-pressure";
 

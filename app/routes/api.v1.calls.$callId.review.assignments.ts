@@ -1,4 +1,4 @@
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
 import { replaceAssignments, reviewState } from "~/lib/review/chair.server";
 import { assignmentsSchema } from "~/lib/schemas/review";

@@ -1,4 +1,4 @@
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
 import { suggestForCall } from "~/lib/review/chair.server";
 import { suggestSchema } from "~/lib/schemas/review";

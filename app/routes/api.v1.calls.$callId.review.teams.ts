@@ -1,4 +1,4 @@
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { revealTeams, teamRevealState } from "~/lib/review/anonymity.server";
 import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
 import type { Route } from "./+types/api.v1.calls.$callId.review.teams";

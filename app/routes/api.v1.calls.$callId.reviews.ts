@@ -1,4 +1,4 @@
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { apiId, json, methodNotAllowed } from "~/lib/review/api.server";
 import { submittedReviews } from "~/lib/review/chair.server";
 import type { Route } from "./+types/api.v1.calls.$callId.reviews";

@@ -1,5 +1,5 @@
 import { data } from "react-router";
-import { requireUser } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth/auth.server";
 import { emptyJsonBody, refusalJson } from "~/lib/payments/api.server";
 import { chargeOfPi, startCheckout } from "~/lib/payments/checkout.server";
 import { apiId, methodNotAllowed } from "~/lib/review/api.server";

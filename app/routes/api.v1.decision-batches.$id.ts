@@ -1,4 +1,4 @@
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { batchProgress } from "~/lib/decisions/send.server";
 import { apiId, json, methodNotAllowed } from "~/lib/review/api.server";
 import type { Route } from "./+types/api.v1.decision-batches.$id";

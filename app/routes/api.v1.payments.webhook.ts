@@ -1,6 +1,6 @@
 import { data } from "react-router";
 import { applyPaymentEvent } from "~/lib/payments/checkout.server";
-import { recordPaymentEvent, verifyWebhook, WebhookMalformed, WebhookRejected } from "~/lib/payments.server";
+import { recordPaymentEvent, verifyWebhook, WebhookMalformed, WebhookRejected } from "~/lib/payments/payments.server";
 import type { Route } from "./+types/api.v1.payments.webhook";
 
 // Signed by the payment service, not by a user session: the signature is the guard.

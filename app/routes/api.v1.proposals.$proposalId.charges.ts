@@ -1,5 +1,5 @@
 import { data } from "react-router";
-import { requireUser } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth/auth.server";
 import { chargesForTeam } from "~/lib/payments/team.server";
 import { apiId, methodNotAllowed } from "~/lib/review/api.server";
 import type { Route } from "./+types/api.v1.proposals.$proposalId.charges";

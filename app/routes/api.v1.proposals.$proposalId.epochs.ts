@@ -1,4 +1,4 @@
-import { requireUser } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth/auth.server";
 import { epochProgress, epochReadAccess, recordEpoch, requireEpochOffice } from "~/lib/epochs/epochs.server";
 import { epochRecordSchema } from "~/lib/epochs/schema";
 import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";

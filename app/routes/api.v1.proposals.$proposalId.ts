@@ -1,10 +1,10 @@
 import { data } from "react-router";
-import { requireUser } from "~/lib/auth.server";
-import { computeFeasibilitySheet } from "~/lib/feasibility.server";
-import { observationRows } from "~/lib/proposal-observations.server";
-import { targetRows } from "~/lib/proposal-targets.server";
-import { teamRows } from "~/lib/proposal-team.server";
-import { getProposalForUser, membershipWhere, overviewValues, workspaceHeader } from "~/lib/proposals.server";
+import { requireUser } from "~/lib/auth/auth.server";
+import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
+import { observationRows } from "~/lib/proposals/observations.server";
+import { targetRows } from "~/lib/proposals/targets.server";
+import { teamRows } from "~/lib/proposals/team.server";
+import { getProposalForUser, membershipWhere, overviewValues, workspaceHeader } from "~/lib/proposals/proposals.server";
 import { committeeAccess, committeeReading } from "~/lib/review/read.server";
 import { ProposalMember } from "~/models/index.server";
 import type { Route } from "./+types/api.v1.proposals.$proposalId";

@@ -1,7 +1,7 @@
 import { data } from "react-router";
-import { requireUser } from "~/lib/auth.server";
-import { withRequestedHours } from "~/lib/proposal-hours.server";
-import { listProposalsForUser } from "~/lib/proposals.server";
+import { requireUser } from "~/lib/auth/auth.server";
+import { withRequestedHours } from "~/lib/proposals/hours.server";
+import { listProposalsForUser } from "~/lib/proposals/proposals.server";
 import type { Route } from "./+types/api.v1.proposals";
 
 /** GET /api/v1/proposals: the signed-in user's proposals (as PI or Co-I). */

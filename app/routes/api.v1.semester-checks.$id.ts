@@ -1,5 +1,5 @@
 import { semesterCheckById } from "~/lib/allocation/semester-check.server";
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { apiId, json, methodNotAllowed } from "~/lib/review/api.server";
 import type { Route } from "./+types/api.v1.semester-checks.$id";
 

@@ -1,7 +1,7 @@
 import { Link } from "react-router";
 import { Countdown } from "~/components/Countdown";
 import { moonCategories } from "~/lib/domain";
-import { listPublicCalls } from "~/lib/office.server";
+import { listPublicCalls } from "~/lib/office/office.server";
 import { formatInZone, formatUtc } from "~/lib/zoned-time";
 import type { Route } from "./+types/calls._index";
 

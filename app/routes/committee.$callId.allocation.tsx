@@ -1,9 +1,9 @@
 import { data, Link, useActionData, useNavigation } from "react-router";
 import { AllocationSheet } from "~/components/allocation/AllocationSheet";
 import { allocationSheet, saveAllocationSheet } from "~/lib/allocation/sheet.server";
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { fieldErrors } from "~/lib/forms";
-import { refusalResponse } from "~/lib/proposal-routes.server";
+import { refusalResponse } from "~/lib/proposals/routes.server";
 import { pageCallId } from "~/lib/review/chair.server";
 import { allocationSheetSchema } from "~/lib/schemas/allocation";
 import type { Route } from "./+types/committee.$callId.allocation";

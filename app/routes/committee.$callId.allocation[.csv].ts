@@ -1,6 +1,6 @@
 import { allocationCsv } from "~/lib/allocation/exports.server";
 import { csvResponse } from "~/lib/allocation/download.server";
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { pageCallId } from "~/lib/review/chair.server";
 import type { Route } from "./+types/committee.$callId.allocation[.csv]";
 

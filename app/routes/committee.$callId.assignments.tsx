@@ -1,7 +1,7 @@
 import { useMemo, useState } from "react";
 import { data, Link, useRevalidator } from "react-router";
-import { requireRole } from "~/lib/auth.server";
-import { scienceCategoryLabel } from "~/lib/proposal-vocabulary";
+import { requireRole } from "~/lib/auth/auth.server";
+import { scienceCategoryLabel } from "~/lib/proposals/vocabulary";
 import { apiId } from "~/lib/review/api.server";
 import { reviewBoard } from "~/lib/review/chair.server";
 import { helpfulnessByReviewer } from "~/lib/review/helpfulness.server";

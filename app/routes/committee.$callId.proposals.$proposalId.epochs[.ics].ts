@@ -1,7 +1,7 @@
 import { downloadResponse, refusalText } from "~/lib/allocation/download.server";
 import { epochsIcs } from "~/lib/allocation/exports.server";
-import { requireRole } from "~/lib/auth.server";
-import { proposalIdParam } from "~/lib/proposal-routes.server";
+import { requireRole } from "~/lib/auth/auth.server";
+import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { pageCallId } from "~/lib/review/chair.server";
 import type { Route } from "./+types/committee.$callId.proposals.$proposalId.epochs[.ics]";
 

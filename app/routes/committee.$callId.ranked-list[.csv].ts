@@ -1,6 +1,6 @@
 import { csvResponse } from "~/lib/allocation/download.server";
 import { rankedListCsv } from "~/lib/allocation/exports.server";
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { pageCallId } from "~/lib/review/chair.server";
 import type { Route } from "./+types/committee.$callId.ranked-list[.csv]";
 

@@ -1,10 +1,10 @@
 import { Form, Link, useActionData, useNavigation } from "react-router";
 import { Field, inputProps } from "~/components/Field";
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { fieldErrors, readForm } from "~/lib/forms";
-import { observatoryTimeZone } from "~/lib/office.server";
-import { scienceCategoryLabel } from "~/lib/proposal-vocabulary";
-import { formValues, refusalResponse } from "~/lib/proposal-routes.server";
+import { observatoryTimeZone } from "~/lib/office/office.server";
+import { scienceCategoryLabel } from "~/lib/proposals/vocabulary";
+import { formValues, refusalResponse } from "~/lib/proposals/routes.server";
 import { chairReopenReview, pageCallId, reassign, remindReviewer, reviewBoard, saveReviewSetup, startReview } from "~/lib/review/chair.server";
 import { revealTeams, teamRevealState } from "~/lib/review/anonymity.server";
 import { reviewerCandidates } from "~/lib/review/facts.server";

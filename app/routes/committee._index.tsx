@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { reviewCalls } from "~/lib/review/chair.server";
 import { formatUtc } from "~/lib/zoned-time";
 import type { Route } from "./+types/committee._index";

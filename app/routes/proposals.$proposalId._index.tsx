@@ -5,11 +5,11 @@ import { data, Form, useActionData, useNavigation, useRevalidator, useSubmit } f
 import { AbstractField } from "~/components/AbstractField";
 import { Field, inputProps } from "~/components/Field";
 import { utc } from "~/components/workspace";
-import { requireUser } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth/auth.server";
 import { fieldErrors, readForm } from "~/lib/forms";
-import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
-import { scienceCategories, scienceCategoryLabel, upcomingSemesters } from "~/lib/proposal-vocabulary";
-import { getProposalForUser, overviewValues, updateOverview, type OverviewResult, type OverviewValues } from "~/lib/proposals.server";
+import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
+import { scienceCategories, scienceCategoryLabel, upcomingSemesters } from "~/lib/proposals/vocabulary";
+import { getProposalForUser, overviewValues, updateOverview, type OverviewResult, type OverviewValues } from "~/lib/proposals/proposals.server";
 import { overviewSchema } from "~/lib/schemas/proposals";
 import type { Route } from "./+types/proposals.$proposalId._index";
 

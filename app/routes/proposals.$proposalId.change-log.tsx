@@ -1,7 +1,7 @@
 import { utc } from "~/components/workspace";
-import { requireUser } from "~/lib/auth.server";
-import { proposalIdParam } from "~/lib/proposal-routes.server";
-import { proposalHistory, type HistoryEntry } from "~/lib/proposals.server";
+import { requireUser } from "~/lib/auth/auth.server";
+import { proposalIdParam } from "~/lib/proposals/routes.server";
+import { proposalHistory, type HistoryEntry } from "~/lib/proposals/proposals.server";
 import type { Route } from "./+types/proposals.$proposalId.change-log";
 
 export async function loader({ request, params }: Route.LoaderArgs) {

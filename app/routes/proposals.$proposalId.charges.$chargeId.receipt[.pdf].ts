@@ -1,9 +1,9 @@
 import { data } from "react-router";
-import { requireUser } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth/auth.server";
 import { idSchema } from "~/lib/forms";
 import { receiptPdfOfCharge } from "~/lib/payments/receipt.server";
-import { proposalIdParam } from "~/lib/proposal-routes.server";
-import { getProposalForUser } from "~/lib/proposals.server";
+import { proposalIdParam } from "~/lib/proposals/routes.server";
+import { getProposalForUser } from "~/lib/proposals/proposals.server";
 import type { Route } from "./+types/proposals.$proposalId.charges.$chargeId.receipt[.pdf]";
 
 /** The receipt of a paid charge, for the proposal's team (404 for anyone else and unpaid charges). */

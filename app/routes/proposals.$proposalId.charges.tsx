@@ -1,11 +1,11 @@
 import { data, redirect } from "react-router";
 import { ChargesPanel } from "~/components/payments/ChargesPanel";
-import { requireUser } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth/auth.server";
 import { fieldErrors, readForm } from "~/lib/forms";
 import { startCheckout } from "~/lib/payments/checkout.server";
 import { chargesForTeam, declarePages } from "~/lib/payments/team.server";
-import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
-import { getProposalForUser } from "~/lib/proposals.server";
+import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
+import { getProposalForUser } from "~/lib/proposals/proposals.server";
 import { proposalChargesIntent } from "~/lib/schemas/charges";
 import { Charge } from "~/models/index.server";
 import type { Route } from "./+types/proposals.$proposalId.charges";

@@ -1,9 +1,9 @@
 import { data } from "react-router";
-import { requireUser } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth/auth.server";
 import { letterRowForUser } from "~/lib/decisions/decisions.server";
 import { buildLetterPdf } from "~/lib/decisions/letter-pdf.server";
 import { letterFileName } from "~/lib/decisions/render-mail.server";
-import { proposalIdParam } from "~/lib/proposal-routes.server";
+import { proposalIdParam } from "~/lib/proposals/routes.server";
 import type { Route } from "./+types/proposals.$proposalId.decision-letter[.pdf]";
 
 /** The decision letter as a PDF for the PI and Co-Is (404 before it is sent, or for anyone else). */

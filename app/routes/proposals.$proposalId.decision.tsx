@@ -1,12 +1,12 @@
 import { data, useFetcher } from "react-router";
 import { utc } from "~/components/workspace";
-import { requireUser } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth/auth.server";
 import { decisionForUser } from "~/lib/decisions/decisions.server";
 import { chargesText } from "~/lib/decisions/template";
 import { outcomeLabels } from "~/lib/decisions/vocabulary";
 import { fieldErrors, readForm } from "~/lib/forms";
-import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
-import { getProposalForUser } from "~/lib/proposals.server";
+import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
+import { getProposalForUser } from "~/lib/proposals/proposals.server";
 import { myHelpfulness, rateComment } from "~/lib/review/helpfulness.server";
 import { HELPFULNESS_MAX, HELPFULNESS_MIN } from "~/lib/review/vocabulary";
 import { helpfulnessSchema } from "~/lib/schemas/review";

@@ -1,12 +1,12 @@
 import { data, Form, Link, useActionData, useNavigation } from "react-router";
 import { EpochViews, PrecisionSummary } from "~/components/epochs/EpochProgressView";
 import { ErrorPage } from "~/components/ErrorPage";
-import { requireUser } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth/auth.server";
 import { acceptReplan, epochProgress, telescopeChoices } from "~/lib/epochs/epochs.server";
 import { replanAcceptSchema } from "~/lib/epochs/schema";
 import { fieldErrors, readForm } from "~/lib/forms";
-import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
-import { getProposalForUser } from "~/lib/proposals.server";
+import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
+import { getProposalForUser } from "~/lib/proposals/proposals.server";
 import type { Route } from "./+types/proposals.$proposalId.epochs";
 
 export function meta() {

@@ -6,11 +6,11 @@ import { ErrorPage } from "~/components/ErrorPage";
 import { Field, inputProps } from "~/components/Field";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
 import { isIsoDate } from "~/lib/astro/time";
-import { requireUser } from "~/lib/auth.server";
-import type { FeasibilitySheet, ObservationSheet } from "~/lib/feasibility";
-import { altitudeChartFor, feasibilitySheetOf, loadFeasibilityInput } from "~/lib/feasibility.server";
-import { proposalIdParam } from "~/lib/proposal-routes.server";
-import { getProposalForUser } from "~/lib/proposals.server";
+import { requireUser } from "~/lib/auth/auth.server";
+import type { FeasibilitySheet, ObservationSheet } from "~/lib/proposals/feasibility";
+import { altitudeChartFor, feasibilitySheetOf, loadFeasibilityInput } from "~/lib/proposals/feasibility.server";
+import { proposalIdParam } from "~/lib/proposals/routes.server";
+import { getProposalForUser } from "~/lib/proposals/proposals.server";
 import type { Route } from "./+types/proposals.$proposalId.feasibility";
 
 // recharts is a large chunk: the charts load in the browser only, on the pages that draw them

@@ -1,7 +1,7 @@
-import { requireUser } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth/auth.server";
 import { idSchema } from "~/lib/forms";
-import { proposalIdParam } from "~/lib/proposal-routes.server";
-import { getProposalFileForUser } from "~/lib/science-case.server";
+import { proposalIdParam } from "~/lib/proposals/routes.server";
+import { getProposalFileForUser } from "~/lib/proposals/science-case.server";
 import type { Route } from "./+types/proposals.$proposalId.files.$fileId";
 
 /** A stored file of the proposal, for its team only (404 for anyone else and for other proposals' files). */

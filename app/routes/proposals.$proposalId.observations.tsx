@@ -5,13 +5,13 @@ import { data, Link, useActionData, useFetcher } from "react-router";
 import { LiveFeasibilitySummary } from "~/components/FeasibilityParts";
 import { Field, inputProps } from "~/components/Field";
 import { fixed, useWorkspace } from "~/components/workspace";
-import { requireUser } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth/auth.server";
 import { moonCategories } from "~/lib/domain";
 import { fieldErrors, issueLine, parseId, readForm } from "~/lib/forms";
-import { createObservation, deleteObservation, listObservations, updateObservation } from "~/lib/proposal-observations.server";
-import { getProposalForUser } from "~/lib/proposals.server";
-import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
-import { listTargets } from "~/lib/proposal-targets.server";
+import { createObservation, deleteObservation, listObservations, updateObservation } from "~/lib/proposals/observations.server";
+import { getProposalForUser } from "~/lib/proposals/proposals.server";
+import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
+import { listTargets } from "~/lib/proposals/targets.server";
 import { observationSchema } from "~/lib/schemas/proposals";
 import type { Route } from "./+types/proposals.$proposalId.observations";
 

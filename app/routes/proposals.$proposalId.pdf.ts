@@ -1,6 +1,6 @@
-import { requireUser } from "~/lib/auth.server";
-import { proposalIdParam } from "~/lib/proposal-routes.server";
-import { proposalPdfForUser } from "~/lib/proposal-submit.server";
+import { requireUser } from "~/lib/auth/auth.server";
+import { proposalIdParam } from "~/lib/proposals/routes.server";
+import { proposalPdfForUser } from "~/lib/proposals/submit.server";
 import type { Route } from "./+types/proposals.$proposalId.pdf";
 
 export async function loader({ request, params }: Route.LoaderArgs) {

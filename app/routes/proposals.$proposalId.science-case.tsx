@@ -2,13 +2,13 @@ import { useState } from "react";
 import { data, Form, useNavigation } from "react-router";
 import { ErrorPage } from "~/components/ErrorPage";
 import { Field, inputProps } from "~/components/Field";
-import { requireUser } from "~/lib/auth.server";
-import { proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
-import { getProposalForUser } from "~/lib/proposals.server";
+import { requireUser } from "~/lib/auth/auth.server";
+import { proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
+import { getProposalForUser } from "~/lib/proposals/proposals.server";
 import { SelfReferenceWarnings } from "~/components/SelfReferenceWarnings";
 import { selfReferenceCheck } from "~/lib/review/self-reference.server";
-import { SCIENCE_CASE_MAX_BYTES } from "~/lib/science-case";
-import { readLimitedFormData, scienceCaseHistory, storeScienceCase } from "~/lib/science-case.server";
+import { SCIENCE_CASE_MAX_BYTES } from "~/lib/proposals/science-case";
+import { readLimitedFormData, scienceCaseHistory, storeScienceCase } from "~/lib/proposals/science-case.server";
 import type { Route } from "./+types/proposals.$proposalId.science-case";
 
 const MAX_MB = SCIENCE_CASE_MAX_BYTES / (1024 * 1024);

@@ -1,10 +1,10 @@
 // The readiness strip's actions (send, withdraw, reopen, delete), posted from every tab of the
 // workspace. A resource route: the strip's fetcher reads the answer; a GET goes to the summary.
 import { data, redirect } from "react-router";
-import { requireUser } from "~/lib/auth.server";
-import { proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
-import { submitProposal } from "~/lib/proposal-submit.server";
-import { deleteDraft, getProposalForUser, reopenProposal, withdrawProposal } from "~/lib/proposals.server";
+import { requireUser } from "~/lib/auth/auth.server";
+import { proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
+import { submitProposal } from "~/lib/proposals/submit.server";
+import { deleteDraft, getProposalForUser, reopenProposal, withdrawProposal } from "~/lib/proposals/proposals.server";
 import type { Route } from "./+types/proposals.$proposalId.submit";
 import { readForm } from "~/lib/forms";
 

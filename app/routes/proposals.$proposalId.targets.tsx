@@ -5,14 +5,14 @@ import { data, useActionData, useFetcher } from "react-router";
 import { Field, inputProps } from "~/components/Field";
 import { fixed, useWorkspace } from "~/components/workspace";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
-import { requireUser } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth/auth.server";
 import { fieldErrors, issueLine, parseId, readForm } from "~/lib/forms";
-import { getProposalForUser } from "~/lib/proposals.server";
-import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
-import { createTarget, deleteTarget, importTargetsCsv, listTargets } from "~/lib/proposal-targets.server";
-import { updateTarget } from "~/lib/proposal-targets.server";
+import { getProposalForUser } from "~/lib/proposals/proposals.server";
+import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
+import { createTarget, deleteTarget, importTargetsCsv, listTargets } from "~/lib/proposals/targets.server";
+import { updateTarget } from "~/lib/proposals/targets.server";
 import { csvImportSchema, TARGET_BANDS, targetSchema } from "~/lib/schemas/proposals";
-import { CSV_COLUMNS, refusedCsvText } from "~/lib/target-csv";
+import { CSV_COLUMNS, refusedCsvText } from "~/lib/proposals/target-csv";
 import type { Route } from "./+types/proposals.$proposalId.targets";
 
 export async function loader({ request, params }: Route.LoaderArgs) {

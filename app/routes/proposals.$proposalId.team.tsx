@@ -4,12 +4,12 @@ import { useForm } from "react-hook-form";
 import { data, Link, redirect, useActionData, useFetcher } from "react-router";
 import { Field, inputProps } from "~/components/Field";
 import { useWorkspace } from "~/components/workspace";
-import { requireUser } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth/auth.server";
 import { fieldErrors, readForm } from "~/lib/forms";
-import { getProposalForUser } from "~/lib/proposals.server";
-import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
-import { designateReviewer, handOverPi, inviteCoI, listTeam, removeMember } from "~/lib/proposal-team.server";
-import { memberRoleLabels } from "~/lib/proposal-vocabulary";
+import { getProposalForUser } from "~/lib/proposals/proposals.server";
+import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
+import { designateReviewer, handOverPi, inviteCoI, listTeam, removeMember } from "~/lib/proposals/team.server";
+import { memberRoleLabels } from "~/lib/proposals/vocabulary";
 import { inviteSchema, memberSchema } from "~/lib/schemas/proposals";
 import type { Route } from "./+types/proposals.$proposalId.team";
 

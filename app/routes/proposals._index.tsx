@@ -11,11 +11,11 @@ import { useMemo, useState } from "react";
 import { Link } from "react-router";
 import { StatusBadge } from "~/components/StatusBadge";
 import { utc } from "~/components/workspace";
-import { requireUser } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth/auth.server";
 import { proposalStatuses, proposalStatusLabels, type ProposalStatus } from "~/lib/domain";
-import { withRequestedHours } from "~/lib/proposal-hours.server";
-import { memberRoleLabels } from "~/lib/proposal-vocabulary";
-import { listProposalsForUser, openCalls } from "~/lib/proposals.server";
+import { withRequestedHours } from "~/lib/proposals/hours.server";
+import { memberRoleLabels } from "~/lib/proposals/vocabulary";
+import { listProposalsForUser, openCalls } from "~/lib/proposals/proposals.server";
 import type { Route } from "./+types/proposals._index";
 
 export function meta() {

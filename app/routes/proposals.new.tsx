@@ -4,10 +4,10 @@ import { data, Form, Link, redirect, useActionData, useNavigation, useSubmit } f
 import { AbstractField } from "~/components/AbstractField";
 import { Field, inputProps } from "~/components/Field";
 import { utc } from "~/components/workspace";
-import { requireUser } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth/auth.server";
 import { fieldErrors, readForm } from "~/lib/forms";
-import { formValues, refusalResponse } from "~/lib/proposal-routes.server";
-import { createProposal, openCalls } from "~/lib/proposals.server";
+import { formValues, refusalResponse } from "~/lib/proposals/routes.server";
+import { createProposal, openCalls } from "~/lib/proposals/proposals.server";
 import { newProposalSchema } from "~/lib/schemas/proposals";
 import type { Route } from "./+types/proposals.new";
 

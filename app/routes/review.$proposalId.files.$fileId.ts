@@ -1,5 +1,5 @@
-import { requireUser } from "~/lib/auth.server";
-import { proposalIdParam } from "~/lib/proposal-routes.server";
+import { requireUser } from "~/lib/auth/auth.server";
+import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { withoutAuthorship } from "~/lib/review/anonymity.server";
 import { ANONYMOUS_FILENAME, committeeFile } from "~/lib/review/read.server";
 import type { Route } from "./+types/review.$proposalId.files.$fileId";

@@ -1,6 +1,6 @@
-import { requireUser } from "~/lib/auth.server";
-import { buildProposalPdf } from "~/lib/proposal-pdf.server";
-import { proposalIdParam } from "~/lib/proposal-routes.server";
+import { requireUser } from "~/lib/auth/auth.server";
+import { buildProposalPdf } from "~/lib/proposals/pdf.server";
+import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { committeeAccess } from "~/lib/review/read.server";
 import type { Route } from "./+types/review.$proposalId.pdf";
 

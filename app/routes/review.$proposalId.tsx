@@ -4,10 +4,10 @@ import { data, Form, Link, redirect, useActionData, useNavigation, useSubmit } f
 import { ProblemsList, TotalsTable } from "~/components/FeasibilityParts";
 import { Field } from "~/components/Field";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
-import { requireUser } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth/auth.server";
 import { fieldErrors, readForm } from "~/lib/forms";
-import { memberRoleLabels, scienceCategoryLabel, wordCount } from "~/lib/proposal-vocabulary";
-import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposal-routes.server";
+import { memberRoleLabels, scienceCategoryLabel, wordCount } from "~/lib/proposals/vocabulary";
+import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
 import { reviewBoard } from "~/lib/review/chair.server";
 import { declareConflict, reopenMyReview, reviewForProposal, saveGrade } from "~/lib/review/desk.server";
 import { committeeAccess, committeeReading } from "~/lib/review/read.server";

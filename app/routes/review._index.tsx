@@ -3,7 +3,7 @@ import { useEffect, useState } from "react";
 import { Link } from "react-router";
 import { Countdown } from "~/components/Countdown";
 import { SortableTable } from "~/components/SortableTable";
-import { scienceCategoryLabel } from "~/lib/proposal-vocabulary";
+import { scienceCategoryLabel } from "~/lib/proposals/vocabulary";
 import { listMyAssignments, type DeskRow, requireDeskUser } from "~/lib/review/desk.server";
 import { reviewStatusLabels } from "~/lib/review/vocabulary";
 import { formatUtc } from "~/lib/zoned-time";

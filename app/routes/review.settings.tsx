@@ -1,8 +1,8 @@
 import { data, Form, Link, useActionData, useNavigation } from "react-router";
-import { requireRole } from "~/lib/auth.server";
+import { requireRole } from "~/lib/auth/auth.server";
 import { fieldErrors, readForm } from "~/lib/forms";
-import { scienceCategories } from "~/lib/proposal-vocabulary";
-import { formValues } from "~/lib/proposal-routes.server";
+import { scienceCategories } from "~/lib/proposals/vocabulary";
+import { formValues } from "~/lib/proposals/routes.server";
 import { myCategories, saveMyCategories } from "~/lib/review/desk.server";
 import { reviewerCategoriesSchema } from "~/lib/schemas/review";
 import type { Route } from "./+types/review.settings";

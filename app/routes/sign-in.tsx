@@ -2,7 +2,7 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import { useForm } from "react-hook-form";
 import { data, Form, redirect, useActionData, useNavigation, useSubmit } from "react-router";
 import { Field, inputProps } from "~/components/Field";
-import { getSessionUser } from "~/lib/auth.server";
+import { getSessionUser } from "~/lib/auth/auth.server";
 import {
   CODE_LIFETIME_SECONDS,
   pendingCodeFor,
@@ -10,10 +10,10 @@ import {
   safeRedirectTo,
   sendSignInCode,
   verifySignInCode,
-} from "~/lib/sign-in.server";
+} from "~/lib/auth/sign-in.server";
 import { fieldErrors, readForm } from "~/lib/forms";
 import { codeSchema, emailSchema } from "~/lib/schemas/auth";
-import { getSession, sessionStorage } from "~/lib/session.server";
+import { getSession, sessionStorage } from "~/lib/auth/session.server";
 import type { Route } from "./+types/sign-in";
 
 export function meta() {

@@ -1,5 +1,5 @@
 import { redirect } from "react-router";
-import { signOut } from "~/lib/auth.server";
+import { signOut } from "~/lib/auth/auth.server";
 import type { Route } from "./+types/sign-out";
 
 export async function action({ request }: Route.ActionArgs) {

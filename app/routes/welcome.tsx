@@ -3,7 +3,7 @@ import { useForm } from "react-hook-form";
 import { data, Form, redirect, useActionData, useSubmit } from "react-router";
 import { Field, inputProps } from "~/components/Field";
 import { writeAudit } from "~/lib/audit.server";
-import { requireUser, safeRedirectTo } from "~/lib/auth.server";
+import { requireUser, safeRedirectTo } from "~/lib/auth/auth.server";
 import { fieldErrors, readForm } from "~/lib/forms";
 import { profileSchema } from "~/lib/schemas/auth";
 import { User } from "~/models/index.server";

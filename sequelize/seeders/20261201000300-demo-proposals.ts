@@ -25,7 +25,7 @@ import { prepareSiteNights, targetNights, limitAltitude } from "~/lib/astro/visi
 import { semesterOf } from "~/lib/astro/astrometry";
 import { Call, CallOffer, Filter, Instrument, Observation, PlannedEpoch, Proposal, ProposalMember, StoredFile, Telescope, Target, User, AuditEntry } from "~/models/index.server";
 import type { MoonCategory } from "~/lib/domain";
-import { proposalCode, upcomingSemesters } from "~/lib/proposal-vocabulary";
+import { proposalCode, upcomingSemesters } from "~/lib/proposals/vocabulary";
 import { demoCallPlan } from "./20261201000100-demo-observatory";
 import { surveyFields } from "../demo-survey";
 

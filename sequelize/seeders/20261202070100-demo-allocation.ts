@@ -4,7 +4,7 @@
 // semesters show on the call in review as hours already committed.
 // Idempotent: months already set and a call already locked are left alone.
 import { Op, type Sequelize } from "sequelize";
-import { computeFeasibilitySheet } from "~/lib/feasibility.server";
+import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
 import { Allocation, BoardEntry, Call, CallAllocation, Proposal, Telescope, TelescopeClearFraction, User } from "~/models/index.server";
 import { demoCallPlan } from "./20261201000100-demo-observatory";
 

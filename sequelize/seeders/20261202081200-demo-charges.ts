@@ -6,7 +6,7 @@
 // Idempotent: a charge that is no longer "raised", or already had a payment page, is left alone.
 import { Op, type Sequelize } from "sequelize";
 import { writeAudit } from "~/lib/audit.server";
-import { enqueueMail } from "~/lib/mail-queue.server";
+import { enqueueMail } from "~/lib/mail/queue.server";
 import { raiseAccessFee } from "~/lib/payments/charges.server";
 import { chargeReceiptMail, receiptPayloadOf } from "~/lib/payments/receipt.server";
 import { Call, CallAllocation, type Charge, Proposal } from "~/models/index.server";

@@ -16,7 +16,7 @@ import type { MoonCategory } from "~/lib/domain";
 import { pairKey } from "~/lib/review/conflicts";
 import { callFacts } from "~/lib/review/facts.server";
 import { suggestAssignments } from "~/lib/review/suggest";
-import { proposalCode, upcomingSemesters } from "~/lib/proposal-vocabulary";
+import { proposalCode, upcomingSemesters } from "~/lib/proposals/vocabulary";
 import { AuditEntry, Call, CallOffer, CallReview, Filter, Instrument, Observation, Proposal, ProposalMember, ReviewAssignment, ReviewPanelMember, StoredFile, Target, Telescope, User } from "~/models/index.server";
 import { consortium, demoCallPlan } from "./20261201000100-demo-observatory";
 import { scienceCasePdf } from "./20261201000300-demo-proposals";

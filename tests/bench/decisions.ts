@@ -13,7 +13,7 @@ export async function runDecisionsBench(): Promise<string[]> {
     const { Call, Charge, DecisionBatch, DecisionLetter, OutgoingMail, Proposal, User } = await import("../../app/models/index.server");
     const { demoCallPlan } = await import("../../sequelize/seeders/20261201000100-demo-observatory");
     const { sendDecisions, batchProgress } = await import("../../app/lib/decisions/send.server");
-    const { drainMailQueue, enqueueMail } = await import("../../app/lib/mail-queue.server");
+    const { drainMailQueue, enqueueMail } = await import("../../app/lib/mail/queue.server");
 
     const call = (await Call.findOne({ where: { semesterCode: demoCallPlan(new Date()).running.semesterCode } }))!;
     const admin = (await User.findOne({ where: { email: "admin@kestrel-ridge.example" } }))!;

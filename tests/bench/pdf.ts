@@ -12,10 +12,10 @@ export async function runPdfBench(): Promise<string[]> {
   const lines: string[] = [];
   try {
     const { Observation, Target, User } = await import("../../app/models/index.server");
-    const { instrumentOptions } = await import("../../app/lib/proposal-observations.server");
+    const { instrumentOptions } = await import("../../app/lib/proposals/observations.server");
     const { observationSchema, targetSchema } = await import("../../app/lib/schemas/proposals");
-    const { buildProposalPdf } = await import("../../app/lib/proposal-pdf.server");
-    const { submitProposal } = await import("../../app/lib/proposal-submit.server");
+    const { buildProposalPdf } = await import("../../app/lib/proposals/pdf.server");
+    const { submitProposal } = await import("../../app/lib/proposals/submit.server");
     const { readyProposal, testCall } = await import("../integration/proposals-fixtures");
 
     const user = await User.create({ email: `bench-${Date.now()}@bench.example`, name: "Bench PI", institution: "Bench Institute", lastSignInAt: null });

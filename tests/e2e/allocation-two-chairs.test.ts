@@ -2,7 +2,7 @@
 // page saves its whole sheet, so a save from a page read before someone else's save is refused
 // with the message above the sheet, the typed hours kept and the other chair's hours in place.
 import { describe, expect, it } from "vitest";
-import { computeFeasibilitySheet } from "~/lib/feasibility.server";
+import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
 import { Allocation, Proposal, ReviewAssignment, Telescope } from "~/models/index.server";
 import { request } from "../helpers/app";
 import { screenshot, watchConsole } from "../helpers/browser";

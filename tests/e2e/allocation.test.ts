@@ -1,7 +1,7 @@
 // The allocation page in Chromium: the running totals and warnings follow what the chair types,
 // a tier is required for hours (message by the field, typed hours kept), and a save survives a reload.
 import { describe, expect, it } from "vitest";
-import { computeFeasibilitySheet } from "~/lib/feasibility.server";
+import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
 import { Allocation, BoardEntry, Proposal, ReviewAssignment, Telescope } from "~/models/index.server";
 import { screenshot, watchConsole } from "../helpers/browser";
 import { appInBrowser } from "../helpers/browser-suite";

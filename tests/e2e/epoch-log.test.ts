@@ -3,7 +3,7 @@
 // precision so far tighten. Screenshots in tests/screenshots/epoch-log-*.png.
 import { describe, expect, it } from "vitest";
 import { owedBeforeCall, recordEpoch } from "~/lib/epochs/epochs.server";
-import { createObservation } from "~/lib/proposal-observations.server";
+import { createObservation } from "~/lib/proposals/observations.server";
 import { observationSchema } from "~/lib/schemas/proposals";
 import { getSessionUserFor } from "../helpers/epoch-user";
 import { Call, Instrument, Observation, PlannedEpoch, Proposal, ProposalMember, Telescope } from "~/models/index.server";

@@ -2,7 +2,7 @@
 // telescope offered, with its clear fractions, and switching telescope changes what is shown
 // (heading, requested total from the proposals' feasibility sheets, clear fractions, requested bars).
 import { afterAll, describe, expect, it } from "vitest";
-import { computeFeasibilitySheet } from "~/lib/feasibility.server";
+import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
 import { Call, Proposal, Telescope, TelescopeClearFraction } from "~/models/index.server";
 import { demoCallPlan } from "../../sequelize/seeders/20261201000100-demo-observatory";
 import { screenshot, screenshotDir, watchConsole } from "../helpers/browser";

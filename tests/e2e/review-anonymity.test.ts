@@ -2,7 +2,7 @@
 // on the ranking board and reveals the teams once every grade is in; the board then shows it.
 // The PI of an open dual-anonymous call sees the warnings on the science-case tab.
 import { describe, expect, it } from "vitest";
-import { storeScienceCase } from "~/lib/science-case.server";
+import { storeScienceCase } from "~/lib/proposals/science-case.server";
 import { Call, CallReview, Proposal, ReviewAssignment, ReviewPanelMember, User } from "~/models/index.server";
 import { screenshot, watchConsole } from "../helpers/browser";
 import { appInBrowser } from "../helpers/browser-suite";

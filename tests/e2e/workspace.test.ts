@@ -5,7 +5,7 @@
 import { describe, expect, it } from "vitest";
 import type { BrowserContext, Page } from "playwright-core";
 import { OutgoingMail, Proposal, User } from "~/models/index.server";
-import { createProposal } from "~/lib/proposals.server";
+import { createProposal } from "~/lib/proposals/proposals.server";
 import { screenshot, watchConsole } from "../helpers/browser";
 import { appInBrowser } from "../helpers/browser-suite";
 import { newUser } from "../helpers/session";

@@ -1,4 +1,4 @@
-import type { SessionUser } from "~/lib/auth.server";
+import type { SessionUser } from "~/lib/auth/auth.server";
 import { RoleGrant, User } from "~/models/index.server";
 
 /** The session user the guards would give this address (for calling data functions directly). */

@@ -1,5 +1,5 @@
-import { claimInvitations } from "~/lib/proposals.server";
-import { signedInCookie, startUserSession } from "~/lib/session.server";
+import { claimInvitations } from "~/lib/proposals/proposals.server";
+import { signedInCookie, startUserSession } from "~/lib/auth/session.server";
 import { RoleGrant, User } from "~/models/index.server";
 import type { GrantableRole } from "~/lib/domain";
 

@@ -5,7 +5,7 @@ import { Op } from "sequelize";
 import { demoCallPlan } from "../../sequelize/seeders/20261201000100-demo-observatory";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { AuditEntry, Call, CallOffer, Filter, Instrument, Observation, Proposal, Target, Telescope } from "~/models/index.server";
-import { observatoryTimeZone } from "~/lib/office.server";
+import { observatoryTimeZone } from "~/lib/office/office.server";
 import { form, request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
 import { newUser } from "../helpers/session";

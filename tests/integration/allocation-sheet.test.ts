@@ -4,8 +4,8 @@
 // (registry), an RFC 5545 reader independent of the writer (ics).
 import ICAL from "ical.js";
 import { beforeAll, describe, expect, it } from "vitest";
-import { computeFeasibilitySheet } from "~/lib/feasibility.server";
-import { createObservation } from "~/lib/proposal-observations.server";
+import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
+import { createObservation } from "~/lib/proposals/observations.server";
 import { observationSchema } from "~/lib/schemas/proposals";
 import { Allocation, AuditEntry, BoardEntry, Proposal, ReviewAssignment } from "~/models/index.server";
 import { request } from "../helpers/app";

@@ -3,7 +3,7 @@
 // call's locked commitment, and the access rules.
 import { mean, standardDeviation, zScore } from "simple-statistics";
 import { beforeAll, describe, expect, it } from "vitest";
-import { computeFeasibilitySheet } from "~/lib/feasibility.server";
+import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
 import { Allocation, AuditEntry, BoardEntry, CallAllocation, CallOffer, Proposal, ReviewAssignment, Telescope } from "~/models/index.server";
 import { request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";

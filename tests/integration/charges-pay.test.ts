@@ -9,7 +9,7 @@ import path from "node:path";
 import Stripe from "stripe";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { startCheckout } from "~/lib/payments/checkout.server";
-import { stripe } from "~/lib/payments.server";
+import { stripe } from "~/lib/payments/payments.server";
 import { AuditEntry, Call, Charge, OutgoingMail, PaymentEvent, Proposal, ProposalMember, User } from "~/models/index.server";
 import { form, listen, request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";

@@ -6,7 +6,7 @@ import net from "node:net";
 import nodemailer from "nodemailer";
 import { beforeAll, describe, expect, it } from "vitest";
 import { batchProgress, sendDecisions } from "~/lib/decisions/send.server";
-import { drainMailQueue } from "~/lib/mail-queue.server";
+import { drainMailQueue } from "~/lib/mail/queue.server";
 import { DecisionMail, OutgoingMail } from "~/models/index.server";
 import { ensureDatabase } from "../helpers/db";
 import { allMail } from "../helpers/maildev";

@@ -7,7 +7,7 @@ import { Op } from "sequelize";
 import { beforeAll, describe, expect, it } from "vitest";
 import { callBoard } from "~/lib/allocation/board.server";
 import { anonymisedComments } from "~/lib/decisions/anonymise";
-import { updateCall } from "~/lib/office.server";
+import { updateCall } from "~/lib/office/office.server";
 import { helpfulnessByReviewer } from "~/lib/review/helpfulness.server";
 import { sequelize, Call, CallReview, DecisionLetter, Observation, Proposal, ProposalMember, ReviewAssignment, ReviewHelpfulness, User } from "~/models/index.server";
 import { form, request } from "../helpers/app";

@@ -13,7 +13,7 @@
 import * as Astro from "astronomy-engine";
 import { inverse, Matrix } from "ml-matrix";
 import { beforeAll, describe, expect, it } from "vitest";
-import { createObservation } from "~/lib/proposal-observations.server";
+import { createObservation } from "~/lib/proposals/observations.server";
 import { observationSchema } from "~/lib/schemas/proposals";
 import { AuditEntry, ExecutedEpoch, Instrument, Observation, PlannedEpoch, Proposal, Target, Telescope } from "~/models/index.server";
 import { request } from "../helpers/app";
@@ -301,7 +301,7 @@ describe("what earlier programmes still owe, on the next call's ranking board", 
     const { demoCallPlan } = await import("../../sequelize/seeders/20261201000100-demo-observatory");
     const { Call } = await import("~/models/index.server");
     const { owedBeforeCall } = await import("~/lib/epochs/epochs.server");
-    const { computeFeasibilitySheet } = await import("~/lib/feasibility.server");
+    const { computeFeasibilitySheet } = await import("~/lib/proposals/feasibility.server");
     const review = (await Call.findOne({ where: { semesterCode: demoCallPlan().review.semesterCode } }))!;
     const owed = await owedBeforeCall({ callId: review.id });
     // the demo seeder loses the second of every three past epochs of the running call's accepted astrometry programmes

@@ -1,7 +1,7 @@
 import supertest from "supertest";
 import { beforeAll, describe, expect, it } from "vitest";
-import { createProposal } from "~/lib/proposals.server";
-import { signedInCookie, startUserSession } from "~/lib/session.server";
+import { createProposal } from "~/lib/proposals/proposals.server";
+import { signedInCookie, startUserSession } from "~/lib/auth/session.server";
 import { ProposalMember, User } from "~/models/index.server";
 import { form, testApp } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";

@@ -2,7 +2,7 @@ import nodemailer, { type SendMailOptions, type Transporter } from "nodemailer";
 import { SMTPServer } from "smtp-server";
 import type { AddressInfo } from "node:net";
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from "vitest";
-import { drainMailQueue, enqueueMail, messageIdFor, retryDelayMs } from "~/lib/mail-queue.server";
+import { drainMailQueue, enqueueMail, messageIdFor, retryDelayMs } from "~/lib/mail/queue.server";
 import { OutgoingMail, sequelize } from "~/models/index.server";
 import { ensureDatabase } from "../helpers/db";
 import { testEnv } from "../helpers/env";

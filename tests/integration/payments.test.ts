@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { stripe } from "~/lib/payments.server";
+import { stripe } from "~/lib/payments/payments.server";
 import { PaymentEvent } from "~/models/index.server";
 import { listen, request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";

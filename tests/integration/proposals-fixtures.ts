@@ -1,11 +1,11 @@
 // Set-up shared by the proposal tests: a call of their own (so deadlines can be moved), and
 // proposals built through the data layer up to "ready to submit".
 import { PDFDocument, StandardFonts } from "pdf-lib";
-import { instrumentOptions, createObservation } from "~/lib/proposal-observations.server";
-import { createTarget } from "~/lib/proposal-targets.server";
-import { createProposal, updateOverview, type Actor } from "~/lib/proposals.server";
+import { instrumentOptions, createObservation } from "~/lib/proposals/observations.server";
+import { createTarget } from "~/lib/proposals/targets.server";
+import { createProposal, updateOverview, type Actor } from "~/lib/proposals/proposals.server";
 import { observationSchema, targetSchema } from "~/lib/schemas/proposals";
-import { storeScienceCase } from "~/lib/science-case.server";
+import { storeScienceCase } from "~/lib/proposals/science-case.server";
 import { Call, CallOffer, Telescope } from "~/models/index.server";
 
 /** A call open now, with the seeded telescopes on offer; semester dates of 2027A, a code of its own. */

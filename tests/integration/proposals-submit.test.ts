@@ -2,8 +2,8 @@
 // under concurrency, receipts with the PDF, read-only after submission, withdraw and reopen.
 import { beforeAll, describe, expect, it } from "vitest";
 import { AuditEntry, Call, OutgoingMail, Proposal, ProposalMember, Target, User, sequelize } from "~/models/index.server";
-import { createProposal } from "~/lib/proposals.server";
-import { submitProposal } from "~/lib/proposal-submit.server";
+import { createProposal } from "~/lib/proposals/proposals.server";
+import { submitProposal } from "~/lib/proposals/submit.server";
 import { form, request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
 import { waitForMail } from "../helpers/maildev";

@@ -3,8 +3,8 @@
 import { magnitudesOf } from "~/models/Target";
 import { beforeAll, describe, expect, it } from "vitest";
 import { AuditEntry, Instrument, Observation, OutgoingMail, Proposal, ProposalMember, Target, Telescope, User } from "~/models/index.server";
-import { instrumentOptions } from "~/lib/proposal-observations.server";
-import { createProposal } from "~/lib/proposals.server";
+import { instrumentOptions } from "~/lib/proposals/observations.server";
+import { createProposal } from "~/lib/proposals/proposals.server";
 import { form, request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
 import { newUser, sessionCookieFor } from "../helpers/session";

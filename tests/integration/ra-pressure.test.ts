@@ -3,10 +3,10 @@
 // hours from the ranking board's oversubscription (sheet totals), the clear fractions from the rows
 // written here, and the access rules. Targets are invented (tests/integration/demo-sky.test.ts).
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createObservation } from "~/lib/proposal-observations.server";
-import { createTarget } from "~/lib/proposal-targets.server";
+import { createObservation } from "~/lib/proposals/observations.server";
+import { createTarget } from "~/lib/proposals/targets.server";
 import { observationSchema, targetSchema } from "~/lib/schemas/proposals";
-import { computeFeasibilitySheet } from "~/lib/feasibility.server";
+import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
 import { CallOffer, Proposal, Telescope, TelescopeClearFraction } from "~/models/index.server";
 import { request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";

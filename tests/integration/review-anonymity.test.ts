@@ -5,7 +5,7 @@
 // audited reveal; the PI is warned, with page numbers, where the science case names the team.
 import { PDFDocument, StandardFonts } from "pdf-lib";
 import { beforeAll, describe, expect, it } from "vitest";
-import { storeScienceCase } from "~/lib/science-case.server";
+import { storeScienceCase } from "~/lib/proposals/science-case.server";
 import { AuditEntry, Call, CallReview, Proposal, ProposalMember, ReviewAssignment, ReviewPanelMember, User } from "~/models/index.server";
 import { form, request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";

@@ -1,7 +1,7 @@
 import supertest from "supertest";
 import { beforeAll, describe, expect, it } from "vitest";
 import { sweep } from "~/lib/housekeeping.server";
-import { sha256 } from "~/lib/session.server";
+import { sha256 } from "~/lib/auth/session.server";
 import { AuditEntry, User, UserSession } from "~/models/index.server";
 import { form, testApp } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";

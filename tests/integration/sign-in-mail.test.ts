@@ -1,6 +1,6 @@
 import { Op } from "sequelize";
 import { beforeAll, describe, expect, it } from "vitest";
-import { drainMailQueue, enqueueMail } from "~/lib/mail-queue.server";
+import { drainMailQueue, enqueueMail } from "~/lib/mail/queue.server";
 import { OutgoingMail } from "~/models/index.server";
 import { ensureDatabase } from "../helpers/db";
 

@@ -1,7 +1,7 @@
 // Issue 7, items 9 and 13: the webhook's timestamp tolerance holds in both directions, and a
 // correctly signed but malformed body is a 400 JSON answer, never a 500.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { stripe } from "~/lib/payments.server";
+import { stripe } from "~/lib/payments/payments.server";
 import { PaymentEvent } from "~/models/index.server";
 import { request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";

@@ -3,7 +3,7 @@
 // told by e-mail of a withdrawal, and per-semester requested hours.
 import { beforeAll, describe, expect, it } from "vitest";
 import { AuditEntry, Observation, OutgoingMail, Proposal, Target, User } from "~/models/index.server";
-import { createProposal, updateOverview } from "~/lib/proposals.server";
+import { createProposal, updateOverview } from "~/lib/proposals/proposals.server";
 import { form, request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
 import { newUser, sessionCookieFor } from "../helpers/session";

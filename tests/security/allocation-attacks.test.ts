@@ -6,8 +6,8 @@
 import ICAL from "ical.js";
 import { beforeAll, describe, expect, it } from "vitest";
 import { allocationVersion } from "~/lib/allocation/allocate.server";
-import { computeFeasibilitySheet } from "~/lib/feasibility.server";
-import { createObservation, instrumentOptions } from "~/lib/proposal-observations.server";
+import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
+import { createObservation, instrumentOptions } from "~/lib/proposals/observations.server";
 import { observationSchema } from "~/lib/schemas/proposals";
 import { Allocation, BoardEntry, Call, Proposal, ReviewAssignment, SemesterCheck, Target, Telescope, TelescopeClearFraction, User } from "~/models/index.server";
 import { form, request } from "../helpers/app";

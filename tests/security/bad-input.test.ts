@@ -5,8 +5,8 @@ import { demoCallPlan } from "../../sequelize/seeders/20261201000100-demo-observ
 import { createServer, type Server } from "node:http";
 import type { AddressInfo } from "node:net";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { stripe } from "~/lib/payments.server";
-import { createProposal } from "~/lib/proposals.server";
+import { stripe } from "~/lib/payments/payments.server";
+import { createProposal } from "~/lib/proposals/proposals.server";
 import { Call, Filter, Instrument, Proposal, ProposalMember, Target, Telescope, User } from "~/models/index.server";
 import { testApp } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";

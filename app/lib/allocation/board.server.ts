@@ -4,7 +4,7 @@
 // what earlier calls' locked allocations already committed to this semester.
 import { Op } from "sequelize";
 import { moonCategories, type MoonCategory } from "~/lib/domain";
-import { computeFeasibilitySheets, type FeasibilitySheet } from "~/lib/feasibility.server";
+import { computeFeasibilitySheets, type FeasibilitySheet } from "~/lib/proposals/feasibility.server";
 import { blankTeamsUntilRevealed } from "~/lib/review/anonymity.server";
 import { callNotFound } from "~/lib/review/chair.server";
 import { Allocation, BoardEntry, Call, CallAllocation, CallOffer, Proposal, ReviewAssignment, User } from "~/models/index.server";

@@ -4,8 +4,8 @@
 import { data } from "react-router";
 import { Op } from "sequelize";
 import { limitAltitude, prepareSiteNights } from "~/lib/astro/visibility";
-import { nightsInSemester, type FeasibilitySheet } from "~/lib/feasibility";
-import { computeFeasibilitySheet } from "~/lib/feasibility.server";
+import { nightsInSemester, type FeasibilitySheet } from "~/lib/proposals/feasibility";
+import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
 import { callNotFound } from "~/lib/review/chair.server";
 import { Call, CallOffer, Proposal, Telescope, TelescopeClearFraction } from "~/models/index.server";
 import { BOARD_STATES } from "./board.server";

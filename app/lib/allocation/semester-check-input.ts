@@ -6,7 +6,7 @@
 import { dayNumber, DAY_MS } from "~/lib/astro/time";
 import { ensureMoonTimes, limitAltitude, prepareSiteNights, targetNights, type Site } from "~/lib/astro/visibility";
 import type { AllocationTier, MoonCategory } from "~/lib/domain";
-import { buildFeasibilitySheet, nightsInSemester, type FeasibilityInput } from "~/lib/feasibility";
+import { buildFeasibilitySheet, nightsInSemester, type FeasibilityInput } from "~/lib/proposals/feasibility";
 import type { CheckInput, CheckObservation, CheckProgramme, CheckTelescope } from "./semester-check";
 
 export type CheckFacts = {

@@ -14,7 +14,7 @@ import { data } from "react-router";
 import { Op } from "sequelize";
 import stringify from "safe-stable-stringify";
 import type { MoonCategory } from "~/lib/domain";
-import { loadFeasibilityInputs } from "~/lib/feasibility.server";
+import { loadFeasibilityInputs } from "~/lib/proposals/feasibility.server";
 import { callNotFound } from "~/lib/review/chair.server";
 import { Allocation, BoardEntry, Call, CallOffer, Proposal, ReviewAssignment, SemesterCheck, Telescope, TelescopeClearFraction } from "~/models/index.server";
 import { BOARD_STATES } from "./board.server";

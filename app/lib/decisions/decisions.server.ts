@@ -2,7 +2,7 @@
 // view of their own proposal's decision, and the templates the office edits.
 import { Refusal } from "~/lib/forms";
 import { writeAudit } from "~/lib/audit.server";
-import { getProposalForUser, type Actor } from "~/lib/proposals.server";
+import { getProposalForUser, type Actor } from "~/lib/proposals/proposals.server";
 import { DecisionBatch, DecisionLetter, DecisionTemplate, sequelize } from "~/models/index.server";
 import { decidedProposals, lettersFacts, lockedCall, templatesFor } from "./facts.server";
 import { batchProgress, letterMailStates } from "./send.server";

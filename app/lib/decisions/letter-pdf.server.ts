@@ -2,7 +2,7 @@
 // hours, charges due) and the letter as sent, which carries the anonymised comments. Built from
 // the stored letter, so the PDF, the e-mail and the PI's page say the same.
 import { PDFDocument, rgb } from "pdf-lib";
-import { A4, GREY, MARGIN, RULE, newWriter } from "~/lib/proposal-pdf.server";
+import { A4, GREY, MARGIN, RULE, newWriter } from "~/lib/proposals/pdf.server";
 import { chargesText, money } from "./template";
 import { outcomeLabels, type LetterFacts } from "./vocabulary";
 

@@ -1,8 +1,8 @@
 // The queued decision letter as the worker sends it: the letter's text as the body and its PDF
 // attached (built once per letter per drain). Without the PDF, the stored text (with the link) goes out.
-import { plainMail } from "~/lib/mail-templates.server";
-import type { RenderedMail } from "~/lib/mail-renderers.server";
-import { codeForFileName } from "~/lib/proposal-vocabulary";
+import { plainMail } from "~/lib/mail/templates.server";
+import type { RenderedMail } from "~/lib/mail/renderers.server";
+import { codeForFileName } from "~/lib/proposals/vocabulary";
 import { DecisionLetter } from "~/models/index.server";
 import { buildLetterPdf } from "./letter-pdf.server";
 import { decisionPageUrl } from "./send.server";

@@ -8,7 +8,7 @@ import { Refusal } from "~/lib/forms";
 import { QueryTypes } from "sequelize";
 import { writeAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
-import { enqueueMail } from "~/lib/mail-queue.server";
+import { enqueueMail } from "~/lib/mail/queue.server";
 import { raiseAccessFee } from "~/lib/payments/charges.server";
 import { CallAllocation, DecisionBatch, DecisionLetter, DecisionMail, Proposal, ProposalMember, User, sequelize } from "~/models/index.server";
 import type { Transaction } from "sequelize";

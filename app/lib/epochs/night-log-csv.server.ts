@@ -2,7 +2,7 @@
 import { readCsv } from "~/lib/csv.server";
 import { epochRecordSchema, parseObservedAt } from "./schema";
 import { FIELD_OF, KNOWN_NIGHT_LOG_COLUMNS, MAX_NIGHT_LOG_ROWS, NIGHT_LOG_COLUMNS, normaliseNightLogColumn, REQUIRED_NIGHT_LOG_COLUMNS, type NightLogContext, type NightLogReport, type NightLogRow } from "./night-log-csv";
-import type { CsvProblem } from "~/lib/target-csv";
+import type { CsvProblem } from "~/lib/proposals/target-csv";
 
 export function parseNightLogCsv(text: string, ctx: NightLogContext): NightLogReport {
   const read = readCsv(text);

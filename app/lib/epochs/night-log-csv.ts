@@ -2,7 +2,7 @@
 // Each row is accepted or refused with its reasons (the target import's report, target-csv.ts);
 // the same epoch twice (same observation within a minute) is refused too. The columns and shapes
 // (the page uses them); the parser is night-log-csv.server.ts.
-import type { CsvProblem } from "~/lib/target-csv";
+import type { CsvProblem } from "~/lib/proposals/target-csv";
 import type { EpochRecordInput } from "./schema";
 
 export const NIGHT_LOG_COLUMNS = ["proposal", "target", "observed_at", "telescope", "frames", "fwhm", "snr", "precision_mas", "lost", "note"] as const;

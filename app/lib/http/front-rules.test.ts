@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { bodyLimitFor, crossSiteReason, DEFAULT_BODY_LIMIT, isJsonContentType, parseTrustProxy } from "./front-rules";
-import { SCIENCE_CASE_MAX_BYTES } from "../science-case";
+import { SCIENCE_CASE_MAX_BYTES } from "../proposals/science-case";
 
 describe("TRUST_PROXY", () => {
   it.each([

@@ -2,7 +2,7 @@
 // checks and the Content-Security-Policy. No express, no database: unit-testable, and importable
 // from the environment schema.
 import { isIP } from "node:net";
-import { SCIENCE_CASE_MAX_BYTES } from "../science-case";
+import { SCIENCE_CASE_MAX_BYTES } from "../proposals/science-case";
 
 // ---------------------------------------------------------------------------------------------
 // Proxy trust

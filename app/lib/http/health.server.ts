@@ -1,7 +1,7 @@
 // The status of each service behind `/healthz`, probed in the background and cached, so that
 // the endpoint is cheap (no probe per call) and answers quickly even when a service hangs.
-import { mailTransport } from "~/lib/mail-queue.server";
-import { paymentServiceHealth } from "~/lib/payments.server";
+import { mailTransport } from "~/lib/mail/queue.server";
+import { paymentServiceHealth } from "~/lib/payments/payments.server";
 import { OutgoingMail } from "~/models/index.server";
 
 export type ServiceName = "database" | "mail" | "payments";

@@ -3,8 +3,8 @@
 import { stringify } from "csv-stringify/sync";
 import { writeAudit } from "~/lib/audit.server";
 import { Refusal } from "~/lib/forms";
-import { type Actor } from "~/lib/proposals.server";
-import { stripe } from "~/lib/payments.server";
+import { type Actor } from "~/lib/proposals/proposals.server";
+import { stripe } from "~/lib/payments/payments.server";
 import { Call, Charge, Proposal, ProposalMember, sequelize, User } from "~/models/index.server";
 import { chargeView, type ChargeView } from "./charges.server";
 import { chargeKindLabels, chargeStateLabels, decimalAmount, spreadsheetSafe } from "./money";

@@ -4,10 +4,10 @@
 import { PDFDocument, rgb } from "pdf-lib";
 import type { Transaction } from "sequelize";
 import { env } from "~/lib/env.server";
-import { plainMail } from "~/lib/mail-templates.server";
-import type { RenderedMail } from "~/lib/mail-renderers.server";
-import { newWriter } from "~/lib/proposal-pdf.server";
-import { codeForFileName } from "~/lib/proposal-vocabulary";
+import { plainMail } from "~/lib/mail/templates.server";
+import type { RenderedMail } from "~/lib/mail/renderers.server";
+import { newWriter } from "~/lib/proposals/pdf.server";
+import { codeForFileName } from "~/lib/proposals/vocabulary";
 import { Call, Charge, Proposal, ProposalMember, User } from "~/models/index.server";
 import { chargeKindLabels, formatMoney } from "./money";
 

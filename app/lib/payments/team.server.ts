@@ -2,7 +2,7 @@
 // paper's pages (the page charge). Scoped by the caller: someone off the team gets a 404.
 import { writeAudit } from "~/lib/audit.server";
 import { Refusal } from "~/lib/forms";
-import { getProposalForUser, type Actor } from "~/lib/proposals.server";
+import { getProposalForUser, type Actor } from "~/lib/proposals/proposals.server";
 import { Charge, sequelize } from "~/models/index.server";
 import { chargeView, pageChargeCents, semesterEnded, type ChargeView } from "./charges.server";
 

@@ -5,7 +5,7 @@
 import { Refusal } from "~/lib/forms";
 import { PDFDict, PDFDocument, PDFName } from "pdf-lib";
 import type { Transaction } from "sequelize";
-import type { SessionUser } from "~/lib/auth.server";
+import type { SessionUser } from "~/lib/auth/auth.server";
 import { writeAudit } from "~/lib/audit.server";
 import { HIDDEN_TEAM } from "~/lib/domain";
 import { Call, CallReview, ReviewAssignment, sequelize } from "~/models/index.server";

@@ -5,12 +5,12 @@
 import { Refusal } from "~/lib/forms";
 import { data } from "react-router";
 import { Op, type Transaction } from "sequelize";
-import type { SessionUser } from "~/lib/auth.server";
+import type { SessionUser } from "~/lib/auth/auth.server";
 import { writeAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
-import { enqueueMail } from "~/lib/mail-queue.server";
-import { plainMail } from "~/lib/mail-templates.server";
-import { deadlinePassed } from "~/lib/proposals.server";
+import { enqueueMail } from "~/lib/mail/queue.server";
+import { plainMail } from "~/lib/mail/templates.server";
+import { deadlinePassed } from "~/lib/proposals/proposals.server";
 import { Call, CallReview, Proposal, ReviewAssignment, ReviewPanelMember, RoleGrant, sequelize, User } from "~/models/index.server";
 import { conflictReasonWithoutTeam, HIDDEN_TEAM, teamHidden } from "./anonymity.server";
 import { pairKey, type Conflict } from "./conflicts";

@@ -3,12 +3,12 @@
 // (declared or found by the rules now); for anything else the proposal does not exist (404).
 import { Refusal } from "~/lib/forms";
 import { Op, type Transaction } from "sequelize";
-import { requireRole, requireUser, type SessionUser } from "~/lib/auth.server";
+import { requireRole, requireUser, type SessionUser } from "~/lib/auth/auth.server";
 import { writeAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
-import { enqueueMail } from "~/lib/mail-queue.server";
-import { plainMail } from "~/lib/mail-templates.server";
-import { notFound } from "~/lib/proposals.server";
+import { enqueueMail } from "~/lib/mail/queue.server";
+import { plainMail } from "~/lib/mail/templates.server";
+import { notFound } from "~/lib/proposals/proposals.server";
 import type { GradeValues } from "~/lib/schemas/review";
 import { Call, CallReview, Proposal, ReviewAssignment, ReviewerProfile, sequelize } from "~/models/index.server";
 import { chairsOf, reviewDeadlineText } from "./chair.server";

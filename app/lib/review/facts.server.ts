@@ -2,7 +2,7 @@
 // and the conflicts between them. No access checks here: the callers scope by the user's rights.
 import { Op, type Transaction } from "sequelize";
 import { Call, CallReview, Proposal, ProposalMember, ReviewAssignment, ReviewerProfile, ReviewPanelMember, RoleGrant, User } from "~/models/index.server";
-import { computeFeasibilitySheets } from "~/lib/feasibility.server";
+import { computeFeasibilitySheets } from "~/lib/proposals/feasibility.server";
 import { detectConflicts, pairKey, type Competition, type Conflict, type ProposalFacts } from "./conflicts";
 
 /** Proposals that take part in a call's review (submitted ones before the chair starts it). */

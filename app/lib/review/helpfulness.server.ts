@@ -5,7 +5,7 @@
 import { Refusal } from "~/lib/forms";
 import { Op } from "sequelize";
 import { anonymisedOrder } from "~/lib/decisions/anonymise";
-import { getProposalForUser, type Actor } from "~/lib/proposals.server";
+import { getProposalForUser, type Actor } from "~/lib/proposals/proposals.server";
 import { DecisionLetter, ReviewAssignment, ReviewHelpfulness, sequelize } from "~/models/index.server";
 import { HELPFULNESS_MAX, HELPFULNESS_MIN } from "./vocabulary";
 

@@ -1,10 +1,10 @@
 // The read-only proposal that the committee reads: for the chair (anything past the draft
 // stage) and for a reviewer through a committed, non-conflicted assignment. Anyone else: 404.
-import type { SessionUser } from "~/lib/auth.server";
-import { computeFeasibilitySheet } from "~/lib/feasibility.server";
-import { targetRows } from "~/lib/proposal-targets.server";
-import { notFound } from "~/lib/proposals.server";
-import { latestScienceCase } from "~/lib/science-case.server";
+import type { SessionUser } from "~/lib/auth/auth.server";
+import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
+import { targetRows } from "~/lib/proposals/targets.server";
+import { notFound } from "~/lib/proposals/proposals.server";
+import { latestScienceCase } from "~/lib/proposals/science-case.server";
 import { Call, CallReview, Filter, Instrument, Observation, Proposal, ProposalMember, StoredFile, Target, User } from "~/models/index.server";
 import { teamHidden } from "./anonymity.server";
 import { CHAIR_READABLE } from "./chair.server";

@@ -4,7 +4,7 @@
 // so several processes or repeated checks never send it twice.
 import { Op } from "sequelize";
 import { writeAudit } from "~/lib/audit.server";
-import { enqueueMail } from "~/lib/mail-queue.server";
+import { enqueueMail } from "~/lib/mail/queue.server";
 import { Call, CallReview, ReviewPanelMember, sequelize, User } from "~/models/index.server";
 import { outstandingFor, reminderMail } from "./chair.server";
 import { REMINDER_LEAD_DAYS } from "./vocabulary";

@@ -3,7 +3,7 @@
 // never overwritten, so a file's text is kept by its id (bounded LRU).
 import { extractText, getDocumentProxy } from "unpdf";
 import { Lru } from "~/lib/lru";
-import { SCIENCE_CASE_KIND } from "~/lib/science-case";
+import { SCIENCE_CASE_KIND } from "~/lib/proposals/science-case";
 import { Call, ProposalMember, StoredFile, User } from "~/models/index.server";
 import { findSelfReferences, type SelfReferenceWarning } from "./self-reference";
 

@@ -3,7 +3,7 @@ import { z } from "zod";
 import { parseDec, parseRa } from "~/lib/astro/coordinates";
 import { moonCategories } from "~/lib/domain";
 import { idSchema, MAX_ID, TEXT_COLUMN_BYTES, utf8Bytes } from "~/lib/forms";
-import { ABSTRACT_WORD_LIMIT, scienceCategoryValues, SEMESTER_CODE, wordCount } from "~/lib/proposal-vocabulary";
+import { ABSTRACT_WORD_LIMIT, scienceCategoryValues, SEMESTER_CODE, wordCount } from "~/lib/proposals/vocabulary";
 
 export const TARGET_BANDS = ["U", "B", "V", "R", "I"] as const;
 

@@ -1,6 +1,6 @@
 // Forms and JSON bodies of the review, shared by the browser (react-hook-form) and the server.
 import { z } from "zod";
-import { scienceCategoryValues, wordCount } from "~/lib/proposal-vocabulary";
+import { scienceCategoryValues, wordCount } from "~/lib/proposals/vocabulary";
 import { MERIT_MAX, MERIT_MIN, meritCriteria, PI_COMMENT_MIN_WORDS } from "~/lib/review/vocabulary";
 
 /** A merit typed into the form or sent as JSON: 1–10 in half points; "" is "not given yet". */

@@ -4,13 +4,13 @@
 import { Refusal } from "~/lib/forms";
 import { data } from "react-router";
 import { Op, QueryTypes, type Transaction } from "sequelize";
-import type { SessionUser } from "~/lib/auth.server";
+import type { SessionUser } from "~/lib/auth/auth.server";
 import { writeAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
-import { enqueueMail } from "~/lib/mail-queue.server";
-import { plainMail } from "~/lib/mail-templates.server";
+import { enqueueMail } from "~/lib/mail/queue.server";
+import { plainMail } from "~/lib/mail/templates.server";
 import type { ProposalStatus } from "~/lib/domain";
-import { upcomingSemesters } from "~/lib/proposal-vocabulary";
+import { upcomingSemesters } from "~/lib/proposals/vocabulary";
 import type { z } from "zod";
 import type { newProposalSchema, overviewSchema } from "~/lib/schemas/proposals";
 import { AuditEntry, Call, Proposal, ProposalMember, sequelize, User } from "~/models/index.server";

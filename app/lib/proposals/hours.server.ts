@@ -1,4 +1,4 @@
-import { computeFeasibilitySheet } from "~/lib/feasibility.server";
+import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
 
 export type SemesterHours = { semesterCode: string; hours: number; callSemester: boolean };
 

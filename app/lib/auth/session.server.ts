@@ -6,7 +6,7 @@ import { createHash, randomBytes } from "node:crypto";
 import { createCookieSessionStorage } from "react-router";
 import { Op, type Transaction } from "sequelize";
 import { UserSession } from "~/models/index.server";
-import { env } from "./env.server";
+import { env } from "../env.server";
 
 export const SESSION_IDLE_MINUTES = 12 * 60;
 export const SESSION_MAX_DAYS = 14;

@@ -5,14 +5,14 @@
 import { Refusal } from "~/lib/forms";
 import { QueryTypes, type Transaction } from "sequelize";
 import { writeAudit } from "~/lib/audit.server";
-import { computeFeasibilitySheet } from "~/lib/feasibility.server";
-import { enqueueMail } from "~/lib/mail-queue.server";
-import { buildProposalPdf } from "~/lib/proposal-pdf.server";
-import { receiptMail, type ReceiptPayload } from "~/lib/proposal-receipt.server";
-import { ABSTRACT_WORD_LIMIT, codeForFileName, proposalCode, scienceCategoryLabel, wordCount } from "~/lib/proposal-vocabulary";
-import { designatedReviewerName, designatedReviewerProblem } from "~/lib/proposal-team.server";
+import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
+import { enqueueMail } from "~/lib/mail/queue.server";
+import { buildProposalPdf } from "~/lib/proposals/pdf.server";
+import { receiptMail, type ReceiptPayload } from "~/lib/proposals/receipt.server";
+import { ABSTRACT_WORD_LIMIT, codeForFileName, proposalCode, scienceCategoryLabel, wordCount } from "~/lib/proposals/vocabulary";
+import { designatedReviewerName, designatedReviewerProblem } from "~/lib/proposals/team.server";
 import { selfReferenceCheck } from "~/lib/review/self-reference.server";
-import { latestScienceCase } from "~/lib/science-case.server";
+import { latestScienceCase } from "~/lib/proposals/science-case.server";
 import { Observation, ProposalMember, sequelize, Target } from "~/models/index.server";
 import { assertPi, deadlinePassed, getProposalForUser, type Access, type Actor } from "./proposals.server";
 

@@ -1,6 +1,6 @@
 // Small helpers shared by the workspace's loaders and actions.
 import { data } from "react-router";
-import { idSchema, Refusal } from "./forms";
+import { idSchema, Refusal } from "../forms";
 import { notFound } from "./proposals.server";
 
 /** The :proposalId of the URL as a number; anything else is a proposal that does not exist. */

@@ -11,9 +11,9 @@ import { breaksBefore, headingHeight, tableLeadHeight } from "./pdf-layout";
 
 // The PDF module's data sources need a database; the Writer does not.
 vi.mock("~/models/index.server", () => ({ Call: {}, Proposal: {}, ProposalMember: {}, User: {} }));
-vi.mock("~/lib/feasibility.server", () => ({ computeFeasibilitySheet: () => null }));
-vi.mock("~/lib/science-case.server", () => ({ latestScienceCaseBytes: () => null }));
-const { newWriter } = await import("./proposal-pdf.server");
+vi.mock("~/lib/proposals/feasibility.server", () => ({ computeFeasibilitySheet: () => null }));
+vi.mock("~/lib/proposals/science-case.server", () => ({ latestScienceCaseBytes: () => null }));
+const { newWriter } = await import("./pdf.server");
 
 const columns = [
   { label: "Target", width: 0.5 },

@@ -1,8 +1,8 @@
 // What the call pages need around the form: the observatory's zone, the telescopes for the grid,
 // and a stored call turned back into the form's wall-clock values.
 import { listTelescopes, observatoryTimeZone, type getCall } from "./office.server";
-import { utcToZonedLocal } from "./zoned-time";
-import { DEFAULT_REVIEWS_PER_SUBMITTER } from "./review/vocabulary";
+import { utcToZonedLocal } from "../zoned-time";
+import { DEFAULT_REVIEWS_PER_SUBMITTER } from "../review/vocabulary";
 import type { CallFormValues } from "~/components/office/CallForm";
 
 export async function callFormContext() {

@@ -3,7 +3,7 @@
 import { angularSeparationDeg } from "~/lib/astro/coordinates";
 import { readCsv } from "~/lib/csv.server";
 import { targetSchema } from "~/lib/schemas/proposals";
-import { CSV_COLUMNS, DUPLICATE_RADIUS_ARCSEC, KNOWN_COLUMNS, MAX_IMPORT_ROWS, normaliseColumn, REQUIRED_COLUMNS, type CsvProblem, type CsvReport, type CsvRowResult, type ExistingTarget } from "~/lib/target-csv";
+import { CSV_COLUMNS, DUPLICATE_RADIUS_ARCSEC, KNOWN_COLUMNS, MAX_IMPORT_ROWS, normaliseColumn, REQUIRED_COLUMNS, type CsvProblem, type CsvReport, type CsvRowResult, type ExistingTarget } from "~/lib/proposals/target-csv";
 
 export function parseTargetCsv(text: string, existing: ExistingTarget[] = []): CsvReport {
   const read = readCsv(text);

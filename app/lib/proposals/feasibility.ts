@@ -22,7 +22,7 @@
 //   When the target has none in that band, the nearest band it has is used with colour 0 and a
 //   warning says so; with no magnitude at all, nothing is assumed.
 
-import { AIRMASS_FORMULA, airmass } from "./astro/airmass";
+import { AIRMASS_FORMULA, airmass } from "../astro/airmass";
 import {
   EPOCH_TOLERANCE_NIGHTS,
   FRAGILE_BELOW_NIGHTS,
@@ -36,11 +36,11 @@ import {
   planEpochs,
   semesterOf,
   type Plan,
-} from "./astro/astrometry";
-import type { Target as AstroTarget } from "./astro/coordinates";
-import { computeExposure, type ExposureResult } from "./astro/exposure";
-import { BANDS, type Band } from "./astro/photometry";
-import { DAY_MS, dayNumber } from "./astro/time";
+} from "../astro/astrometry";
+import type { Target as AstroTarget } from "../astro/coordinates";
+import { computeExposure, type ExposureResult } from "../astro/exposure";
+import { BANDS, type Band } from "../astro/photometry";
+import { DAY_MS, dayNumber } from "../astro/time";
 import {
   MOON_CATEGORY_THRESHOLDS,
   MOON_TIME_RULE,
@@ -56,7 +56,7 @@ import {
   type MoonCategory,
   type Site,
   type TargetNight,
-} from "./astro/visibility";
+} from "../astro/visibility";
 
 // ---------------------------------------------------------------------------------------------
 // Input

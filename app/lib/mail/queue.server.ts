@@ -3,8 +3,8 @@ import nodemailer, { type SendMailOptions } from "nodemailer";
 import { QueryTypes, type Transaction } from "sequelize";
 import { OutgoingMail, sequelize } from "~/models/index.server";
 import type { MailAttachment, MailKind } from "~/models/OutgoingMail";
-import { env } from "./env.server";
-import { renderQueuedMail } from "./mail-renderers.server";
+import { env } from "../env.server";
+import { renderQueuedMail } from "./renderers.server";
 
 export const MAX_MAIL_ATTEMPTS = 12;
 

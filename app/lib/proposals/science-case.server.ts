@@ -6,10 +6,10 @@ import { PDFArray, PDFDict, PDFDocument, PDFHexString, PDFName, PDFStream, PDFSt
 import { data } from "react-router";
 import { writeAudit } from "~/lib/audit.server";
 import { readForm, Refusal } from "~/lib/forms";
-import { assertEditable, getProposalForUser, type Actor } from "~/lib/proposals.server";
+import { assertEditable, getProposalForUser, type Actor } from "~/lib/proposals/proposals.server";
 import { sequelize, StoredFile, User } from "~/models/index.server";
 
-import { SCIENCE_CASE_KIND, SCIENCE_CASE_MAX_BYTES } from "~/lib/science-case";
+import { SCIENCE_CASE_KIND, SCIENCE_CASE_MAX_BYTES } from "~/lib/proposals/science-case";
 
 export { SCIENCE_CASE_KIND, SCIENCE_CASE_MAX_BYTES };
 

@@ -4,10 +4,10 @@
 // failure is in the proposal's history.
 import { writeAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
-import { plainMail } from "~/lib/mail-templates.server";
-import { buildProposalPdf } from "~/lib/proposal-pdf.server";
-import type { RenderedMail } from "./mail-renderers.server";
-import { codeForFileName } from "~/lib/proposal-vocabulary";
+import { plainMail } from "~/lib/mail/templates.server";
+import { buildProposalPdf } from "~/lib/proposals/pdf.server";
+import type { RenderedMail } from "../mail/renderers.server";
+import { codeForFileName } from "~/lib/proposals/vocabulary";
 
 export type ReceiptPayload = {
   proposalId: number;

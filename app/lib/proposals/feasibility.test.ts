@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { computeVisibility } from "./astro/visibility";
+import { computeVisibility } from "../astro/visibility";
 import { buildFeasibilitySheet, type FeasibilityInput, type SheetObservation, type SheetTarget } from "./feasibility";
 
 // The invented Kestrel Ridge site and its 2.4 m imager, as the demo seed has them.

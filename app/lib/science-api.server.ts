@@ -6,10 +6,10 @@ import type { z } from "zod";
 import { apiIssues } from "~/lib/forms";
 import { Lru } from "~/lib/lru";
 import { Filter, Instrument, Telescope } from "~/models/index.server";
-import { astrometryForDates, centroidPrecisionMas, epochPrecisionMas, type FitPrecision, type Plan } from "./astrometry";
-import { computePool, PoolBusy, PoolTimeout } from "./compute-pool.server";
-import { computeExposure, type ExposureInput } from "./exposure";
-import { EXTINCTION, SKY_BRIGHTNESS, ZERO_POINTS, type Band } from "./photometry";
+import { astrometryForDates, centroidPrecisionMas, epochPrecisionMas, type FitPrecision, type Plan } from "./astro/astrometry";
+import { computePool, PoolBusy, PoolTimeout } from "./astro/compute-pool.server";
+import { computeExposure, type ExposureInput } from "./astro/exposure";
+import { EXTINCTION, SKY_BRIGHTNESS, ZERO_POINTS, type Band } from "./astro/photometry";
 import {
   astrometryBodySchema,
   epochPlanBodySchema,
@@ -17,11 +17,11 @@ import {
   visibilityQuerySchema,
   type EpochPlanBody,
   type ExposureBody,
-} from "./schemas";
-import { MOON_CATEGORY_THRESHOLDS, MOON_TIME_RULE, REFRACTION_MODEL, type Limit, type Site } from "./visibility";
-import { AIRMASS_FORMULA, airmass as airmassAt, altitudeForAirmass } from "./airmass";
-import { MOONLIGHT_MODEL, moonlitSky, type MoonlightResult } from "./moonlight";
-import { runScienceTask } from "./science-tasks";
+} from "./astro/schemas";
+import { MOON_CATEGORY_THRESHOLDS, MOON_TIME_RULE, REFRACTION_MODEL, type Limit, type Site } from "./astro/visibility";
+import { AIRMASS_FORMULA, airmass as airmassAt, altitudeForAirmass } from "./astro/airmass";
+import { MOONLIGHT_MODEL, moonlitSky, type MoonlightResult } from "./astro/moonlight";
+import { runScienceTask } from "./astro/science-tasks";
 
 const intEnv = (name: string, fallback: number) => {
   const v = Number(process.env[name]);

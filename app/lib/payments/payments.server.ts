@@ -2,7 +2,7 @@ import Stripe from "stripe";
 import { UniqueConstraintError, type Transaction } from "sequelize";
 import { z } from "zod";
 import { PaymentEvent, sequelize } from "~/models/index.server";
-import { env } from "./env.server";
+import { env } from "../env.server";
 
 // The official SDK; host, port and protocol come from the environment, so the local fake and the
 // real service differ only in configuration.

@@ -11,15 +11,15 @@ export async function renderQueuedMail(mail: OutgoingMail, memo: Map<string, unk
   try {
     switch (mail.kind) {
       case "proposal-receipt": {
-        const { renderProposalReceipt } = await import("./proposal-receipt.server");
+        const { renderProposalReceipt } = await import("../proposals/receipt.server");
         return await renderProposalReceipt(mail.payload ?? {}, memo);
       }
       case "decision-letter": {
-        const { renderDecisionLetter } = await import("./decisions/render-mail.server");
+        const { renderDecisionLetter } = await import("../decisions/render-mail.server");
         return await renderDecisionLetter(mail.payload ?? {}, memo);
       }
       case "charge-receipt": {
-        const { renderChargeReceipt } = await import("./payments/receipt.server");
+        const { renderChargeReceipt } = await import("../payments/receipt.server");
         return await renderChargeReceipt(mail.payload ?? {});
       }
     }

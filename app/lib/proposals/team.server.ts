@@ -4,8 +4,8 @@
 import { Refusal } from "~/lib/forms";
 import { writeAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
-import { enqueueMail } from "~/lib/mail-queue.server";
-import { plainMail } from "~/lib/mail-templates.server";
+import { enqueueMail } from "~/lib/mail/queue.server";
+import { plainMail } from "~/lib/mail/templates.server";
 import { ProposalMember, sequelize, User } from "~/models/index.server";
 import { assertEditable, assertPi, getProposalForUser, type Actor } from "./proposals.server";
 

@@ -6,8 +6,8 @@ import { ForeignKeyConstraintError, Op, UniqueConstraintError, type Transaction 
 import { moonCategories, type MoonCategory } from "~/lib/domain";
 import type { CallInput, FilterInput, InstrumentInput, TelescopeInput } from "~/lib/schemas/office";
 import { Call, CallOffer, Filter, Instrument, Observation, Proposal, sequelize, Telescope } from "~/models/index.server";
-import { writeAudit } from "./audit.server";
-import type { SessionUser } from "./auth.server";
+import { writeAudit } from "../audit.server";
+import type { SessionUser } from "../auth/auth.server";
 
 type Actor = Pick<SessionUser, "id">;
 

@@ -2,13 +2,13 @@
 // in ./feasibility.ts. Callers check access first (getProposalForUser); this module only reads.
 import { createHash } from "node:crypto";
 import { altitudeCurve } from "~/lib/astro/visibility";
-import { buildFeasibilitySheet, type FeasibilityInput, type FeasibilitySheet } from "~/lib/feasibility";
+import { buildFeasibilitySheet, type FeasibilityInput, type FeasibilitySheet } from "~/lib/proposals/feasibility";
 import { Call, CallOffer, Filter, Instrument, Observation, PlannedEpoch, Proposal, Target, Telescope } from "~/models/index.server";
 import { sheetTarget } from "~/models/Target";
-import { Lru } from "./lru";
-import { plainInstrument } from "./office.server";
+import { Lru } from "../lru";
+import { plainInstrument } from "../office/office.server";
 
-export type { FeasibilitySheet } from "~/lib/feasibility";
+export type { FeasibilitySheet } from "~/lib/proposals/feasibility";
 
 export class FeasibilityNotFound extends Error {}
 

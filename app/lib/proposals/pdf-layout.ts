@@ -1,4 +1,4 @@
-// Page-break decisions of the proposal PDF (app/lib/proposal-pdf.server.ts), kept pure so they can
+// Page-break decisions of the proposal PDF (app/lib/proposals/pdf.server.ts), kept pure so they can
 // be tested without fonts or a database. y runs downwards from the page top (PDF points, origin at
 // the page foot); `foot` is the lowest y a line's baseline may take.
 

@@ -1,7 +1,7 @@
 import { QueryTypes } from "sequelize";
 import { RoleGrant, sequelize, User } from "~/models/index.server";
 import type { GrantableRole } from "~/models/RoleGrant";
-import { writeAudit } from "./audit.server";
+import { writeAudit } from "../audit.server";
 import type { SessionUser } from "./auth.server";
 import { endSessionsOf, SESSION_IDLE_MINUTES } from "./session.server";
 

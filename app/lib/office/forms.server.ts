@@ -1,7 +1,7 @@
 // How the office's actions answer: 400 with the field's message and what was typed, or a redirect.
 import { data } from "react-router";
 import type { z } from "zod";
-import { fieldErrors, idSchema, Refusal, type FieldErrors } from "./forms";
+import { fieldErrors, idSchema, Refusal, type FieldErrors } from "../forms";
 
 export function formValues(formData: FormData) {
   const values: Record<string, string> = {};
