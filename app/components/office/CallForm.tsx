@@ -1,26 +1,11 @@
 import { useState } from "react";
 import { Form, useNavigation } from "react-router";
-import { moonCategories, teamVisibilities, teamVisibilityLabels, type TeamVisibility } from "~/lib/domain";
-import { callSchema, currencies, offerField } from "~/lib/schemas/office";
+import { moonCategories, teamVisibilities, teamVisibilityLabels } from "~/lib/domain";
+import { callSchema, currencies, offerField, type CallFormValues } from "~/lib/schemas/office";
 import { formatInZone, formatUtc, zonedLocalToUtc } from "~/lib/zoned-time";
-import { CallReviewOptions, type ReviewOptionValues } from "./CallReviewOptions";
+import { CallReviewOptions } from "./CallReviewOptions";
 import { fieldId, FormError, Message, NumberField, OfficeFields, TextField, useField, useOfficeForm, type FormResult } from "./fields";
 
-export interface CallFormValues extends ReviewOptionValues {
-  semesterCode: string;
-  title: string;
-  /** wall clock at the observatory, YYYY-MM-DDTHH:MM */
-  opensAt: string;
-  deadlineAt: string;
-  semesterStart: string;
-  semesterEnd: string;
-  pageLimit: number | string;
-  currency: string;
-  accessFee: number | string;
-  pageCharge: number | string;
-  offers: Record<number, Record<string, number>>;
-  teamVisibility: TeamVisibility;
-}
 
 const moonLabels = { dark: "Dark", grey: "Grey", bright: "Bright" } as const;
 

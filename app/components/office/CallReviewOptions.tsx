@@ -1,15 +1,9 @@
 // The call form's review options: who reviews (the panel, or the submitters themselves) and the
 // rules of a distributed review. One fieldset, registered through <OfficeFields> like the rest.
 import { useState } from "react";
-import { DEFAULT_REVIEWS_PER_SUBMITTER, reviewModeLabels, reviewModes, unreviewedPolicies, unreviewedPolicyLabels, type ReviewMode, type UnreviewedPolicy } from "~/lib/review/vocabulary";
+import { DEFAULT_REVIEWS_PER_SUBMITTER, reviewModeLabels, reviewModes, unreviewedPolicies, unreviewedPolicyLabels } from "~/lib/review/vocabulary";
+import type { ReviewOptionValues } from "~/lib/schemas/office";
 import { fieldId, Message, NumberField, useField } from "./fields";
-
-export interface ReviewOptionValues {
-  reviewMode: ReviewMode;
-  reviewsPerSubmitter: number | string;
-  separateCompetitors: boolean;
-  unreviewedPolicy: UnreviewedPolicy;
-}
 
 export function CallReviewOptions({ prefix, initial, typed, errors }: { prefix: string; initial: ReviewOptionValues; typed?: Record<string, unknown>; errors: Record<string, string | undefined> }) {
   const [mode, setMode] = useState<string>(String(typed?.reviewMode ?? initial.reviewMode));

@@ -3,7 +3,7 @@
 import { listTelescopes, observatoryTimeZone, type getCall } from "./office.server";
 import { utcToZonedLocal } from "../zoned-time";
 import { DEFAULT_REVIEWS_PER_SUBMITTER } from "../review/vocabulary";
-import type { CallFormValues } from "~/components/office/CallForm";
+import type { CallFormValues } from "~/lib/schemas/office";
 
 export async function callFormContext() {
   const [timeZone, telescopes] = await Promise.all([observatoryTimeZone(), listTelescopes()]);

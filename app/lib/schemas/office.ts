@@ -2,7 +2,7 @@
 // before sending) and the action (checked again). Numbers arrive as typed text; an empty field is
 // a message, never a silent 0.
 import { z } from "zod";
-import { moonCategories, teamVisibilities } from "~/lib/domain";
+import { moonCategories, teamVisibilities, type TeamVisibility } from "~/lib/domain";
 import { DEFAULT_REVIEWS_PER_SUBMITTER, MAX_REVIEWS_PER_SUBMITTER, reviewModes, unreviewedPolicies, type ReviewMode, type UnreviewedPolicy } from "~/lib/review/vocabulary";
 import { canonicalTimeZone, isValidTimeZone, startOfDateInZone, zonedLocalToUtc } from "~/lib/zoned-time";
 
@@ -266,3 +266,28 @@ export const clearFractionsSchema = z.object(
   Object.fromEntries(MONTH_NAMES.map((name, i) => [`m${i + 1}`, clearPercent(name)])) as Record<`m${number}`, ReturnType<typeof clearPercent>>,
 );
 export type ClearFractionsInput = z.output<typeof clearFractionsSchema>;
+
+/** The call form's review options as the form holds them. */
+export interface ReviewOptionValues {
+  reviewMode: ReviewMode;
+  reviewsPerSubmitter: number | string;
+  separateCompetitors: boolean;
+  unreviewedPolicy: UnreviewedPolicy;
+}
+
+/** The call form's values (what the page starts from and what comes back with a refusal). */
+export interface CallFormValues extends ReviewOptionValues {
+  semesterCode: string;
+  title: string;
+  /** wall clock at the observatory, YYYY-MM-DDTHH:MM */
+  opensAt: string;
+  deadlineAt: string;
+  semesterStart: string;
+  semesterEnd: string;
+  pageLimit: number | string;
+  currency: string;
+  accessFee: number | string;
+  pageCharge: number | string;
+  offers: Record<number, Record<string, number>>;
+  teamVisibility: TeamVisibility;
+}
