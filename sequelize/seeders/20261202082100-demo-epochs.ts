@@ -38,7 +38,8 @@ export async function up({ context: sequelize }: { context: Sequelize }) {
       if (await ExecutedEpoch.findOne({ where: { observationId: o.id }, transaction })) continue;
       const telescope = o.instrument?.telescope;
       if (!telescope || !o.instrument) continue;
-      const past = await PlannedEpoch.findAll({ where: { observationId: o.id, status: "observed" }, order: [["date", "ASC"]], transaction });
+      // "missed" too: a run after the executed epochs were wiped (a migrations round trip) finds the same past epochs
+      const past = await PlannedEpoch.findAll({ where: { observationId: o.id, status: ["observed", "missed"] }, order: [["date", "ASC"]], transaction });
       for (const [i, epoch] of past.entries()) {
         k += 1;
         const lost = i % 3 === 1;
