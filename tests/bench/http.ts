@@ -40,6 +40,8 @@ export async function benchApp() {
   }
   const buildDir = ensureBuild();
   const services = await benchServices();
+  // the mail and reminder workers' statements would be counted with the requests'
+  process.env.MAIL_WORKER = "off";
   const { createHttpApp } = await import("../../app/cli/http-app");
   const build = (await import(path.join(buildDir, "server/index.js"))) as ServerBuild;
   const app = createHttpApp({ build, clientDir: path.join(buildDir, "client") });
