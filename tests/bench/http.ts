@@ -28,7 +28,8 @@ export function ensureBuild(): string {
   return path.join(repoRoot, "build");
 }
 
-export async function benchApp() {
+/** `env`: set after the services' environment, before the build is loaded (it reads some at load). */
+export async function benchApp({ env = {} }: { env?: Record<string, string> } = {}) {
   if (!hooked) {
     hooked = true;
     // before any instance exists: the bench's own models and the build's
@@ -42,6 +43,7 @@ export async function benchApp() {
   const services = await benchServices();
   // the mail and reminder workers' statements would be counted with the requests'
   process.env.MAIL_WORKER = "off";
+  Object.assign(process.env, env);
   const { createHttpApp } = await import("../../app/cli/http-app");
   const build = (await import(path.join(buildDir, "server/index.js"))) as ServerBuild;
   const app = createHttpApp({ build, clientDir: path.join(buildDir, "client") });
