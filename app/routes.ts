@@ -10,6 +10,7 @@ export default [
   route("api/v1/admin/users", "routes/api.v1.admin.users.ts"),
   route("api/v1/proposals", "routes/api.v1.proposals.ts"),
   route("api/v1/proposals/:proposalId", "routes/api.v1.proposals.$proposalId.ts"),
+  route("api/v1/proposals/:proposalId/feasibility", "routes/api.v1.proposals.$proposalId.feasibility.ts"),
   route("api/v1/proposals/:proposalId/epochs", "routes/api.v1.proposals.$proposalId.epochs.ts"),
   route("api/v1/proposals/:proposalId/charges", "routes/api.v1.proposals.$proposalId.charges.ts"),
   route("api/v1/charges/:chargeId/checkout", "routes/api.v1.charges.$chargeId.checkout.ts"),

@@ -65,7 +65,10 @@ export function createHttpApp({ build, clientDir, trustProxy = false, appUrl = p
     next();
   });
   app.use("/assets", express.static(path.join(clientDir, "assets"), { immutable: true, maxAge: "1y" }));
-  app.use(express.static(clientDir, { maxAge: "1h", index: false }));
+  // The client build's top-level files all have an extension (favicon.ico, robots.txt …): a path
+  // without one is a page or an API call, and skips the file system look-up.
+  const topLevelFiles = express.static(clientDir, { maxAge: "1h", index: false });
+  app.use((req, res, next) => (/\.[^/]+$/.test(req.path) ? topLevelFiles(req, res, next) : next()));
   app.use((req, _res, next) => {
     // Set on every request, so a client cannot choose its own rate-limit bucket.
     req.headers[INTERNAL_HEADERS.clientIp] = req.ip ?? req.socket.remoteAddress ?? "unknown";
@@ -229,6 +232,12 @@ async function sendResponse(req: ExpressRequest, res: ExpressResponse, response:
   if (req.headers.cookie || response.headers.has("set-cookie")) res.setHeader("Cache-Control", "private, no-store");
   if (response.headers.get("Content-Type")?.match(/text\/event-stream/i)) res.flushHeaders();
   if (!response.body) return void res.end();
+  // JSON is never streamed: one write with the headers instead of a write per chunk and one to end
+  if (/^application\/json\b/i.test(response.headers.get("Content-Type") ?? "")) {
+    const body = Buffer.from(await response.arrayBuffer());
+    res.setHeader("Content-Length", body.length);
+    return void res.end(body);
+  }
   try {
     await writeReadableStreamToWritable(response.body, res);
   } catch (error) {

@@ -1,4 +1,4 @@
-import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
+import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from "sequelize";
 import type { User } from "./User";
 
 /** A signed-in browser. The cookie carries a random token; only its sha256 is stored here. */
@@ -10,6 +10,7 @@ export class UserSession extends Model<InferAttributes<UserSession>, InferCreati
   declare lastSeenAt: Date;
   /** Absolute end, whatever the activity. */
   declare expiresAt: Date;
+  declare user?: NonAttribute<User>;
 
   static initModel(sequelize: Sequelize) {
     UserSession.init(

@@ -1,8 +1,8 @@
 import { data } from "react-router";
 import { requireUser } from "~/lib/auth/auth.server";
-import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
-import { observationRows } from "~/lib/proposals/observations.server";
-import { targetRows } from "~/lib/proposals/targets.server";
+import { feasibilitySheetOf, loadFeasibilityInputWithRows } from "~/lib/proposals/feasibility.server";
+import { observationRowsOf } from "~/lib/proposals/observations.server";
+import { targetRowsOf } from "~/lib/proposals/targets.server";
 import { teamRows } from "~/lib/proposals/team.server";
 import { getProposalForUser, membershipWhere, overviewValues, workspaceHeader } from "~/lib/proposals/proposals.server";
 import { committeeAccess, committeeReading } from "~/lib/review/read.server";
@@ -19,18 +19,21 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     return data({ error: "The request has invalid fields.", issues: [{ path: "proposalId", message: "must be a positive whole number" }] }, { status: 400 });
   }
   const proposalId = Number(params.proposalId);
-  const onTeam = await ProposalMember.findOne({ where: { proposalId, ...membershipWhere(user) }, attributes: ["id"] });
-  if (!onTeam && (user.roles.includes("chair") || user.roles.includes("reviewer"))) {
+  // only the committee's roles need to know first whether they are on the team
+  const committee = user.roles.includes("chair") || user.roles.includes("reviewer");
+  if (committee && !(await ProposalMember.findOne({ where: { proposalId, ...membershipWhere(user) }, attributes: ["id"] }))) {
     const reading = await committeeReading(await committeeAccess({ user, proposalId }));
     return data({ ...reading, readOnly: true }, { headers: { "Cache-Control": "private, no-store" } });
   }
   const access = await getProposalForUser({ proposalId, user });
-  // access checked once above; the parts read with it
-  const [team, targets, { observations }] = await Promise.all([teamRows({ user, proposalId }), targetRows(proposalId), observationRows({ access })]);
+  // access checked once above; the targets and observations are read once, for the lists and the sheet
+  const [team, parts] = await Promise.all([teamRows({ user, proposalId }), loadFeasibilityInputWithRows({ proposal: access.proposal })]);
+  const targets = targetRowsOf(parts.targets, parts.observations);
+  const observations = observationRowsOf(parts.observations, parts.input);
   let feasibilitySheet = null;
   let feasibilityError: string | null = null;
   try {
-    feasibilitySheet = await computeFeasibilitySheet({ proposalId });
+    feasibilitySheet = feasibilitySheetOf(parts.input);
   } catch (error) {
     console.error(`feasibility sheet of proposal ${proposalId} failed`, error);
     feasibilityError = "The feasibility sheet could not be computed.";

@@ -1,13 +1,14 @@
-import { lazy, useEffect, useState } from "react";
-import { Form, Link, useNavigation, useRevalidator } from "react-router";
-import { ChartPlaceholder, ClientOnly } from "~/components/ClientOnly";
+import { lazy, useEffect, useMemo, useState } from "react";
+import { Form, Link, useFetcher, useNavigation, useRevalidator } from "react-router";
+import { ChartPlaceholder, ClientOnly, useHydrated } from "~/components/ClientOnly";
 import { hours, ProblemsList, TotalsTable } from "~/components/FeasibilityParts";
 import { ErrorPage } from "~/components/ErrorPage";
 import { Field, inputProps } from "~/components/Field";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
 import { isIsoDate } from "~/lib/astro/time";
 import { requireUser } from "~/lib/auth/auth.server";
-import type { FeasibilitySheet, ObservationSheet } from "~/lib/proposals/feasibility";
+import type { ObservationSheet } from "~/lib/proposals/feasibility";
+import { fromColumns, observationDetails, sheetSummary, type ObservationDetails, type ObservationSummary, type SheetSummary } from "~/lib/proposals/feasibility-summary";
 import { altitudeChartFor, feasibilitySheetOf, loadFeasibilityInput } from "~/lib/proposals/feasibility.server";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { getProposalForUser } from "~/lib/proposals/proposals.server";
@@ -25,6 +26,10 @@ export function meta() {
 
 // Read in the loader on every visit (cached by its inputs' hash): after the observations tab
 // saves, React Router revalidates this loader, so the sheet always reflects the saved data.
+// The page gets the sheet's summary and the details of the cards that start open (the first
+// three); another card fetches its details from the sheet's API when it opens.
+const OPEN_CARDS = 3;
+
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
@@ -44,7 +49,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     else night = nightParam;
   }
   const chart = chartObservationId === null ? null : altitudeChartFor(input, sheet, chartObservationId, night);
-  return { sheet, chart, night: { value: nightParam ?? chart?.date ?? "", error: nightError }, ms: Math.round(performance.now() - started) };
+  const openDetails = sheet.observations.slice(0, OPEN_CARDS).map((o) => observationDetails(sheet, o.observationId)!);
+  return { sheet: sheetSummary(sheet), openDetails, chart, night: { value: nightParam ?? chart?.date ?? "", error: nightError }, ms: Math.round(performance.now() - started) };
 }
 
 const fx = (x: number | null | undefined, d = 1) => (x === null || x === undefined || !Number.isFinite(x) ? "—" : x.toFixed(d));
@@ -95,13 +101,21 @@ function NoiseTable({ exposure }: { exposure: NonNullable<ObservationSheet["expo
   );
 }
 
-function ObservationCard({ o, sheet, defaultOpen }: { o: ObservationSheet; sheet: FeasibilitySheet; defaultOpen: boolean }) {
-  const [open, setOpen] = useState(defaultOpen);
-  const mine = sheet.problems.filter((p) => p.observationId === o.observationId);
-  const nights = sheet.sites[o.telescopeId]?.nights ?? [];
-  const x = o.exposure;
-  const t = o.timePerEpoch;
-  const a = o.astrometry;
+function ObservationCard({ o, sheet, given, mine }: { o: ObservationSummary; sheet: SheetSummary; given: ObservationDetails | undefined; mine: SheetSummary["problems"] }) {
+  const [open, setOpen] = useState(given !== undefined);
+  const fetcher = useFetcher<ObservationDetails | { error: string }>();
+  // the sheet's time of computation in the address: a changed sheet is fetched again
+  const url = `/api/v1/proposals/${sheet.proposalId}/feasibility?observationId=${o.observationId}&sheet=${encodeURIComponent(sheet.computedAt)}`;
+  const [asked, setAsked] = useState<string | null>(null);
+  useEffect(() => {
+    if (open && !given && asked !== url) {
+      setAsked(url);
+      fetcher.load(url);
+    }
+  }, [open, given, asked, url, fetcher]);
+  const fetched = fetcher.data && "observation" in fetcher.data ? fetcher.data : undefined;
+  const refused = fetcher.data && "error" in fetcher.data ? fetcher.data.error : null;
+  const details = given ?? fetched;
   return (
     <details
       id={`obs-${o.observationId}`}
@@ -112,7 +126,7 @@ function ObservationCard({ o, sheet, defaultOpen }: { o: ObservationSheet; sheet
       <summary className="cursor-pointer">
         <span className="text-base font-semibold text-night-900">{o.targetName}</span>{" "}
         <span className="text-sm text-slate-600">
-          · {o.telescopeName}, {o.instrumentName}, {o.band} · {o.moonCategory} time · airmass ≤ {o.maxAirmass} · {hours(o.requestedHoursThisSemester, 2)} in {sheet.semesterCode}
+          {`· ${o.telescopeName}, ${o.instrumentName}, ${o.band} · ${o.moonCategory} time · airmass ≤ ${o.maxAirmass} · ${hours(o.requestedHoursThisSemester, 2)} in ${sheet.semesterCode}`}
         </span>
         {mine.some((p) => p.severity === "blocking") ? (
           <span className="ml-2 rounded bg-red-100 px-2 py-0.5 text-xs font-semibold text-red-800">blocking</span>
@@ -122,7 +136,22 @@ function ObservationCard({ o, sheet, defaultOpen }: { o: ObservationSheet; sheet
           <span className="ml-2 rounded bg-emerald-100 px-2 py-0.5 text-xs font-semibold text-emerald-900">feasible</span>
         )}
       </summary>
-      {open ? (
+      {open && details ? (
+        <CardDetails o={details.observation} nights={details.nights} sheet={sheet} mine={mine} />
+      ) : open ? (
+        <p className="mt-4 text-sm text-slate-600" role="status">
+          {refused ?? "Loading the details…"}
+        </p>
+      ) : null}
+    </details>
+  );
+}
+
+function CardDetails({ o, nights, sheet, mine }: { o: ObservationSheet; nights: ObservationDetails["nights"]; sheet: SheetSummary; mine: SheetSummary["problems"] }) {
+  const x = o.exposure;
+  const t = o.timePerEpoch;
+  const a = o.astrometry;
+  return (
         <div className="mt-4 space-y-5">
           {mine.length ? <ProblemsList problems={mine} /> : null}
           <section className="space-y-2">
@@ -243,13 +272,11 @@ function ObservationCard({ o, sheet, defaultOpen }: { o: ObservationSheet; sheet
             </section>
           ) : null}
         </div>
-      ) : null}
-    </details>
   );
 }
 
 export default function FeasibilitySheetPage({ loaderData }: Route.ComponentProps) {
-  const { sheet, chart, night, ms } = loaderData;
+  const { sheet, openDetails, chart, night, ms } = loaderData;
   const navigation = useNavigation();
   const revalidator = useRevalidator();
   // Edits made in another tab or window (e.g. the observations tab) show when the user comes back.
@@ -261,7 +288,14 @@ export default function FeasibilitySheetPage({ loaderData }: Route.ComponentProp
     return () => document.removeEventListener("visibilitychange", onFocus);
   }, [revalidator]);
   const c = sheet.conventions;
-  const chartObs = chart ? sheet.observations.find((o) => o.observationId === chart.observationId) : null;
+  const observations = useMemo(() => fromColumns(sheet.columns), [sheet.columns]);
+  const hydrated = useHydrated();
+  const problemsOf = useMemo(() => {
+    const out = new Map<number, SheetSummary["problems"]>();
+    for (const p of sheet.problems) if (p.observationId !== undefined) out.set(p.observationId, [...(out.get(p.observationId) ?? []), p]);
+    return out;
+  }, [sheet.problems]);
+  const chartObs = chart ? observations.find((o) => o.observationId === chart.observationId) : null;
   return (
     <div className="space-y-6">
       <div className="flex flex-wrap items-baseline justify-between gap-3">
@@ -282,7 +316,7 @@ export default function FeasibilitySheetPage({ loaderData }: Route.ComponentProp
 
       <section className="space-y-3">
         <h2>Targets and observations</h2>
-        {sheet.observations.length === 0 ? (
+        {observations.length === 0 ? (
           <p className="text-sm text-slate-600">
             Nothing to compute yet. Add targets and observations on the <Link to="../observations">observations tab</Link>.
           </p>
@@ -300,18 +334,18 @@ export default function FeasibilitySheetPage({ loaderData }: Route.ComponentProp
                 <th>Status</th>
               </tr>
             </thead>
-            <tbody>
-              {sheet.observations.map((o) => {
-                const t = sheet.targets.find((x) => x.targetId === o.targetId);
-                const bad = sheet.problems.some((p) => p.observationId === o.observationId && p.severity === "blocking");
+            {/* the cells' classes on the body: 500 rows would repeat them 3 000 times */}
+            <tbody className="[&>tr>td:first-child>span]:text-xs [&>tr>td:first-child>span]:text-slate-500 [&>tr>td:nth-child(2)]:font-mono [&>tr>td:nth-child(2)]:text-xs [&>tr>td:nth-child(3)]:font-mono [&>tr>td:nth-child(3)]:text-xs [&>tr>td:nth-child(n+4):nth-child(-n+6)]:text-right">
+              {observations.map((o) => {
+                const bad = problemsOf.get(o.observationId)?.some((p) => p.severity === "blocking") ?? false;
                 return (
                   <tr key={o.observationId}>
-                    <td><a href={`#obs-${o.observationId}`}>{o.targetName}</a> <span className="text-xs text-slate-500">{o.telescopeName} · {o.band}</span></td>
-                    <td className="font-mono text-xs">{t ? formatRa(t.raDeg, 1) : "—"}</td>
-                    <td className="font-mono text-xs">{t ? formatDec(t.decDeg, 0) : "—"}</td>
-                    <td className="text-right">{t?.magnitude ?? "—"}{t?.band ? ` ${t.band}` : ""}</td>
-                    <td className="text-right">{hours(o.visibility.usableHours)}</td>
-                    <td className="text-right">{hours(o.requestedHoursThisSemester, 2)}</td>
+                    <td><a href={`#obs-${o.observationId}`}>{o.targetName}</a> <span>{`${o.telescopeName} · ${o.band}`}</span></td>
+                    <td>{o.raDeg === null ? "—" : formatRa(o.raDeg, 1)}</td>
+                    <td>{o.decDeg === null ? "—" : formatDec(o.decDeg, 0)}</td>
+                    <td>{`${o.magnitude ?? "—"}${o.magnitudeBand ? ` ${o.magnitudeBand}` : ""}`}</td>
+                    <td>{hours(o.usableHours)}</td>
+                    <td>{hours(o.requestedHoursThisSemester, 2)}</td>
                     <td>{bad ? <span className="font-semibold text-red-800">blocking</span> : "ok"}</td>
                   </tr>
                 );
@@ -320,8 +354,10 @@ export default function FeasibilitySheetPage({ loaderData }: Route.ComponentProp
           </table>
           </div>
         )}
-        {sheet.observations.map((o, i) => (
-          <ObservationCard key={o.observationId} o={o} sheet={sheet} defaultOpen={i < 3} />
+        {/* the cards after the open ones come with the browser's first render: they are far below
+            the table, and their details need the browser anyway (500 of them are ~250 KB of HTML) */}
+        {(hydrated ? observations : observations.slice(0, openDetails.length)).map((o) => (
+          <ObservationCard key={o.observationId} o={o} sheet={sheet} mine={problemsOf.get(o.observationId) ?? []} given={openDetails.find((d) => d.observation.observationId === o.observationId)} />
         ))}
       </section>
 
@@ -332,9 +368,9 @@ export default function FeasibilitySheetPage({ loaderData }: Route.ComponentProp
             <div>
               <label htmlFor="obs">Observation</label>
               <select id="obs" name="obs" defaultValue={chart.observationId} className="input">
-                {sheet.observations.map((o) => (
+                {observations.map((o) => (
                   <option key={o.observationId} value={o.observationId}>
-                    {o.targetName} · {o.telescopeName} · {o.band}
+                    {`${o.targetName} · ${o.telescopeName} · ${o.band}`}
                   </option>
                 ))}
               </select>

@@ -1,10 +1,12 @@
 // `npm run bench`: prints timings; nothing here is asserted (timings are not tests).
 //   npm run bench               everything
-//   npm run bench -- pdf        one section (visibility, review, board, ra-pressure, semester-check, pdf, decisions, restart)
+//   npm run bench -- pdf        one section (visibility, review, board, ra-pressure, semester-check, pages, load, pdf, decisions, restart)
 import { availableParallelism, loadavg } from "node:os";
 import { runAstroBench } from "./astro";
 import { runBoardBench } from "./board";
 import { runDecisionsBench } from "./decisions";
+import { runLoadBench } from "./load";
+import { runPagesBench } from "./pages";
 import { runPdfBench } from "./pdf";
 import { runRaPressureBench } from "./ra-pressure";
 import { runRestartBench } from "./restart";
@@ -35,6 +37,14 @@ if (want("ra-pressure")) {
 if (want("semester-check")) {
   console.log("\n[semester check]");
   for (const line of await runSemesterCheckBench()) console.log("  " + line);
+}
+if (want("pages")) {
+  console.log("\n[pages people wait for, through HTTP]");
+  for (const line of await runPagesBench()) console.log("  " + line);
+}
+if (want("load")) {
+  console.log("\n[load: concurrent keep-alive clients]");
+  for (const line of await runLoadBench()) console.log("  " + line);
 }
 if (want("pdf")) {
   console.log("\n[proposal PDF and submission]");

@@ -6,13 +6,13 @@ import path from "node:path";
 import { parseEnv } from "node:util";
 import { freePort, repoRoot, startMaildev, startMariaDb, stopAll, type Service } from "../../app/cli/services";
 
-export async function benchServices() {
+export async function benchServices({ nodeEnv = "test" }: { nodeEnv?: "test" | "production" } = {}) {
   const runDir = path.join(repoRoot, ".data", `bench-${Date.now()}`);
   const base = parseEnv(readFileSync(path.join(repoRoot, ".env.example"), "utf8")) as Record<string, string>;
   const [dbPort, smtpPort, webPort, appPort] = await Promise.all([freePort(), freePort(), freePort(), freePort()]);
   Object.assign(process.env, {
     ...base,
-    NODE_ENV: "test",
+    NODE_ENV: nodeEnv,
     DATABASE_PORT: String(dbPort),
     DATABASE_NAME: "nightshare_bench",
     SMTP_PORT: String(smtpPort),

@@ -10,7 +10,7 @@ import { buildProposalPdf } from "~/lib/proposals/pdf.server";
 import { Observation, Proposal, Target } from "~/models/index.server";
 import { request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
-import { newUser } from "../helpers/session";
+import { newUser, sessionCookieFor } from "../helpers/session";
 import { readyProposal, testCall } from "./proposals-fixtures";
 
 type Person = Awaited<ReturnType<typeof newUser>>;
@@ -95,6 +95,50 @@ describe("feasibility sheet screen", () => {
     expect(res.status).toBe(200);
     const sheet = await computeFeasibilitySheet({ proposalId: big.proposal.id });
     expect(sheet.observations).toHaveLength(50);
+  });
+});
+
+describe("feasibility sheet of the 500-field demo survey: summaries in the page, a card's details on request", () => {
+  const title = "The Wren Survey: faint halo stars in 500 fields";
+
+  it("renders the table of all observations and only the three open cards", async () => {
+    const survey = (await Proposal.findOne({ where: { title } }))!;
+    const cookie = await sessionCookieFor("pi@kestrel-ridge.example");
+    const res = await (await request()).get(`/proposals/${survey.id}/feasibility`).set("Cookie", cookie);
+    expect(res.status).toBe(200);
+    const sheet = await computeFeasibilitySheet({ proposalId: survey.id });
+    expect(sheet.observations).toHaveLength(500);
+    for (const o of [sheet.observations[0], sheet.observations[250], sheet.observations[499]]) expect(res.text).toContain(`href="#obs-${o.observationId}"`);
+    expect(res.text.match(/<details /g)).toHaveLength(3);
+    // the whole sheet was 1.67 MB of HTML; a size is not a timing
+    expect(res.text.length).toBeLessThan(300_000);
+  });
+
+  it("gives one card in full to the team, 400 without an observation, 404 to others and for another proposal's observation", async () => {
+    const survey = (await Proposal.findOne({ where: { title } }))!;
+    const cookie = await sessionCookieFor("pi@kestrel-ridge.example");
+    const sheet = await computeFeasibilitySheet({ proposalId: survey.id });
+    const tenth = sheet.observations[9];
+    const api = await request();
+    const res = await api.get(`/api/v1/proposals/${survey.id}/feasibility?observationId=${tenth.observationId}`).set("Cookie", cookie);
+    expect(res.status).toBe(200);
+    expect(res.body.observation).toEqual(tenth);
+    expect(res.body.nights).toEqual(sheet.sites[tenth.telescopeId].nights.map((n) => ({ date: n.date, moonCategory: n.moonCategory })));
+    expect(res.body.nights).toHaveLength(tenth.visibility.hoursPerNight.length);
+
+    const missing = await api.get(`/api/v1/proposals/${survey.id}/feasibility`).set("Cookie", cookie);
+    expect(missing.status).toBe(400);
+    expect(missing.body.issues.map((i: { path: string }) => i.path)).toEqual(["observationId"]);
+    const notANumber = await api.get(`/api/v1/proposals/${survey.id}/feasibility?observationId=abc`).set("Cookie", cookie);
+    expect(notANumber.status).toBe(400);
+    const elsewhere = (await Observation.findOne({ where: { proposalId: ready.proposal.id } }))!;
+    const foreign = await api.get(`/api/v1/proposals/${survey.id}/feasibility?observationId=${elsewhere.id}`).set("Cookie", cookie);
+    expect(foreign.status).toBe(404);
+    const stranger = await api.get(`/api/v1/proposals/${survey.id}/feasibility?observationId=${tenth.observationId}`).set("Cookie", pi.cookie);
+    expect(stranger.status).toBe(404);
+    expect(JSON.stringify(stranger.body)).not.toContain(tenth.targetName);
+    const anonymous = await api.get(`/api/v1/proposals/${survey.id}/feasibility?observationId=${tenth.observationId}`);
+    expect(anonymous.status).toBe(401);
   });
 });
 

@@ -400,6 +400,7 @@ describe("ids in URLs", () => {
       [`/proposals/${id}/charges`, pi],
       [`/proposals/${id}/charges/${id}/receipt.pdf`, pi],
       [`/api/v1/proposals/${id}/charges`, pi],
+      [`/api/v1/proposals/${id}/feasibility?observationId=1`, pi],
       [`/proposals/${id}/submit`, pi],
       [`/proposals/${id}/pdf`, pi],
       [`/proposals/${id}/files/${id}`, pi],

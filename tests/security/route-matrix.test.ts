@@ -37,6 +37,7 @@ const expectations: Record<string, Rule> = {
   // observers read accepted programmes only (A and B are drafts: 404 for them); tested in epoch-log.test.ts
   "/api/v1/proposals/:proposalId/epochs": { get: "memberOrAdmin", post: "office" }, // the probe body: 400
   "/api/v1/proposals/:proposalId/charges": { get: "member", post: "none" },
+  "/api/v1/proposals/:proposalId/feasibility": { get: "member", post: "none", getOk: 400 }, // no observationId: 400 naming it
   // no charge with the seeded id: 404 for every signed-in person (the PI's own: charges-pay.test.ts)
   "/api/v1/charges/:chargeId/checkout": { get: "none", post: "member" },
   "/api/v1/admin/charges": { get: "admin", post: "none" },

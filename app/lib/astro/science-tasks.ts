@@ -1,6 +1,7 @@
 // The heavy computations of the science API as plain data in → plain data out, so that they can
 // run in a worker thread (compute-worker.ts) or, without workers, in the server itself.
 import { planEpochs, precisionForMovedEpochs, type PlanInput } from "./astrometry";
+import { isoTime } from "./time";
 import { altitudeCurve, computeVisibility, type VisibilityInput } from "./visibility";
 
 export type ScienceTask =
@@ -9,7 +10,7 @@ export type ScienceTask =
 
 function curveJson(input: VisibilityInput, date: string) {
   const { night, points } = altitudeCurve(input.site, input.target, date, 10);
-  const iso = (t: number | null) => (t === null ? null : new Date(t).toISOString());
+  const iso = (t: number | null) => (t === null ? null : isoTime(t));
   return { date, sunset: iso(night.sunset), sunrise: iso(night.sunrise), darkStart: iso(night.darkStart), darkEnd: iso(night.darkEnd), points };
 }
 

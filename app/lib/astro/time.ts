@@ -95,3 +95,31 @@ export function utDays(utcMs: number): number {
 export function fromUtDays(ut: number): number {
   return J2000_UTC_MS + ut * DAY_MS;
 }
+
+const isoDays = new Map<number, string>();
+const pad2 = (n: number) => (n < 10 ? "0" : "") + n;
+
+/**
+ * `new Date(utcMs).toISOString()`, cheaper: the API's JSON formats thousands of instants that
+ * fall on a few hundred days, so the date part is kept per day and the time of day is put
+ * together by hand (years 0–9999, as toISOString writes them; other values go to it).
+ */
+export function isoTime(utcMs: number): string {
+  const t = Math.trunc(utcMs); // the Date's own time clip
+  const day = Math.floor(t / DAY_MS);
+  if (!(t >= -62_167_219_200_000 && t < 253_402_300_800_000)) return new Date(t).toISOString();
+  let prefix = isoDays.get(day);
+  if (prefix === undefined) {
+    prefix = new Date(day * DAY_MS).toISOString().slice(0, 11);
+    if (isoDays.size > 20_000) isoDays.clear();
+    isoDays.set(day, prefix);
+  }
+  let ms = t - day * DAY_MS;
+  const h = Math.floor(ms / 3_600_000);
+  ms -= h * 3_600_000;
+  const m = Math.floor(ms / 60_000);
+  ms -= m * 60_000;
+  const s = Math.floor(ms / 1000);
+  ms -= s * 1000;
+  return `${prefix}${pad2(h)}:${pad2(m)}:${pad2(s)}.${ms < 10 ? "00" : ms < 100 ? "0" : ""}${ms}Z`;
+}

@@ -21,7 +21,7 @@
 import * as Astro from "astronomy-engine";
 import { DEG, directionAt, toRaDec, vectorSeparationDeg, type Target, type Vec3 } from "./coordinates";
 import { altitudeForAirmass } from "./airmass";
-import { DAY_MS, addDays, dayNumber, localDate, utDays, zoneOffsetMs } from "./time";
+import { DAY_MS, addDays, dayNumber, isoTime, localDate, utDays, zoneOffsetMs } from "./time";
 
 export type Site = { latitudeDeg: number; longitudeDeg: number; elevationM: number; timeZone: string };
 
@@ -696,7 +696,7 @@ export function targetNights(prepared: PreparedSite, target: Target, minAltitude
   return out;
 }
 
-const iso = (t: number | null) => (t === null ? null : new Date(t).toISOString());
+const iso = (t: number | null) => (t === null ? null : isoTime(t));
 
 export type NightJson = {
   date: string;
@@ -838,7 +838,7 @@ export function altitudeCurve(site: Site, target: Target, date: string, stepMinu
     const sun = Astro.Equator(Astro.Body.Sun, time, observer, true, true);
     const moon = Astro.Equator(Astro.Body.Moon, time, observer, true, true);
     points.push({
-      time: new Date(t).toISOString(),
+      time: isoTime(t),
       targetAltDeg: round(Astro.Horizon(time, observer, place.raDeg / 15, place.decDeg).altitude, 3),
       sunAltDeg: round(Astro.Horizon(time, observer, sun.ra, sun.dec).altitude, 3),
       moonAltDeg: round(Astro.Horizon(time, observer, moon.ra, moon.dec).altitude, 3),

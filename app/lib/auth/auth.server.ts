@@ -27,11 +27,30 @@ export interface SessionUser {
   sessionId?: number;
 }
 
-export async function getSessionUser(request: Request): Promise<SessionUser | null> {
+/**
+ * The shell's, the layout's and the page's loaders of one request each ask for the user: a
+ * read (GET/HEAD) looks the session up once. Not for actions, which may sign in, out or change roles.
+ */
+const usersOfRequest = new WeakMap<Request, Promise<SessionUser | null>>();
+
+export function getSessionUser(request: Request): Promise<SessionUser | null> {
+  if (request.method !== "GET" && request.method !== "HEAD") return readSessionUser(request);
+  let user = usersOfRequest.get(request);
+  if (!user) {
+    user = readSessionUser(request);
+    usersOfRequest.set(request, user);
+    // a failed read is not remembered
+    user.catch(() => usersOfRequest.delete(request));
+  }
+  return user;
+}
+
+async function readSessionUser(request: Request): Promise<SessionUser | null> {
   const session = await getSession(request);
-  const row = await findUserSession(session.get("sid"));
+  // the account and its roles in the session's statement
+  const row = await findUserSession(session.get("sid"), new Date(), { include: [{ model: User, as: "user", include: [{ model: RoleGrant, as: "roleGrants" }] }] });
   if (!row) return null;
-  const user = await User.findByPk(row.userId, { include: [{ model: RoleGrant, as: "roleGrants" }] });
+  const user = row.user;
   if (!user) return null;
   return {
     id: user.id,

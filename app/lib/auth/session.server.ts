@@ -4,7 +4,7 @@
 // ends the session, whatever the browser still holds.
 import { createHash, randomBytes } from "node:crypto";
 import { createCookieSessionStorage } from "react-router";
-import { Op, type Transaction } from "sequelize";
+import { Op, type Includeable, type Transaction } from "sequelize";
 import { UserSession } from "~/models/index.server";
 import { env } from "../env.server";
 
@@ -68,9 +68,10 @@ export async function signedInCookie(token: string) {
 }
 
 /** The live session for this token, touched at most once a minute; expired rows are deleted. */
-export async function findUserSession(token: string | undefined, now = new Date()) {
+/** The live session of this token (`include`: what to read with it in the same statement). */
+export async function findUserSession(token: string | undefined, now = new Date(), { include }: { include?: Includeable[] } = {}) {
   if (!token) return null;
-  const row = await UserSession.findOne({ where: { tokenHash: sha256(token) } });
+  const row = await UserSession.findOne({ where: { tokenHash: sha256(token) }, include });
   if (!row) return null;
   const idleSince = now.getTime() - SESSION_IDLE_MINUTES * 60_000;
   if (row.expiresAt.getTime() <= now.getTime() || row.lastSeenAt.getTime() <= idleSince) {

@@ -31,24 +31,35 @@ function byProposal<T extends { proposalId?: unknown }>(rows: T[]): Map<number, 
 /** What the inputs need of a proposal (a model, or a plain row the caller has just read). */
 export type FeasibilityProposal = { id: number; callId?: unknown; isMultiSemester: boolean | number; semestersRequested: string[] | string | null };
 
-export async function loadFeasibilityInputs({ proposalIds, proposals: given, calls: givenCalls }: { proposalIds: number[]; proposals?: FeasibilityProposal[]; calls?: Call[] }): Promise<Map<number, FeasibilityInput>> {
+export async function loadFeasibilityInputs(args: { proposalIds: number[]; proposals?: FeasibilityProposal[]; calls?: Call[] }): Promise<Map<number, FeasibilityInput>> {
+  return (await readFeasibilityInputs(args)).inputs;
+}
+
+/**
+ * The inputs and the target and observation rows they were made from (for callers that show them
+ * too): plain rows typed as models (`raw: true`: MariaDB's TINYINT and JSON text unconverted).
+ */
+async function readFeasibilityInputs({ proposalIds, proposals: given, calls: givenCalls }: { proposalIds: number[]; proposals?: FeasibilityProposal[]; calls?: Call[] }) {
   const out = new Map<number, FeasibilityInput>();
   const ids = [...new Set(proposalIds)];
-  if (ids.length === 0) return out;
+  const empty = { inputs: out, targets: [] as Target[], observations: [] as Observation[] };
+  if (ids.length === 0) return empty;
   // a caller that has just read the proposals passes them
   const wanted = new Set(ids);
   const proposals: FeasibilityProposal[] = given ? given.filter((p) => wanted.has(p.id)) : await Proposal.findAll({ where: { id: ids } });
-  if (proposals.length === 0) return out;
+  if (proposals.length === 0) return empty;
   const callIds = [...new Set(proposals.map((p) => p.callId as number))];
+  // a caller that has the calls with their offers passes them; otherwise every call is read with
+  // its offers in one statement (a few per semester), for the proposals' calls and the later semesters
+  const haveCalls = givenCalls && callIds.every((id) => givenCalls.some((c) => c.id === id));
   const [callRows, targets, observations, telescopes, calls] = await Promise.all([
-    // a caller that has the calls with their offers passes them
-    givenCalls && callIds.every((id) => givenCalls.some((c) => c.id === id)) ? givenCalls : Call.findAll({ where: { id: callIds }, include: [{ model: CallOffer, as: "offers" }] }),
+    haveCalls ? givenCalls : Call.findAll({ include: [{ model: CallOffer, as: "offers" }], order: [["semesterStart", "ASC"], ["id", "ASC"]] }),
     // plain rows: hundreds of proposals' targets and observations need no model instances
     Target.findAll({ where: { proposalId: ids }, order: [["id", "ASC"]], raw: true }),
     Observation.findAll({ where: { proposalId: ids }, order: [["id", "ASC"]], raw: true }),
     Telescope.findAll({ include: [{ model: Instrument, as: "instruments", include: [{ model: Filter, as: "filters" }] }], order: [["id", "ASC"], [{ model: Instrument, as: "instruments" }, "id", "ASC"], [{ model: Instrument, as: "instruments" }, { model: Filter, as: "filters" }, "id", "ASC"]] }),
-    Call.findAll({ attributes: ["semesterCode", "semesterStart", "semesterEnd"], order: [["semesterStart", "ASC"]] }),
-  ]);
+    haveCalls ? Call.findAll({ attributes: ["semesterCode", "semesterStart", "semesterEnd"], order: [["semesterStart", "ASC"]] }) : null,
+  ]).then(([callRows, targets, observations, telescopes, calls]) => [callRows, targets, observations, telescopes, calls ?? callRows] as const);
   const epochs = observations.length
     ? await PlannedEpoch.findAll({ where: { observationId: observations.map((o) => o.id) }, order: [["id", "ASC"]] })
     : [];
@@ -122,7 +133,18 @@ export async function loadFeasibilityInputs({ proposalIds, proposals: given, cal
       })),
     });
   }
-  return out;
+  return { inputs: out, targets, observations };
+}
+
+/**
+ * One proposal's input with the plain rows of its targets and observations (the proposal API
+ * shows them too, and reads them once). `proposal` is the row the caller's access check read.
+ */
+export async function loadFeasibilityInputWithRows({ proposal }: { proposal: FeasibilityProposal }) {
+  const { inputs, targets, observations } = await readFeasibilityInputs({ proposalIds: [proposal.id], proposals: [proposal] });
+  const input = inputs.get(proposal.id);
+  if (!input) throw new FeasibilityNotFound(`No proposal ${proposal.id} (or no call for it)`);
+  return { input, targets, observations };
 }
 
 export async function loadFeasibilityInput({ proposalId }: { proposalId: number }): Promise<FeasibilityInput> {

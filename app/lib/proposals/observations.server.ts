@@ -1,6 +1,7 @@
 // Observations of a proposal: per target, an instrument and filter from the call's telescopes.
 import { Refusal } from "~/lib/forms";
 import { writeAudit } from "~/lib/audit.server";
+import type { FeasibilityInput } from "~/lib/proposals/feasibility";
 import type { ObservationInput } from "~/lib/schemas/proposals";
 import { CallOffer, Filter, Instrument, Observation, sequelize, Target, Telescope } from "~/models/index.server";
 import { assertEditable, getProposalForUser, type Actor } from "./proposals.server";
@@ -87,6 +88,38 @@ export async function observationRows({ access }: { access: Awaited<ReturnType<t
     seeingArcsec: o.seeingArcsec,
   }));
   return { access, observations: rows, options };
+}
+
+/**
+ * The same rows from plain observation rows and the feasibility input read with them (its
+ * targets, instruments and filters), without reading anything again.
+ */
+export function observationRowsOf(observations: Observation[], input: Pick<FeasibilityInput, "targets" | "instruments" | "filters">): ObservationRow[] {
+  const targetOf = new Map(input.targets.map((t) => [t.id, t]));
+  const instrumentOf = new Map(input.instruments.map((i) => [i.id, i]));
+  const filterOf = new Map(input.filters.map((f) => [f.id, f]));
+  return [...observations]
+    .sort((a, b) => a.targetId - b.targetId || a.id - b.id)
+    .map((o) => ({
+      id: o.id,
+      targetId: o.targetId,
+      targetName: targetOf.get(o.targetId)?.name ?? "?",
+      instrumentId: o.instrumentId,
+      instrumentName: instrumentOf.get(o.instrumentId)?.name ?? "?",
+      telescopeId: instrumentOf.get(o.instrumentId)?.telescopeId ?? 0,
+      filterId: o.filterId,
+      band: filterOf.get(o.filterId)?.band ?? "?",
+      mode: o.snrGoal !== null ? "snr" : "exposure",
+      snrGoal: o.snrGoal,
+      exposureSeconds: o.exposureSeconds,
+      framesPerEpoch: o.framesPerEpoch,
+      epochsPerSemester: o.epochsPerSemester,
+      baselineYears: o.baselineYears,
+      requiredPmPrecisionMasPerYr: o.requiredPmPrecisionMasPerYr,
+      moonCategory: o.moonCategory,
+      maxAirmass: o.maxAirmass,
+      seeingArcsec: o.seeingArcsec,
+    }));
 }
 
 async function checkChoices(proposalId: number, callId: number, input: ObservationInput, transaction: Transaction) {

@@ -64,9 +64,11 @@ export async function getProposalForUser({
   if (!Number.isSafeInteger(proposalId) || proposalId <= 0) notFound();
   const membership = await ProposalMember.findOne({ where: { proposalId, ...membershipWhere(user) }, transaction });
   if (!membership) notFound();
-  const proposal = await Proposal.findByPk(proposalId, { transaction, lock: lock && transaction ? transaction.LOCK.UPDATE : undefined });
+  // a locking read locks the proposal's row only; otherwise its call comes in the same statement
+  const locking = lock && transaction;
+  const proposal = await Proposal.findByPk(proposalId, locking ? { transaction, lock: transaction.LOCK.UPDATE } : { transaction, include: [{ model: Call, as: "call" }] });
   if (!proposal) notFound();
-  const call = await Call.findByPk(proposal.callId, { transaction });
+  const call = locking ? await Call.findByPk(proposal.callId, { transaction }) : proposal.call;
   if (!call) notFound();
   return { proposal, call, membership, role: membership.role, isPi: membership.role === "pi", editable: proposal.status === "draft" };
 }

@@ -37,6 +37,11 @@ export async function targetRows(proposalId: number, transaction?: Transaction):
     Target.findAll({ where: { proposalId }, order: [["id", "ASC"]], transaction }),
     Observation.findAll({ where: { proposalId }, attributes: ["targetId"], transaction }),
   ]);
+  return targetRowsOf(targets, observations);
+}
+
+/** The rows from targets (in id order) and the proposal's observations, read by the caller. */
+export function targetRowsOf(targets: Target[], observations: { targetId: number }[]): TargetRow[] {
   const count = new Map<number, number>();
   for (const o of observations) count.set(o.targetId, (count.get(o.targetId) ?? 0) + 1);
   return targets.map((t) => ({
