@@ -20,7 +20,8 @@ export function readCsv(text: string): CsvRead {
   const body = text.replace(/^\uFEFF/, "");
   const header = body.split(/\r\n|\n|\r/).find((l) => !skipped(l));
   if (header === undefined) return { empty: true };
-  let records: { record: string[]; info: { lines: number; raw?: string } }[];
+  type WithInfo = { record: string[]; info: { lines: number; raw?: string } };
+  let records: WithInfo[];
   try {
     records = parse(body, {
       delimiter: detectSeparator(header),
@@ -32,7 +33,8 @@ export function readCsv(text: string): CsvRead {
       trim: true,
       info: true,
       raw: true,
-    }) as never;
+      // csv-parse's typings return string[][] whatever the options; with info it returns records with their info
+    }) as unknown as WithInfo[];
   } catch (error) {
     if (error instanceof CsvError) {
       const line = (error as CsvError & { lines?: number }).lines;

@@ -49,3 +49,22 @@ export class Observation extends Model<InferAttributes<Observation>, InferCreati
     );
   }
 }
+
+/** An observation's settings as plain data: the fields the feasibility sheet and the observations tab both read. */
+export function observationSettings(o: Observation) {
+  return {
+    id: o.id,
+    targetId: o.targetId,
+    instrumentId: o.instrumentId,
+    filterId: o.filterId,
+    snrGoal: o.snrGoal,
+    exposureSeconds: o.exposureSeconds,
+    framesPerEpoch: o.framesPerEpoch,
+    epochsPerSemester: o.epochsPerSemester,
+    baselineYears: o.baselineYears,
+    requiredPmPrecisionMasPerYr: o.requiredPmPrecisionMasPerYr,
+    moonCategory: o.moonCategory,
+    maxAirmass: o.maxAirmass,
+    seeingArcsec: o.seeingArcsec,
+  };
+}

@@ -5,6 +5,7 @@ import { altitudeCurve } from "~/lib/astro/visibility";
 import { buildFeasibilitySheet, type FeasibilityInput, type FeasibilitySheet } from "~/lib/proposals/feasibility";
 import { Call, CallOffer, Filter, Instrument, Observation, PlannedEpoch, Proposal, Target, Telescope } from "~/models/index.server";
 import { sheetTarget } from "~/models/Target";
+import { observationSettings } from "~/models/Observation";
 import { Lru } from "../lru";
 import { plainInstrument } from "../office/office.server";
 
@@ -116,19 +117,7 @@ async function readFeasibilityInputs({ proposalIds, proposals: given, calls: giv
       ...shared,
       targets: (targetsOf.get(proposal.id) ?? []).map(sheetTarget),
       observations: (observationsOf.get(proposal.id) ?? []).map((o) => ({
-        id: o.id,
-        targetId: o.targetId,
-        instrumentId: o.instrumentId,
-        filterId: o.filterId,
-        snrGoal: o.snrGoal,
-        exposureSeconds: o.exposureSeconds,
-        framesPerEpoch: o.framesPerEpoch,
-        epochsPerSemester: o.epochsPerSemester,
-        baselineYears: o.baselineYears,
-        requiredPmPrecisionMasPerYr: o.requiredPmPrecisionMasPerYr,
-        moonCategory: o.moonCategory,
-        maxAirmass: o.maxAirmass,
-        seeingArcsec: o.seeingArcsec,
+        ...observationSettings(o),
         epochs: (epochsOf.get(o.id) ?? []).map((e) => ({ id: e.id, date: e.date, semesterCode: e.semesterCode, status: e.status })),
       })),
     });

@@ -4,6 +4,7 @@ import { writeAudit } from "~/lib/audit.server";
 import type { FeasibilityInput } from "~/lib/proposals/feasibility";
 import type { ObservationInput } from "~/lib/schemas/proposals";
 import { CallOffer, Filter, Instrument, Observation, sequelize, Target, Telescope } from "~/models/index.server";
+import { observationSettings } from "~/models/Observation";
 import { assertEditable, getProposalForUser, type Actor } from "./proposals.server";
 import type { Transaction } from "sequelize";
 
@@ -67,26 +68,9 @@ export async function observationRows({ access }: { access: Awaited<ReturnType<t
     }),
     instrumentOptions({ callId: access.call.id }),
   ]);
-  const rows: ObservationRow[] = observations.map((o) => ({
-    id: o.id,
-    targetId: o.targetId,
-    targetName: o.target?.name ?? "?",
-    instrumentId: o.instrumentId,
-    instrumentName: o.instrument?.name ?? "?",
-    telescopeId: o.instrument?.telescopeId ?? 0,
-    filterId: o.filterId,
-    band: o.filter?.band ?? "?",
-    mode: o.snrGoal !== null ? "snr" : "exposure",
-    snrGoal: o.snrGoal,
-    exposureSeconds: o.exposureSeconds,
-    framesPerEpoch: o.framesPerEpoch,
-    epochsPerSemester: o.epochsPerSemester,
-    baselineYears: o.baselineYears,
-    requiredPmPrecisionMasPerYr: o.requiredPmPrecisionMasPerYr,
-    moonCategory: o.moonCategory,
-    maxAirmass: o.maxAirmass,
-    seeingArcsec: o.seeingArcsec,
-  }));
+  const rows = observations.map((o) =>
+    observationRow(o, { targetName: o.target?.name, instrumentName: o.instrument?.name, telescopeId: o.instrument?.telescopeId, band: o.filter?.band }),
+  );
   return { access, observations: rows, options };
 }
 
@@ -100,26 +84,26 @@ export function observationRowsOf(observations: Observation[], input: Pick<Feasi
   const filterOf = new Map(input.filters.map((f) => [f.id, f]));
   return [...observations]
     .sort((a, b) => a.targetId - b.targetId || a.id - b.id)
-    .map((o) => ({
-      id: o.id,
-      targetId: o.targetId,
-      targetName: targetOf.get(o.targetId)?.name ?? "?",
-      instrumentId: o.instrumentId,
-      instrumentName: instrumentOf.get(o.instrumentId)?.name ?? "?",
-      telescopeId: instrumentOf.get(o.instrumentId)?.telescopeId ?? 0,
-      filterId: o.filterId,
-      band: filterOf.get(o.filterId)?.band ?? "?",
-      mode: o.snrGoal !== null ? "snr" : "exposure",
-      snrGoal: o.snrGoal,
-      exposureSeconds: o.exposureSeconds,
-      framesPerEpoch: o.framesPerEpoch,
-      epochsPerSemester: o.epochsPerSemester,
-      baselineYears: o.baselineYears,
-      requiredPmPrecisionMasPerYr: o.requiredPmPrecisionMasPerYr,
-      moonCategory: o.moonCategory,
-      maxAirmass: o.maxAirmass,
-      seeingArcsec: o.seeingArcsec,
-    }));
+    .map((o) =>
+      observationRow(o, {
+        targetName: targetOf.get(o.targetId)?.name,
+        instrumentName: instrumentOf.get(o.instrumentId)?.name,
+        telescopeId: instrumentOf.get(o.instrumentId)?.telescopeId,
+        band: filterOf.get(o.filterId)?.band,
+      }),
+    );
+}
+
+/** One row of the observations tab: the observation's settings and the names it points at. */
+function observationRow(o: Observation, names: { targetName?: string; instrumentName?: string; telescopeId?: number | null; band?: string }): ObservationRow {
+  return {
+    ...observationSettings(o),
+    targetName: names.targetName ?? "?",
+    instrumentName: names.instrumentName ?? "?",
+    telescopeId: names.telescopeId ?? 0,
+    band: names.band ?? "?",
+    mode: o.snrGoal !== null ? "snr" : "exposure",
+  };
 }
 
 async function checkChoices(proposalId: number, callId: number, input: ObservationInput, transaction: Transaction) {
