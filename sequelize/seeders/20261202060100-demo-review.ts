@@ -10,6 +10,7 @@ import { callFacts } from "~/lib/review/facts.server";
 import { pairKey } from "~/lib/review/conflicts";
 import { suggestAssignments } from "~/lib/review/suggest";
 import { Call, CallReview, Proposal, ReviewAssignment, ReviewerProfile, ReviewPanelMember, RoleGrant, User } from "~/models/index.server";
+import { demoReviewGrades } from "../demo-review-grades";
 
 const categoriesByEmail: Record<string, string[]> = {
   "reviewer@kestrel-ridge.example": ["clusters-astrometry", "stellar-populations", "stellar-physics"],
@@ -48,7 +49,6 @@ const committeeNotes = [
   "The team has a good record with similar data; the time request seems padded by about 10 %.",
 ];
 
-const clamp = (x: number) => Math.min(10, Math.max(1, Math.round(x * 2) / 2));
 
 export async function up({ context: sequelize }: { context: Sequelize }) {
   const now = new Date();
@@ -108,14 +108,9 @@ export async function up({ context: sequelize }: { context: Sequelize }) {
           proposalId: pair.proposalId,
           reviewerId: pair.reviewerId,
           committedAt: now,
-          status: submitted ? "submitted" : draft ? "draft" : "assigned",
-          science: submitted || draft ? clamp(base + bias + 0.5) : null,
-          feasibility: submitted ? clamp(base + bias) : null,
-          legacy: submitted ? clamp(base + bias - 1) : null,
-          overall: submitted ? clamp(base + bias) : null,
+          ...demoReviewGrades({ submitted, draft, merit: base + bias, now }),
           commentToPi: submitted ? comment : draft ? openings[n % openings.length] : null,
           commentToCommittee: submitted ? committeeNotes[n % committeeNotes.length] || null : null,
-          submittedAt: submitted ? now : null,
         },
         { transaction },
       );

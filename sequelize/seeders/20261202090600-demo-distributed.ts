@@ -20,6 +20,7 @@ import { proposalCode, upcomingSemesters } from "~/lib/proposals/vocabulary";
 import { AuditEntry, Call, CallOffer, CallReview, Filter, Instrument, Observation, Proposal, ProposalMember, ReviewAssignment, ReviewPanelMember, StoredFile, Target, Telescope, User } from "~/models/index.server";
 import { consortium, demoCallPlan } from "./20261201000100-demo-observatory";
 import { scienceCasePdf } from "./20261201000300-demo-proposals";
+import { demoReviewGrades } from "../demo-review-grades";
 
 const DAY = 86_400_000;
 
@@ -231,22 +232,16 @@ export async function up({ context: sequelize }: { context: Sequelize }) {
       const draft = !submitted && rank < 7 && nth === 1;
       const base = 4.5 + ((pair.proposalId * 5) % 9) / 2; // 4.5 … 8.5 per proposal
       const bias = rank % 3 === 0 ? 1 : rank % 3 === 1 ? -1 : 0; // some lenient, some harsh
-      const clamp = (x: number) => Math.min(10, Math.max(1, Math.round(x * 2) / 2));
-      const text = [comments[(pair.proposalId + rank) % comments.length], technical[pair.proposalId % technical.length], endings[(rank + nth) % endings.length]].join(" ");
+            const text = [comments[(pair.proposalId + rank) % comments.length], technical[pair.proposalId % technical.length], endings[(rank + nth) % endings.length]].join(" ");
       await ReviewAssignment.create(
         {
           callId: call.id,
           proposalId: pair.proposalId,
           reviewerId: pair.reviewerId,
           committedAt: now,
-          status: submitted ? "submitted" : draft ? "draft" : "assigned",
-          science: submitted || draft ? clamp(base + bias + 0.5) : null,
-          feasibility: submitted ? clamp(base + bias) : null,
-          legacy: submitted ? clamp(base + bias - 1) : null,
-          overall: submitted ? clamp(base + bias) : null,
+          ...demoReviewGrades({ submitted, draft, merit: base + bias, now }),
           commentToPi: submitted ? text : draft ? comments[rank % comments.length] : null,
           commentToCommittee: null,
-          submittedAt: submitted ? now : null,
         },
         { transaction },
       );
