@@ -3,6 +3,19 @@ import { z } from "zod";
 
 export type FieldErrors = Record<string, string>;
 
+/** What the user typed, echoed with a refusal so the form keeps it (files and `intent` left out). */
+export type FormValues = Record<string, string>;
+
+export interface ActionFailure {
+  ok: false;
+  /** the button the failure belongs to; "unknown" when the form named none of the route's */
+  intent: string;
+  errors: FieldErrors;
+  values: FormValues;
+  /** the table row the form sat in, when a page has one form per row */
+  rowId?: number;
+}
+
 /** zod issues → one message per field path, for the field-level messages on our forms. */
 export function fieldErrors(error: z.ZodError): FieldErrors {
   const out: FieldErrors = {};
