@@ -21,13 +21,9 @@ describe("parseRa", () => {
   it("rejects out-of-range values with a message naming the field and the range", () => {
     const bad = ["24:00:00", "12:60:00", "12:30:60", "360", "-1", "-01:00:00", "abc", "", "12:3x:00", "1:2:3:4"];
     for (const text of bad) {
-      const r = parseRa(text, "ra");
-      expect(r.ok, text).toBe(false);
-      if (!r.ok) expect(r.message.startsWith("ra:")).toBe(true);
+      expect(parseRa(text, "ra"), text).toMatchObject({ ok: false, message: expect.stringMatching(/^ra:/) });
     }
-    const r = parseRa("400", "target.ra");
-    expect(r.ok).toBe(false);
-    if (!r.ok) expect(r.message).toContain("0 ≤ RA < 360");
+    expect(parseRa("400", "target.ra")).toMatchObject({ ok: false, message: expect.stringContaining("0 ≤ RA < 360") });
   });
 });
 
@@ -44,9 +40,7 @@ describe("parseDec", () => {
 
   it("rejects out-of-range values", () => {
     for (const text of ["+91:00:00", "-90:00:01", "12:60:00", "12:00:60", "91", "x", ""]) {
-      const r = parseDec(text, "dec");
-      expect(r.ok, text).toBe(false);
-      if (!r.ok) expect(r.message.startsWith("dec:")).toBe(true);
+      expect(parseDec(text, "dec"), text).toMatchObject({ ok: false, message: expect.stringMatching(/^dec:/) });
     }
     const r = parseDec("95", "dec");
     expect(r).toMatchObject({ ok: false, message: expect.stringContaining("−90 ≤ Dec ≤ +90") });
