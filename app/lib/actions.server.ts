@@ -45,9 +45,14 @@ export function formValues(fields: Record<string, string | string[]>): FormValue
   return out;
 }
 
-export function failure(intent: string, errors: FieldErrors, values: FormValues, { status = 400, rowId }: { status?: number; rowId?: number } = {}) {
+export function failure(
+  intent: string,
+  errors: FieldErrors,
+  values: FormValues,
+  { status = 400, rowId, headers }: { status?: number; rowId?: number; headers?: HeadersInit } = {},
+) {
   const body: ActionFailure = { ok: false, intent, errors, values, ...(rowId === undefined ? {} : { rowId }) };
-  return data(body, { status });
+  return data(body, { status, headers });
 }
 
 /** A refusal as the form's field message; a 404 refusal is the 404 page (the record is gone). */
