@@ -3,7 +3,7 @@
 // id (`abc`, `-1`, `1e3`), are a 400 whose body carries the message for the form or the field,
 // never a 500 and never a change.
 import { beforeAll, describe, expect, it } from "vitest";
-import { CallReview, Observation, Proposal, ProposalMember, ReviewAssignment, Target } from "~/models/index.server";
+import { CallReview, Observation, Proposal, ProposalMember, ReviewAssignment, Target, User } from "~/models/index.server";
 import { instrumentOptions } from "~/lib/proposals/observations.server";
 import { form, request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
@@ -29,6 +29,8 @@ beforeAll(async () => {
   await ensureDatabase();
   pi = await newUser({ name: "Intent Test PI" });
   reviewer = await newUser({ name: "Intent Test Reviewer", roles: ["reviewer"] });
+  // not the PIs' institution, or the pair would be a conflict and the page a 404
+  await User.update({ institution: "Intent Test Reviewing Observatory" }, { where: { id: reviewer.user.id } });
   const call = await testCall();
   proposalId = (await readyProposal({ user: pi.user, callId: call.id, title: "Intent test programme" })).proposal.id;
   targetId = (await Target.findOne({ where: { proposalId } }))!.id;
