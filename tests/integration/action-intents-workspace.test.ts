@@ -1,4 +1,4 @@
-// Issue 9: every action of the workspace, the review desk and the sign-in page reads its form
+// Issue 9: every action of the workspace, the review desk, the sign-in and welcome pages reads its form
 // through one intent union. A button the route does not have, and an id field that is not a row
 // id (`abc`, `-1`, `1e3`), are a 400 whose body carries the message for the form or the field,
 // never a 500 and never a change.
@@ -152,6 +152,7 @@ const routes: RouteCase[] = [
     cases: ["draft", "submit", "reopen", "conflict"].map((intent) => ({ intent, fields: () => ({}), ids: {} })),
   },
   { name: "/review/settings", path: () => "/review/settings", cookie: () => reviewer.cookie, cases: [{ intent: "save", fields: () => ({}), ids: {} }] },
+  { name: "/welcome", path: () => "/welcome", cookie: () => pi.cookie, cases: [{ intent: "save", fields: () => ({ name: "Intent Test PI", institution: "Test Institute" }), ids: {} }] },
   { name: "/sign-in", path: () => "/sign-in", cookie: () => "", cases: ["send", "verify", "restart"].map((intent) => ({ intent, fields: () => ({}), ids: {} })) },
 ];
 

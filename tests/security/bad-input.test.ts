@@ -195,7 +195,7 @@ const officeCall: Record<string, Kind> = { semesterCode: "text", title: "text", 
 
 const formRoutes: FormRoute[] = [
   { path: () => "/sign-in", who: "anonymous", intents: ["send", "verify", "bogus"], fields: { email: "text", code: "text", redirectTo: "text", intent: "text" } },
-  { path: () => "/welcome", who: "fresh", intents: [undefined], fields: { name: "text", institution: "text" } },
+  { path: () => "/welcome", who: "fresh", intents: ["save", "bogus"], fields: { name: "text", institution: "text" } },
   { path: () => "/proposals/new", who: "owner", intents: ["create", "bogus"], fields: { callId: "id", title: "text", abstract: "text" } },
   {
     path: () => `/proposals/${ids.proposal}?index`,
