@@ -36,8 +36,11 @@ async function checkoutReturn(url: URL, proposalId: number): Promise<CheckoutRet
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
+  // the return first, the charges after: a payment confirmed in between shows as paid in the table
+  // while the notice still waits (and polls), never as "paid" above a row that is not
+  const returned = await checkoutReturn(new URL(request.url), proposalId);
   const view = await chargesForTeam({ user, proposalId });
-  return { ...view, proposalId, returned: await checkoutReturn(new URL(request.url), proposalId) };
+  return { ...view, proposalId, returned };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
