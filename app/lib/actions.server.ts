@@ -45,9 +45,14 @@ export function formValues(fields: Record<string, string | string[]>): FormValue
   return out;
 }
 
-export function failure(intent: string, errors: FieldErrors, values: FormValues, { status = 400, rowId }: { status?: number; rowId?: number } = {}) {
+export function failure(
+  intent: string,
+  errors: FieldErrors,
+  values: FormValues,
+  { status = 400, rowId, headers }: { status?: number; rowId?: number; headers?: HeadersInit } = {},
+) {
   const body: ActionFailure = { ok: false, intent, errors, values, ...(rowId === undefined ? {} : { rowId }) };
-  return data(body, { status });
+  return data(body, { status, headers });
 }
 
 /** A refusal as the form's field message; a 404 refusal is the 404 page (the record is gone). */
@@ -66,15 +71,16 @@ export interface ActionContext {
 /**
  * Reads the request's form, parses it with the route's union and runs `work` on the result.
  * `rowId` names the field that says which table row the form belongs to, so the page shows the
- * message in that row.
+ * message in that row. A route that must read its body its own way (a size-limited upload)
+ * passes the form it read instead of the request.
  */
 export async function formAction<S extends z.ZodType<{ intent: string }>, R>(
-  request: Request,
+  request: Request | FormData,
   schema: S,
   work: (input: z.output<S>, context: ActionContext) => Promise<R> | R,
   { rowId: rowField }: { rowId?: string } = {},
 ) {
-  const form = await readForm(request);
+  const form = request instanceof FormData ? request : await readForm(request);
   const fields = formFields(form);
   const values = formValues(fields);
   const posted = typeof fields.intent === "string" ? fields.intent : "";

@@ -5,6 +5,7 @@ import { observationRowsOf } from "~/lib/proposals/observations.server";
 import { targetRowsOf } from "~/lib/proposals/targets.server";
 import { teamRows } from "~/lib/proposals/team.server";
 import { getProposalForUser, membershipWhere, overviewValues, workspaceHeader } from "~/lib/proposals/proposals.server";
+import { apiId } from "~/lib/review/api.server";
 import { committeeAccess, committeeReading } from "~/lib/review/read.server";
 import { ProposalMember } from "~/models/index.server";
 import type { Route } from "./+types/api.v1.proposals.$proposalId";
@@ -15,10 +16,7 @@ import type { Route } from "./+types/api.v1.proposals.$proposalId";
  */
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  if (!/^\d{1,10}$/.test(params.proposalId)) {
-    return data({ error: "The request has invalid fields.", issues: [{ path: "proposalId", message: "must be a positive whole number" }] }, { status: 400 });
-  }
-  const proposalId = Number(params.proposalId);
+  const proposalId = apiId(params.proposalId, "proposalId");
   // only the committee's roles need to know first whether they are on the team
   const committee = user.roles.includes("chair") || user.roles.includes("reviewer");
   if (committee && !(await ProposalMember.findOne({ where: { proposalId, ...membershipWhere(user) }, attributes: ["id"] }))) {

@@ -1,15 +1,13 @@
-import { zodResolver } from "@hookform/resolvers/zod";
 import { useState } from "react";
-import { useForm } from "react-hook-form";
-import { data, Form, useActionData, useNavigation, useRevalidator, useSubmit } from "react-router";
-import { AbstractField } from "~/components/AbstractField";
-import { Field, inputProps } from "~/components/Field";
-import { utc } from "~/components/workspace";
+import { data, useActionData, useRevalidator, useSubmit } from "react-router";
+import { z } from "zod";
+import { ConflictPanel, OverviewForm, toFormData, type OverviewAnswer } from "~/components/proposals/Overview";
+import { formAction, intent } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
-import { fieldErrors, readForm } from "~/lib/forms";
-import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
-import { scienceCategories, scienceCategoryLabel, upcomingSemesters } from "~/lib/proposals/vocabulary";
-import { getProposalForUser, overviewValues, updateOverview, type OverviewResult, type OverviewValues } from "~/lib/proposals/proposals.server";
+import type { FormValues } from "~/lib/forms";
+import { proposalIdParam } from "~/lib/proposals/routes.server";
+import { upcomingSemesters } from "~/lib/proposals/vocabulary";
+import { getProposalForUser, overviewValues, updateOverview, type OverviewResult } from "~/lib/proposals/proposals.server";
 import { overviewSchema } from "~/lib/schemas/proposals";
 import type { Route } from "./+types/proposals.$proposalId._index";
 
@@ -19,90 +17,31 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { values: overviewValues(proposal), version: proposal.version, semesters: upcomingSemesters(call.semesterCode), callSemester: call.semesterCode, editable };
 }
 
+const overviewIntents = z.discriminatedUnion("intent", [intent("save", overviewSchema)]);
+
+/** Someone saved meanwhile: nothing is stored, and the page shows both versions (409). */
+function conflictAnswer(values: FormValues, conflict: Extract<OverviewResult, { ok: false }>["conflict"]): OverviewAnswer {
+  return { ok: false, intent: "save", errors: {}, values, conflict };
+}
+
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
   await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
-  const values = formValues(await readForm(request));
-  const parsed = overviewSchema.safeParse(values);
-  if (!parsed.success) return data({ ok: false as const, errors: fieldErrors(parsed.error), values, conflict: null }, { status: 400 });
-  try {
-    const result = await updateOverview({ user, proposalId, ...parsed.data });
-    if (!result.ok) return data({ ok: false as const, errors: {} as Record<string, string>, values, conflict: result.conflict }, { status: 409 });
-    return { ok: true as const, version: result.version, savedAt: new Date().toISOString(), errors: {} as Record<string, string>, values, conflict: null };
-  } catch (error) {
-    const refused = refusalResponse(error, values);
-    return data({ ...refused.data, conflict: null }, { status: refused.init?.status ?? 400 });
-  }
-}
-
-type Conflict = Extract<OverviewResult, { ok: false }>["conflict"] | null;
-
-function toFormData(values: OverviewValues, version: number) {
-  const fd = new FormData();
-  fd.set("version", String(version));
-  fd.set("title", values.title);
-  fd.set("abstract", values.abstract);
-  fd.set("scienceCategory", values.scienceCategory ?? "");
-  if (values.isMultiSemester) fd.set("isMultiSemester", "on");
-  for (const s of values.semestersRequested) fd.append("semestersRequested", s);
-  if (values.isTargetOfOpportunity) fd.set("isTargetOfOpportunity", "on");
-  return fd;
-}
-
-function describe(values: OverviewValues) {
-  return [
-    ["Title", values.title],
-    ["Abstract", values.abstract || "—"],
-    ["Science category", scienceCategoryLabel(values.scienceCategory) ?? "—"],
-    ["Multi-semester", values.isMultiSemester ? `yes: ${values.semestersRequested.join(", ")}` : "no"],
-    ["Target of opportunity", values.isTargetOfOpportunity ? "yes" : "no"],
-  ] as const;
-}
-
-function ConflictPanel({ conflict, onKeepMine, onTakeSaved }: { conflict: Conflict; onKeepMine: () => void; onTakeSaved: () => void }) {
-  if (!conflict) return null;
-  const mine = describe(conflict.mine);
-  const saved = describe(conflict.saved);
-  return (
-    <section role="alert" aria-labelledby="conflict-title" className="rounded-lg border border-amber-400 bg-amber-50 p-4">
-      <h2 id="conflict-title">Someone saved the summary while you were editing</h2>
-      <p className="mt-1 text-sm text-slate-700">
-        {conflict.savedBy ?? "A team member"} saved it at {utc(conflict.savedAt)}. Nothing is lost: your version is still in the form below. Compare, then keep yours (it replaces theirs) or take theirs.
-      </p>
-      <div className="mt-3 grid gap-3 md:grid-cols-2">
-        {[
-          { label: "Your version (not saved)", rows: mine, other: saved },
-          { label: `Saved version`, rows: saved, other: mine },
-        ].map((side) => (
-          <div key={side.label} className="rounded-md border border-slate-200 bg-white p-3">
-            <h3 className="text-sm font-semibold text-night-900">{side.label}</h3>
-            <dl className="mt-2 space-y-2 text-sm">
-              {side.rows.map(([k, v], i) => (
-                <div key={k} className={v !== side.other[i][1] ? "rounded bg-amber-100/70 px-1" : ""}>
-                  <dt className="font-semibold text-slate-600">{k}{v !== side.other[i][1] ? " (differs)" : ""}</dt>
-                  <dd className="break-words whitespace-pre-wrap">{v}</dd>
-                </div>
-              ))}
-            </dl>
-          </div>
-        ))}
-      </div>
-      <div className="mt-3 flex flex-wrap gap-2">
-        <button type="button" className="btn" onClick={onKeepMine}>Keep my version</button>
-        <button type="button" className="btn-quiet" onClick={onTakeSaved}>Take the saved version</button>
-      </div>
-    </section>
-  );
+  return formAction(request, overviewIntents, async ({ intent: _intent, ...input }, { values }) => {
+    const result = await updateOverview({ user, proposalId, ...input });
+    if (!result.ok) return data(conflictAnswer(values, result.conflict), { status: 409 });
+    return { ok: true as const, intent: "save" as const, version: result.version, savedAt: new Date().toISOString() };
+  });
 }
 
 export default function Overview({ loaderData }: Route.ComponentProps) {
-  const actionData = useActionData<typeof action>();
+  const actionData = useActionData<OverviewAnswer>();
   const submit = useSubmit();
   const revalidator = useRevalidator();
   // The conflict stays on screen until the user chooses; the form below keeps their version meanwhile.
   const [dismissed, setDismissed] = useState<string | null>(null);
-  const raw = actionData && !actionData.ok ? actionData.conflict : null;
+  const raw = actionData && !actionData.ok ? (actionData.conflict ?? null) : null;
   const conflict = raw && dismissed !== `${raw.savedVersion}@${raw.savedAt}` ? raw : null;
   return (
     <div className="space-y-4">
@@ -119,80 +58,3 @@ export default function Overview({ loaderData }: Route.ComponentProps) {
   );
 }
 
-function OverviewForm({ values, version, semesters, callSemester, editable, mine }: Route.ComponentProps["loaderData"] & { mine: OverviewValues | null }) {
-  const actionData = useActionData<typeof action>();
-  const navigation = useNavigation();
-  const submit = useSubmit();
-  const fromAction = actionData && !actionData.ok && !actionData.conflict ? (actionData.values as Record<string, unknown>) : null;
-  const start: OverviewValues = mine ?? values;
-  const { register, handleSubmit, formState, watch } = useForm({
-    resolver: zodResolver(overviewSchema),
-    defaultValues: {
-      version: String(version),
-      title: (fromAction?.title as string) ?? start.title,
-      abstract: (fromAction?.abstract as string) ?? start.abstract,
-      scienceCategory: ((fromAction?.scienceCategory as string) ?? start.scienceCategory ?? "") as "",
-      isMultiSemester: fromAction ? fromAction.isMultiSemester === "on" : start.isMultiSemester,
-      semestersRequested: fromAction ? ([] as string[]).concat((fromAction.semestersRequested as string[] | string | undefined) ?? []) : start.semestersRequested,
-      isTargetOfOpportunity: fromAction ? fromAction.isTargetOfOpportunity === "on" : start.isTargetOfOpportunity,
-    },
-  });
-  const errors = actionData && !actionData.ok ? actionData.errors : {};
-  const error = (field: "title" | "abstract" | "scienceCategory" | "semestersRequested" | "form") =>
-    (field !== "form" ? formState.errors[field]?.message : undefined) ?? errors[field];
-  const multi = watch("isMultiSemester");
-  const saving = navigation.state === "submitting";
-  return (
-    <>
-      <Form method="post" noValidate className="card space-y-5" onSubmit={handleSubmit((_, e) => submit(e?.target as HTMLFormElement))}>
-        <input type="hidden" {...register("version")} />
-        {error("form") ? <p role="alert" className="rounded-md border border-red-200 bg-red-50 px-3 py-2 text-sm text-red-800">{error("form")}</p> : null}
-        <fieldset disabled={!editable} className="space-y-5">
-          <Field label="Title" id="title" error={error("title")}>
-            <input {...inputProps("title", error("title"))} {...register("title")} />
-          </Field>
-          <AbstractField value={watch("abstract") ?? ""} error={error("abstract")} registration={register("abstract")} />
-          <Field label="Science category" id="scienceCategory" error={error("scienceCategory")} hint="Used to find reviewers who know the field.">
-            <select {...(inputProps("scienceCategory", error("scienceCategory")) as object)} className="input" {...register("scienceCategory")}>
-              <option value="">Choose…</option>
-              {scienceCategories.map((c) => (
-                <option key={c.value} value={c.value}>{c.label}</option>
-              ))}
-            </select>
-          </Field>
-          <div className="space-y-2">
-            <label className="flex items-center gap-2 font-normal">
-              <input type="checkbox" {...register("isMultiSemester")} />
-              <span><strong>Multi-semester programme</strong> — asks for time in several semesters (for example, astrometric epochs over years)</span>
-            </label>
-            {multi ? (
-              <fieldset className="ml-6" aria-describedby={error("semestersRequested") ? "semesters-error" : undefined}>
-                <legend className="text-sm font-semibold text-slate-700">Semesters requested</legend>
-                <div className="mt-1 flex flex-wrap gap-4">
-                  {semesters.map((s) => (
-                    <label key={s} className="flex items-center gap-1.5 font-normal">
-                      <input type="checkbox" value={s} {...register("semestersRequested")} />
-                      {s}
-                      {s === callSemester ? <span className="text-xs text-slate-500">(this call)</span> : null}
-                    </label>
-                  ))}
-                </div>
-                {error("semestersRequested") ? <p id="semesters-error" className="field-error" role="alert">{error("semestersRequested")}</p> : null}
-              </fieldset>
-            ) : null}
-            <label className="flex items-center gap-2 font-normal">
-              <input type="checkbox" {...register("isTargetOfOpportunity")} />
-              <span><strong>Target of opportunity</strong> — observations are triggered by an event, not scheduled in advance</span>
-            </label>
-          </div>
-        </fieldset>
-        {editable ? (
-          <div className="flex items-center gap-3">
-            <button type="submit" className="btn" disabled={saving}>{saving ? "Saving…" : "Save the summary"}</button>
-            {actionData?.ok ? <span role="status" className="text-sm text-emerald-700">Saved at {utc(actionData.savedAt)}.</span> : null}
-          </div>
-        ) : null}
-      </Form>
-    </>
-  );
-}

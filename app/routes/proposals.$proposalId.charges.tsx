@@ -1,10 +1,11 @@
-import { data, redirect } from "react-router";
+import { redirect } from "react-router";
 import { ChargesPanel } from "~/components/payments/ChargesPanel";
+import { formAction } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
-import { fieldErrors, readForm } from "~/lib/forms";
+import { idSchema, Refusal } from "~/lib/forms";
 import { startCheckout } from "~/lib/payments/checkout.server";
-import { chargesForTeam, declarePages } from "~/lib/payments/team.server";
-import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
+import { chargesForTeam, declarePages, type CheckoutReturn } from "~/lib/payments/team.server";
+import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { getProposalForUser } from "~/lib/proposals/proposals.server";
 import { proposalChargesIntent } from "~/lib/schemas/charges";
 import { Charge } from "~/models/index.server";
@@ -16,19 +17,11 @@ export function meta() {
 
 const SESSION_ID = /^cs_[A-Za-z0-9_]{1,200}$/;
 
-export type CheckoutReturn =
-  | { kind: "paid"; chargeId: number }
-  | { kind: "waiting"; chargeId: number }
-  | { kind: "lapsed"; chargeId: number }
-  | { kind: "left"; chargeId: number | null }
-  | { kind: "unknown" };
-
 /** What the page says after the payment page sent the PI back (`?checkout=return|left`). */
 async function checkoutReturn(url: URL, proposalId: number): Promise<CheckoutReturn | null> {
   const how = url.searchParams.get("checkout");
   if (how === "left") {
-    const id = Number(url.searchParams.get("charge"));
-    return { kind: "left", chargeId: Number.isSafeInteger(id) && id > 0 ? id : null };
+    return { kind: "left", chargeId: idSchema("charge").safeParse(url.searchParams.get("charge")).data ?? null };
   }
   if (how !== "return") return null;
   const session = url.searchParams.get("session") ?? "";
@@ -43,34 +36,31 @@ async function checkoutReturn(url: URL, proposalId: number): Promise<CheckoutRet
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
+  // the return first, the charges after: a payment confirmed in between shows as paid in the table
+  // while the notice still waits (and polls), never as "paid" above a row that is not
+  const returned = await checkoutReturn(new URL(request.url), proposalId);
   const view = await chargesForTeam({ user, proposalId });
-  return { ...view, proposalId, returned: await checkoutReturn(new URL(request.url), proposalId) };
+  return { ...view, proposalId, returned };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
   await getProposalForUser({ proposalId, user });
-  const values = formValues(await readForm(request));
-  const parsed = proposalChargesIntent.safeParse(values);
-  if (!parsed.success) {
-    const errors = fieldErrors(parsed.error);
-    return data({ ok: false as const, intent: String(values.intent ?? ""), errors: errors.intent ? { form: errors.intent } : errors, values, message: "" }, { status: 400 });
-  }
-  const body = parsed.data;
-  try {
-    if (body.intent === "declare-pages") {
-      const charge = await declarePages({ user, proposalId, pages: body.pages });
-      return { ok: true as const, intent: body.intent, errors: {} as Record<string, string>, values, message: `Page charge raised for ${charge.pages} pages.` };
+  return formAction(request, proposalChargesIntent, async (input) => {
+    switch (input.intent) {
+      case "declare-pages": {
+        const charge = await declarePages({ user, proposalId, pages: input.pages });
+        return { ok: true as const, intent: input.intent, message: `Page charge raised for ${charge.pages} pages.` };
+      }
+      case "pay": {
+        const own = await Charge.findOne({ where: { id: input.chargeId, proposalId }, attributes: ["id"] });
+        if (!own) throw new Refusal("There is no such charge on this proposal.", { status: 404, field: "chargeId" });
+        const { url } = await startCheckout({ user, chargeId: input.chargeId });
+        return redirect(url);
+      }
     }
-    const own = await Charge.findOne({ where: { id: body.chargeId, proposalId }, attributes: ["id"] });
-    if (!own) return data({ ok: false as const, intent: body.intent, errors: { chargeId: "There is no such charge on this proposal." }, values, message: "" }, { status: 404 });
-    const { url } = await startCheckout({ user, chargeId: body.chargeId });
-    return redirect(url);
-  } catch (error) {
-    const refused = refusalResponse(error, values);
-    return data({ ...refused.data, intent: body.intent, message: "" }, { status: refused.init?.status ?? 400 });
-  }
+  });
 }
 
 export default function Charges({ loaderData, actionData }: Route.ComponentProps) {

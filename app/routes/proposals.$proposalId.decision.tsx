@@ -1,14 +1,14 @@
-import { data, useFetcher } from "react-router";
+import { z } from "zod";
+import { RateComment } from "~/components/decisions/RateComment";
 import { utc } from "~/components/workspace";
+import { formAction, intent } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { decisionForUser } from "~/lib/decisions/decisions.server";
 import { chargesText } from "~/lib/decisions/template";
 import { outcomeLabels } from "~/lib/decisions/vocabulary";
-import { fieldErrors, readForm } from "~/lib/forms";
-import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
+import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { getProposalForUser } from "~/lib/proposals/proposals.server";
 import { myHelpfulness, rateComment } from "~/lib/review/helpfulness.server";
-import { HELPFULNESS_MAX, HELPFULNESS_MIN } from "~/lib/review/vocabulary";
 import { helpfulnessSchema } from "~/lib/schemas/review";
 import type { Route } from "./+types/proposals.$proposalId.decision";
 
@@ -19,49 +19,21 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { proposalId, letter, helpfulness: letter ? await myHelpfulness({ user, proposalId }) : [] };
 }
 
+const decisionIntents = z.discriminatedUnion("intent", [intent("rate", helpfulnessSchema)]);
+
 /** The team rates how helpful each comment was (1–5; anonymous: nobody sees who rated). */
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
   await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
-  const values = formValues(await readForm(request)) as Record<string, string>;
-  const parsed = helpfulnessSchema.safeParse(values);
-  if (!parsed.success) return data({ ok: false as const, assignmentId: values.assignmentId ?? null, errors: fieldErrors(parsed.error), values }, { status: 400 });
-  try {
-    await rateComment({ user, proposalId, assignmentId: parsed.data.assignmentId, rating: parsed.data.rating });
-    return { ok: true as const, assignmentId: String(parsed.data.assignmentId), errors: {} as Record<string, string>, values };
-  } catch (error) {
-    const refused = refusalResponse(error, values);
-    return data({ ...refused.data, ok: false as const, assignmentId: values.assignmentId ?? null }, { status: refused.init?.status ?? 400 });
-  }
-}
-
-function RateComment({ assignmentId, rating, label }: { assignmentId: number; rating: number | null; label: string }) {
-  const fetcher = useFetcher<typeof action>();
-  const answer = fetcher.data && fetcher.data.assignmentId === String(assignmentId) ? fetcher.data : undefined;
-  const error = answer && !answer.ok ? (answer.errors.rating ?? answer.errors.assignmentId ?? answer.errors.form) : undefined;
-  const shown = fetcher.formData ? Number(fetcher.formData.get("rating")) : rating;
-  return (
-    <fetcher.Form method="post" className="mt-2 flex flex-wrap items-center gap-2 text-sm" aria-label={`How helpful was ${label}?`}>
-      <input type="hidden" name="assignmentId" value={assignmentId} />
-      <span className="text-slate-600">How helpful was this comment?</span>
-      {Array.from({ length: HELPFULNESS_MAX - HELPFULNESS_MIN + 1 }, (_, i) => HELPFULNESS_MIN + i).map((n) => (
-        <button
-          key={n}
-          type="submit"
-          name="rating"
-          value={n}
-          aria-pressed={shown === n}
-          className={`rounded border px-2 py-0.5 tabular-nums ${shown === n ? "border-night-700 bg-night-700 text-white" : "border-slate-300 bg-white"}`}
-          title={n === HELPFULNESS_MIN ? "not helpful" : n === HELPFULNESS_MAX ? "very helpful" : undefined}
-        >
-          {n}
-        </button>
-      ))}
-      <span className="text-xs text-slate-500">1 not helpful · 5 very helpful · anonymous</span>
-      {answer?.ok ? <span role="status" className="text-emerald-700">Saved.</span> : null}
-      {error ? <span role="alert" className="field-error">{error}</span> : null}
-    </fetcher.Form>
+  return formAction(
+    request,
+    decisionIntents,
+    async (input) => {
+      await rateComment({ user, proposalId, assignmentId: input.assignmentId, rating: input.rating });
+      return { ok: true as const, intent: input.intent, assignmentId: input.assignmentId };
+    },
+    { rowId: "assignmentId" },
   );
 }
 

@@ -1,11 +1,12 @@
-import { data, Form, Link, useActionData, useNavigation } from "react-router";
+import { Form, Link, useActionData, useNavigation } from "react-router";
+import { z } from "zod";
 import { EpochViews, PrecisionSummary } from "~/components/epochs/EpochProgressView";
 import { ErrorPage } from "~/components/ErrorPage";
 import { requireUser } from "~/lib/auth/auth.server";
 import { acceptReplan, epochProgress, telescopeChoices } from "~/lib/epochs/epochs.server";
 import { replanAcceptSchema } from "~/lib/epochs/schema";
-import { fieldErrors, readForm } from "~/lib/forms";
-import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
+import { formAction, intent } from "~/lib/actions.server";
+import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { getProposalForUser } from "~/lib/proposals/proposals.server";
 import type { Route } from "./+types/proposals.$proposalId.epochs";
 
@@ -23,19 +24,16 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { progress, telescopes, selectedId: selected?.observationId ?? null, isPi: access.isPi, accepted: access.proposal.status === "accepted" };
 }
 
+const epochIntents = z.discriminatedUnion("intent", [intent("accept-replan", replanAcceptSchema)]);
+
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
   await getProposalForUser({ proposalId, user });
-  const values = formValues(await readForm(request));
-  const parsed = replanAcceptSchema.safeParse(values);
-  if (!parsed.success) return data({ ok: false as const, errors: fieldErrors(parsed.error), values }, { status: 400 });
-  try {
-    const { replaced } = await acceptReplan({ user, proposalId, observationId: parsed.data.observationId, dates: parsed.data.dates.split(",") });
-    return { ok: true as const, message: `Re-plan accepted: the remaining planned epochs are now ${replaced} new dates.`, errors: {} as Record<string, string>, values };
-  } catch (error) {
-    return refusalResponse(error, values);
-  }
+  return formAction(request, epochIntents, async (input) => {
+    const { replaced } = await acceptReplan({ user, proposalId, observationId: input.observationId, dates: input.dates.split(",") });
+    return { ok: true as const, intent: input.intent, message: `Re-plan accepted: the remaining planned epochs are now ${replaced} new dates.` };
+  });
 }
 
 export default function EpochProgressPage({ loaderData }: Route.ComponentProps) {

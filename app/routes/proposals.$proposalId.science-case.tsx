@@ -1,9 +1,12 @@
 import { useState } from "react";
-import { data, Form, useNavigation } from "react-router";
+import { Form, useNavigation } from "react-router";
+import { z } from "zod";
 import { ErrorPage } from "~/components/ErrorPage";
 import { Field, inputProps } from "~/components/Field";
+import { failure, formAction, intent, refusalFailure } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
-import { proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
+import { Refusal } from "~/lib/forms";
+import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { getProposalForUser } from "~/lib/proposals/proposals.server";
 import { SelfReferenceWarnings } from "~/components/SelfReferenceWarnings";
 import { selfReferenceCheck } from "~/lib/review/self-reference.server";
@@ -31,6 +34,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
+const scienceCaseIntents = z.discriminatedUnion("intent", [intent("upload")]);
+
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
@@ -38,23 +43,26 @@ export async function action({ request, params }: Route.ActionArgs) {
   // A little over the file limit for the multipart envelope.
   const form = await readLimitedFormData(request, SCIENCE_CASE_MAX_BYTES + 64 * 1024);
   if (!form) {
-    return data({ ok: false as const, errors: { file: `The file is larger than ${MAX_MB} MB, the limit for a science case. Reduce the resolution of its figures and upload it again.` } as Record<string, string>, values: {} }, { status: 400 });
+    return failure("upload", { file: `The file is larger than ${MAX_MB} MB, the limit for a science case. Reduce the resolution of its figures and upload it again.` }, {});
   }
-  const file = form.get("file");
-  if (!(file instanceof File) || file.size === 0) {
-    return data({ ok: false as const, errors: { file: file instanceof File && file.name ? "The file is empty. Choose the PDF of the science case." : "Choose the PDF of the science case to upload." } as Record<string, string>, values: {} }, { status: 400 });
-  }
-  try {
-    const stored = await storeScienceCase({
-      proposalId,
-      user,
-      file: { name: file.name, type: file.type, bytes: new Uint8Array(await file.arrayBuffer()) },
-      pageLimit: access.call.pageLimit,
-    });
-    return { ok: true as const, stored };
-  } catch (error) {
-    return refusalResponse(error, { filename: file.name });
-  }
+  return formAction(form, scienceCaseIntents, async (input) => {
+    const file = form.get("file");
+    if (!(file instanceof File) || file.size === 0) {
+      throw new Refusal(file instanceof File && file.name ? "The file is empty. Choose the PDF of the science case." : "Choose the PDF of the science case to upload.", { field: "file" });
+    }
+    try {
+      const stored = await storeScienceCase({
+        proposalId,
+        user,
+        file: { name: file.name, type: file.type, bytes: new Uint8Array(await file.arrayBuffer()) },
+        pageLimit: access.call.pageLimit,
+      });
+      return { ok: true as const, intent: input.intent, stored };
+    } catch (error) {
+      // the refused file's name comes back with the message
+      return refusalFailure(error, input.intent, { filename: file.name });
+    }
+  });
 }
 
 function size(bytes: number) {
@@ -67,7 +75,7 @@ export default function ScienceCase({ loaderData, actionData }: Route.ComponentP
   const busy = navigation.state === "submitting";
   const [clientError, setClientError] = useState<string | null>(null);
   const serverError = actionData && !actionData.ok ? actionData.errors.file ?? actionData.errors.form : undefined;
-  const refusedName = actionData && !actionData.ok && "filename" in (actionData.values ?? {}) ? (actionData.values as { filename: string }).filename : null;
+  const refusedName = actionData && !actionData.ok ? (actionData.values.filename ?? null) : null;
   const error = clientError ?? serverError;
   const [current, ...earlier] = history;
   const href = (id: number, inline = false) => `/proposals/${proposalId}/files/${id}${inline ? "?inline=1" : ""}`;
@@ -105,6 +113,7 @@ export default function ScienceCase({ loaderData, actionData }: Route.ComponentP
             >
               <input {...inputProps("file", error)} type="file" name="file" accept="application/pdf,.pdf" onChange={() => setClientError(null)} />
             </Field>
+            <input type="hidden" name="intent" value="upload" />
             <button type="submit" className="btn" disabled={busy}>
               {busy ? "Uploading…" : current ? "Upload new version" : "Upload"}
             </button>

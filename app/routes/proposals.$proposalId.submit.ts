@@ -1,12 +1,13 @@
 // The readiness strip's actions (send, withdraw, reopen, delete), posted from every tab of the
 // workspace. A resource route: the strip's fetcher reads the answer; a GET goes to the summary.
-import { data, redirect } from "react-router";
+import { redirect } from "react-router";
+import { z } from "zod";
+import { formAction, intent } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
-import { proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
+import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { submitProposal } from "~/lib/proposals/submit.server";
 import { deleteDraft, getProposalForUser, reopenProposal, withdrawProposal } from "~/lib/proposals/proposals.server";
 import type { Route } from "./+types/proposals.$proposalId.submit";
-import { readForm } from "~/lib/forms";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
@@ -14,32 +15,29 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return redirect(`/proposals/${proposal.id}`);
 }
 
+const stripIntents = z.discriminatedUnion("intent", [intent("submit"), intent("withdraw"), intent("reopen"), intent("delete")]);
+
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
   await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
-  const intent = String((await readForm(request)).get("intent") ?? "");
-  const ok = (message: string) => ({ ok: true as const, intent, message, errors: {} as Record<string, string> });
-  try {
-    if (intent === "submit") {
-      const r = await submitProposal({ user, proposalId });
-      return ok(`Submitted as ${r.code}. A receipt${r.pdfAttached ? " with the proposal PDF" : ""} is on its way to ${r.recipients.join(", ")}.`);
+  return formAction(request, stripIntents, async (input) => {
+    const ok = (message: string) => ({ ok: true as const, intent: input.intent, message });
+    switch (input.intent) {
+      case "submit": {
+        const r = await submitProposal({ user, proposalId });
+        return ok(`Submitted as ${r.code}. A receipt${r.pdfAttached ? " with the proposal PDF" : ""} is on its way to ${r.recipients.join(", ")}.`);
+      }
+      case "withdraw":
+        await withdrawProposal({ user, proposalId });
+        return ok("The proposal is withdrawn and the team has been told by e-mail. You can reopen it as a draft until the deadline.");
+      case "reopen":
+        await reopenProposal({ user, proposalId });
+        return ok("The proposal is a draft again. Submit it again before the deadline; it keeps its code.");
+      case "delete": {
+        const { title } = await deleteDraft({ user, proposalId });
+        return redirect(`/proposals?deleted=${encodeURIComponent(title)}`);
+      }
     }
-    if (intent === "withdraw") {
-      await withdrawProposal({ user, proposalId });
-      return ok("The proposal is withdrawn and the team has been told by e-mail. You can reopen it as a draft until the deadline.");
-    }
-    if (intent === "reopen") {
-      await reopenProposal({ user, proposalId });
-      return ok("The proposal is a draft again. Submit it again before the deadline; it keeps its code.");
-    }
-    if (intent === "delete") {
-      const { title } = await deleteDraft({ user, proposalId });
-      return redirect(`/proposals?deleted=${encodeURIComponent(title)}`);
-    }
-    return data({ ok: false as const, intent, errors: { form: "Unknown action." } as Record<string, string> }, { status: 400 });
-  } catch (error) {
-    const refused = refusalResponse(error, {});
-    return data({ ok: false as const, intent, errors: refused.data.errors }, { status: refused.init?.status ?? 400 });
-  }
+  });
 }

@@ -1,12 +1,13 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useForm } from "react-hook-form";
-import { data, Form, Link, redirect, useActionData, useNavigation, useSubmit } from "react-router";
+import { Form, Link, redirect, useActionData, useNavigation, useSubmit } from "react-router";
+import { z } from "zod";
 import { AbstractField } from "~/components/AbstractField";
 import { Field, inputProps } from "~/components/Field";
 import { utc } from "~/components/workspace";
 import { requireUser } from "~/lib/auth/auth.server";
-import { fieldErrors, readForm } from "~/lib/forms";
-import { formValues, refusalResponse } from "~/lib/proposals/routes.server";
+import { formAction, intent } from "~/lib/actions.server";
+import type { ActionFailure } from "~/lib/forms";
 import { createProposal, openCalls } from "~/lib/proposals/proposals.server";
 import { newProposalSchema } from "~/lib/schemas/proposals";
 import type { Route } from "./+types/proposals.new";
@@ -23,29 +24,25 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { calls, preselected, unknownCall: wanted && !calls.some((c) => c.semesterCode === wanted) ? wanted : null };
 }
 
+const newProposalIntents = z.discriminatedUnion("intent", [intent("create", newProposalSchema)]);
+
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireUser(request);
-  const values = formValues(await readForm(request)) as Record<string, string>;
-  const parsed = newProposalSchema.safeParse(values);
-  if (!parsed.success) return data({ ok: false as const, errors: fieldErrors(parsed.error), values }, { status: 400 });
-  try {
-    const proposal = await createProposal({ user, ...parsed.data });
-    throw redirect(`/proposals/${proposal.id}`);
-  } catch (error) {
-    if (error instanceof Response) throw error;
-    return refusalResponse(error, values);
-  }
+  return formAction(request, newProposalIntents, async ({ intent: _intent, ...input }) => {
+    const proposal = await createProposal({ user, ...input });
+    return redirect(`/proposals/${proposal.id}`);
+  });
 }
 
 export default function NewProposal({ loaderData }: Route.ComponentProps) {
   const { calls, preselected, unknownCall } = loaderData;
-  const actionData = useActionData<typeof action>();
+  const actionData = useActionData<ActionFailure>();
   const navigation = useNavigation();
   const submit = useSubmit();
-  const { register, handleSubmit, formState, watch } = useForm({
+  const { register, handleSubmit, formState, watch } = useForm<z.input<typeof newProposalSchema>, unknown, z.output<typeof newProposalSchema>>({
     resolver: zodResolver(newProposalSchema),
     defaultValues: {
-      callId: (actionData?.values.callId ?? (preselected ? String(preselected) : "")) as unknown as number,
+      callId: actionData?.values.callId ?? (preselected ? String(preselected) : ""),
       title: actionData?.values.title ?? "",
       abstract: actionData?.values.abstract ?? "",
     },
@@ -66,6 +63,7 @@ export default function NewProposal({ loaderData }: Route.ComponentProps) {
       {unknownCall ? <p role="alert" className="mb-4 rounded-md border border-amber-300 bg-amber-50 px-3 py-2 text-sm text-amber-900">Call {unknownCall} is not open; choose one of the open calls.</p> : null}
       {actionData?.errors.form ? <p role="alert" className="mb-4 rounded-md border border-red-200 bg-red-50 px-3 py-2 text-sm text-red-800">{actionData.errors.form}</p> : null}
       <Form method="post" noValidate className="space-y-5" onSubmit={handleSubmit((_, e) => submit(e?.target as HTMLFormElement))}>
+        <input type="hidden" name="intent" value="create" />
         <fieldset>
           <legend className="text-sm font-semibold text-slate-700">Call for proposals</legend>
           <div className="mt-2 grid gap-3 sm:grid-cols-2">

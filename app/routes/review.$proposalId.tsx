@@ -1,18 +1,18 @@
-import { zodResolver } from "@hookform/resolvers/zod";
-import { useForm } from "react-hook-form";
-import { data, Form, Link, redirect, useActionData, useNavigation, useSubmit } from "react-router";
+import { Form, Link, redirect, useActionData, useNavigation } from "react-router";
+import { z } from "zod";
 import { ProblemsList, TotalsTable } from "~/components/FeasibilityParts";
 import { Field } from "~/components/Field";
+import { GradeForm, type ReviewAnswer } from "~/components/review/GradeForm";
+import { formAction, intent } from "~/lib/actions.server";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
 import { requireUser } from "~/lib/auth/auth.server";
-import { fieldErrors, readForm } from "~/lib/forms";
-import { memberRoleLabels, scienceCategoryLabel, wordCount } from "~/lib/proposals/vocabulary";
-import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
+import { memberRoleLabels, scienceCategoryLabel } from "~/lib/proposals/vocabulary";
+import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { reviewBoard } from "~/lib/review/chair.server";
 import { declareConflict, reopenMyReview, reviewForProposal, saveGrade } from "~/lib/review/desk.server";
 import { committeeAccess, committeeReading } from "~/lib/review/read.server";
-import { meritCriteria, meritSteps, PI_COMMENT_MIN_WORDS, reviewStatusLabels } from "~/lib/review/vocabulary";
-import { conflictSchema, gradeSchema, type GradeInput } from "~/lib/schemas/review";
+import { reviewStatusLabels } from "~/lib/review/vocabulary";
+import { conflictSchema, gradeSchema } from "~/lib/schemas/review";
 import { formatUtc } from "~/lib/zoned-time";
 import type { Route } from "./+types/review.$proposalId";
 
@@ -64,102 +64,41 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { ...base, as: "chair" as const, review: null, reviews };
 }
 
+/** The grade as a draft or as a submission: the button decides, never a field of the form. */
+const gradeAs = (submit: boolean) => z.preprocess((v) => (typeof v === "object" && v !== null ? { ...v, submit } : v), gradeSchema);
+
+const reviewIntents = z.discriminatedUnion("intent", [
+  intent("draft", gradeAs(false)),
+  intent("submit", gradeAs(true)),
+  intent("reopen"),
+  intent("conflict", conflictSchema),
+]);
+
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const { review } = await reviewForProposal({ user, proposalId }).then((r) => ({ review: r }));
-  const form = await readForm(request);
-  const intent = String(form.get("intent") ?? "");
-  const values = formValues(form) as Record<string, string>;
-  try {
-    if (intent === "conflict") {
-      const parsed = conflictSchema.safeParse(values);
-      if (!parsed.success) return data({ ok: false as const, intent, errors: fieldErrors(parsed.error), values }, { status: 400 });
-      await declareConflict({ user, assignmentId: review.assignmentId, reason: parsed.data.reason });
-      throw redirect("/review?conflict=1");
+  const review = await reviewForProposal({ user, proposalId });
+  return formAction(request, reviewIntents, async (input) => {
+    switch (input.intent) {
+      case "conflict":
+        await declareConflict({ user, assignmentId: review.assignmentId, reason: input.reason });
+        return redirect("/review?conflict=1");
+      case "reopen":
+        await reopenMyReview({ user, assignmentId: review.assignmentId });
+        return { ok: true as const, intent: input.intent, message: "Your review is a draft again; submit it before the deadline." };
+      case "draft":
+      case "submit": {
+        const { intent: _intent, ...values } = input;
+        const saved = await saveGrade({ user, assignmentId: review.assignmentId, values });
+        return { ok: true as const, intent: input.intent, message: saved.status === "submitted" ? "Your review is submitted. You can reopen it until the deadline." : "Draft saved." };
+      }
     }
-    if (intent === "reopen") {
-      await reopenMyReview({ user, assignmentId: review.assignmentId });
-      return { ok: true as const, intent, message: "Your review is a draft again; submit it before the deadline.", errors: {} as Record<string, string>, values };
-    }
-    const parsed = gradeSchema.safeParse({ ...values, submit: intent === "submit" });
-    if (!parsed.success) return data({ ok: false as const, intent, errors: fieldErrors(parsed.error), values }, { status: 400 });
-    const saved = await saveGrade({ user, assignmentId: review.assignmentId, values: parsed.data });
-    return { ok: true as const, intent, message: saved.status === "submitted" ? "Your review is submitted. You can reopen it until the deadline." : "Draft saved.", errors: {} as Record<string, string>, values };
-  } catch (error) {
-    if (error instanceof Response) throw error;
-    const refused = refusalResponse(error, values);
-    return data({ ...refused.data, intent }, refused.init ?? undefined);
-  }
-}
-
-function GradeForm({ review, actionData }: { review: NonNullable<Route.ComponentProps["loaderData"]["review"]>; actionData: ReturnType<typeof useActionData<typeof action>> }) {
-  const navigation = useNavigation();
-  const submit = useSubmit();
-  const typed = actionData?.intent === "draft" || actionData?.intent === "submit" ? (actionData.values as Record<string, string>) : null;
-  const initial = (k: "science" | "feasibility" | "legacy" | "overall") => typed?.[k] ?? (review.grade[k] === null ? "" : String(review.grade[k]));
-  const { register, handleSubmit, formState, watch, setValue } = useForm<GradeInput>({
-    resolver: zodResolver(gradeSchema),
-    defaultValues: {
-      science: initial("science"),
-      feasibility: initial("feasibility"),
-      legacy: initial("legacy"),
-      overall: initial("overall"),
-      commentToPi: typed?.commentToPi ?? review.grade.commentToPi,
-      commentToCommittee: typed?.commentToCommittee ?? review.grade.commentToCommittee,
-      submit: false,
-    },
   });
-  const serverErrors = actionData && !actionData.ok && (actionData.intent === "draft" || actionData.intent === "submit") ? actionData.errors : {};
-  const error = (f: string) => (formState.errors as Record<string, { message?: string } | undefined>)[f]?.message ?? serverErrors[f];
-  const words = wordCount(watch("commentToPi") ?? "");
-  const readOnly = !review.open || review.status === "submitted";
-  const go = (intent: "draft" | "submit") =>
-    handleSubmit((_values, e) => {
-      const formEl = (e?.target as HTMLElement | undefined)?.closest("form") as HTMLFormElement;
-      const fd = new FormData(formEl);
-      fd.set("intent", intent);
-      submit(fd, { method: "post" });
-    });
-  return (
-    <Form method="post" noValidate className="space-y-4" aria-label="Your grade">
-      {serverErrors.form ? <p role="alert" className="rounded-md border border-red-200 bg-red-50 px-3 py-2 text-red-800">{serverErrors.form}</p> : null}
-      <div className="grid gap-3 sm:grid-cols-4">
-        {meritCriteria.map((c) => (
-          <Field key={c.key} label={`${c.label} (1–10)`} id={c.key} error={error(c.key)}>
-            <select id={c.key} className="input" disabled={readOnly} aria-invalid={error(c.key) ? true : undefined} aria-describedby={error(c.key) ? `${c.key}-error` : undefined} {...register(c.key)}>
-              <option value="">—</option>
-              {meritSteps.map((s) => <option key={s} value={String(s)}>{s}</option>)}
-            </select>
-          </Field>
-        ))}
-      </div>
-      <Field label="Comment to the PI" id="commentToPi" error={error("commentToPi")} hint={`${words} words; at least ${PI_COMMENT_MIN_WORDS} to submit. The PI reads it in the decision letter, without your name.`}>
-        <textarea id="commentToPi" rows={8} className="input" readOnly={readOnly} aria-invalid={error("commentToPi") ? true : undefined} {...register("commentToPi")} />
-      </Field>
-      <Field label="Comment to the committee (optional)" id="commentToCommittee" error={error("commentToCommittee")} hint="Only the chair and the committee read it; never the PI.">
-        <textarea id="commentToCommittee" rows={4} className="input" readOnly={readOnly} {...register("commentToCommittee")} />
-      </Field>
-      <input type="hidden" {...register("submit")} onChange={() => setValue("submit", false)} />
-      {review.open ? (
-        review.status === "submitted" ? (
-          <button className="btn" name="intent" value="reopen" disabled={navigation.state !== "idle"}>Reopen to change it</button>
-        ) : (
-          <div className="flex flex-wrap gap-3">
-            <button type="button" className="btn-quiet" disabled={navigation.state !== "idle"} onClick={(e) => { setValue("submit", false); void go("draft")(e); }}>Save as draft</button>
-            <button type="button" className="btn" disabled={navigation.state !== "idle"} onClick={(e) => { setValue("submit", true); void go("submit")(e); }}>Submit the review</button>
-          </div>
-        )
-      ) : (
-        <p className="text-slate-700">The review deadline has passed: only the chair can reopen this review.</p>
-      )}
-    </Form>
-  );
 }
 
 export default function ReviewProposal({ loaderData }: Route.ComponentProps) {
   const { reading, feasibility, review, reviews, as } = loaderData;
-  const actionData = useActionData<typeof action>();
+  const actionData = useActionData<ReviewAnswer>();
   const navigation = useNavigation();
   const p = reading.proposal;
   const conflictError = actionData && !actionData.ok && actionData.intent === "conflict" ? actionData.errors.reason : undefined;
@@ -242,7 +181,7 @@ export default function ReviewProposal({ loaderData }: Route.ComponentProps) {
             <p className="text-sm text-slate-600">The assignment is released, the chair is told, and this proposal leaves your desk.</p>
             <Form method="post" className="space-y-2" noValidate>
               <Field label="Reason" id="reason" error={conflictError}>
-                <input id="reason" name="reason" className="input" defaultValue={actionData?.intent === "conflict" ? (actionData.values as Record<string, string>).reason : ""} aria-invalid={conflictError ? true : undefined} />
+                <input id="reason" name="reason" className="input" defaultValue={actionData && !actionData.ok && actionData.intent === "conflict" ? actionData.values.reason : ""} aria-invalid={conflictError ? true : undefined} />
               </Field>
               <button className="btn bg-red-700 hover:bg-red-800" name="intent" value="conflict" disabled={navigation.state !== "idle"}>Declare the conflict</button>
             </Form>

@@ -1,8 +1,8 @@
-import { data, Form, Link, useActionData, useNavigation } from "react-router";
+import { Form, Link, useActionData, useNavigation } from "react-router";
+import { z } from "zod";
+import { formAction, intent } from "~/lib/actions.server";
 import { requireRole } from "~/lib/auth/auth.server";
-import { fieldErrors, readForm } from "~/lib/forms";
 import { scienceCategories } from "~/lib/proposals/vocabulary";
-import { formValues } from "~/lib/proposals/routes.server";
 import { myCategories, saveMyCategories } from "~/lib/review/desk.server";
 import { reviewerCategoriesSchema } from "~/lib/schemas/review";
 import type { Route } from "./+types/review.settings";
@@ -16,15 +16,14 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { categories: await myCategories({ user }) };
 }
 
+const settingsIntents = z.discriminatedUnion("intent", [intent("save", reviewerCategoriesSchema)]);
+
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireRole(request, "reviewer");
-  const form = await readForm(request);
-  if (form.get("intent") !== "save") return data({ ok: false as const, errors: { form: "That button does nothing here; reload the page." } as Record<string, string> }, { status: 400 });
-  const values = formValues(form);
-  const parsed = reviewerCategoriesSchema.safeParse(values);
-  if (!parsed.success) return data({ ok: false as const, errors: fieldErrors(parsed.error) }, { status: 400 });
-  await saveMyCategories({ user, categories: parsed.data.categories });
-  return { ok: true as const, errors: {} as Record<string, string> };
+  return formAction(request, settingsIntents, async (input) => {
+    await saveMyCategories({ user, categories: input.categories });
+    return { ok: true as const, intent: input.intent };
+  });
 }
 
 export default function ReviewSettings({ loaderData }: Route.ComponentProps) {

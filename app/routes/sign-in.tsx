@@ -1,6 +1,7 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useForm } from "react-hook-form";
 import { data, Form, redirect, useActionData, useNavigation, useSubmit } from "react-router";
+import { z } from "zod";
 import { Field, inputProps } from "~/components/Field";
 import { getSessionUser } from "~/lib/auth/auth.server";
 import {
@@ -11,7 +12,8 @@ import {
   sendSignInCode,
   verifySignInCode,
 } from "~/lib/auth/sign-in.server";
-import { fieldErrors, readForm } from "~/lib/forms";
+import { failure, formAction, intent } from "~/lib/actions.server";
+import type { ActionFailure } from "~/lib/forms";
 import { codeSchema, emailSchema } from "~/lib/schemas/auth";
 import { getSession, sessionStorage } from "~/lib/auth/session.server";
 import type { Route } from "./+types/sign-in";
@@ -40,30 +42,30 @@ export async function loader({ request }: Route.LoaderArgs) {
   );
 }
 
+const signInIntents = z.discriminatedUnion("intent", [intent("send", emailSchema), intent("verify", codeSchema), intent("restart")]);
+
 export async function action({ request }: Route.ActionArgs) {
-  const form = Object.fromEntries(await readForm(request)) as Record<string, string>;
-  if (form.intent === "restart") return restartSignIn(request);
-  if (form.intent === "verify") {
-    const parsed = codeSchema.safeParse(form);
-    if (!parsed.success) return data({ errors: fieldErrors(parsed.error), values: form }, { status: 400 });
-    return verifySignInCode(request, { code: parsed.data.code });
-  }
-  const parsed = emailSchema.safeParse(form);
-  if (!parsed.success) return data({ errors: fieldErrors(parsed.error), values: form }, { status: 400 });
-  const email = parsed.data.email.toLowerCase();
-  const limited = await sendSignInCode(request, { email, redirectTo: parsed.data.redirectTo ?? "/" });
-  return data(
-    { errors: { email: limited.message } as Record<string, string>, values: form },
-    { status: 429, headers: { "Retry-After": String(limited.retryAfterSeconds) } },
-  );
+  return formAction(request, signInIntents, async (input, { values }) => {
+    switch (input.intent) {
+      case "restart":
+        return restartSignIn(request);
+      case "verify":
+        return verifySignInCode(request, { code: input.code });
+      case "send": {
+        // a code sent is a redirect; what comes back is the rate limit
+        const limited = await sendSignInCode(request, { email: input.email.toLowerCase(), redirectTo: input.redirectTo ?? "/" });
+        return failure(input.intent, { email: limited.message }, values, { status: 429, headers: { "Retry-After": String(limited.retryAfterSeconds) } });
+      }
+    }
+  });
 }
 
 function EmailStep({ redirectTo, email }: { redirectTo: string; email: string }) {
-  const actionData = useActionData<typeof action>();
+  const actionData = useActionData<ActionFailure>();
   const navigation = useNavigation();
   const submit = useSubmit();
-  const server = actionData && "errors" in actionData ? actionData : undefined;
-  const { register, handleSubmit, formState } = useForm({
+  const server = actionData && !actionData.ok ? actionData : undefined;
+  const { register, handleSubmit, formState } = useForm<z.input<typeof emailSchema>, unknown, z.output<typeof emailSchema>>({
     resolver: zodResolver(emailSchema),
     defaultValues: { email: server?.values.email ?? email, redirectTo },
   });
@@ -95,9 +97,9 @@ function EmailStep({ redirectTo, email }: { redirectTo: string; email: string })
 }
 
 function CodeStep({ email, minutes }: { email: string; minutes: number }) {
-  const actionData = useActionData<typeof action>();
-  const server = actionData && "errors" in actionData ? actionData : undefined;
-  const { register, handleSubmit, formState } = useForm({
+  const actionData = useActionData<ActionFailure>();
+  const server = actionData && !actionData.ok ? actionData : undefined;
+  const { register, handleSubmit, formState } = useForm<z.input<typeof codeSchema>, unknown, z.output<typeof codeSchema>>({
     resolver: zodResolver(codeSchema),
     defaultValues: { code: server?.values.code ?? "" },
   });

@@ -1,10 +1,12 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useForm } from "react-hook-form";
-import { data, Form, redirect, useActionData, useSubmit } from "react-router";
+import { Form, redirect, useActionData, useSubmit } from "react-router";
+import { z } from "zod";
 import { Field, inputProps } from "~/components/Field";
 import { writeAudit } from "~/lib/audit.server";
 import { requireUser, safeRedirectTo } from "~/lib/auth/auth.server";
-import { fieldErrors, readForm } from "~/lib/forms";
+import { formAction, intent } from "~/lib/actions.server";
+import type { ActionFailure } from "~/lib/forms";
 import { profileSchema } from "~/lib/schemas/auth";
 import { User } from "~/models/index.server";
 import type { Route } from "./+types/welcome";
@@ -14,20 +16,21 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { email: user.email, name: user.name ?? "", institution: user.institution ?? "" };
 }
 
+const welcomeIntents = z.discriminatedUnion("intent", [intent("save", profileSchema)]);
+
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireUser(request);
-  const form = Object.fromEntries(await readForm(request)) as Record<string, string>;
-  const parsed = profileSchema.safeParse(form);
-  if (!parsed.success) return data({ errors: fieldErrors(parsed.error), values: form }, { status: 400 });
-  await User.update(parsed.data, { where: { id: user.id } });
-  await writeAudit({ actorId: user.id, action: "user.profile_updated", entityType: "user", entityId: user.id, details: parsed.data });
-  throw redirect(safeRedirectTo(new URL(request.url).searchParams.get("redirectTo")));
+  return formAction(request, welcomeIntents, async ({ intent: _intent, ...profile }) => {
+    await User.update(profile, { where: { id: user.id } });
+    await writeAudit({ actorId: user.id, action: "user.profile_updated", entityType: "user", entityId: user.id, details: profile });
+    return redirect(safeRedirectTo(new URL(request.url).searchParams.get("redirectTo")));
+  });
 }
 
 export default function Welcome({ loaderData }: Route.ComponentProps) {
-  const actionData = useActionData<typeof action>();
+  const actionData = useActionData<ActionFailure>();
   const submit = useSubmit();
-  const { register, handleSubmit, formState } = useForm({
+  const { register, handleSubmit, formState } = useForm<z.input<typeof profileSchema>, unknown, z.output<typeof profileSchema>>({
     resolver: zodResolver(profileSchema),
     defaultValues: {
       name: actionData?.values.name ?? loaderData.name,
@@ -42,6 +45,7 @@ export default function Welcome({ loaderData }: Route.ComponentProps) {
         Signed in as {loaderData.email}. Tell us once who you are; proposals and reviews show this.
       </p>
       <Form method="post" noValidate className="space-y-4" onSubmit={handleSubmit((_, e) => submit(e?.target as HTMLFormElement))}>
+        <input type="hidden" name="intent" value="save" />
         <Field label="Your name" id="name" error={error("name")}>
           <input autoComplete="name" defaultValue={actionData?.values.name ?? loaderData.name} {...inputProps("name", error("name"))} {...register("name")} />
         </Field>

@@ -75,7 +75,7 @@ describe("over-long text", () => {
 
   it("a proposal title of 300 characters still sends the Co-I invitation, with a fitted subject", async () => {
     const title = `${"Very long title ".repeat(18)}end`.slice(0, 300);
-    const created = await post("/proposals/new", pi.cookie, { callId: String((await testCall()).id), title });
+    const created = await post("/proposals/new", pi.cookie, { intent: "create", callId: String((await testCall()).id), title });
     expect(created.status).toBe(302);
     const id = Number(/\/proposals\/(\d+)/.exec(created.headers.location)![1]);
     const email = `long-title-${Date.now()}@test.example`;
@@ -89,7 +89,7 @@ describe("over-long text", () => {
   });
 
   it("a title over 300 characters is a 400 with the field's message", async () => {
-    const res = await post("/proposals/new", pi.cookie, { callId: String((await testCall()).id), title: "t".repeat(301) });
+    const res = await post("/proposals/new", pi.cookie, { intent: "create", callId: String((await testCall()).id), title: "t".repeat(301) });
     expect(res.status).toBe(400);
     expect(res.text).toContain("Keep the title under 300 characters.");
   });

@@ -279,7 +279,7 @@ describe("helpfulness of the comments", () => {
     onB2 = (await ReviewAssignment.findOne({ where: { proposalId: prop.B2.id, reviewerId: pi.D1.user.id } }))!;
   });
   const rate = async (who: Person, proposal: Proposal, assignmentId: number | string, rating: string) =>
-    (await request()).post(`/proposals/${proposal.id}/decision`).set("Cookie", who.cookie).type("form").send(form({ assignmentId: String(assignmentId), rating }));
+    (await request()).post(`/proposals/${proposal.id}/decision`).set("Cookie", who.cookie).type("form").send(form({ intent: "rate", assignmentId: String(assignmentId), rating }));
 
   it("refused before the decision is sent", async () => {
     const res = await rate(pi.B1, prop.B1, onB1.id, "4");

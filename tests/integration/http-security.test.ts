@@ -257,6 +257,7 @@ describe("body limits", () => {
     const big = await (await request())
       .post("/proposals/1/science-case")
       .set("Cookie", pi.cookie)
+      .field("intent", "upload")
       .attach("file", Buffer.alloc(14 * MB, 1), { filename: "case.pdf", contentType: "application/pdf" });
     expect(big.status).toBe(413);
     expect(big.text).toContain("larger than 12 MB, the most this page takes");

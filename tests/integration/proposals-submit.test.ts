@@ -118,7 +118,7 @@ describe("submission", () => {
     expect(res.text).toContain("so it is read-only");
     expect(await Target.count({ where: { proposalId, name: "Late addition" } })).toBe(0);
     const version = (await Proposal.findByPk(proposalId))!.version;
-    const overview = await (await request()).post(`/proposals/${proposalId}?index`).set("Cookie", pi.cookie).type("form").send(form({ version, title: "Changed after submission", abstract: "", scienceCategory: "" }));
+    const overview = await (await request()).post(`/proposals/${proposalId}?index`).set("Cookie", pi.cookie).type("form").send(form({ intent: "save", version, title: "Changed after submission", abstract: "", scienceCategory: "" }));
     expect(overview.status).toBe(409);
     expect((await Proposal.findByPk(proposalId))!.title).toBe("Ready programme for submission");
     expect((await post(`/proposals/${proposalId}/submit`, pi.cookie, { intent: "submit" })).status).toBe(409);

@@ -74,7 +74,7 @@ describe("access: a user who is not on the team finds nothing", () => {
   });
 
   const actions: { name: string; path: (id: number) => string; body: () => Record<string, string | number> }[] = [
-    { name: "overview save", path: (id) => `/proposals/${id}?index`, body: () => ({ version: 1, title: "Hijacked title", abstract: "", scienceCategory: "" }) },
+    { name: "overview save", path: (id) => `/proposals/${id}?index`, body: () => ({ intent: "save", version: 1, title: "Hijacked title", abstract: "", scienceCategory: "" }) },
     { name: "invite", path: (id) => `/proposals/${id}/team`, body: () => ({ intent: "invite", email: "intruder@test.example" }) },
     { name: "add target", path: (id) => `/proposals/${id}/targets`, body: () => ({ intent: "create", name: "Intruder", ra: "10", dec: "10" }) },
     { name: "delete target", path: (id) => `/proposals/${id}/targets`, body: () => ({ intent: "delete", targetId }) },
@@ -143,7 +143,7 @@ describe("starting a proposal and My proposals", () => {
   });
 
   it("refuses a short title next to the field and keeps the abstract that was typed", async () => {
-    const res = await post("/proposals/new", pi.cookie, { callId: call.id, title: "Hi", abstract: "Kept words of the abstract" });
+    const res = await post("/proposals/new", pi.cookie, { intent: "create", callId: call.id, title: "Hi", abstract: "Kept words of the abstract" });
     expect(res.status).toBe(400);
     expect(res.text).toContain("Give the proposal a title of at least 5 characters.");
     expect(res.text).toContain("Kept words of the abstract");
@@ -151,14 +151,14 @@ describe("starting a proposal and My proposals", () => {
 
   it("refuses a call whose deadline has passed", async () => {
     const closed = await testCall({ deadlineInDays: -1 });
-    const res = await post("/proposals/new", pi.cookie, { callId: closed.id, title: "Too late for this call" });
+    const res = await post("/proposals/new", pi.cookie, { intent: "create", callId: closed.id, title: "Too late for this call" });
     expect(res.status).toBe(400);
     expect(res.text).toContain(`The deadline of call ${closed.semesterCode} has passed.`);
     expect(await Proposal.count({ where: { callId: closed.id } })).toBe(0);
   });
 
   it("creates a draft with the creator as PI, audited, and lists it under My proposals", async () => {
-    const res = await post("/proposals/new", pi.cookie, { callId: call.id, title: "A fresh draft for the list", abstract: "" });
+    const res = await post("/proposals/new", pi.cookie, { intent: "create", callId: call.id, title: "A fresh draft for the list", abstract: "" });
     expect(res.status).toBe(302);
     const id = Number(res.headers.location.match(/^\/proposals\/(\d+)$/)?.[1]);
     const proposal = await Proposal.findByPk(id);
@@ -182,7 +182,7 @@ describe("overview with optimistic locking", () => {
 
   it("saves, bumps the version and writes the audit log", async () => {
     const version = (await Proposal.findByPk(id))!.version;
-    const res = await (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ version: String(version), ...values({ isTargetOfOpportunity: "on" }) }));
+    const res = await (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ intent: "save", version: String(version), ...values({ isTargetOfOpportunity: "on" }) }));
     expect(res.status).toBe(200);
     const p = (await Proposal.findByPk(id))!;
     expect(p.version).toBe(version + 1);
@@ -194,7 +194,7 @@ describe("overview with optimistic locking", () => {
   it("refuses an abstract over 250 words, says how many, and keeps the text", async () => {
     const version = (await Proposal.findByPk(id))!.version;
     const long = Array.from({ length: 251 }, (_, i) => `word${i}`).join(" ");
-    const res = await (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ version: String(version), ...values({ abstract: long }) }));
+    const res = await (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ intent: "save", version: String(version), ...values({ abstract: long }) }));
     expect(res.status).toBe(400);
     expect(res.text).toContain("The abstract has 251 words; the limit is 250.");
     expect(res.text).toContain("word250");
@@ -203,24 +203,24 @@ describe("overview with optimistic locking", () => {
 
   it("a multi-semester programme needs at least two semesters, including the call's own", async () => {
     const version = (await Proposal.findByPk(id))!.version;
-    const one = await (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ version: String(version), ...values({ isMultiSemester: "on", semestersRequested: [call.semesterCode] }) }));
+    const one = await (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ intent: "save", version: String(version), ...values({ isMultiSemester: "on", semestersRequested: [call.semesterCode] }) }));
     expect(one.status).toBe(400);
     expect(one.text).toContain("at least two semesters");
     const year = Number(call.semesterCode.slice(0, 4));
     const following = call.semesterCode.endsWith("A") ? [`${year}B`, `${year + 1}A`] : [`${year + 1}A`, `${year + 1}B`];
-    const withoutOwn = await (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ version: String(version), ...values({ isMultiSemester: "on", semestersRequested: following }) }));
+    const withoutOwn = await (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ intent: "save", version: String(version), ...values({ isMultiSemester: "on", semestersRequested: following }) }));
     expect(withoutOwn.status).toBe(400);
     expect(withoutOwn.text).toContain(`must include the call`);
-    const ok = await (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ version: String(version), ...values({ isMultiSemester: "on", semestersRequested: [call.semesterCode, following[0]] }) }));
+    const ok = await (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ intent: "save", version: String(version), ...values({ isMultiSemester: "on", semestersRequested: [call.semesterCode, following[0]] }) }));
     expect(ok.status).toBe(200);
     expect((await Proposal.findByPk(id))!.semestersRequested).toEqual([call.semesterCode, following[0]]);
   });
 
   it("a save from a stale form gets a 409 with both versions; the saved one is untouched", async () => {
     const version = (await Proposal.findByPk(id))!.version;
-    const first = await (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ version: String(version), ...values({ title: "Title saved first" }) }));
+    const first = await (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ intent: "save", version: String(version), ...values({ title: "Title saved first" }) }));
     expect(first.status).toBe(200);
-    const second = await (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ version: String(version), ...values({ title: "Title typed in the stale form" }) }));
+    const second = await (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ intent: "save", version: String(version), ...values({ title: "Title typed in the stale form" }) }));
     expect(second.status).toBe(409);
     expect(second.text).toContain("Someone saved the summary while you were editing");
     expect(second.text).toContain("Title typed in the stale form");
@@ -231,7 +231,7 @@ describe("overview with optimistic locking", () => {
   it("two saves racing with the same version: exactly one wins, the other gets the conflict", async () => {
     const version = (await Proposal.findByPk(id))!.version;
     const send = async (title: string) =>
-      (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ version: String(version), ...values({ title }) }));
+      (await request()).post(`/proposals/${id}?index`).set("Cookie", pi.cookie).type("form").send(overviewBody({ intent: "save", version: String(version), ...values({ title }) }));
     const results = await Promise.all([send("Racing title one"), send("Racing title two")]);
     expect(results.map((r) => r.status).sort()).toEqual([200, 409]);
     const p = (await Proposal.findByPk(id))!;

@@ -13,7 +13,7 @@ let cookie: string;
 let proposalId: number;
 
 async function upload(bytes: Uint8Array) {
-  return (await request()).post(`/proposals/${proposalId}/science-case`).set("Cookie", cookie).attach("file", Buffer.from(bytes), { filename: "case.pdf", contentType: "application/pdf" });
+  return (await request()).post(`/proposals/${proposalId}/science-case`).set("Cookie", cookie).field("intent", "upload").attach("file", Buffer.from(bytes), { filename: "case.pdf", contentType: "application/pdf" });
 }
 
 const count = () => StoredFile.count({ where: { proposalId, kind: "science_case" } });

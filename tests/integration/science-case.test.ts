@@ -17,6 +17,7 @@ async function upload(id: number, cookie: string, bytes: Uint8Array | Buffer, fi
   return (await request())
     .post(`/proposals/${id}/science-case`)
     .set("Cookie", cookie)
+    .field("intent", "upload")
     .attach("file", Buffer.from(bytes), { filename, contentType });
 }
 

@@ -102,11 +102,11 @@ describe("sign-in by e-mailed code", () => {
     const code = await askForCode(a, email);
     const res = await typeCode(a, code);
     expect(res.headers.location).toMatch(/^\/welcome/);
-    const bad = await a.post(res.headers.location).type("form").send(form({ name: "", institution: "Vennholm University" }));
+    const bad = await a.post(res.headers.location).type("form").send(form({ intent: "save", name: "", institution: "Vennholm University" }));
     expect(bad.status).toBe(400);
     expect(bad.text).toContain("Enter your name");
     expect(bad.text).toContain('value="Vennholm University"');
-    const ok = await a.post(res.headers.location).type("form").send(form({ name: "Ada Testing", institution: "Vennholm University" }));
+    const ok = await a.post(res.headers.location).type("form").send(form({ intent: "save", name: "Ada Testing", institution: "Vennholm University" }));
     expect(ok.status).toBe(302);
     const user = await User.findOne({ where: { email } });
     expect(user?.name).toBe("Ada Testing");

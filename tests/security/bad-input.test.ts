@@ -194,13 +194,13 @@ const officeFilter: Record<string, Kind> = { band: "text", zeroPointPhotons: "nu
 const officeCall: Record<string, Kind> = { semesterCode: "text", title: "text", opensAt: "text", deadlineAt: "text", semesterStart: "text", semesterEnd: "text", pageLimit: "number", currency: "text", accessFee: "number", pageCharge: "number" };
 
 const formRoutes: FormRoute[] = [
-  { path: () => "/sign-in", who: "anonymous", intents: [undefined, "verify"], fields: { email: "text", code: "text", redirectTo: "text", intent: "text" } },
-  { path: () => "/welcome", who: "fresh", intents: [undefined], fields: { name: "text", institution: "text" } },
-  { path: () => "/proposals/new", who: "owner", intents: [undefined], fields: { callId: "id", title: "text", abstract: "text" } },
+  { path: () => "/sign-in", who: "anonymous", intents: ["send", "verify", "bogus"], fields: { email: "text", code: "text", redirectTo: "text", intent: "text" } },
+  { path: () => "/welcome", who: "fresh", intents: ["save", "bogus"], fields: { name: "text", institution: "text" } },
+  { path: () => "/proposals/new", who: "owner", intents: ["create", "bogus"], fields: { callId: "id", title: "text", abstract: "text" } },
   {
     path: () => `/proposals/${ids.proposal}?index`,
     who: "owner",
-    intents: [undefined],
+    intents: ["save", "bogus"],
     fields: { version: "id", title: "text", abstract: "text", scienceCategory: "text", isMultiSemester: "text", semestersRequested: "text", isTargetOfOpportunity: "text" },
   },
   { path: () => `/proposals/${ids.proposal}/team`, who: "owner", intents: ["invite", "remove", "hand-over", "bogus"], fields: { email: "text", memberId: "id", intent: "text" } },
@@ -232,7 +232,7 @@ const formRoutes: FormRoute[] = [
       seeingArcsec: "number",
     },
   },
-  { path: () => `/proposals/${ids.proposal}/science-case`, who: "owner", intents: [undefined], fields: { file: "text" }, multipart: true },
+  { path: () => `/proposals/${ids.proposal}/science-case`, who: "owner", intents: ["upload", "bogus"], fields: { file: "text" }, multipart: true },
   { path: () => `/proposals/${ids.proposal}/submit`, who: "owner", intents: [undefined], fields: { intent: "text" } },
   { path: () => `/proposals/${ids.proposal}/charges`, who: "owner", intents: ["declare-pages", "pay", "bogus"], fields: { pages: "number", chargeId: "id", intent: "text" } },
   { path: () => "/admin/users", who: "admin", intents: ["grant", "revoke"], fields: { userId: "id", role: "text", intent: "text" } },

@@ -6,10 +6,12 @@ import { Field, inputProps } from "~/components/Field";
 import { utc } from "~/components/workspace";
 import { chargeKindLabels, chargeStateLabels, formatMoney } from "~/lib/payments/money";
 import { declarePagesSchema } from "~/lib/schemas/charges";
-import type { TeamChargeView, PageChargeOffer } from "~/lib/payments/team.server";
-import type { CheckoutReturn } from "~/routes/proposals.$proposalId.charges";
+import type { CheckoutReturn, TeamChargeView, PageChargeOffer } from "~/lib/payments/team.server";
+import type { ActionFailure } from "~/lib/forms";
+import type { z } from "zod";
 
-type Answer = { ok: boolean; intent: string; errors: Record<string, string>; values: Record<string, string | string[]>; message: string } | null;
+/** What the Charges tab's action answers (a Pay press that works is a redirect to the payment page). */
+type Answer = ActionFailure | { ok: true; intent: "declare-pages"; message: string } | null;
 type Data = { isPi: boolean; charges: TeamChargeView[]; pageCharge: PageChargeOffer; proposalId: number; returned: CheckoutReturn | null };
 
 /** The return page asks again every POLL_MS until the webhook has told us; after POLL_LIMIT_MS it says so. */
@@ -103,7 +105,7 @@ function PagesForm({ offer, answer }: { offer: Extract<PageChargeOffer, { open: 
   const busy = useNavigation().formData?.get("intent") === "declare-pages";
   const mine = answer?.intent === "declare-pages" ? answer : null;
   const typed = mine && !mine.ok ? String(mine.values.pages ?? "") : "";
-  const { register, handleSubmit, formState, watch } = useForm({ resolver: zodResolver(declarePagesSchema), defaultValues: { intent: "declare-pages" as const, pages: typed as unknown as number } });
+  const { register, handleSubmit, formState, watch } = useForm<z.input<typeof declarePagesSchema>, unknown, z.output<typeof declarePagesSchema>>({ resolver: zodResolver(declarePagesSchema), defaultValues: { intent: "declare-pages", pages: typed } });
   const error = formState.errors.pages?.message ?? (mine && !mine.ok ? (mine.errors.pages ?? mine.errors.form) : undefined);
   const pages = Number(watch("pages"));
   const { pathname } = useLocation();

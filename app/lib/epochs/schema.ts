@@ -76,8 +76,8 @@ export function formToRecord(values: Record<string, unknown>) {
   };
 }
 
+/** The PI's acceptance of a re-plan (the Epoch progress tab's "accept-replan" button). */
 export const replanAcceptSchema = z.object({
-  intent: z.literal("accept-replan"),
   observationId: idSchema("observation"),
   /** the re-plan's dates the PI saw (YYYY-MM-DD, comma separated); accepted only if still the same */
   dates: z.string().max(2000).regex(/^(\d{4}-\d{2}-\d{2})(,\d{4}-\d{2}-\d{2})*$/, { error: "dates must be the re-plan's dates, YYYY-MM-DD separated by commas." }),

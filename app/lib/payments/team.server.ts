@@ -72,3 +72,11 @@ export async function declarePages({ user, proposalId, pages, now = new Date() }
     return chargeView(charge);
   });
 }
+
+/** What the Charges tab says after the payment page sent the PI back (`?checkout=return|left`). */
+export type CheckoutReturn =
+  | { kind: "paid"; chargeId: number }
+  | { kind: "waiting"; chargeId: number }
+  | { kind: "lapsed"; chargeId: number }
+  | { kind: "left"; chargeId: number | null }
+  | { kind: "unknown" };

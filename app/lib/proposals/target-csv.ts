@@ -9,6 +9,8 @@ export const KNOWN_COLUMNS = new Map<string, string>(CSV_COLUMNS.map((c) => [nor
 export const REQUIRED_COLUMNS = ["name", "ra", "dec"] as const;
 export const DUPLICATE_RADIUS_ARCSEC = 1;
 export const MAX_IMPORT_ROWS = 2_000;
+/** The largest CSV file the page takes in one import. */
+export const CSV_UPLOAD_MAX_BYTES = 2_000_000;
 
 export type CsvProblem = { field: string; message: string };
 export type CsvRowResult =

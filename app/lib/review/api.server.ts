@@ -1,7 +1,7 @@
 // Helpers of the review's JSON routes: ids from the URL, JSON bodies, refusals as `{ error, issues }`.
 import { data } from "react-router";
 import type { z } from "zod";
-import { apiIssues, Refusal } from "~/lib/forms";
+import { apiIssues, idSchema, Refusal } from "~/lib/forms";
 
 const NO_STORE = { "Cache-Control": "private, no-store" };
 
@@ -9,13 +9,11 @@ export function json<T>(body: T, status = 200) {
   return data(body, { status, headers: NO_STORE });
 }
 
-/** A numeric id of the URL, or a 400 naming it. */
+/** A row id of the URL (`idSchema`: 1…MAX_ID), or a 400 naming it. */
 export function apiId(value: string | undefined, name: string): number {
-  const id = Number(value);
-  if (!/^\d{1,10}$/.test(value ?? "") || !Number.isSafeInteger(id) || id <= 0) {
-    throw data({ error: "The request has invalid fields.", issues: [{ path: name, message: "must be a positive whole number" }] }, { status: 400 });
-  }
-  return id;
+  const id = idSchema(name, "must be a positive whole number").safeParse(value);
+  if (!id.success) throw data({ error: "The request has invalid fields.", issues: [{ path: name, message: "must be a positive whole number" }] }, { status: 400 });
+  return id.data;
 }
 
 /** The request's JSON body checked with `schema`, or a 400 naming the fields. */

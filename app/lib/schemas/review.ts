@@ -1,5 +1,6 @@
 // Forms and JSON bodies of the review, shared by the browser (react-hook-form) and the server.
 import { z } from "zod";
+import { idSchema } from "~/lib/forms";
 import { scienceCategoryValues, wordCount } from "~/lib/proposals/vocabulary";
 import { MERIT_MAX, MERIT_MIN, meritCriteria, PI_COMMENT_MIN_WORDS } from "~/lib/review/vocabulary";
 
@@ -81,7 +82,7 @@ export const reviewSetupSchema = z.object({
 
 /** The team's rating of one comment (decision tab). */
 export const helpfulnessSchema = z.object({
-  assignmentId: z.string({ error: "Choose a comment to rate." }).regex(/^[1-9]\d{0,9}$/, "Choose a comment to rate.").transform(Number),
+  assignmentId: idSchema("comment", "Choose a comment to rate."),
   rating: z
     .string({ error: "Choose a rating from 1 to 5." })
     .regex(/^[1-5]$/, "Choose a rating from 1 (not helpful) to 5 (very helpful).")
