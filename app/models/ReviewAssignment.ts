@@ -5,10 +5,10 @@ import type { Proposal } from "./Proposal";
 import type { User } from "./User";
 
 // DECIMAL comes back from MariaDB as a string: read merits as numbers.
-const meritColumn = (name: string) => ({
+const meritColumn = (name: "science" | "feasibility" | "legacy" | "overall") => ({
   type: DataTypes.DECIMAL(3, 1),
-  get(this: Model) {
-    const raw = this.getDataValue(name as never) as unknown;
+  get(this: ReviewAssignment) {
+    const raw: unknown = this.getDataValue(name);
     return raw === null || raw === undefined ? null : Number(raw);
   },
 });

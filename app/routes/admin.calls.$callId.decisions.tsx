@@ -1,5 +1,6 @@
 import { Fragment, useState } from "react";
-import { data, Form, Link, useActionData, useNavigation } from "react-router";
+import { Form, Link, useActionData, useNavigation } from "react-router";
+import { z } from "zod";
 import { Breadcrumbs } from "~/components/office/Breadcrumbs";
 import { BatchProgressBar } from "~/components/decisions/BatchProgressBar";
 import { TemplateEditor } from "~/components/decisions/TemplateEditor";
@@ -9,10 +10,8 @@ import { templatesFor } from "~/lib/decisions/facts.server";
 import { resendLetter, sendDecisions } from "~/lib/decisions/send.server";
 import { money } from "~/lib/decisions/template";
 import { decisionOutcomes, outcomeLabels } from "~/lib/decisions/vocabulary";
-import { fieldErrors, readForm } from "~/lib/forms";
-import { idParam } from "~/lib/office/forms.server";
-import { formValues, refusalResponse } from "~/lib/proposals/routes.server";
-import { decisionsIntent } from "~/lib/schemas/decisions";
+import { formAction, idParam, intent } from "~/lib/actions.server";
+import { resendSchema, templateSchema, type DecisionsAnswer } from "~/lib/schemas/decisions";
 import type { Route } from "./+types/admin.calls.$callId.decisions";
 
 export function meta({ data: d }: Route.MetaArgs) {
@@ -26,33 +25,27 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { decisions, templates };
 }
 
+const decisionsIntents = z.discriminatedUnion("intent", [intent("send-all"), intent("resend", resendSchema), intent("save-template", templateSchema)]);
+
 export async function action({ request, params }: Route.ActionArgs) {
   const actor = await requireRole(request, "admin");
   const callId = idParam(params.callId, "call");
-  const values = formValues(await readForm(request));
-  const parsed = decisionsIntent.safeParse(values);
-  const outcome = typeof values.outcome === "string" ? values.outcome : undefined;
-  if (!parsed.success) {
-    const errors = fieldErrors(parsed.error);
-    return data({ ok: false as const, intent: String(values.intent ?? ""), outcome, errors: errors.intent ? { form: errors.intent } : errors, values, message: "" }, { status: 400 });
-  }
-  const body = parsed.data;
-  const ok = (message: string) => ({ ok: true as const, intent: body.intent, outcome, errors: {} as Record<string, string>, values, message });
-  try {
-    if (body.intent === "send-all") {
-      const sent = await sendDecisions({ actor, callId });
-      return ok(sent.letters ? `${sent.letters} letter${sent.letters === 1 ? "" : "s"} queued (${sent.mails} e-mails to PIs and Co-Is).` : "Every letter had been sent already; nothing was queued.");
+  return formAction(request, decisionsIntents, async (input): Promise<DecisionsAnswer> => {
+    switch (input.intent) {
+      case "send-all": {
+        const sent = await sendDecisions({ actor, callId });
+        const message = sent.letters ? `${sent.letters} letter${sent.letters === 1 ? "" : "s"} queued (${sent.mails} e-mails to PIs and Co-Is).` : "Every letter had been sent already; nothing was queued.";
+        return { ok: true, intent: input.intent, message };
+      }
+      case "resend": {
+        const sent = await resendLetter({ actor, callId, proposalId: input.proposalId, reason: input.reason });
+        return { ok: true, intent: input.intent, message: `The letter is queued again (${sent.mails} e-mail${sent.mails === 1 ? "" : "s"}).` };
+      }
+      case "save-template":
+        await saveTemplate({ actor, outcome: input.outcome, subject: input.subject, body: input.body });
+        return { ok: true, intent: input.intent, outcome: input.outcome, message: `The ${input.outcome} template is saved; letters not yet sent use it.` };
     }
-    if (body.intent === "resend") {
-      const sent = await resendLetter({ actor, callId, proposalId: body.proposalId, reason: body.reason });
-      return ok(`The letter is queued again (${sent.mails} e-mail${sent.mails === 1 ? "" : "s"}).`);
-    }
-    await saveTemplate({ actor, outcome: body.outcome, subject: body.subject, body: body.body });
-    return ok(`The ${body.outcome} template is saved; letters not yet sent use it.`);
-  } catch (error) {
-    const refused = refusalResponse(error, values);
-    return data({ ...refused.data, intent: body.intent, outcome, message: "" }, refused.init ?? undefined);
-  }
+  });
 }
 
 const hoursOf = (row: { facts: { hours: { hours: number; semesterCode: string }[]; semesterCode: string } }) => row.facts.hours.filter((h) => h.semesterCode === row.facts.semesterCode).reduce((s, h) => s + h.hours, 0);
@@ -64,7 +57,9 @@ export default function Decisions({ loaderData }: Route.ComponentProps) {
   const [open, setOpen] = useState<number | null>(null);
   const { call } = decisions;
   const unsent = decisions.rows.filter((r) => !r.sent).length;
-  const pageAnswer = actionData && (actionData.intent === "send-all" || actionData.intent === "resend" || !actionData.ok && !actionData.outcome) ? actionData : undefined;
+  // a template's answer belongs to its editor; the rest (sending, an unknown button) to the page
+  const editorsAnswer = actionData?.intent === "save-template" && (actionData.ok || decisionOutcomes.some((o) => o === actionData.values.outcome));
+  const pageAnswer = actionData && !editorsAnswer ? actionData : undefined;
   return (
     <div className="space-y-6">
       <Breadcrumbs trail={[{ to: "/admin", label: "Observatory office" }, { to: "/admin/calls", label: "Calls" }, { to: `/admin/calls/${call.id}`, label: call.semesterCode }, { label: "Decisions" }]} />
@@ -112,7 +107,7 @@ export default function Decisions({ loaderData }: Route.ComponentProps) {
                             <Form method="post" className="mt-3 flex flex-wrap items-end gap-2">
                               <input type="hidden" name="intent" value="resend" />
                               <input type="hidden" name="proposalId" value={r.proposalId} />
-                              <label className="flex-1">Reason for sending again<input name="reason" className="input" defaultValue={pageAnswer && !pageAnswer.ok && pageAnswer.intent === "resend" ? String((pageAnswer.values as Record<string, string>).reason ?? "") : ""} aria-invalid={pageAnswer && !pageAnswer.ok && pageAnswer.errors.reason ? true : undefined} /></label>
+                              <label className="flex-1">Reason for sending again<input name="reason" className="input" defaultValue={pageAnswer && !pageAnswer.ok && pageAnswer.intent === "resend" ? (pageAnswer.values.reason ?? "") : ""} aria-invalid={pageAnswer && !pageAnswer.ok && pageAnswer.errors.reason ? true : undefined} /></label>
                               <button type="submit" className="btn-quiet" disabled={busy}>Send this letter again</button>
                               {pageAnswer && !pageAnswer.ok && pageAnswer.errors.reason ? <p className="field-error w-full" role="alert">{pageAnswer.errors.reason}</p> : null}
                             </Form>

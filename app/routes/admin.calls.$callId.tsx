@@ -1,4 +1,5 @@
 import { redirect } from "react-router";
+import { z } from "zod";
 import { Breadcrumbs } from "~/components/office/Breadcrumbs";
 import { CallForm } from "~/components/office/CallForm";
 import { resultFor } from "~/components/office/fields";
@@ -6,10 +7,9 @@ import { committedHours } from "~/lib/allocation/board.server";
 import { requireRole } from "~/lib/auth/auth.server";
 import { callFormContext, callToForm } from "~/lib/office/call-form.server";
 import { getCall, observatoryTimeZone, updateCall } from "~/lib/office/office.server";
-import { formValues, handle, idParam, orNotFound } from "~/lib/office/forms.server";
-import { callSchema } from "~/lib/schemas/office";
+import { formAction, idParam, intent, orNotFound } from "~/lib/actions.server";
+import { callSchemaInZone } from "~/lib/schemas/office";
 import type { Route } from "./+types/admin.calls.$callId";
-import { readForm } from "~/lib/forms";
 
 export function meta({ data }: Route.MetaArgs) {
   return [{ title: `Call ${data?.semesterCode ?? ""} · Observatory office · Nightshare` }];
@@ -24,14 +24,14 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { ...context, semesterCode: call.semesterCode, initial: callToForm(call, context.timeZone), committed };
 }
 
+const callIntents = (timeZone: string) => z.discriminatedUnion("intent", [intent("update", callSchemaInZone(timeZone))]);
+
 export async function action({ request, params }: Route.ActionArgs) {
   const actor = await requireRole(request, "admin");
   const callId = idParam(params.callId, "call");
-  const values = formValues(await readForm(request));
-  values.timeZone = await observatoryTimeZone();
-  return handle({ intent: "update", values, schema: callSchema }, async (input) => {
-    await updateCall({ actor, callId, values: input });
-    return redirect(`/admin/calls?saved=${input.semesterCode}`);
+  return formAction(request, callIntents(await observatoryTimeZone()), async ({ intent: _, ...values }) => {
+    await updateCall({ actor, callId, values });
+    return redirect(`/admin/calls?saved=${values.semesterCode}`);
   });
 }
 

@@ -1,14 +1,14 @@
 import { redirect } from "react-router";
+import { z } from "zod";
 import { Breadcrumbs } from "~/components/office/Breadcrumbs";
 import { CallForm } from "~/components/office/CallForm";
 import { resultFor } from "~/components/office/fields";
 import { requireRole } from "~/lib/auth/auth.server";
 import { callFormContext, emptyCallForm } from "~/lib/office/call-form.server";
 import { createCall, listCalls, observatoryTimeZone } from "~/lib/office/office.server";
-import { formValues, handle } from "~/lib/office/forms.server";
-import { callSchema } from "~/lib/schemas/office";
+import { formAction, intent } from "~/lib/actions.server";
+import { callSchemaInZone } from "~/lib/schemas/office";
 import type { Route } from "./+types/admin.calls.new";
-import { readForm } from "~/lib/forms";
 
 export function meta() {
   return [{ title: "New call · Observatory office · Nightshare" }];
@@ -21,14 +21,13 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { ...context, initial: emptyCallForm(latest) };
 }
 
+const newCallIntents = (timeZone: string) => z.discriminatedUnion("intent", [intent("create", callSchemaInZone(timeZone))]);
+
 export async function action({ request }: Route.ActionArgs) {
   const actor = await requireRole(request, "admin");
-  const values = formValues(await readForm(request));
-  // The wall clock is the observatory's, whatever the form says.
-  values.timeZone = await observatoryTimeZone();
-  return handle({ intent: "create", values, schema: callSchema }, async (input) => {
-    await createCall({ actor, values: input });
-    return redirect(`/admin/calls?saved=${input.semesterCode}`);
+  return formAction(request, newCallIntents(await observatoryTimeZone()), async ({ intent: _, ...values }) => {
+    await createCall({ actor, values });
+    return redirect(`/admin/calls?saved=${values.semesterCode}`);
   });
 }
 

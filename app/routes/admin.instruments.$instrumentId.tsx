@@ -1,4 +1,5 @@
 import { redirect, useSearchParams } from "react-router";
+import { z } from "zod";
 import { Breadcrumbs } from "~/components/office/Breadcrumbs";
 import { DeleteButton } from "~/components/office/DeleteButton";
 import { resultFor, Saved } from "~/components/office/fields";
@@ -6,8 +7,8 @@ import { filterColumns, FilterRow } from "~/components/office/FilterRows";
 import { InstrumentForm } from "~/components/office/InstrumentForm";
 import { requireRole } from "~/lib/auth/auth.server";
 import { createFilter, deleteFilter, deleteInstrument, getInstrument, updateFilter, updateInstrument } from "~/lib/office/office.server";
-import { idSchema, readForm } from "~/lib/forms";
-import { attempt, formValues, handle, idParam, orNotFound, refused, unknownIntent } from "~/lib/office/forms.server";
+import { idSchema } from "~/lib/forms";
+import { formAction, idParam, intent, orNotFound } from "~/lib/actions.server";
 import { filterSchema, instrumentSchema } from "~/lib/schemas/office";
 import type { Route } from "./+types/admin.instruments.$instrumentId";
 
@@ -21,45 +22,51 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { instrument: await orNotFound(getInstrument({ instrumentId })) };
 }
 
+const filterRow = z.object({ filterId: idSchema("filter id") });
+
+const instrumentIntents = z.discriminatedUnion("intent", [
+  intent("update", instrumentSchema),
+  intent("delete"),
+  intent("createFilter", filterSchema),
+  intent("updateFilter", filterRow.and(filterSchema)),
+  intent("deleteFilter", filterRow),
+]);
+
 export async function action({ request, params }: Route.ActionArgs) {
   const actor = await requireRole(request, "admin");
   const instrumentId = idParam(params.instrumentId, "instrument");
-  const formData = await readForm(request);
-  const intent = String(formData.get("intent") ?? "");
-  const values = formValues(formData);
-  const filterId = idSchema("filter id").safeParse(formData.get("filterId")).data ?? 0;
-  if ((intent === "updateFilter" || intent === "deleteFilter") && filterId === 0) {
-    return refused(intent, values, { form: "The filter id must be a positive whole number; reload the page." });
-  }
-  switch (intent) {
-    case "update":
-      return handle({ intent, values, schema: instrumentSchema }, async (input) => {
-        const { changed } = await updateInstrument({ actor, instrumentId, values: input });
-        return redirect(`/admin/instruments/${instrumentId}?saved=${changed ? "instrument" : "unchanged"}`);
-      });
-    case "delete":
-      return attempt({ intent, values }, async () => {
-        const { telescopeId, name } = await deleteInstrument({ actor, instrumentId });
-        return redirect(`/admin/telescopes/${telescopeId}?deleted=${encodeURIComponent(name)}`);
-      });
-    case "createFilter":
-      return handle({ intent, values, schema: filterSchema }, async (input) => {
-        const id = await createFilter({ actor, instrumentId, values: input });
-        return { ok: true as const, intent, rowId: id };
-      });
-    case "updateFilter":
-      return handle({ intent, values, schema: filterSchema, rowId: filterId }, async (input) => {
-        const { changed } = await updateFilter({ actor, instrumentId, filterId, values: input });
-        return { ok: true as const, intent, rowId: filterId, changed };
-      });
-    case "deleteFilter":
-      return attempt({ intent, values, rowId: filterId }, async () => {
-        await deleteFilter({ actor, instrumentId, filterId });
-        return { ok: true as const, intent, rowId: filterId };
-      });
-    default:
-      return unknownIntent();
-  }
+  return formAction(
+    request,
+    instrumentIntents,
+    async (input) => {
+      switch (input.intent) {
+        case "update": {
+          const { intent: _, ...values } = input;
+          const { changed } = await updateInstrument({ actor, instrumentId, values });
+          return redirect(`/admin/instruments/${instrumentId}?saved=${changed ? "instrument" : "unchanged"}`);
+        }
+        case "delete": {
+          const { telescopeId, name } = await deleteInstrument({ actor, instrumentId });
+          return redirect(`/admin/telescopes/${telescopeId}?deleted=${encodeURIComponent(name)}`);
+        }
+        case "createFilter": {
+          const { intent, ...values } = input;
+          const id = await createFilter({ actor, instrumentId, values });
+          return { ok: true as const, intent, rowId: id };
+        }
+        case "updateFilter": {
+          const { intent, filterId, ...values } = input;
+          const { changed } = await updateFilter({ actor, instrumentId, filterId, values });
+          return { ok: true as const, intent, rowId: filterId, changed };
+        }
+        case "deleteFilter": {
+          await deleteFilter({ actor, instrumentId, filterId: input.filterId });
+          return { ok: true as const, intent: input.intent, rowId: input.filterId };
+        }
+      }
+    },
+    { rowId: "filterId" },
+  );
 }
 
 const savedText: Record<string, string> = {

@@ -1,4 +1,5 @@
 import { Link, redirect, useSearchParams } from "react-router";
+import { z } from "zod";
 import { Breadcrumbs } from "~/components/office/Breadcrumbs";
 import { DeleteButton } from "~/components/office/DeleteButton";
 import { resultFor, Saved } from "~/components/office/fields";
@@ -7,12 +8,11 @@ import { InstrumentForm } from "~/components/office/InstrumentForm";
 import { TelescopeForm } from "~/components/office/TelescopeForm";
 import { requireRole } from "~/lib/auth/auth.server";
 import { createInstrument, deleteTelescope, getTelescope, updateTelescope } from "~/lib/office/office.server";
-import { attempt, formValues, handle, idParam, orNotFound, unknownIntent } from "~/lib/office/forms.server";
+import { formAction, idParam, intent, orNotFound } from "~/lib/actions.server";
 import { clearFractionsOf, saveClearFractions } from "~/lib/office/clear-fractions.server";
 import { clearFractionsSchema, instrumentSchema, telescopeSchema } from "~/lib/schemas/office";
 import { supportedTimeZones } from "~/lib/zoned-time";
 import type { Route } from "./+types/admin.telescopes.$telescopeId";
-import { readForm } from "~/lib/forms";
 
 export function meta({ data }: Route.MetaArgs) {
   return [{ title: `${data?.telescope.name ?? "Telescope"} · Observatory office · Nightshare` }];
@@ -25,36 +25,39 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { telescope, clearFractions, timeZones: supportedTimeZones() };
 }
 
+const telescopeIntents = z.discriminatedUnion("intent", [
+  intent("update", telescopeSchema),
+  intent("clearFractions", clearFractionsSchema),
+  intent("createInstrument", instrumentSchema),
+  intent("delete"),
+]);
+
 export async function action({ request, params }: Route.ActionArgs) {
   const actor = await requireRole(request, "admin");
   const telescopeId = idParam(params.telescopeId, "telescope");
-  const formData = await readForm(request);
-  const intent = String(formData.get("intent") ?? "");
-  const values = formValues(formData);
-  switch (intent) {
-    case "update":
-      return handle({ intent, values, schema: telescopeSchema }, async (input) => {
-        const { changed } = await updateTelescope({ actor, telescopeId, values: input });
+  return formAction(request, telescopeIntents, async (input) => {
+    switch (input.intent) {
+      case "update": {
+        const { intent: _, ...values } = input;
+        const { changed } = await updateTelescope({ actor, telescopeId, values });
         return redirect(`/admin/telescopes/${telescopeId}?saved=${changed ? "telescope" : "unchanged"}`);
-      });
-    case "clearFractions":
-      return handle({ intent, values, schema: clearFractionsSchema }, async (input) => {
-        const { changed } = await saveClearFractions({ actor, telescopeId, values: input });
+      }
+      case "clearFractions": {
+        const { intent: _, ...values } = input;
+        const { changed } = await saveClearFractions({ actor, telescopeId, values });
         return redirect(`/admin/telescopes/${telescopeId}?saved=${changed ? "clear" : "unchanged"}#clear-nights`);
-      });
-    case "createInstrument":
-      return handle({ intent, values, schema: instrumentSchema }, async (input) => {
-        const id = await createInstrument({ actor, telescopeId, values: input });
+      }
+      case "createInstrument": {
+        const { intent: _, ...values } = input;
+        const id = await createInstrument({ actor, telescopeId, values });
         return redirect(`/admin/instruments/${id}?saved=created`);
-      });
-    case "delete":
-      return attempt({ intent, values }, async () => {
+      }
+      case "delete": {
         const { name } = await deleteTelescope({ actor, telescopeId });
         return redirect(`/admin/telescopes?deleted=${encodeURIComponent(name)}`);
-      });
-    default:
-      return unknownIntent();
-  }
+      }
+    }
+  });
 }
 
 const savedText: Record<string, string> = {

@@ -1,14 +1,14 @@
 import { Link, redirect } from "react-router";
+import { z } from "zod";
 import { Breadcrumbs } from "~/components/office/Breadcrumbs";
 import { resultFor } from "~/components/office/fields";
 import { TelescopeForm } from "~/components/office/TelescopeForm";
 import { requireRole } from "~/lib/auth/auth.server";
 import { createTelescope, listTelescopes } from "~/lib/office/office.server";
-import { formValues, handle, unknownIntent } from "~/lib/office/forms.server";
+import { formAction, intent } from "~/lib/actions.server";
 import { telescopeSchema } from "~/lib/schemas/office";
 import { supportedTimeZones } from "~/lib/zoned-time";
 import type { Route } from "./+types/admin.telescopes._index";
-import { readForm } from "~/lib/forms";
 
 export function meta() {
   return [{ title: "Telescopes · Observatory office · Nightshare" }];
@@ -19,11 +19,11 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { telescopes: await listTelescopes(), timeZones: supportedTimeZones() };
 }
 
+const telescopesIntents = z.discriminatedUnion("intent", [intent("create", telescopeSchema)]);
+
 export async function action({ request }: Route.ActionArgs) {
   const actor = await requireRole(request, "admin");
-  const formData = await readForm(request);
-  if (formData.get("intent") !== "create") return unknownIntent();
-  return handle({ intent: "create", values: formValues(formData), schema: telescopeSchema }, async (values) => {
+  return formAction(request, telescopesIntents, async ({ intent: _, ...values }) => {
     const id = await createTelescope({ actor, values });
     return redirect(`/admin/telescopes/${id}?saved=created`);
   });

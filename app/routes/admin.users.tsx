@@ -9,11 +9,12 @@ import {
 } from "@tanstack/react-table";
 import { SortableTable } from "~/components/SortableTable";
 import { useMemo, useState } from "react";
-import { data, useFetcher } from "react-router";
+import { z } from "zod";
+import { RoleToggle, SignOutEverywhere } from "~/components/office/UserControls";
+import { formAction, intent } from "~/lib/actions.server";
 import { requireRole } from "~/lib/auth/auth.server";
-import { fieldErrors, readForm } from "~/lib/forms";
-import { adminUserActionSchema } from "~/lib/schemas/roles";
-import { changeRole, listUsersWithRoles, RoleChangeRefused, signOutEverywhere } from "~/lib/auth/users.server";
+import { roleField, userIdField } from "~/lib/schemas/roles";
+import { changeRole, listUsersWithRoles, signOutEverywhere, type UserWithRoles } from "~/lib/auth/users.server";
 import { grantableRoles, type GrantableRole } from "~/lib/domain";
 import type { Route } from "./+types/admin.users";
 
@@ -26,82 +27,24 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { users: await listUsersWithRoles(), actorId: actor.id };
 }
 
+const userFields = z.object({ userId: userIdField });
+const roleFields = userFields.extend({ role: roleField });
+const userIntents = z.discriminatedUnion("intent", [intent("grant", roleFields), intent("revoke", roleFields), intent("sign-out-everywhere", userFields)]);
+
 export async function action({ request }: Route.ActionArgs) {
   const actor = await requireRole(request, "admin");
-  const parsed = adminUserActionSchema.safeParse(Object.fromEntries(await readForm(request)));
-  if (!parsed.success) return data({ ok: false as const, errors: fieldErrors(parsed.error) }, { status: 400 });
-  try {
-    if (parsed.data.intent === "sign-out-everywhere") {
-      const result = await signOutEverywhere({ actor, userId: parsed.data.userId });
-      return { ok: true as const, ...result, ...parsed.data };
+  return formAction(request, userIntents, async (input) => {
+    switch (input.intent) {
+      case "sign-out-everywhere":
+        return { ok: true as const, ...(await signOutEverywhere({ actor, userId: input.userId })), ...input };
+      case "grant":
+      case "revoke":
+        return { ok: true as const, ...(await changeRole({ actor, ...input })), ...input };
     }
-    const result = await changeRole({ actor, ...parsed.data });
-    return { ok: true as const, ...result, ...parsed.data };
-  } catch (error) {
-    if (error instanceof RoleChangeRefused) return data({ ok: false as const, errors: { form: error.message } }, { status: 400 });
-    throw error;
-  }
+  });
 }
 
-type UserRow = Awaited<ReturnType<typeof loader>>["users"][number];
-const column = createColumnHelper<UserRow>();
-
-function RoleToggle({ user, role, self }: { user: UserRow; role: GrantableRole; self: boolean }) {
-  const fetcher = useFetcher<typeof action>();
-  const pending = fetcher.formData?.get("intent");
-  const has = pending ? pending === "grant" : user.roles.includes(role);
-  const error = fetcher.data && !fetcher.data.ok ? Object.values(fetcher.data.errors)[0] : null;
-  return (
-    <fetcher.Form method="post" className="inline">
-      <input type="hidden" name="userId" value={user.id} />
-      <input type="hidden" name="role" value={role} />
-      <input type="hidden" name="intent" value={has ? "revoke" : "grant"} />
-      <button
-        type="submit"
-        aria-pressed={has}
-        aria-label={`${has ? "Revoke" : "Grant"} ${role} for ${user.email}`}
-        disabled={self && role === "admin" && has}
-        title={self && role === "admin" ? "You cannot revoke your own admin role" : undefined}
-        className={`rounded-full border px-2.5 py-0.5 text-xs font-semibold ${
-          has ? "border-night-800 bg-night-800 text-white" : "border-slate-300 bg-white text-slate-500 hover:border-night-700"
-        } disabled:cursor-not-allowed disabled:opacity-60`}
-      >
-        {role}
-      </button>
-      {error ? <span role="alert" className="ml-1 text-xs text-red-700">{error}</span> : null}
-    </fetcher.Form>
-  );
-}
-
-function SignOutEverywhere({ user }: { user: UserRow }) {
-  const fetcher = useFetcher<typeof action>();
-  const done = fetcher.data?.ok && "sessionsEnded" in fetcher.data ? fetcher.data : null;
-  const error = fetcher.data && !fetcher.data.ok ? Object.values(fetcher.data.errors)[0] : null;
-  const sessions = done ? 0 : user.activeSessions;
-  return (
-    <fetcher.Form
-      method="post"
-      className="flex flex-wrap items-center gap-2"
-      onSubmit={(event) => {
-        if (!window.confirm(`Sign ${user.email} out of every browser? They can sign in again with a new code.`)) event.preventDefault();
-      }}
-    >
-      <input type="hidden" name="userId" value={user.id} />
-      <input type="hidden" name="intent" value="sign-out-everywhere" />
-      <span className="text-xs text-slate-600">{sessions === 1 ? "1 session" : `${sessions} sessions`}</span>
-      <button
-        type="submit"
-        className="btn-quiet text-xs"
-        aria-label={`Sign ${user.email} out everywhere`}
-        disabled={fetcher.state !== "idle"}
-      >
-        Sign this person out everywhere
-      </button>
-      {done ? <span role="status" className="text-xs text-emerald-700">Signed out ({done.sessionsEnded} ended)</span> : null}
-      {error ? <span role="alert" className="text-xs text-red-700">{error}</span> : null}
-    </fetcher.Form>
-  );
-}
+const column = createColumnHelper<UserWithRoles>();
 
 export default function AdminUsers({ loaderData }: Route.ComponentProps) {
   const { users, actorId } = loaderData;

@@ -1,10 +1,9 @@
-import { data, Link, useActionData, useNavigation } from "react-router";
+import { Link, useActionData, useNavigation } from "react-router";
 import { AllocationSheet } from "~/components/allocation/AllocationSheet";
 import { allocationSheet, saveAllocationSheet } from "~/lib/allocation/sheet.server";
 import { requireRole } from "~/lib/auth/auth.server";
+import { failure, idParam, refusalFailure, UNKNOWN_INTENT } from "~/lib/actions.server";
 import { fieldErrors } from "~/lib/forms";
-import { refusalResponse } from "~/lib/proposals/routes.server";
-import { pageCallId } from "~/lib/review/chair.server";
 import { allocationSheetSchema } from "~/lib/schemas/allocation";
 import type { Route } from "./+types/committee.$callId.allocation";
 
@@ -17,27 +16,33 @@ export function meta({ data: d }: Route.MetaArgs) {
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
-  return { sheet: await allocationSheet({ callId: pageCallId(params) }) };
+  return { sheet: await allocationSheet({ callId: idParam(params.callId, "call") }) };
 }
 
-/** The page posts its rows as JSON (`intent: "save"`); they are checked again here. */
+/**
+ * The page posts its rows as JSON (`intent: "save"`, the sheet's nested rows are no flat form), so
+ * this action reads JSON rather than going through `formAction`; its answers are the same
+ * `ActionFailure`s, and the rows are checked again here.
+ */
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireRole(request, "chair");
-  const callId = pageCallId(params);
+  const callId = idParam(params.callId, "call");
   let body: unknown;
   try {
     body = await request.json();
   } catch {
-    return data({ ok: false as const, errors: { form: "The allocation did not arrive as JSON; reload the page and try again." } as Record<string, string>, message: "" }, { status: 400 });
+    return failure("save", { form: "The allocation did not arrive as JSON; reload the page and try again." }, {});
   }
   const parsed = allocationSheetSchema.safeParse(body);
-  if (!parsed.success) return data({ ok: false as const, errors: fieldErrors(parsed.error), message: "" }, { status: 400 });
+  if (!parsed.success) {
+    const errors = fieldErrors(parsed.error);
+    return errors.intent ? failure("unknown", { form: UNKNOWN_INTENT }, {}) : failure("save", errors, {});
+  }
   try {
     const saved = await saveAllocationSheet({ actor: user, callId, sheet: parsed.data });
-    return { ok: true as const, errors: {} as Record<string, string>, message: `Allocation saved: ${saved.rows} cells with hours over ${saved.proposals} proposals.` };
+    return { ok: true as const, intent: parsed.data.intent, message: `Allocation saved: ${saved.rows} cells with hours over ${saved.proposals} proposals.` };
   } catch (error) {
-    const refused = refusalResponse(error, null);
-    return data({ ok: false as const, errors: refused.data.errors, message: "" }, refused.init ?? undefined);
+    return refusalFailure(error, parsed.data.intent, {});
   }
 }
 

@@ -1,8 +1,9 @@
 import { useMemo, useState } from "react";
-import { data, Link, useRevalidator } from "react-router";
+import { Link, useRevalidator } from "react-router";
+import { HelpfulnessCell } from "~/components/committee/HelpfulnessCell";
+import { idParam } from "~/lib/actions.server";
 import { requireRole } from "~/lib/auth/auth.server";
 import { scienceCategoryLabel } from "~/lib/proposals/vocabulary";
-import { apiId } from "~/lib/review/api.server";
 import { reviewBoard } from "~/lib/review/chair.server";
 import { helpfulnessByReviewer } from "~/lib/review/helpfulness.server";
 import { SUGGESTION_METHOD } from "~/lib/review/suggest";
@@ -14,12 +15,7 @@ export function meta({ data: d }: Route.MetaArgs) {
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
-  let callId: number;
-  try {
-    callId = apiId(params.callId, "callId");
-  } catch {
-    throw data({ message: "There is no call at this address." }, { status: 404 });
-  }
+  const callId = idParam(params.callId, "call");
   const [board, helpfulness] = await Promise.all([reviewBoard({ callId }), helpfulnessByReviewer({ callId })]);
   return { board, helpfulness, method: SUGGESTION_METHOD };
 }
@@ -203,14 +199,5 @@ export default function Assignments({ loaderData }: Route.ComponentProps) {
         </table>
       </div>
     </div>
-  );
-}
-
-/** The mean helpfulness the teams gave this reviewer's comments, and how many ratings (never who gave them). */
-function HelpfulnessCell({ figures, reviewerId }: { figures?: { mean: number; ratings: number }; reviewerId: number }) {
-  return (
-    <span className="block text-xs font-normal text-slate-600" data-helpfulness={reviewerId} title="Mean helpfulness of the reviewer's comments, rated 1–5 by the teams that received them">
-      {figures ? `helpful ${figures.mean.toFixed(1)}/5 (${figures.ratings} rating${figures.ratings === 1 ? "" : "s"})` : "no helpfulness ratings"}
-    </span>
   );
 }

@@ -1,7 +1,7 @@
 import { createColumnHelper, getCoreRowModel, getFilteredRowModel, getSortedRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
 import { ReviewDutyBadge } from "~/components/allocation/ReviewDutyBadge";
 import { useMemo, useState } from "react";
-import { data, Form, Link, useActionData, useNavigation } from "react-router";
+import { Form, Link, useActionData, useNavigation } from "react-router";
 import { z } from "zod";
 import { RaPressure } from "~/components/allocation/RaPressure";
 import { Field, inputProps } from "~/components/Field";
@@ -18,11 +18,10 @@ import type { FeasibilitySheet } from "~/lib/proposals/feasibility";
 import { DISAGREEMENT_SPAN, MIN_GRADES } from "~/lib/allocation/normalise";
 import { HIDDEN_TEAM } from "~/lib/domain";
 import { requireRole } from "~/lib/auth/auth.server";
-import { fieldErrors, idSchema, readForm } from "~/lib/forms";
-import { formValues, refusalResponse } from "~/lib/proposals/routes.server";
+import { formAction, idParam, intent } from "~/lib/actions.server";
+import { idSchema } from "~/lib/forms";
 import { chairRankSchema, reasonSchema } from "~/lib/schemas/allocation";
 import { scienceCategoryLabel } from "~/lib/proposals/vocabulary";
-import { pageCallId } from "~/lib/review/chair.server";
 import { Telescope } from "~/models/index.server";
 import { OwedEpochs } from "~/components/epochs/OwedEpochs";
 import { owedBeforeCall } from "~/lib/epochs/epochs.server";
@@ -35,56 +34,50 @@ export function meta({ data: d }: Route.MetaArgs) {
   return [{ title: `Ranking board ${d?.board.call.semesterCode ?? ""} · Committee · Nightshare` }];
 }
 
-const boardIntent = z.discriminatedUnion("intent", [
-  z.object({ intent: z.literal("fill") }),
-  z.object({ intent: z.literal("lock") }),
-  z.object({ intent: z.literal("unlock"), reason: reasonSchema }),
-  z.object({
-    intent: z.literal("move"),
-    proposalId: idSchema("proposal"),
-    // a form sends text: empty = the computed rank
-    chairRank: z.preprocess((v) => (typeof v === "string" ? (v.trim() === "" ? null : Number(v)) : v), chairRankSchema),
-    reason: reasonSchema,
-  }),
-], { error: "That button does nothing here; reload the page." });
+const boardIntents = z.discriminatedUnion("intent", [
+  intent("fill"),
+  intent("lock"),
+  intent("unlock", z.object({ reason: reasonSchema })),
+  intent(
+    "move",
+    z.object({
+      proposalId: idSchema("proposal"),
+      // a form sends text: empty = the computed rank
+      chairRank: z.preprocess((v) => (typeof v === "string" ? (v.trim() === "" ? null : Number(v)) : v), chairRankSchema),
+      reason: reasonSchema,
+    }),
+  ),
+]);
 
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireRole(request, "chair");
-  const callId = pageCallId(params);
-  const values = formValues(await readForm(request));
-  const parsed = boardIntent.safeParse(values);
-  if (!parsed.success) {
-    const errors = fieldErrors(parsed.error);
-    return data({ ok: false as const, errors: errors.intent ? { form: errors.intent } : errors, values, message: "" }, { status: 400 });
-  }
-  // `at` tells the page a new success apart from the last one (the move form then starts empty)
-  const ok = (message: string) => ({ ok: true as const, errors: {} as Record<string, string>, values, message, at: Date.now() });
-  try {
-    const body = parsed.data;
-    if (body.intent === "fill") {
-      const filled = await fillAllocationByRank({ actor: user, callId });
-      const count = (tier: string) => filled.tiers.filter((t) => t.tier === tier).length;
-      return ok(`Filled by rank: ${count("assured")} assured, ${count("queue")} queue, ${count("filler")} filler, ${filled.tiers.filter((t) => t.tier === null).length} without hours.`);
+  const callId = idParam(params.callId, "call");
+  return formAction(request, boardIntents, async (input) => {
+    // `at` tells the page a new success apart from the last one (the move form then starts empty)
+    const done = (message: string) => ({ ok: true as const, intent: input.intent, message, at: Date.now() });
+    switch (input.intent) {
+      case "fill": {
+        const filled = await fillAllocationByRank({ actor: user, callId });
+        const count = (tier: string) => filled.tiers.filter((t) => t.tier === tier).length;
+        return done(`Filled by rank: ${count("assured")} assured, ${count("queue")} queue, ${count("filler")} filler, ${filled.tiers.filter((t) => t.tier === null).length} without hours.`);
+      }
+      case "lock": {
+        const { outcomes } = await lockAllocation({ actor: user, callId });
+        return done(`Allocation locked: ${outcomes.accepted} accepted, ${outcomes.waitlisted} waitlisted, ${outcomes.declined} declined. Nobody has been told yet.`);
+      }
+      case "unlock":
+        await unlockAllocation({ actor: user, callId, reason: input.reason });
+        return done("Allocation unlocked; the proposals are in review again.");
+      case "move":
+        await moveOnBoard({ actor: user, callId, proposalId: input.proposalId, chairRank: input.chairRank, reason: input.reason });
+        return done(input.chairRank === null ? "Returned to its computed rank." : `Moved to position ${input.chairRank}.`);
     }
-    if (body.intent === "lock") {
-      const { outcomes } = await lockAllocation({ actor: user, callId });
-      return ok(`Allocation locked: ${outcomes.accepted} accepted, ${outcomes.waitlisted} waitlisted, ${outcomes.declined} declined. Nobody has been told yet.`);
-    }
-    if (body.intent === "unlock") {
-      await unlockAllocation({ actor: user, callId, reason: body.reason });
-      return ok("Allocation unlocked; the proposals are in review again.");
-    }
-    await moveOnBoard({ actor: user, callId, proposalId: body.proposalId, chairRank: body.chairRank, reason: body.reason });
-    return ok(body.chairRank === null ? "Returned to its computed rank." : `Moved to position ${body.chairRank}.`);
-  } catch (error) {
-    const refused = refusalResponse(error, values);
-    return data({ ...refused.data, message: "" }, refused.init ?? undefined);
-  }
+  });
 }
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
-  const callId = pageCallId(params);
+  const callId = idParam(params.callId, "call");
   const sheets = new Map<number, FeasibilitySheet>(); // read once for the board and its RA pressure
   const [board, telescopes, semesterCheck] = await Promise.all([
     callBoard({ callId, sheets }),
@@ -113,7 +106,8 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
   const busy = useNavigation().state !== "idle";
   const err = (field: string) => (actionData && !actionData.ok ? actionData.errors[field] : undefined);
   // what was typed comes back only with a refusal; after a success the forms start empty
-  const typed = (field: string) => (actionData && !actionData.ok ? (actionData.values as Record<string, string> | undefined)?.[field] : undefined);
+  const typed = (field: string) => (actionData && !actionData.ok ? actionData.values[field] : undefined);
+  const moveRefused = actionData && !actionData.ok && actionData.intent === "move";
   const { call } = board;
   const telescopeName = (id: number) => telescopes.find((t) => t.id === id)?.name ?? `telescope ${id}`;
   const [sorting, setSorting] = useState<SortingState>([{ id: "computedRank", desc: false }]);
@@ -280,7 +274,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
             <Form method="post" className="flex flex-wrap items-end gap-3" noValidate>
               <input type="hidden" name="intent" value="unlock" />
               <Field label="Reason for unlocking" id="unlockReason" error={err("reason")}>
-                <input {...inputProps("unlockReason", err("reason"))} name="reason" className="input w-96" defaultValue={typed("intent") === "unlock" ? typed("reason") : ""} />
+                <input {...inputProps("unlockReason", err("reason"))} name="reason" className="input w-96" defaultValue={actionData && !actionData.ok && actionData.intent === "unlock" ? typed("reason") : ""} />
               </Field>
               <button className="btn" disabled={busy}>Unlock</button>
             </Form>
@@ -295,16 +289,16 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
             <Form key={actionData?.ok ? actionData.at : "move"} method="post" className="flex flex-wrap items-end gap-3" noValidate>
               <input type="hidden" name="intent" value="move" />
               <Field label="Move proposal" id="moveProposal" error={err("proposalId")}>
-                <select id="moveProposal" aria-invalid={err("proposalId") ? true : undefined} aria-describedby={err("proposalId") ? "moveProposal-error" : undefined} name="proposalId" className="input" defaultValue={typed("intent") === "move" ? typed("proposalId") : ""}>
+                <select id="moveProposal" aria-invalid={err("proposalId") ? true : undefined} aria-describedby={err("proposalId") ? "moveProposal-error" : undefined} name="proposalId" className="input" defaultValue={moveRefused ? typed("proposalId") : ""}>
                   <option value="">Choose…</option>
                   {board.proposals.map((p) => <option key={p.proposalId} value={p.proposalId}>{p.code} {p.title}</option>)}
                 </select>
               </Field>
               <Field label="To position (empty = computed)" id="moveRank" error={err("chairRank")}>
-                <input {...inputProps("moveRank", err("chairRank"))} name="chairRank" inputMode="numeric" className="input w-28" defaultValue={typed("intent") === "move" ? typed("chairRank") : ""} />
+                <input {...inputProps("moveRank", err("chairRank"))} name="chairRank" inputMode="numeric" className="input w-28" defaultValue={moveRefused ? typed("chairRank") : ""} />
               </Field>
-              <Field label="Reason" id="moveReason" error={typed("intent") === "move" ? err("reason") : undefined}>
-                <input {...inputProps("moveReason", typed("intent") === "move" ? err("reason") : undefined)} name="reason" className="input w-80" defaultValue={typed("intent") === "move" ? typed("reason") : ""} />
+              <Field label="Reason" id="moveReason" error={moveRefused ? err("reason") : undefined}>
+                <input {...inputProps("moveReason", moveRefused ? err("reason") : undefined)} name="reason" className="input w-80" defaultValue={moveRefused ? typed("reason") : ""} />
               </Field>
               <button className="btn" disabled={busy}>Move</button>
             </Form>

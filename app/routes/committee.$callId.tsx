@@ -1,17 +1,17 @@
 import { Form, Link, useActionData, useNavigation } from "react-router";
 import { Field, inputProps } from "~/components/Field";
 import { requireRole } from "~/lib/auth/auth.server";
-import { fieldErrors, readForm } from "~/lib/forms";
+import { formAction, idParam, intent } from "~/lib/actions.server";
+import { idSchema, Refusal } from "~/lib/forms";
 import { observatoryTimeZone } from "~/lib/office/office.server";
 import { scienceCategoryLabel } from "~/lib/proposals/vocabulary";
-import { formValues, refusalResponse } from "~/lib/proposals/routes.server";
-import { chairReopenReview, pageCallId, reassign, remindReviewer, reviewBoard, saveReviewSetup, startReview } from "~/lib/review/chair.server";
+import { chairReopenReview, reassign, remindReviewer, reviewBoard, saveReviewSetup, startReview } from "~/lib/review/chair.server";
 import { revealTeams, teamRevealState } from "~/lib/review/anonymity.server";
 import { reviewerCandidates } from "~/lib/review/facts.server";
 import { reviewStatusLabels, type ReviewStatus } from "~/lib/review/vocabulary";
 import { reviewSetupSchema } from "~/lib/schemas/review";
 import { formatInZone, formatUtc, utcToZonedLocal, zonedLocalToUtc } from "~/lib/zoned-time";
-import { data } from "react-router";
+import { z } from "zod";
 import type { Route } from "./+types/committee.$callId";
 
 export function meta({ data: d }: Route.MetaArgs) {
@@ -21,52 +21,55 @@ export function meta({ data: d }: Route.MetaArgs) {
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
-  const callId = pageCallId(params);
+  const callId = idParam(params.callId, "call");
   const [board, candidates, timeZone, teams] = await Promise.all([reviewBoard({ callId }), reviewerCandidates(), observatoryTimeZone(), teamRevealState({ callId })]);
   return { board, candidates, timeZone, teams, now: new Date().toISOString() };
 }
 
+const reviewerField = { reviewerId: idSchema("reviewer", "Choose a reviewer from the list.") };
+const assignmentField = { assignmentId: idSchema("assignment", "The assignment must be a positive whole number; reload the page.") };
+
+const reviewIntents = z.discriminatedUnion("intent", [
+  intent("start"),
+  intent("setup", reviewSetupSchema),
+  intent("remind", z.object(reviewerField)),
+  intent("reassign", z.object({ ...assignmentField, ...reviewerField })),
+  intent("reveal"),
+  intent("reopen", z.object(assignmentField)),
+]);
+
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireRole(request, "chair");
-  const callId = pageCallId(params);
-  const form = await readForm(request);
-  const intent = String(form.get("intent") ?? "");
-  const values = formValues(form);
-  const id = (name: string) => Number(form.get(name));
-  try {
-    if (intent === "start") {
-      const { moved } = await startReview({ actor: user, callId });
-      return { ok: true as const, intent, message: `${moved} proposal${moved === 1 ? "" : "s"} moved to in review.`, errors: {} as Record<string, string>, values };
+  const callId = idParam(params.callId, "call");
+  return formAction(request, reviewIntents, async (input, { values }) => {
+    const done = (message: string) => ({ ok: true as const, intent: input.intent, message, values });
+    switch (input.intent) {
+      case "start": {
+        const { moved } = await startReview({ actor: user, callId });
+        return done(`${moved} proposal${moved === 1 ? "" : "s"} moved to in review.`);
+      }
+      case "setup": {
+        const at = zonedLocalToUtc(input.reviewDeadline, await observatoryTimeZone());
+        if (!at) throw new Refusal("That date and time do not exist in the observatory's time zone.", { field: "reviewDeadline" });
+        await saveReviewSetup({ actor: user, callId, reviewDeadlineAt: at, perProposal: input.perProposal, panel: input.panel });
+        return done("Review deadline and panel saved.");
+      }
+      case "remind": {
+        const { outstanding } = await remindReviewer({ actor: user, callId, reviewerId: input.reviewerId });
+        return done(`Reminder sent (${outstanding} outstanding).`);
+      }
+      case "reassign":
+        await reassign({ actor: user, callId, assignmentId: input.assignmentId, reviewerId: input.reviewerId });
+        return done("Reassigned; the new reviewer was told.");
+      case "reveal": {
+        const { already } = await revealTeams({ actor: user, callId });
+        return done(already ? "The teams were already revealed." : "The teams are revealed to the chair; reviewers still do not see them.");
+      }
+      case "reopen":
+        await chairReopenReview({ actor: user, callId, assignmentId: input.assignmentId });
+        return done("Review reopened for the reviewer.");
     }
-    if (intent === "setup") {
-      const parsed = reviewSetupSchema.safeParse(values);
-      if (!parsed.success) return data({ ok: false as const, intent, errors: fieldErrors(parsed.error), values }, { status: 400 });
-      const at = zonedLocalToUtc(parsed.data.reviewDeadline, await observatoryTimeZone());
-      if (!at) return data({ ok: false as const, intent, errors: { reviewDeadline: "That date and time do not exist in the observatory's time zone." } as Record<string, string>, values }, { status: 400 });
-      await saveReviewSetup({ actor: user, callId, reviewDeadlineAt: at, perProposal: parsed.data.perProposal, panel: parsed.data.panel });
-      return { ok: true as const, intent, message: "Review deadline and panel saved.", errors: {} as Record<string, string>, values };
-    }
-    if (intent === "remind") {
-      const { outstanding } = await remindReviewer({ actor: user, callId, reviewerId: id("reviewerId") });
-      return { ok: true as const, intent, message: `Reminder sent (${outstanding} outstanding).`, errors: {} as Record<string, string>, values };
-    }
-    if (intent === "reassign") {
-      await reassign({ actor: user, callId, assignmentId: id("assignmentId"), reviewerId: id("reviewerId") });
-      return { ok: true as const, intent, message: "Reassigned; the new reviewer was told.", errors: {} as Record<string, string>, values };
-    }
-    if (intent === "reveal") {
-      const { already } = await revealTeams({ actor: user, callId });
-      return { ok: true as const, intent, message: already ? "The teams were already revealed." : "The teams are revealed to the chair; reviewers still do not see them.", errors: {} as Record<string, string>, values };
-    }
-    if (intent === "reopen") {
-      await chairReopenReview({ actor: user, callId, assignmentId: id("assignmentId") });
-      return { ok: true as const, intent, message: "Review reopened for the reviewer.", errors: {} as Record<string, string>, values };
-    }
-    return data({ ok: false as const, intent, errors: { form: "That button does nothing here; reload the page." } as Record<string, string>, values }, { status: 400 });
-  } catch (error) {
-    const refused = refusalResponse(error, values);
-    return data({ ...refused.data, intent }, refused.init ?? undefined);
-  }
+  });
 }
 
 const statusTone: Record<ReviewStatus | "overdue", string> = {
@@ -85,11 +88,13 @@ export default function CallReviewPage({ loaderData }: Route.ComponentProps) {
   const { call, review } = board;
   const reviewerName = (id: number) => board.panel.find((r) => r.reviewerId === id)?.name ?? `user ${id}`;
   const overdue = review.reviewDeadlineAt !== null && now >= review.reviewDeadlineAt;
-  const err = (field: string) => (actionData && !actionData.ok ? actionData.errors[field] : undefined);
-  const typed = (field: string) => (actionData?.values as Record<string, string | string[]> | undefined)?.[field];
-  const deadlineLocal = (typed("reviewDeadline") as string | undefined) ?? (review.reviewDeadlineAt ? utcToZonedLocal(review.reviewDeadlineAt, timeZone) : "");
-  const typedPanel = typed("panel");
-  const panelIds = typedPanel !== undefined ? ([] as string[]).concat(typedPanel).map(Number) : board.panel.map((r) => r.reviewerId);
+  const errors = actionData && !actionData.ok ? actionData.errors : {};
+  // a panel member's message sits at panel.<n>
+  const err = (field: string) => errors[field] ?? Object.entries(errors).find(([key]) => key.startsWith(`${field}.`))?.[1];
+  const typed = (field: string): string | undefined => actionData?.values[field];
+  const deadlineLocal = typed("reviewDeadline") ?? (review.reviewDeadlineAt ? utcToZonedLocal(review.reviewDeadlineAt, timeZone) : "");
+  // a refused form comes back with its first box only: the browser keeps the others once the page runs, so the saved panel shows until then
+  const panelIds = board.panel.map((r) => r.reviewerId);
   return (
     <div className="space-y-6">
       <p className="text-sm"><Link to="/committee">Committee</Link> › {call.semesterCode}</p>
@@ -139,7 +144,7 @@ export default function CallReviewPage({ loaderData }: Route.ComponentProps) {
               <input type="hidden" name="perProposal" value={review.perProposal} />
             ) : (
               <Field label="Reviewers per proposal" id="perProposal" error={err("perProposal")}>
-                <input {...inputProps("perProposal", err("perProposal"))} type="number" min={1} max={10} name="perProposal" defaultValue={(typed("perProposal") as string | undefined) ?? review.perProposal} />
+                <input {...inputProps("perProposal", err("perProposal"))} type="number" min={1} max={10} name="perProposal" defaultValue={typed("perProposal") ?? review.perProposal} />
               </Field>
             )}
           </div>

@@ -391,9 +391,11 @@ describe("calls", () => {
     telescopes = await Telescope.findAll({ order: [["id", "ASC"]], limit: 2 });
   });
 
-  const call = (over: Record<string, string> = {}) => {
+  // the form names its button: "create" on /admin/calls/new, "update" on a call's page
+  const call = (over: Record<string, string> = {}, intent = "create") => {
     const year = Number(code.slice(0, 4));
     const values: Record<string, string> = {
+      intent,
       semesterCode: code,
       title: `Call for proposals ${code}`,
       opensAt: `${year - 1}-09-01T09:00`,
@@ -521,7 +523,7 @@ describe("calls", () => {
     const t = telescopes[0];
     const year = Number(code.slice(0, 4));
     // typed with a space between date and time (the form's placeholder); "T" works as well (above)
-    const res = await post(`/admin/calls/${callId}`, call({ deadlineAt: `${year - 1}-10-20 12:00`, pageLimit: "6", [`offer-${t.id}-bright`]: "120" }));
+    const res = await post(`/admin/calls/${callId}`, call({ deadlineAt: `${year - 1}-10-20 12:00`, pageLimit: "6", [`offer-${t.id}-bright`]: "120" }, "update"));
     expect(res.status).toBe(302);
     const row = await Call.findByPk(callId, { include: [{ model: CallOffer, as: "offers" }] });
     expect(row!.pageLimit).toBe(6);
@@ -543,7 +545,7 @@ describe("calls", () => {
 
   it("an edit that moves the deadline past the semester start is refused and changes nothing", async () => {
     const year = Number(code.slice(0, 4));
-    const res = await post(`/admin/calls/${callId}`, call({ deadlineAt: `${year}-03-01T12:00` }));
+    const res = await post(`/admin/calls/${callId}`, call({ deadlineAt: `${year}-03-01T12:00` }, "update"));
     expect(res.status).toBe(400);
     expect(res.text).toContain(html(`The deadline must come before the semester starts (${year}-02-01).`));
     expect(res.text).toContain('id="call-update-deadlineAt-error"');
@@ -554,7 +556,7 @@ describe("calls", () => {
   it("an edit may not take another call's semester code", async () => {
     // the demo's open call, whose semester depends on the day the demo was seeded
     const seeded = await Call.findOne({ where: { semesterCode: demoCallPlan().open.semesterCode } });
-    const res = await post(`/admin/calls/${callId}`, call({ semesterCode: seeded!.semesterCode }));
+    const res = await post(`/admin/calls/${callId}`, call({ semesterCode: seeded!.semesterCode }, "update"));
     expect(res.status).toBe(400);
     expect(res.text).toContain(`Semester ${seeded!.semesterCode} already has a call`);
     expect((await Call.findByPk(callId))!.semesterCode).toBe(code);
@@ -656,8 +658,8 @@ describe("only an admin may use the set-up screens", () => {
         [`/admin/instruments/${instrumentId}`, { intent: "update", ...instrument({ name: `Intruder ${person}` }) }],
         [`/admin/instruments/${instrumentId}`, { intent: "createFilter", ...filter({ band: "Q" }) }],
         [`/admin/instruments/${instrumentId}`, { intent: "delete" }],
-        ["/admin/calls/new", { semesterCode: "2999A", title: "Intruder" }],
-        [`/admin/calls/${callId}`, { semesterCode: "2999B", title: "Intruder" }],
+        ["/admin/calls/new", { intent: "create", semesterCode: "2999A", title: "Intruder" }],
+        [`/admin/calls/${callId}`, { intent: "update", semesterCode: "2999B", title: "Intruder" }],
       ];
       for (const [path, values] of posts) {
         const res = await post(path, values, outsiders[person]);

@@ -246,8 +246,8 @@ const formRoutes: FormRoute[] = [
   { path: () => `/admin/telescopes/${ids.weatherTelescope}`, who: "admin", intents: ["clearFractions"], fields: Object.fromEntries(Array.from({ length: 12 }, (_, i) => [`m${i + 1}`, "number" as Kind])) },
   // the ranking board's form (never "fill" or "lock": they change the call's state by design)
   { path: () => `/committee/${boardCallId}/board`, who: "chair", intents: ["move", "unlock", "bogus"], fields: { proposalId: "id", chairRank: "number", reason: "text", intent: "text" } },
-  { path: () => "/admin/calls/new", who: "admin", intents: [undefined], fields: officeCall },
-  { path: () => `/admin/calls/${ids.call}`, who: "admin", intents: [undefined], fields: officeCall },
+  { path: () => "/admin/calls/new", who: "admin", intents: ["create", "bogus"], fields: officeCall },
+  { path: () => `/admin/calls/${ids.call}`, who: "admin", intents: ["update", "bogus"], fields: officeCall },
   // one hostile field at a time: a template never has both its subject and body, so nothing is saved
   { path: () => `/admin/calls/${ids.call}/decisions`, who: "admin", intents: ["send-all", "resend", "save-template", "bogus"], fields: { proposalId: "id", reason: "text", outcome: "text", subject: "text", body: "text", intent: "text" } },
   { path: () => "/admin/charges", who: "admin", intents: ["waive", "bogus"], fields: { chargeId: "id", reason: "text", intent: "text" } },

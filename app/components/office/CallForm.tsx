@@ -93,6 +93,7 @@ export function CallForm({
   return (
     <Form method="post" noValidate onSubmit={onSubmit} className="space-y-6" aria-label={submitLabel}>
       <OfficeFields value={register}>
+      <input type="hidden" name="intent" value={intent} />
       <input type="hidden" {...register("timeZone")} value={timeZone} />
       <FormError error={errors.form ?? errors.timeZone} />
       <fieldset className="card space-y-4">

@@ -77,9 +77,10 @@ export function FilterRow({ filter, isNew = false }: { filter?: FilterValues & {
             </button>
           )}
         </fetcher.Form>
-        {errors.form ? (
+        {/* a bad filterId is the page's, not a field's: the row says it */}
+        {errors.form ?? errors.filterId ? (
           <p role="alert" className="mt-1 max-w-56 text-xs whitespace-normal text-red-700">
-            {errors.form}
+            {errors.form ?? errors.filterId}
           </p>
         ) : null}
         {fetcher.data?.ok && fetcher.state === "idle" && !isNew ? <p role="status" className="mt-1 text-xs text-emerald-700">Saved</p> : null}

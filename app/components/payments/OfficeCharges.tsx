@@ -8,9 +8,12 @@ import { SortableTable } from "~/components/SortableTable";
 import { utc } from "~/components/workspace";
 import { chargeKindLabels, chargeStateLabels, formatMoney } from "~/lib/payments/money";
 import type { OfficeChargeView } from "~/lib/payments/office.server";
+import type { ActionFailure, FormValues } from "~/lib/forms";
 import { waiveSchema } from "~/lib/schemas/charges";
 
-type Answer = { ok: boolean; errors: Record<string, string>; values: Record<string, string | string[]>; message: string; at: number } | null;
+/** What the office's waive action answers. */
+export type WaiveAnswer = ActionFailure | { ok: true; intent: "waive"; values: FormValues; message: string; at: number };
+type Answer = WaiveAnswer | null;
 type StateFilter = "all" | OfficeChargeView["state"];
 
 const column = createColumnHelper<OfficeChargeView>();
@@ -24,7 +27,7 @@ function WaiveForm({ charge, answer, onDone }: { charge: OfficeChargeView; answe
   const error = formState.errors.reason?.message ?? (mine && !mine.ok ? (mine.errors.reason ?? mine.errors.chargeId ?? mine.errors.form) : undefined);
   useEffect(() => {
     if (mine?.ok) onDone();
-  }, [mine?.ok, mine?.at, onDone]);
+  }, [mine?.ok, mine?.ok ? mine.at : 0, onDone]);
   const id = `reason-${charge.id}`;
   return (
     <Form method="post" noValidate className="mt-2 space-y-2 rounded border border-slate-300 bg-slate-50 p-2" onSubmit={handleSubmit((_, e) => submit(e?.target as HTMLFormElement))}>

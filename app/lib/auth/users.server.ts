@@ -2,6 +2,7 @@ import { QueryTypes } from "sequelize";
 import { RoleGrant, sequelize, User } from "~/models/index.server";
 import type { GrantableRole } from "~/models/RoleGrant";
 import { writeAudit } from "../audit.server";
+import { Refusal } from "../forms";
 import type { SessionUser } from "./auth.server";
 import { endSessionsOf, SESSION_IDLE_MINUTES } from "./session.server";
 
@@ -28,7 +29,10 @@ export async function listUsersWithRoles() {
   }));
 }
 
-export class RoleChangeRefused extends Error {}
+export type UserWithRoles = Awaited<ReturnType<typeof listUsersWithRoles>>[number];
+
+/** A role change or sign-out the office cannot make: a message at the form's (or body's) `userId`. */
+const refusedFor = (message: string) => new Refusal(message, { field: "userId" });
 
 /**
  * Grants or revokes one role; the change, the end of that person's sessions (they sign in again
@@ -47,11 +51,11 @@ export async function changeRole({
   intent: "grant" | "revoke";
 }) {
   if (intent === "revoke" && role === "admin" && userId === actor.id) {
-    throw new RoleChangeRefused("You cannot revoke your own admin role; ask another admin.");
+    throw refusedFor("You cannot revoke your own admin role; ask another admin.");
   }
   return sequelize.transaction(async (transaction) => {
     const user = await User.findByPk(userId, { transaction, lock: transaction.LOCK.UPDATE });
-    if (!user) throw new RoleChangeRefused("That user does not exist.");
+    if (!user) throw refusedFor("That user does not exist.");
     if (intent === "grant") {
       const [, created] = await RoleGrant.findOrCreate({
         where: { userId, role },
@@ -76,7 +80,7 @@ export async function changeRole({
 export async function signOutEverywhere({ actor, userId }: { actor: SessionUser; userId: number }) {
   return sequelize.transaction(async (transaction) => {
     const user = await User.findByPk(userId, { transaction, lock: transaction.LOCK.UPDATE });
-    if (!user) throw new RoleChangeRefused("That user does not exist.");
+    if (!user) throw refusedFor("That user does not exist.");
     const sessionsEnded = await endSessionsOf(userId, { transaction });
     await writeAudit(
       { actorId: actor.id, action: "user.signed_out_everywhere", entityType: "user", entityId: userId, details: { email: user.email, sessionsEnded } },

@@ -84,7 +84,24 @@ export const replanAcceptSchema = z.object({
 });
 
 /** The office's form (flat fields, `lostCause` a select) checked as the API's body. */
-export const epochFormSchema = z.preprocess((v) => formToRecord((v ?? {}) as Record<string, unknown>), epochRecordSchema);
+const formText = (field: string) => z.string({ error: `${field} must be text.` }).optional();
+
+/** Its fields are text, each optional here (the record's schema names a missing one); other fields are dropped. */
+export const epochFormSchema = z
+  .object({
+    observationId: formText("observationId"),
+    observedAt: formText("observedAt"),
+    telescopeId: formText("telescopeId"),
+    frames: formText("frames"),
+    fwhmArcsec: formText("fwhmArcsec"),
+    snr: formText("snr"),
+    precisionMas: formText("precisionMas"),
+    lostCause: formText("lostCause"),
+    note: formText("note"),
+  })
+  .transform((fields) => formToRecord(fields))
+  .pipe(epochRecordSchema);
+export type EpochFormFields = Required<z.input<typeof epochFormSchema>>;
 
 /** A form field's error key for an issue path of epochRecordSchema. */
 export function formFieldOf(path: string) {

@@ -20,6 +20,3 @@ export const proposalChargesIntent = z.discriminatedUnion(
 export const waiveReasonSchema = z.string().trim().min(3, "Give a reason of at least 3 characters.").max(500, "Keep the reason under 500 characters.");
 
 export const waiveSchema = z.object({ intent: z.literal("waive"), chargeId: idSchema("charge"), reason: waiveReasonSchema });
-
-/** The office's actions on /admin/charges. */
-export const adminChargesIntent = z.discriminatedUnion("intent", [waiveSchema], { error: "That button does nothing here; reload the page." });

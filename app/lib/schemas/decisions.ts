@@ -1,8 +1,8 @@
 // Forms and bodies of the decisions (office page and API), shared by react-hook-form and the actions.
 import { z } from "zod";
-import { idSchema } from "~/lib/forms";
+import { idSchema, type ActionFailure } from "~/lib/forms";
 import { templateProblems } from "~/lib/decisions/template";
-import { decisionOutcomes } from "~/lib/decisions/vocabulary";
+import { decisionOutcomes, type DecisionOutcome } from "~/lib/decisions/vocabulary";
 
 const templateText = (what: string, max: number) =>
   z
@@ -25,14 +25,10 @@ export const resendSchema = z.object({
   reason: z.string({ error: "Say why the letter is sent again." }).trim().min(3, { error: "Say why the letter is sent again (at least 3 characters)." }).max(500, { error: "The reason is at most 500 characters." }),
 });
 
-export const decisionsIntent = z.discriminatedUnion(
-  "intent",
-  [
-    z.object({ intent: z.literal("send-all") }),
-    z.object({ intent: z.literal("resend") }).extend(resendSchema.shape),
-    z.object({ intent: z.literal("save-template") }).extend(templateSchema.shape),
-  ],
-  { error: "That button does nothing here; reload the page." },
-);
+/** What the office's decisions page answers: a sending, a letter sent again, a template saved (its outcome says which editor), or a refusal. */
+export type DecisionsAnswer =
+  | ActionFailure
+  | { ok: true; intent: "send-all" | "resend"; message: string }
+  | { ok: true; intent: "save-template"; outcome: DecisionOutcome; message: string };
 
 export const sendBodySchema = z.object({}).strict();

@@ -238,6 +238,10 @@ export const callSchema = z
   });
 export type CallInput = z.output<typeof callSchema>;
 
+/** The call form as the office's action reads it: the wall clock is the observatory's, whatever the form says. */
+export const callSchemaInZone = (timeZone: string) =>
+  z.preprocess((fields) => (typeof fields === "object" && fields !== null ? { ...fields, timeZone } : fields), callSchema);
+
 // ---------------------------------------------------------------- expected clear fraction per month
 
 export const MONTH_NAMES = ["January", "February", "March", "April", "May", "June", "July", "August", "September", "October", "November", "December"] as const;

@@ -2,10 +2,13 @@ import { z } from "zod";
 import { grantableRoles } from "~/lib/domain";
 import { idSchema } from "~/lib/forms";
 
+export const userIdField = idSchema("user", "Choose a user.");
+export const roleField = z.enum(grantableRoles, "Choose reviewer, chair, admin or observer.");
+
 export const roleChangeSchema = z.object({
   intent: z.enum(["grant", "revoke"], "Choose grant or revoke."),
-  userId: idSchema("user", "Choose a user."),
-  role: z.enum(grantableRoles, "Choose reviewer, chair, admin or observer."),
+  userId: userIdField,
+  role: roleField,
 });
 
 /** The admin's actions on one person: a role change, or ending all their sessions. */
@@ -15,7 +18,7 @@ export const adminUserActionSchema = z.discriminatedUnion(
     roleChangeSchema,
     z.object({
       intent: z.literal("sign-out-everywhere"),
-      userId: idSchema("user", "Choose a user."),
+      userId: userIdField,
     }),
   ],
   { error: "Choose grant, revoke or sign-out-everywhere." },
