@@ -9,7 +9,8 @@ import { Filter, Instrument, Telescope } from "~/models/index.server";
 import { astrometryForDates, centroidPrecisionMas, epochPrecisionMas, type FitPrecision, type Plan } from "./astro/astrometry";
 import { computePool, PoolBusy, PoolTimeout } from "./astro/compute-pool.server";
 import { computeExposure, type ExposureInput } from "./astro/exposure";
-import { EXTINCTION, SKY_BRIGHTNESS, ZERO_POINTS, type Band } from "./astro/photometry";
+import type { Band } from "./astro/bands";
+import { EXTINCTION, SKY_BRIGHTNESS, ZERO_POINTS } from "./astro/photometry";
 import {
   astrometryBodySchema,
   epochPlanBodySchema,

@@ -11,7 +11,8 @@ import { getProposalForUser } from "~/lib/proposals/proposals.server";
 import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";
 import { createTarget, deleteTarget, importTargetsCsv, listTargets } from "~/lib/proposals/targets.server";
 import { updateTarget } from "~/lib/proposals/targets.server";
-import { csvImportSchema, TARGET_BANDS, targetSchema } from "~/lib/schemas/proposals";
+import { BANDS } from "~/lib/astro/bands";
+import { csvImportSchema, targetSchema } from "~/lib/schemas/proposals";
 import { CSV_COLUMNS, refusedCsvText } from "~/lib/proposals/target-csv";
 import type { Route } from "./+types/proposals.$proposalId.targets";
 
@@ -75,7 +76,7 @@ function formOf(t: TargetRow) {
 }
 
 function magnitudesText(m: Record<string, number>) {
-  const parts = TARGET_BANDS.filter((b) => m[b] !== undefined).map((b) => `${b} ${m[b].toFixed(2)}`);
+  const parts = BANDS.filter((b) => m[b] !== undefined).map((b) => `${b} ${m[b].toFixed(2)}`);
   return parts.length ? parts.join(" · ") : "—";
 }
 
@@ -118,7 +119,7 @@ function TargetForm({ editing, onDone }: { editing: TargetRow | null; onDone: ()
         <legend className="text-sm font-semibold">Magnitudes (Vega), one per band you know</legend>
         <p className="text-xs text-slate-600">An observation in a band left empty is computed from the nearest band given, and the feasibility sheet says so.</p>
         <div className="mt-2 grid grid-cols-3 gap-3 sm:grid-cols-5">
-          {TARGET_BANDS.map((b) => <div key={b}>{field(`mag_${b}`, b, undefined, { inputMode: "decimal" })}</div>)}
+          {BANDS.map((b) => <div key={b}>{field(`mag_${b}`, b, undefined, { inputMode: "decimal" })}</div>)}
         </div>
       </fieldset>
       {field("notes", "Notes", "optional: finding notes, priority…")}

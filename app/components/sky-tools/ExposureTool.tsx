@@ -1,7 +1,7 @@
 import { useForm } from "react-hook-form";
 import { Field, inputProps } from "~/components/Field";
 import type { ExposureResult } from "~/lib/astro/exposure";
-import { BANDS } from "~/lib/astro/photometry";
+import { BANDS } from "~/lib/astro/bands";
 import { LiveStatusLine, TelescopePicker } from "./LiveStatus";
 import { compact, fmt, issuesByField, useLiveApi, type SkyTelescope } from "./live";
 

@@ -12,7 +12,8 @@
 //   not extinguished again: tabulated sky brightness is what the site sees.
 // - Peak pixel: a Gaussian PSF centred on a pixel puts erf(p / (2√2 σ))² of the light in it.
 
-import { collectingAreaCm2, EXTINCTION, SKY_BRIGHTNESS, ZERO_POINTS, type Band } from "./photometry";
+import type { Band } from "./bands";
+import { collectingAreaCm2, EXTINCTION, SKY_BRIGHTNESS, ZERO_POINTS } from "./photometry";
 
 export type ExposureInput = {
   band: Band;

@@ -1,7 +1,6 @@
 // Photometric system data: zero points, sky brightness and extinction per band.
 
-export type Band = "U" | "B" | "V" | "R" | "I";
-export const BANDS: Band[] = ["U", "B", "V", "R", "I"];
+import { BANDS, type Band } from "./bands";
 
 const H_C_ERG_CM = 6.62607015e-27 * 2.99792458e10;
 

@@ -2,7 +2,7 @@
 // as JSON numbers or as the strings a form or a query string carries; an empty string is "missing".
 import { z } from "zod";
 import { parseDec, parseRa } from "./coordinates";
-import { BANDS } from "./photometry";
+import { BANDS } from "./bands";
 import { canonicalTimeZone, TIME_ZONE_MAX_LENGTH } from "../time-zones";
 import { isIsoDate, isValidTimeZone } from "./time";
 

@@ -39,7 +39,7 @@ import {
 } from "../astro/astrometry";
 import type { Target as AstroTarget } from "../astro/coordinates";
 import { computeExposure, type ExposureResult } from "../astro/exposure";
-import { BANDS, type Band } from "../astro/photometry";
+import { BANDS, isBand, type Band } from "../astro/bands";
 import { DAY_MS, dayNumber } from "../astro/time";
 import {
   MOON_CATEGORY_THRESHOLDS,
@@ -320,7 +320,7 @@ export function nightsInSemester(start: string, end: string): number {
  */
 export function magnitudeFor(magnitudes: Record<string, number>, band: string): { band: string; magnitude: number; assumed: boolean } | null {
   if (Number.isFinite(magnitudes[band])) return { band, magnitude: magnitudes[band], assumed: false };
-  const order = BANDS as string[];
+  const order: readonly string[] = BANDS;
   const at = order.indexOf(band);
   const have = Object.keys(magnitudes).filter((b) => Number.isFinite(magnitudes[b]));
   if (have.length === 0) return null;
@@ -330,7 +330,7 @@ export function magnitudeFor(magnitudes: Record<string, number>, band: string): 
 }
 
 function asBand(band: string): Band {
-  return (BANDS as string[]).includes(band) ? (band as Band) : "V";
+  return isBand(band) ? band : "V";
 }
 
 function skyFor(filter: SheetFilter, category: MoonCategory) {
