@@ -65,8 +65,6 @@ function RateComment({ assignmentId, rating, label }: { assignmentId: number; ra
   );
 }
 
-const moonWords = { dark: "dark", grey: "grey", bright: "bright" } as const;
-
 export default function Decision({ loaderData }: Route.ComponentProps) {
   const { letter, proposalId, helpfulness } = loaderData;
   if (!letter) {
@@ -91,7 +89,7 @@ export default function Decision({ loaderData }: Route.ComponentProps) {
             <thead><tr><th>Telescope</th><th>Moon category</th><th>Semester</th><th className="text-right">Hours</th></tr></thead>
             <tbody>
               {f.hours.map((h, i) => (
-                <tr key={i}><td>{h.telescope}</td><td>{moonWords[h.moonCategory]}</td><td>{h.semesterCode}</td><td className="text-right tabular-nums">{h.hours.toFixed(1)}</td></tr>
+                <tr key={i}><td>{h.telescope}</td><td>{h.moonCategory}</td><td>{h.semesterCode}</td><td className="text-right tabular-nums">{h.hours.toFixed(1)}</td></tr>
               ))}
             </tbody>
           </table>

@@ -2,9 +2,8 @@
 // the site offers in each one-hour bin of RA over the call's semester, by moon category; a bar
 // chart (plain SVG, drawn on the server too) and the table under it.
 import { Link } from "react-router";
+import { moonCategories as MOONS, type MoonCategory as Moon } from "~/lib/domain";
 
-type Moon = "dark" | "grey" | "bright";
-const MOONS: Moon[] = ["dark", "grey", "bright"];
 type Split = Record<Moon, { darkHours: number; availableDarkHours: number; requestedHours: number }>;
 
 export type RaPressureView = {

@@ -13,6 +13,7 @@
 // - Peak pixel: a Gaussian PSF centred on a pixel puts erf(p / (2√2 σ))² of the light in it.
 
 import type { Band } from "./bands";
+import type { MoonCategory } from "../domain";
 import { collectingAreaCm2, EXTINCTION, SKY_BRIGHTNESS, ZERO_POINTS } from "./photometry";
 
 export type ExposureInput = {
@@ -21,7 +22,7 @@ export type ExposureInput = {
   airmass: number;
   seeingArcsec: number;
   skyMagPerArcsec2?: number;
-  moonCategory?: "dark" | "grey" | "bright";
+  moonCategory?: MoonCategory;
   extinctionMagPerAirmass?: number;
   /** photons s⁻¹ cm⁻² of a magnitude-0 star over the band; BCP98 when omitted */
   zeroPointPhotons?: number;

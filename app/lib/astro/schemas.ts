@@ -3,6 +3,7 @@
 import { z } from "zod";
 import { parseDec, parseRa } from "./coordinates";
 import { BANDS } from "./bands";
+import { moonCategories } from "../domain";
 import { canonicalTimeZone, TIME_ZONE_MAX_LENGTH } from "../time-zones";
 import { isIsoDate, isValidTimeZone } from "./time";
 
@@ -114,7 +115,7 @@ export const exposureBodySchema = z
       .optional(),
     seeingArcsec: num("seeingArcsec", 0.1, 10),
     skyMagPerArcsec2: optionalNum("skyMagPerArcsec2", 10, 25),
-    moonCategory: z.enum(["dark", "grey", "bright"], { error: "moonCategory must be dark, grey or bright" }).optional(),
+    moonCategory: z.enum(moonCategories, { error: `moonCategory must be ${moonCategories.slice(0, -1).join(", ")} or ${moonCategories.at(-1)}` }).optional(),
     extinctionMagPerAirmass: optionalNum("extinctionMagPerAirmass", 0, 3),
     telescope: telescopeBody.optional(),
     telescopeId: idField.optional(),

@@ -53,10 +53,10 @@ import {
   prepareSiteNights,
   summarise,
   targetNights,
-  type MoonCategory,
   type Site,
   type TargetNight,
 } from "../astro/visibility";
+import { moonCategories, type MoonCategory } from "../domain";
 
 // ---------------------------------------------------------------------------------------------
 // Input
@@ -428,7 +428,7 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
     /** a night's observable hours in this observation's moon category or darker (split at moonrise/moonset) */
     const usableOf = (row: TargetNight) => {
       const split = row.hoursByMoonCategory as Record<MoonCategory, number>;
-      return (["dark", "grey", "bright"] as const).filter(allowed).reduce((sum, c) => sum + split[c], 0);
+      return moonCategories.filter(allowed).reduce((sum, c) => sum + split[c], 0);
     };
     let usableHours = 0;
     let usableNights = 0;
@@ -794,7 +794,7 @@ function astrometryPart(a: AstrometryArgs): { astrometry: NonNullable<Observatio
         });
       } else {
         const split = row.hoursByMoonCategory as Record<MoonCategory, number>;
-        const usable = (["dark", "grey", "bright"] as const).filter(allowed).reduce((sum, c) => sum + split[c], 0);
+        const usable = moonCategories.filter(allowed).reduce((sum, c) => sum + split[c], 0);
         if (usable < visit) {
           problems.push({
             severity: "warning",
