@@ -30,17 +30,15 @@ import {
   epochPrecisionMas,
   fitPrecision,
   roundNoNegativeZero,
-  semesterSequence,
-  type SemesterSpan,
   parallaxFactors,
   planEpochs,
-  semesterOf,
   type Plan,
 } from "../astro/astrometry";
 import type { Target as AstroTarget } from "../astro/coordinates";
 import { computeExposure, type ExposureResult } from "../astro/exposure";
 import { BANDS, isBand, type Band } from "../astro/bands";
 import { DAY_MS, dayNumber } from "../astro/time";
+import { semesterSequence, type SemesterSpan } from "../semesters";
 import {
   MOON_CATEGORY_THRESHOLDS,
   MOON_TIME_RULE,
@@ -675,9 +673,6 @@ function fmtE(x: number) {
 }
 
 export const blockingProblems = (sheet: Pick<FeasibilitySheet, "problems">) => sheet.problems.filter((p) => p.severity === "blocking");
-
-/** Epoch semester codes the same way the planner assigns them. */
-export { semesterOf };
 
 // ---------------------------------------------------------------------------------------------
 // Astrometry part of one observation: the PI's epochs or a plan with exactly "epochs per

@@ -10,7 +10,7 @@ import { env } from "~/lib/env.server";
 import { enqueueMail } from "~/lib/mail/queue.server";
 import { plainMail } from "~/lib/mail/templates.server";
 import type { ProposalStatus } from "~/lib/domain";
-import { upcomingSemesters } from "~/lib/proposals/vocabulary";
+import { upcomingSemesters } from "~/lib/semesters";
 import type { z } from "zod";
 import type { newProposalSchema, overviewSchema } from "~/lib/schemas/proposals";
 import { AuditEntry, Call, Proposal, ProposalMember, sequelize, User } from "~/models/index.server";

@@ -4,7 +4,8 @@ import { BANDS, isBand, type Band } from "~/lib/astro/bands";
 import { parseDec, parseRa } from "~/lib/astro/coordinates";
 import { moonCategories } from "~/lib/domain";
 import { idSchema, MAX_ID, TEXT_COLUMN_BYTES, utf8Bytes } from "~/lib/forms";
-import { ABSTRACT_WORD_LIMIT, scienceCategoryValues, SEMESTER_CODE, wordCount } from "~/lib/proposals/vocabulary";
+import { ABSTRACT_WORD_LIMIT, scienceCategoryValues, wordCount } from "~/lib/proposals/vocabulary";
+import { SEMESTER_CODE } from "~/lib/semesters";
 
 
 /** Notes of a target (a TEXT column: 65 535 bytes; this many characters of any script fit). */
