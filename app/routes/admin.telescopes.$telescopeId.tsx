@@ -10,7 +10,7 @@ import { createInstrument, deleteTelescope, getTelescope, updateTelescope } from
 import { attempt, formValues, handle, idParam, orNotFound, unknownIntent } from "~/lib/office/forms.server";
 import { clearFractionsOf, saveClearFractions } from "~/lib/office/clear-fractions.server";
 import { clearFractionsSchema, instrumentSchema, telescopeSchema } from "~/lib/schemas/office";
-import { supportedTimeZones } from "~/lib/zoned-time";
+import { supportedTimeZones } from "~/lib/time-zones";
 import type { Route } from "./+types/admin.telescopes.$telescopeId";
 import { readForm } from "~/lib/forms";
 

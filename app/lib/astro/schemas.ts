@@ -4,8 +4,8 @@ import { z } from "zod";
 import { parseDec, parseRa } from "./coordinates";
 import { BANDS } from "./bands";
 import { moonCategories } from "../domain";
-import { canonicalTimeZone, TIME_ZONE_MAX_LENGTH } from "../time-zones";
-import { isIsoDate, isValidTimeZone } from "./time";
+import { timeZoneSchema } from "../time-zones";
+import { isIsoDate } from "./time";
 
 const blankToUndefined = (v: unknown) => (v === "" || v === null ? undefined : typeof v === "string" ? Number(v.trim()) : v);
 
@@ -43,11 +43,7 @@ export const dateField = z
   .refine((d) => d >= "1900-01-01" && d <= "2199-12-31", { error: "must lie between 1900 and 2199" });
 
 // Canonicalised ("europe/madrid" → "Europe/Madrid"), so the caches keyed by zone see one name per zone.
-export const timeZoneField = z
-  .string()
-  .max(TIME_ZONE_MAX_LENGTH, { error: "must be an IANA time zone, e.g. Europe/Madrid" })
-  .refine(isValidTimeZone, { error: "must be an IANA time zone, e.g. Europe/Madrid" })
-  .transform((zone) => canonicalTimeZone(zone) ?? zone);
+export const timeZoneField = timeZoneSchema("must be an IANA time zone, e.g. Europe/Madrid");
 
 const idField = z.preprocess(blankToUndefined, z.number({ error: "must be a numeric id" }).int({ error: "must be a numeric id" }).positive({ error: "must be a numeric id" }).max(4_294_967_295, { error: "must be a numeric id" }));
 

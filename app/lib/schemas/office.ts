@@ -6,7 +6,8 @@ import { isIsoDate } from "~/lib/astro/time";
 import { moonCategories, teamVisibilities, type TeamVisibility } from "~/lib/domain";
 import { DEFAULT_REVIEWS_PER_SUBMITTER, MAX_REVIEWS_PER_SUBMITTER, reviewModes, unreviewedPolicies, type ReviewMode, type UnreviewedPolicy } from "~/lib/review/vocabulary";
 import { addMonths, SEMESTER_CODE } from "~/lib/semesters";
-import { canonicalTimeZone, isValidTimeZone, startOfDateInZone, zonedLocalToUtc } from "~/lib/zoned-time";
+import { isValidTimeZone, timeZoneSchema } from "~/lib/time-zones";
+import { startOfDateInZone, zonedLocalToUtc } from "~/lib/zoned-time";
 
 interface NumberRule {
   min: number;
@@ -60,8 +61,7 @@ export const telescopeSchema = z.object({
     .string({ error: "Choose the site's time zone." })
     .trim()
     .min(1, "Choose the site's time zone.")
-    .refine(isValidTimeZone, "That is not an IANA time zone; pick one from the list, like America/Denver.")
-    .transform((zone) => canonicalTimeZone(zone) ?? zone),
+    .pipe(timeZoneSchema("That is not an IANA time zone; pick one from the list, like America/Denver.")),
   apertureM: numberField("Aperture", { min: 0.05, max: 50, unit: "m" }),
   centralObstruction: numberField("Central obstruction", { min: 0, max: 0.9, unit: "of the diameter" }),
 });
