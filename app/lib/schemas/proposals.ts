@@ -3,6 +3,7 @@ import { z } from "zod";
 import { BANDS, isBand, type Band } from "~/lib/astro/bands";
 import { parseDec, parseRa } from "~/lib/astro/coordinates";
 import { moonCategories } from "~/lib/domain";
+import { emailField } from "~/lib/email";
 import { idSchema, MAX_ID, TEXT_COLUMN_BYTES, utf8Bytes } from "~/lib/forms";
 import { ABSTRACT_WORD_LIMIT, scienceCategoryValues, wordCount } from "~/lib/proposals/vocabulary";
 import { SEMESTER_CODE } from "~/lib/semesters";
@@ -74,12 +75,7 @@ export const overviewSchema = z
   });
 
 export const inviteSchema = z.object({
-  email: z
-    .string()
-    .trim()
-    .min(1, "Enter the Co-I's e-mail address.")
-    .max(254, "That address is too long.")
-    .pipe(z.email("Enter a valid e-mail address, like name@institute.example.")),
+  email: emailField("Enter the Co-I's e-mail address."),
 });
 
 export const memberSchema = z.object({ memberId: idSchema("member", "Choose a member.") });
