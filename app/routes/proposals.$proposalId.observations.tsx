@@ -5,6 +5,7 @@ import { data, Link, useActionData, useFetcher } from "react-router";
 import { LiveFeasibilitySummary } from "~/components/FeasibilityParts";
 import { Field, inputProps } from "~/components/Field";
 import { fixed, useWorkspace } from "~/components/workspace";
+import { secondsPerEpoch } from "~/lib/astro/exposure";
 import { requireUser } from "~/lib/auth/auth.server";
 import { moonCategories } from "~/lib/domain";
 import { fieldErrors, issueLine, parseId, readForm } from "~/lib/forms";
@@ -132,7 +133,7 @@ function LiveSummary({ values, data: d }: { values: FormShape; data: Data }) {
   const answer = fetcher.data;
   const frames = Number(values.framesPerEpoch) || 0;
   const epochs = Number(values.epochsPerSemester) || 0;
-  const perEpoch = answer?.exposureSeconds !== undefined && instrument ? frames * (answer.exposureSeconds + instrument.readoutSeconds) + instrument.acquisitionSeconds : null;
+  const perEpoch = answer?.exposureSeconds !== undefined && instrument ? secondsPerEpoch(frames, answer.exposureSeconds, instrument) : null;
   const stale = fetcher.state !== "idle";
   return (
     <aside aria-labelledby="live-title" aria-live="polite" className="card space-y-2 bg-night-50">

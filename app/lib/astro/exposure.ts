@@ -155,3 +155,12 @@ export function computeExposure(input: ExposureInput): ExposureResult {
 export function ccdEquation(a: { sourceElectrons: number; pixels: number; skyPerPixel: number; darkPerPixel: number; readNoiseE: number }): number {
   return a.sourceElectrons / Math.sqrt(a.sourceElectrons + a.pixels * (a.skyPerPixel + a.darkPerPixel + a.readNoiseE ** 2));
 }
+
+/**
+ * Time on sky for one epoch (one visit): each frame's exposure plus its readout, then the
+ * instrument's acquisition (slew, acquisition and set-up) once per visit. The feasibility sheet
+ * and the live summary of the observation form both count it this way.
+ */
+export function secondsPerEpoch(frames: number, exposureSeconds: number, instrument: { readoutSeconds: number; acquisitionSeconds: number }): number {
+  return frames * (exposureSeconds + instrument.readoutSeconds) + instrument.acquisitionSeconds;
+}

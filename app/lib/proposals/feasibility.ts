@@ -35,7 +35,7 @@ import {
   type Plan,
 } from "../astro/astrometry";
 import type { Target as AstroTarget } from "../astro/coordinates";
-import { computeExposure, type ExposureResult } from "../astro/exposure";
+import { computeExposure, secondsPerEpoch, type ExposureResult } from "../astro/exposure";
 import { BANDS, isBand, type Band } from "../astro/bands";
 import { DAY_MS, dayNumber } from "../astro/time";
 import { semesterSequence, type SemesterSpan } from "../semesters";
@@ -531,7 +531,7 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
     }
 
     const frameSeconds = exposure?.exposureSeconds ?? obs.exposureSeconds;
-    const totalSeconds = frameSeconds === null ? null : obs.framesPerEpoch * (frameSeconds + instrument.readoutSeconds) + instrument.acquisitionSeconds;
+    const totalSeconds = frameSeconds === null ? null : secondsPerEpoch(obs.framesPerEpoch, frameSeconds, instrument);
     const timePerEpoch = {
       frames: obs.framesPerEpoch,
       exposureSeconds: frameSeconds,
