@@ -5,6 +5,8 @@ import { Refusal } from "~/lib/forms";
 import { data } from "react-router";
 import { Op, QueryTypes, type Transaction } from "sequelize";
 import type { SessionUser } from "~/lib/auth/auth.server";
+import { callPhase, deadlinePassed } from "~/lib/call-phase";
+import { openCallsWhere } from "~/lib/call-phase.server";
 import { writeAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
 import { enqueueMail } from "~/lib/mail/queue.server";
@@ -34,14 +36,6 @@ export async function claimInvitations({ user }: { user: Actor }) {
     { where: { userId: null, email: user.email.toLowerCase() } },
   );
   return claimed;
-}
-
-export function deadlinePassed(call: Pick<Call, "deadlineAt">, now = new Date()) {
-  return now.getTime() >= call.deadlineAt.getTime();
-}
-
-export function callIsOpen(call: Pick<Call, "opensAt" | "deadlineAt">, now = new Date()) {
-  return now.getTime() >= call.opensAt.getTime() && !deadlinePassed(call, now);
 }
 
 export type Access = { proposal: Proposal; call: Call; membership: ProposalMember; role: MemberRole; isPi: boolean; editable: boolean };
@@ -140,7 +134,7 @@ export async function listProposalsForUser({ user }: { user: Actor }): Promise<P
 }
 
 export async function openCalls({ now = new Date() }: { now?: Date } = {}) {
-  const calls = await Call.findAll({ where: { opensAt: { [Op.lte]: now }, deadlineAt: { [Op.gt]: now } }, order: [["deadlineAt", "ASC"]] });
+  const calls = await Call.findAll({ where: openCallsWhere(now), order: [["deadlineAt", "ASC"]] });
   return calls.map((c) => ({ id: c.id, semesterCode: c.semesterCode, title: c.title, deadlineAt: c.deadlineAt.toISOString(), pageLimit: c.pageLimit }));
 }
 
@@ -148,7 +142,7 @@ export async function createProposal({ user, ...input }: { user: Actor } & z.out
   return sequelize.transaction(async (transaction) => {
     const call = await Call.findByPk(input.callId, { transaction });
     if (!call) throw new Refusal("Choose one of the open calls.", { status: 400, field: "callId" });
-    if (!callIsOpen(call)) {
+    if (callPhase(call) !== "open") {
       throw new Refusal(deadlinePassed(call) ? `The deadline of call ${call.semesterCode} has passed.` : `Call ${call.semesterCode} opens on ${call.opensAt.toISOString().slice(0, 10)}.`, { status: 400, field: "callId" });
     }
     const proposal = await Proposal.create(
