@@ -9,7 +9,3 @@ export function useWorkspace(): WorkspaceHeader {
 export function utc(iso: string) {
   return `${iso.slice(0, 16).replace("T", " ")} UTC`;
 }
-
-export function fixed(value: number | null | undefined, digits = 1) {
-  return value === null || value === undefined || !Number.isFinite(value) ? "—" : value.toFixed(digits);
-}

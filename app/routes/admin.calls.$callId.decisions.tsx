@@ -9,6 +9,7 @@ import { templatesFor } from "~/lib/decisions/facts.server";
 import { resendLetter, sendDecisions } from "~/lib/decisions/send.server";
 import { money } from "~/lib/decisions/template";
 import { decisionOutcomes, outcomeLabels } from "~/lib/decisions/vocabulary";
+import { hours } from "~/lib/format";
 import { fieldErrors, readForm } from "~/lib/forms";
 import { idParam } from "~/lib/office/forms.server";
 import { formValues, refusalResponse } from "~/lib/proposals/routes.server";
@@ -97,7 +98,7 @@ export default function Decisions({ loaderData }: Route.ComponentProps) {
                       <td className="whitespace-nowrap font-semibold">{r.code}</td>
                       <td>{r.title}</td>
                       <td>{outcomeLabels[r.outcome]}</td>
-                      <td className="tabular-nums">{r.outcome === "accepted" ? `${hoursOf(r).toFixed(1)} h` : "—"}<div className="text-xs text-slate-500">{r.facts.hours.map((h) => `${h.telescope} ${h.moonCategory} ${h.semesterCode} ${h.hours.toFixed(1)}`).join(" · ")}</div></td>
+                      <td className="tabular-nums">{hours(r.outcome === "accepted" ? hoursOf(r) : null)}<div className="text-xs text-slate-500">{r.facts.hours.map((h) => `${h.telescope} ${h.moonCategory} ${h.semesterCode} ${h.hours.toFixed(1)}`).join(" · ")}</div></td>
                       <td>{r.facts.tier ?? "—"}</td>
                       <td>{r.facts.charge ? money(r.facts.charge.amountCents, r.facts.charge.currency) : r.outcome !== "accepted" ? "—" : r.sent ? "none" : "raised on sending, if due"}</td>
                       <td data-testid="letter-state">{!r.sent ? "not sent" : r.sent.queued + r.sent.retrying > 0 ? `sending (${r.sent.sent}/${r.sent.total})` : r.sent.failed ? `${r.sent.failed} failed` : `sent to ${r.sent.total}`}{r.sent?.resends ? ` · re-sent ${r.sent.resends}×` : ""}</td>

@@ -6,7 +6,8 @@ import { airmass } from "~/lib/astro/airmass";
 import type { VisibilityJson } from "~/lib/astro/visibility";
 import { moonCategories } from "~/lib/domain";
 import { LiveStatusLine, TelescopePicker } from "./LiveStatus";
-import { MOON_COLOURS, fmt, isoDateInput, issuesByField, localTime, useLiveApi, utcTime, type SkyTelescope } from "./live";
+import { MOON_COLOURS, isoDateInput, issuesByField, localTime, useLiveApi, utcTime, type SkyTelescope } from "./live";
+import { grouped as fmt } from "~/lib/format";
 
 // recharts is a large chunk: loaded in the browser only, by the pages that draw a chart
 const AltitudeChartLazy = lazy(() => import("./VisibilityCharts").then((m) => ({ default: m.AltitudeChart })));
