@@ -14,6 +14,8 @@ export function sameEmail(a: string, b: string): boolean {
   return normaliseEmail(a) === normaliseEmail(b);
 }
 
+export const INVALID_EMAIL_MESSAGE = "Enter a valid e-mail address, like name@institute.example.";
+
 /** A form field holding an e-mail address; `emptyMessage` when nothing was typed. The output is normalised. */
 export function emailField(emptyMessage: string) {
   return z
@@ -21,6 +23,6 @@ export function emailField(emptyMessage: string) {
     .trim()
     .min(1, emptyMessage)
     .max(EMAIL_MAX_LENGTH, "That address is too long.")
-    .pipe(z.email("Enter a valid e-mail address, like name@institute.example."))
+    .pipe(z.email(INVALID_EMAIL_MESSAGE))
     .transform(normaliseEmail);
 }

@@ -6,6 +6,7 @@ import { data } from "react-router";
 import { Op, QueryTypes, type Transaction } from "sequelize";
 import type { SessionUser } from "~/lib/auth/auth.server";
 import { callPhase, deadlinePassed } from "~/lib/call-phase";
+import { normaliseEmail } from "~/lib/email";
 import { openCallsWhere } from "~/lib/call-phase.server";
 import { writeAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
@@ -26,14 +27,14 @@ export function notFound(): never {
 
 /** Where-clause of the memberships that are this user's (claimed, or invited by address and not yet claimed). */
 export function membershipWhere(user: Actor) {
-  return { [Op.or]: [{ userId: user.id }, { userId: null, email: user.email.toLowerCase() }] };
+  return { [Op.or]: [{ userId: user.id }, { userId: null, email: normaliseEmail(user.email) }] };
 }
 
 /** Invitations to this address become the user's: called at sign-in, never by a loader. */
 export async function claimInvitations({ user }: { user: Actor }) {
   const [claimed] = await ProposalMember.update(
     { userId: user.id, acceptedAt: new Date() },
-    { where: { userId: null, email: user.email.toLowerCase() } },
+    { where: { userId: null, email: normaliseEmail(user.email) } },
   );
   return claimed;
 }
@@ -149,7 +150,7 @@ export async function createProposal({ user, ...input }: { user: Actor } & z.out
       { callId: call.id, title: input.title, abstract: input.abstract ?? "", scienceCategory: null, semestersRequested: [call.semesterCode], createdById: user.id },
       { transaction },
     );
-    await ProposalMember.create({ proposalId: proposal.id, userId: user.id, email: user.email.toLowerCase(), role: "pi", acceptedAt: new Date() }, { transaction });
+    await ProposalMember.create({ proposalId: proposal.id, userId: user.id, email: normaliseEmail(user.email), role: "pi", acceptedAt: new Date() }, { transaction });
     await writeAudit(
       { actorId: user.id, action: "proposal.created", entityType: "proposal", entityId: proposal.id, proposalId: proposal.id, details: { callId: call.id, semesterCode: call.semesterCode, title: input.title } },
       transaction,
