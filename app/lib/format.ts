@@ -38,3 +38,8 @@ export function grouped(x: MaybeNumber, digits = 2): string {
   // a value that rounds to zero is shown as zero
   return /^-0(\.0*)?$/.test(text) ? text.slice(1) : text;
 }
+
+/** An instant as "YYYY-MM-DD HH:MM UTC". */
+export function formatUtc(instant: Date | string): string {
+  return `${new Date(instant).toISOString().slice(0, 16).replace("T", " ")} UTC`;
+}

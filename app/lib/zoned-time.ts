@@ -42,10 +42,6 @@ export function formatInZone(instant: Date | string, timeZone: string) {
   return `${get("year")}-${get("month")}-${get("day")} ${get("hour")}:${get("minute")} ${get("timeZoneName")}`;
 }
 
-export function formatUtc(instant: Date | string) {
-  return `${new Date(instant).toISOString().slice(0, 16).replace("T", " ")} UTC`;
-}
-
 /** Midnight at the start of a calendar date (YYYY-MM-DD) in `timeZone`. */
 export function startOfDateInZone(date: string, timeZone: string) {
   return zonedLocalToUtc(`${date}T00:00`, timeZone);

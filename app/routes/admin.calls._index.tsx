@@ -4,7 +4,8 @@ import { Saved } from "~/components/office/fields";
 import { requireRole } from "~/lib/auth/auth.server";
 import { callPhase } from "~/lib/call-phase";
 import { listCalls, observatoryTimeZone } from "~/lib/office/office.server";
-import { formatInZone, formatUtc } from "~/lib/zoned-time";
+import { formatUtc } from "~/lib/format";
+import { formatInZone } from "~/lib/zoned-time";
 import type { Route } from "./+types/admin.calls._index";
 
 export function meta() {

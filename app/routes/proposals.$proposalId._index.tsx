@@ -4,7 +4,7 @@ import { useForm } from "react-hook-form";
 import { data, Form, useActionData, useNavigation, useRevalidator, useSubmit } from "react-router";
 import { AbstractField } from "~/components/AbstractField";
 import { Field, inputProps } from "~/components/Field";
-import { utc } from "~/components/workspace";
+import { formatUtc as utc } from "~/lib/format";
 import { requireUser } from "~/lib/auth/auth.server";
 import { fieldErrors, readForm } from "~/lib/forms";
 import { formValues, proposalIdParam, refusalResponse } from "~/lib/proposals/routes.server";

@@ -1,5 +1,5 @@
 import { data, useFetcher } from "react-router";
-import { utc } from "~/components/workspace";
+import { formatUtc as utc } from "~/lib/format";
 import { requireUser } from "~/lib/auth/auth.server";
 import { decisionForUser } from "~/lib/decisions/decisions.server";
 import { chargesText } from "~/lib/decisions/template";

@@ -3,7 +3,7 @@ import { useForm } from "react-hook-form";
 import { data, Form, Link, redirect, useActionData, useNavigation, useSubmit } from "react-router";
 import { AbstractField } from "~/components/AbstractField";
 import { Field, inputProps } from "~/components/Field";
-import { utc } from "~/components/workspace";
+import { formatUtc as utc } from "~/lib/format";
 import { requireUser } from "~/lib/auth/auth.server";
 import { fieldErrors, readForm } from "~/lib/forms";
 import { formValues, refusalResponse } from "~/lib/proposals/routes.server";

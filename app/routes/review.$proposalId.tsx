@@ -13,8 +13,7 @@ import { declareConflict, reopenMyReview, reviewForProposal, saveGrade } from "~
 import { committeeAccess, committeeReading } from "~/lib/review/read.server";
 import { meritCriteria, meritSteps, PI_COMMENT_MIN_WORDS, reviewStatusLabels } from "~/lib/review/vocabulary";
 import { conflictSchema, gradeSchema, type GradeInput } from "~/lib/schemas/review";
-import { fixed } from "~/lib/format";
-import { formatUtc } from "~/lib/zoned-time";
+import { fixed, formatUtc } from "~/lib/format";
 import type { Route } from "./+types/review.$proposalId";
 
 export function meta({ data: d }: Route.MetaArgs) {
