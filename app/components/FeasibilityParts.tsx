@@ -6,13 +6,10 @@
 // again whenever `key` changes (e.g. the observation's saved version), without a page reload.
 import { useEffect } from "react";
 import { useFetcher } from "react-router";
+import { hours } from "~/lib/format";
 import type { FeasibilitySheet, Problem } from "~/lib/proposals/feasibility";
 
 export const moonColours = { dark: "#13213a", grey: "#7c8aa0", bright: "#e8a849" } as const;
-
-export function hours(x: number | null | undefined, digits = 1) {
-  return x === null || x === undefined || !Number.isFinite(x) ? "—" : `${x.toFixed(digits)} h`;
-}
 
 export function ProblemsList({ problems, empty = "No problems found: nothing blocks this proposal." }: { problems: Problem[]; empty?: string }) {
   const blocking = problems.filter((p) => p.severity === "blocking");

@@ -6,10 +6,3 @@ export function useWorkspace(): WorkspaceHeader {
   return (useRouteLoaderData("routes/proposals.$proposalId") as { proposal: WorkspaceHeader }).proposal;
 }
 
-export function utc(iso: string) {
-  return `${iso.slice(0, 16).replace("T", " ")} UTC`;
-}
-
-export function fixed(value: number | null | undefined, digits = 1) {
-  return value === null || value === undefined || !Number.isFinite(value) ? "—" : value.toFixed(digits);
-}

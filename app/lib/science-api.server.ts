@@ -5,11 +5,13 @@ import { data } from "react-router";
 import type { z } from "zod";
 import { apiIssues } from "~/lib/forms";
 import { Lru } from "~/lib/lru";
+import { officeSemesters } from "~/lib/office/semesters.server";
 import { Filter, Instrument, Telescope } from "~/models/index.server";
 import { astrometryForDates, centroidPrecisionMas, epochPrecisionMas, type FitPrecision, type Plan } from "./astro/astrometry";
 import { computePool, PoolBusy, PoolTimeout } from "./astro/compute-pool.server";
 import { computeExposure, type ExposureInput } from "./astro/exposure";
-import { EXTINCTION, SKY_BRIGHTNESS, ZERO_POINTS, type Band } from "./astro/photometry";
+import type { Band } from "./astro/bands";
+import { EXTINCTION, SKY_BRIGHTNESS, ZERO_POINTS } from "./astro/photometry";
 import {
   astrometryBodySchema,
   epochPlanBodySchema,
@@ -304,7 +306,7 @@ export async function epochPlanResponse(request: Request) {
   return guarded(request, async () => {
     const b = parse(epochPlanBodySchema, await jsonBody(request));
     charge(request, epochPlanCost(b));
-    const { site, perEpoch, required } = await planInput(b);
+    const [{ site, perEpoch, required }, semesters] = await Promise.all([planInput(b), officeSemesters()]);
     const target = { raDeg: b.target.ra, decDeg: b.target.dec, pmRaCosDecMasPerYr: b.target.pmRaCosDecMasPerYr, pmDecMasPerYr: b.target.pmDecMasPerYr };
     const { plan, moved } = await inPool<{ plan: Plan; moved?: FitPrecision }>({
       kind: "epochPlan",
@@ -319,6 +321,7 @@ export async function epochPlanResponse(request: Request) {
         limit: limitOf(b),
         secondsPerEpoch: b.secondsPerEpoch,
         toleranceNights: b.toleranceNights,
+        semesters,
       },
       moved: b.movedEpochs ? { raDeg: target.raDeg, decDeg: target.decDeg, times: b.movedEpochs, perEpochPrecisionMas: perEpoch } : undefined,
     });

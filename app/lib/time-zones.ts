@@ -1,7 +1,8 @@
 // One home for time-zone names: every zone a client sends is canonicalised here first
 // ("europe/PARIS" → "Europe/Paris", "US/Eastern" → "America/New_York"), so that the caches
 // keyed by zone (ours and @date-fns/tz's formatter cache) hold at most one entry per real zone.
-// Browser-safe, no imports beyond the LRU.
+// Browser-safe (the LRU and zod only).
+import { z } from "zod";
 import { Lru } from "./lru";
 
 /** Longer than any IANA name (the longest is ~32 characters); longer input is refused unparsed. */
@@ -11,13 +12,16 @@ export const TIME_ZONE_MAX_LENGTH = 64;
 // at most this many small strings.
 const canonical = new Lru<string, string | null>(1024);
 
-// The runtime's canonical zones by lower-case name: a fixed set of a few hundred.
+/** The runtime's canonical zones and UTC (a fixed set of a few hundred): the lists the forms offer. */
+export function supportedTimeZones(): string[] {
+  const intl = Intl as typeof Intl & { supportedValuesOf?: (key: "timeZone") => string[] };
+  return [...new Set([...(intl.supportedValuesOf?.("timeZone") ?? []), "UTC"])];
+}
+
+// The canonical zones by lower-case name.
 let byLowerCase: Map<string, string> | null = null;
 function knownZone(timeZone: string): string | undefined {
-  if (!byLowerCase) {
-    const intl = Intl as typeof Intl & { supportedValuesOf?: (key: "timeZone") => string[] };
-    byLowerCase = new Map([...(intl.supportedValuesOf?.("timeZone") ?? []), "UTC"].map((z) => [z.toLowerCase(), z]));
-  }
+  byLowerCase ??= new Map(supportedTimeZones().map((zone) => [zone.toLowerCase(), zone]));
   return byLowerCase.get(timeZone.toLowerCase());
 }
 
@@ -42,6 +46,15 @@ export function canonicalTimeZone(timeZone: unknown): string | null {
 
 export function isValidTimeZone(timeZone: unknown): timeZone is string {
   return canonicalTimeZone(timeZone) !== null;
+}
+
+/** A form or API field holding a time zone: refused with `message` unless it is one, then canonical. */
+export function timeZoneSchema(message: string) {
+  return z
+    .string({ error: message })
+    .max(TIME_ZONE_MAX_LENGTH, { error: message })
+    .refine(isValidTimeZone, { error: message })
+    .transform((zone) => canonicalTimeZone(zone) ?? zone);
 }
 
 /** The canonical name; throws a RangeError for a name that is not a zone (callers validate first). */

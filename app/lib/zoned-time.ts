@@ -2,16 +2,10 @@
 import { TZDate } from "@date-fns/tz";
 import { format } from "date-fns";
 import { Lru } from "./lru";
-import { canonicalTimeZone, isValidTimeZone, requireTimeZone } from "./time-zones";
+import { canonicalTimeZone, requireTimeZone } from "./time-zones";
 
 // Zones are canonicalised before they reach TZDate: @date-fns/tz keeps a formatter per zone
 // string it is given, without bound, so only canonical names (a few hundred) may reach it.
-export { canonicalTimeZone, isValidTimeZone };
-
-export function supportedTimeZones(): string[] {
-  const intl = Intl as typeof Intl & { supportedValuesOf?: (key: "timeZone") => string[] };
-  return intl.supportedValuesOf ? [...intl.supportedValuesOf("timeZone"), "UTC"].filter((z, i, all) => all.indexOf(z) === i) : ["UTC"];
-}
 
 const localPattern = /^(\d{4})-(\d{2})-(\d{2})[T ](\d{2}):(\d{2})(?::(\d{2}))?$/;
 
@@ -46,10 +40,6 @@ export function formatInZone(instant: Date | string, timeZone: string) {
   const parts = formatter.formatToParts(date);
   const get = (type: string) => parts.find((p) => p.type === type)?.value ?? "";
   return `${get("year")}-${get("month")}-${get("day")} ${get("hour")}:${get("minute")} ${get("timeZoneName")}`;
-}
-
-export function formatUtc(instant: Date | string) {
-  return `${new Date(instant).toISOString().slice(0, 16).replace("T", " ")} UTC`;
 }
 
 /** Midnight at the start of a calendar date (YYYY-MM-DD) in `timeZone`. */

@@ -4,8 +4,6 @@ import type { Telescope } from "./Telescope";
 
 import { moonCategories, type MoonCategory } from "~/lib/domain";
 
-export { moonCategories, type MoonCategory };
-
 /** Hours a call offers on one telescope in one moon category. */
 export class CallOffer extends Model<InferAttributes<CallOffer>, InferCreationAttributes<CallOffer>> {
   declare id: CreationOptional<number>;

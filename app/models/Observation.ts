@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from "sequelize";
-import type { MoonCategory } from "./CallOffer";
+import { moonCategories, type MoonCategory } from "~/lib/domain";
 import type { Filter } from "./Filter";
 import type { Instrument } from "./Instrument";
 import type { PlannedEpoch } from "./PlannedEpoch";
@@ -39,7 +39,7 @@ export class Observation extends Model<InferAttributes<Observation>, InferCreati
         epochsPerSemester: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
         baselineYears: DataTypes.DOUBLE,
         requiredPmPrecisionMasPerYr: DataTypes.DOUBLE,
-        moonCategory: { type: DataTypes.ENUM("dark", "grey", "bright"), allowNull: false, defaultValue: "dark" },
+        moonCategory: { type: DataTypes.ENUM(...moonCategories), allowNull: false, defaultValue: "dark" },
         maxAirmass: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 2 },
         seeingArcsec: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 1.2 },
         createdAt: DataTypes.DATE(3),

@@ -1,4 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from "sequelize";
+import { byBand } from "~/lib/astro/bands";
 import type { Proposal } from "./Proposal";
 
 /** A target of a proposal: ICRS/J2000 position, optional proper motion (μα* includes cos δ). */
@@ -47,8 +48,6 @@ export class Target extends Model<InferAttributes<Target>, InferCreationAttribut
   }
 }
 
-const BAND_ORDER = ["U", "B", "V", "R", "I"];
-
 /** Magnitudes of a target as a plain map (MariaDB may hand JSON back as text). */
 export function magnitudesOf(t: { magnitudes?: Record<string, number> | string | null }): Record<string, number> {
   const raw = typeof t.magnitudes === "string" ? (JSON.parse(t.magnitudes) as unknown) : t.magnitudes;
@@ -68,7 +67,7 @@ function syncMagnitudes(t: Target) {
   if (setMap) {
     const map = magnitudesOf(t);
     t.magnitudes = map;
-    const first = Object.keys(map).sort((a, b) => (BAND_ORDER.indexOf(a) + 99) % 99 - (BAND_ORDER.indexOf(b) + 99) % 99)[0];
+    const first = Object.keys(map).sort(byBand)[0];
     t.magnitude = first === undefined ? null : map[first];
     t.band = first ?? null;
   } else if (isNew || t.changed("magnitude") || t.changed("band")) {

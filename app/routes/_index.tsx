@@ -1,7 +1,8 @@
 import { Link } from "react-router";
 import { getSessionUser } from "~/lib/auth/auth.server";
 import { Call } from "~/models/index.server";
-import { Op } from "sequelize";
+import { callPhase } from "~/lib/call-phase";
+import { currentCallsWhere } from "~/lib/call-phase.server";
 import type { Route } from "./+types/_index";
 
 export function meta() {
@@ -11,13 +12,13 @@ export function meta() {
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await getSessionUser(request);
   const now = new Date();
-  const calls = await Call.findAll({ where: { deadlineAt: { [Op.gt]: now } }, order: [["deadlineAt", "ASC"]] });
+  const calls = await Call.findAll({ where: currentCallsWhere(now), order: [["deadlineAt", "ASC"]] });
   return {
     user,
     calls: calls.map((c) => ({
       semesterCode: c.semesterCode,
       title: c.title,
-      open: c.opensAt <= now,
+      open: callPhase(c, now) === "open",
       opensAt: c.opensAt.toISOString(),
       deadlineAt: c.deadlineAt.toISOString(),
       semesterStart: c.semesterStart,

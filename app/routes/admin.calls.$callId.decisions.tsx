@@ -11,6 +11,7 @@ import { resendLetter, sendDecisions } from "~/lib/decisions/send.server";
 import { money } from "~/lib/decisions/template";
 import { decisionOutcomes, outcomeLabels } from "~/lib/decisions/vocabulary";
 import { formAction, idParam, intent } from "~/lib/actions.server";
+import { hours } from "~/lib/format";
 import { resendSchema, templateSchema, type DecisionsAnswer } from "~/lib/schemas/decisions";
 import type { Route } from "./+types/admin.calls.$callId.decisions";
 
@@ -92,7 +93,7 @@ export default function Decisions({ loaderData }: Route.ComponentProps) {
                       <td className="whitespace-nowrap font-semibold">{r.code}</td>
                       <td>{r.title}</td>
                       <td>{outcomeLabels[r.outcome]}</td>
-                      <td className="tabular-nums">{r.outcome === "accepted" ? `${hoursOf(r).toFixed(1)} h` : "—"}<div className="text-xs text-slate-500">{r.facts.hours.map((h) => `${h.telescope} ${h.moonCategory} ${h.semesterCode} ${h.hours.toFixed(1)}`).join(" · ")}</div></td>
+                      <td className="tabular-nums">{hours(r.outcome === "accepted" ? hoursOf(r) : null)}<div className="text-xs text-slate-500">{r.facts.hours.map((h) => `${h.telescope} ${h.moonCategory} ${h.semesterCode} ${h.hours.toFixed(1)}`).join(" · ")}</div></td>
                       <td>{r.facts.tier ?? "—"}</td>
                       <td>{r.facts.charge ? money(r.facts.charge.amountCents, r.facts.charge.currency) : r.outcome !== "accepted" ? "—" : r.sent ? "none" : "raised on sending, if due"}</td>
                       <td data-testid="letter-state">{!r.sent ? "not sent" : r.sent.queued + r.sent.retrying > 0 ? `sending (${r.sent.sent}/${r.sent.total})` : r.sent.failed ? `${r.sent.failed} failed` : `sent to ${r.sent.total}`}{r.sent?.resends ? ` · re-sent ${r.sent.resends}×` : ""}</td>

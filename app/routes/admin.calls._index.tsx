@@ -2,8 +2,10 @@ import { Link, useSearchParams } from "react-router";
 import { Breadcrumbs } from "~/components/office/Breadcrumbs";
 import { Saved } from "~/components/office/fields";
 import { requireRole } from "~/lib/auth/auth.server";
+import { callPhase } from "~/lib/call-phase";
 import { listCalls, observatoryTimeZone } from "~/lib/office/office.server";
-import { formatInZone, formatUtc } from "~/lib/zoned-time";
+import { formatUtc } from "~/lib/format";
+import { formatInZone } from "~/lib/zoned-time";
 import type { Route } from "./+types/admin.calls._index";
 
 export function meta() {
@@ -16,10 +18,10 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { calls, timeZone, now: new Date().toISOString() };
 }
 
+const phaseClass = { announced: "bg-night-100 text-night-800", open: "bg-emerald-100 text-emerald-800", closed: "bg-slate-100 text-slate-600" } as const;
 function status(call: { opensAt: string; deadlineAt: string }, now: string) {
-  if (now < call.opensAt) return { label: "announced", className: "bg-night-100 text-night-800" };
-  if (now < call.deadlineAt) return { label: "open", className: "bg-emerald-100 text-emerald-800" };
-  return { label: "closed", className: "bg-slate-100 text-slate-600" };
+  const label = callPhase(call, now);
+  return { label, className: phaseClass[label] };
 }
 
 export default function Calls({ loaderData }: Route.ComponentProps) {

@@ -11,7 +11,7 @@ import { createInstrument, deleteTelescope, getTelescope, updateTelescope } from
 import { formAction, idParam, intent, orNotFound } from "~/lib/actions.server";
 import { clearFractionsOf, saveClearFractions } from "~/lib/office/clear-fractions.server";
 import { clearFractionsSchema, instrumentSchema, telescopeSchema } from "~/lib/schemas/office";
-import { supportedTimeZones } from "~/lib/zoned-time";
+import { supportedTimeZones } from "~/lib/time-zones";
 import type { Route } from "./+types/admin.telescopes.$telescopeId";
 
 export function meta({ data }: Route.MetaArgs) {

@@ -7,7 +7,7 @@ import { requireRole } from "~/lib/auth/auth.server";
 import { createTelescope, listTelescopes } from "~/lib/office/office.server";
 import { formAction, intent } from "~/lib/actions.server";
 import { telescopeSchema } from "~/lib/schemas/office";
-import { supportedTimeZones } from "~/lib/zoned-time";
+import { supportedTimeZones } from "~/lib/time-zones";
 import type { Route } from "./+types/admin.telescopes._index";
 
 export function meta() {

@@ -2,7 +2,8 @@ import { Link } from "react-router";
 import { Countdown } from "~/components/Countdown";
 import { moonCategories } from "~/lib/domain";
 import { listPublicCalls } from "~/lib/office/office.server";
-import { formatInZone, formatUtc } from "~/lib/zoned-time";
+import { formatUtc } from "~/lib/format";
+import { formatInZone } from "~/lib/zoned-time";
 import type { Route } from "./+types/calls._index";
 
 export function meta() {

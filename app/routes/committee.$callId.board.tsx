@@ -6,6 +6,7 @@ import { z } from "zod";
 import { RaPressure } from "~/components/allocation/RaPressure";
 import { Field, inputProps } from "~/components/Field";
 import { SortableTable } from "~/components/SortableTable";
+import { fixed, NONE } from "~/lib/format";
 import { SemesterCheck } from "~/components/allocation/SemesterCheck";
 import { fillAllocationByRank, lockAllocation, moveOnBoard, unlockAllocation } from "~/lib/allocation/allocate.server";
 import { callBoard } from "~/lib/allocation/board.server";
@@ -97,7 +98,6 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 type Row = Route.ComponentProps["loaderData"]["board"]["proposals"][number];
 const column = createColumnHelper<Row>();
-const fixed = (value: number | null, digits: number) => (value === null ? "–" : value.toFixed(digits));
 
 export default function RankingBoard({ loaderData }: Route.ComponentProps) {
   const { board, uncertainty, telescopes, semesterCheck, raPressure, owed } = loaderData;
@@ -142,7 +142,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
         cell: (c) => {
           const { rankInterval } = c.row.original;
           const rank = c.getValue();
-          if (rank === undefined || !rankInterval) return "–";
+          if (rank === undefined || !rankInterval) return NONE;
           return (
             <span className="whitespace-nowrap" data-testid={`rank-${c.row.original.proposalId}`}>
               {rank} <span className="text-xs text-slate-600">({rankInterval.low}–{rankInterval.high})</span>{" "}
@@ -156,14 +156,14 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
         sortUndefined: "last",
         cell: (c) => {
           const p = c.getValue();
-          if (p === null) return c.row.original.computedRank === null ? "–" : <span className="text-xs text-slate-600" title="It asks no hours of this semester">no hours</span>;
+          if (p === null) return c.row.original.computedRank === null ? NONE : <span className="text-xs text-slate-600" title="It asks no hours of this semester">no hours</span>;
           return <span className="whitespace-nowrap" data-testid={`above-${c.row.original.proposalId}`}>{Math.round(p * 100)} %{inCoinFlipBand(p) ? <span className="ml-1 rounded bg-amber-200 px-1 text-xs text-amber-950">coin flip</span> : null}</span>;
         },
       }),
       column.accessor("chairRank", {
         header: "Chair's rank",
         sortUndefined: "last",
-        cell: (c) => (c.getValue() === null ? "–" : <span title={c.row.original.chairRankReason ?? undefined}>{c.getValue()} <span className="text-xs text-slate-600">({c.row.original.chairRankReason})</span></span>),
+        cell: (c) => (c.getValue() === null ? NONE : <span title={c.row.original.chairRankReason ?? undefined}>{c.getValue()} <span className="text-xs text-slate-600">({c.row.original.chairRankReason})</span></span>),
       }),
       column.accessor((r) => r.code ?? "", { id: "code", header: "Code" }),
       column.accessor("title", { header: "Title" }),
@@ -185,7 +185,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
       column.accessor("disagreement", { header: "Reviewers", cell: (c) => (c.getValue() ? <span className="rounded bg-amber-100 px-1.5 py-0.5 text-amber-900">disagree</span> : "agree") }),
       column.accessor((r) => hours(r, true), { id: "hoursThis", header: `Requested ${call.semesterCode}`, cell: (c) => requestedCell(c.row.original, c.getValue(), true) }),
       column.accessor((r) => hours(r, false), { id: "hoursLater", header: "Requested later", cell: (c) => requestedCell(c.row.original, c.getValue(), false) }),
-      column.accessor((r) => r.tier ?? "", { id: "tier", header: "Tier", cell: (c) => c.getValue() || "–" }),
+      column.accessor((r) => r.tier ?? "", { id: "tier", header: "Tier", cell: (c) => c.getValue() || NONE }),
       column.accessor((r) => r.allocation.filter((a) => a.semesterCode === call.semesterCode).reduce((sum, a) => sum + a.hours, 0), { id: "allocated", header: `Allocated ${call.semesterCode}`, cell: (c) => c.getValue().toFixed(1) }),
       column.accessor((r) => checkOf.get(r.proposalId)?.completionProbability ?? null, {
         id: "completion",
@@ -193,7 +193,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
         sortUndefined: "last",
         cell: (c) => {
           const outcome = checkOf.get(c.row.original.proposalId);
-          if (!outcome || outcome.completionProbability === null) return "–";
+          if (!outcome || outcome.completionProbability === null) return NONE;
           return (
             <span data-testid={`completion-${c.row.original.proposalId}`} className={stale ? "text-slate-500" : undefined} title={stale ? "From a check whose inputs have changed since" : undefined}>
               {Math.round(outcome.completionProbability * 100)} %

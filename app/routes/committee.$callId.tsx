@@ -10,7 +10,8 @@ import { revealTeams, teamRevealState } from "~/lib/review/anonymity.server";
 import { reviewerCandidates } from "~/lib/review/facts.server";
 import { reviewStatusLabels, type ReviewStatus } from "~/lib/review/vocabulary";
 import { reviewSetupSchema } from "~/lib/schemas/review";
-import { formatInZone, formatUtc, utcToZonedLocal, zonedLocalToUtc } from "~/lib/zoned-time";
+import { formatUtc } from "~/lib/format";
+import { formatInZone, utcToZonedLocal, zonedLocalToUtc } from "~/lib/zoned-time";
 import { z } from "zod";
 import type { Route } from "./+types/committee.$callId";
 

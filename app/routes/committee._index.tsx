@@ -1,7 +1,7 @@
 import { Link } from "react-router";
 import { requireRole } from "~/lib/auth/auth.server";
 import { reviewCalls } from "~/lib/review/chair.server";
-import { formatUtc } from "~/lib/zoned-time";
+import { formatUtc } from "~/lib/format";
 import type { Route } from "./+types/committee._index";
 
 export function meta() {

@@ -6,7 +6,7 @@ import { formAction, intent } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import type { FormValues } from "~/lib/forms";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
-import { upcomingSemesters } from "~/lib/proposals/vocabulary";
+import { upcomingSemesters } from "~/lib/semesters";
 import { getProposalForUser, overviewValues, updateOverview, type OverviewResult } from "~/lib/proposals/proposals.server";
 import { overviewSchema } from "~/lib/schemas/proposals";
 import type { Route } from "./+types/proposals.$proposalId._index";

@@ -1,4 +1,4 @@
-import { utc } from "~/components/workspace";
+import { formatUtc as utc } from "~/lib/format";
 import { requireUser } from "~/lib/auth/auth.server";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { proposalHistory, type HistoryEntry } from "~/lib/proposals/proposals.server";

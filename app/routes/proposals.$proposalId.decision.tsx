@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { RateComment } from "~/components/decisions/RateComment";
-import { utc } from "~/components/workspace";
+import { formatUtc as utc } from "~/lib/format";
 import { formAction, intent } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { decisionForUser } from "~/lib/decisions/decisions.server";
@@ -37,8 +37,6 @@ export async function action({ request, params }: Route.ActionArgs) {
   );
 }
 
-const moonWords = { dark: "dark", grey: "grey", bright: "bright" } as const;
-
 export default function Decision({ loaderData }: Route.ComponentProps) {
   const { letter, proposalId, helpfulness } = loaderData;
   if (!letter) {
@@ -63,7 +61,7 @@ export default function Decision({ loaderData }: Route.ComponentProps) {
             <thead><tr><th>Telescope</th><th>Moon category</th><th>Semester</th><th className="text-right">Hours</th></tr></thead>
             <tbody>
               {f.hours.map((h, i) => (
-                <tr key={i}><td>{h.telescope}</td><td>{moonWords[h.moonCategory]}</td><td>{h.semesterCode}</td><td className="text-right tabular-nums">{h.hours.toFixed(1)}</td></tr>
+                <tr key={i}><td>{h.telescope}</td><td>{h.moonCategory}</td><td>{h.semesterCode}</td><td className="text-right tabular-nums">{h.hours.toFixed(1)}</td></tr>
               ))}
             </tbody>
           </table>

@@ -6,6 +6,7 @@ import { requireUser } from "~/lib/auth/auth.server";
 import { acceptReplan, epochProgress, telescopeChoices } from "~/lib/epochs/epochs.server";
 import { replanAcceptSchema } from "~/lib/epochs/schema";
 import { formAction, intent } from "~/lib/actions.server";
+import { fixed } from "~/lib/format";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { getProposalForUser } from "~/lib/proposals/proposals.server";
 import type { Route } from "./+types/proposals.$proposalId.epochs";
@@ -98,8 +99,8 @@ export default function EpochProgressPage({ loaderData }: Route.ComponentProps) 
                 </tbody>
               </table>
               <p className="text-sm tabular-nums" data-testid="replan-projected">
-                With the re-plan: σ(μα*) {o.replanProjected?.properMotionPrecisionMasPerYr?.ra.toFixed(3) ?? "—"}, σ(μδ) {o.replanProjected?.properMotionPrecisionMasPerYr?.dec.toFixed(3) ?? "—"} mas/yr, σ(ϖ) {o.replanProjected?.parallaxPrecisionMas?.toFixed(3) ?? "—"} mas
-                (now planned: σ(μα*) {o.projected.properMotionPrecisionMasPerYr?.ra.toFixed(3) ?? "—"}, σ(μδ) {o.projected.properMotionPrecisionMasPerYr?.dec.toFixed(3) ?? "—"} mas/yr).
+                With the re-plan: σ(μα*) {fixed(o.replanProjected?.properMotionPrecisionMasPerYr?.ra, 3)}, σ(μδ) {fixed(o.replanProjected?.properMotionPrecisionMasPerYr?.dec, 3)} mas/yr, σ(ϖ) {fixed(o.replanProjected?.parallaxPrecisionMas, 3)} mas
+                (now planned: σ(μα*) {fixed(o.projected.properMotionPrecisionMasPerYr?.ra, 3)}, σ(μδ) {fixed(o.projected.properMotionPrecisionMasPerYr?.dec, 3)} mas/yr).
               </p>
               {isPi && accepted ? (
                 <Form method="post">

@@ -1,7 +1,8 @@
 import { lazy, useEffect, useMemo, useState } from "react";
 import { Form, Link, useFetcher, useNavigation, useRevalidator } from "react-router";
 import { ChartPlaceholder, ClientOnly, useHydrated } from "~/components/ClientOnly";
-import { hours, ProblemsList, TotalsTable } from "~/components/FeasibilityParts";
+import { ProblemsList, TotalsTable } from "~/components/FeasibilityParts";
+import { fixed as fx, fixedNoMinusZero as f0, hours } from "~/lib/format";
 import { ErrorPage } from "~/components/ErrorPage";
 import { Field, inputProps } from "~/components/Field";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
@@ -53,9 +54,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { sheet: sheetSummary(sheet), openDetails, chart, night: { value: nightParam ?? chart?.date ?? "", error: nightError }, ms: Math.round(performance.now() - started) };
 }
 
-const fx = (x: number | null | undefined, d = 1) => (x === null || x === undefined || !Number.isFinite(x) ? "—" : x.toFixed(d));
 /** fixed digits without a negative zero ("-0.000" reads as a sign) */
-const f0 = (x: number, d: number) => x.toFixed(d).replace(/^-(0\.?0*)$/, "$1");
 const e = (x: number) => (x >= 1e5 ? x.toExponential(2) : x >= 100 ? Math.round(x).toLocaleString("en-GB") : x.toFixed(1));
 
 function NoiseTable({ exposure }: { exposure: NonNullable<ObservationSheet["exposure"]> }) {

@@ -3,7 +3,9 @@ import { z } from "zod";
 import { CsvImport } from "~/components/proposals/CsvImport";
 import { DeleteButton } from "~/components/proposals/DeleteButton";
 import { TargetForm } from "~/components/proposals/TargetForm";
-import { fixed, useWorkspace } from "~/components/workspace";
+import { useWorkspace } from "~/components/workspace";
+import { fixed } from "~/lib/format";
+import { BANDS } from "~/lib/astro/bands";
 import { failure, formAction, intent } from "~/lib/actions.server";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
 import { requireUser } from "~/lib/auth/auth.server";
@@ -12,7 +14,7 @@ import { getProposalForUser } from "~/lib/proposals/proposals.server";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { CSV_UPLOAD_MAX_BYTES, refusedCsvText } from "~/lib/proposals/target-csv";
 import { createTarget, deleteTarget, importTargetsCsv, listTargets, updateTarget } from "~/lib/proposals/targets.server";
-import { csvImportSchema, TARGET_BANDS, targetSchema } from "~/lib/schemas/proposals";
+import { csvImportSchema, targetSchema } from "~/lib/schemas/proposals";
 import type { Route } from "./+types/proposals.$proposalId.targets";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -66,7 +68,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 type Row = Route.ComponentProps["loaderData"]["targets"][number];
 
 function magnitudesText(m: Record<string, number>) {
-  const parts = TARGET_BANDS.filter((b) => m[b] !== undefined).map((b) => `${b} ${m[b].toFixed(2)}`);
+  const parts = BANDS.filter((b) => m[b] !== undefined).map((b) => `${b} ${m[b].toFixed(2)}`);
   return parts.length ? parts.join(" · ") : "—";
 }
 

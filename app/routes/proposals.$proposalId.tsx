@@ -1,7 +1,7 @@
 import { Link, NavLink, Outlet, useFetcher } from "react-router";
 import { SelfReferenceSummary } from "~/components/SelfReferenceWarnings";
 import { StatusBadge } from "~/components/StatusBadge";
-import { utc } from "~/components/workspace";
+import { formatUtc as utc } from "~/lib/format";
 import { requireUser } from "~/lib/auth/auth.server";
 import { proposalStatusLabels, type ProposalStatus } from "~/lib/domain";
 import { memberRoleLabels } from "~/lib/proposals/vocabulary";

@@ -10,7 +10,7 @@ import { SortableTable } from "~/components/SortableTable";
 import { useMemo, useState } from "react";
 import { Link } from "react-router";
 import { StatusBadge } from "~/components/StatusBadge";
-import { utc } from "~/components/workspace";
+import { formatUtc as utc } from "~/lib/format";
 import { requireUser } from "~/lib/auth/auth.server";
 import { proposalStatuses, proposalStatusLabels, type ProposalStatus } from "~/lib/domain";
 import { withRequestedHours } from "~/lib/proposals/hours.server";

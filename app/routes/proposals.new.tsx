@@ -4,7 +4,7 @@ import { Form, Link, redirect, useActionData, useNavigation, useSubmit } from "r
 import { z } from "zod";
 import { AbstractField } from "~/components/AbstractField";
 import { Field, inputProps } from "~/components/Field";
-import { utc } from "~/components/workspace";
+import { formatUtc as utc } from "~/lib/format";
 import { requireUser } from "~/lib/auth/auth.server";
 import { formAction, intent } from "~/lib/actions.server";
 import type { ActionFailure } from "~/lib/forms";

@@ -13,7 +13,7 @@ import { declareConflict, reopenMyReview, reviewForProposal, saveGrade } from "~
 import { committeeAccess, committeeReading } from "~/lib/review/read.server";
 import { reviewStatusLabels } from "~/lib/review/vocabulary";
 import { conflictSchema, gradeSchema } from "~/lib/schemas/review";
-import { formatUtc } from "~/lib/zoned-time";
+import { fixed, formatUtc } from "~/lib/format";
 import type { Route } from "./+types/review.$proposalId";
 
 export function meta({ data: d }: Route.MetaArgs) {
@@ -144,7 +144,7 @@ export default function ReviewProposal({ loaderData }: Route.ComponentProps) {
                 {feasibility.observations.map((o) => (
                   <tr key={o.observationId}>
                     <td>{o.targetName}</td><td>{o.telescopeName} · {o.instrumentName}</td><td>{o.band}</td><td>{o.moonCategory}</td><td>{o.maxAirmass}</td>
-                    <td>{o.usableHours.toFixed(1)}</td><td>{o.exposureSeconds === null ? "—" : o.exposureSeconds.toFixed(o.exposureSeconds < 10 ? 1 : 0)}</td><td>{o.snr === null ? "—" : o.snr.toFixed(0)}{o.saturated ? " (saturates)" : ""}</td><td>{o.hours.toFixed(1)}</td>
+                    <td>{o.usableHours.toFixed(1)}</td><td>{fixed(o.exposureSeconds, (o.exposureSeconds ?? 0) < 10 ? 1 : 0)}</td><td>{fixed(o.snr, 0)}{o.saturated ? " (saturates)" : ""}</td><td>{o.hours.toFixed(1)}</td>
                   </tr>
                 ))}
               </tbody>

@@ -6,7 +6,7 @@ import { SortableTable } from "~/components/SortableTable";
 import { scienceCategoryLabel } from "~/lib/proposals/vocabulary";
 import { listMyAssignments, type DeskRow, requireDeskUser } from "~/lib/review/desk.server";
 import { reviewStatusLabels } from "~/lib/review/vocabulary";
-import { formatUtc } from "~/lib/zoned-time";
+import { formatUtc } from "~/lib/format";
 import type { Route } from "./+types/review._index";
 
 export function meta() {

@@ -6,6 +6,7 @@ import { AIRMASS_FORMULA } from "~/lib/astro/airmass";
 import { planEpochs } from "~/lib/astro/astrometry";
 import { computeExposure } from "~/lib/astro/exposure";
 import { ZERO_POINTS } from "~/lib/astro/photometry";
+import { officeSemesters } from "~/lib/office/semesters.server";
 import { MOON_CATEGORY_THRESHOLDS, REFRACTION_MODEL, altitudeCurve, computeVisibility, type Site } from "~/lib/astro/visibility";
 import { Telescope } from "~/models/index.server";
 import type { Route } from "./+types/sky-tools";
@@ -70,7 +71,7 @@ export async function loader() {
   });
   const plan = planEpochs({
     site, target, firstDate: "2027-08-01", baselineYears: 3, perEpochPrecisionMas: 4, limit: { maxAirmass: 1.6 },
-    required: { tangentialVelocityKmS: 5, distancePc: 1500 }, secondsPerEpoch: 1500,
+    required: { tangentialVelocityKmS: 5, distancePc: 1500 }, secondsPerEpoch: 1500, semesters: await officeSemesters(),
   });
   return {
     telescopes,

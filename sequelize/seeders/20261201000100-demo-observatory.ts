@@ -10,6 +10,7 @@
 import type { Sequelize } from "sequelize";
 import { Call, CallOffer, Filter, Instrument, Telescope } from "~/models/index.server";
 import { addDays } from "date-fns";
+import { defaultSemesterSpan, nextSemesterCode, semesterOf, type SemesterSpan } from "~/lib/semesters";
 
 export const site = {
   siteName: "Kestrel Ridge",
@@ -24,20 +25,13 @@ export const consortium = { seat: "United Kingdom", currency: "gbp", accessFeePe
 
 const DAY = 86_400_000;
 
-function semesterCodeOf(date: Date) {
-  const y = date.getUTCFullYear();
-  const m = date.getUTCMonth() + 1;
-  return m >= 2 && m < 8 ? `${y}A` : m >= 8 ? `${y}B` : `${y - 1}B`;
-}
+const semesterCodeOf = (date: Date) => semesterOf(date.toISOString().slice(0, 10));
+const nextSemester = (code: string) => nextSemesterCode(code) as string;
 
-function nextSemester(code: string) {
-  const y = Number(code.slice(0, 4));
-  return code.endsWith("A") ? `${y}B` : `${y + 1}A`;
-}
-
+/** The demo calls keep the default semester dates (A 1 Feb – 31 Jul, B 1 Aug – 31 Jan). */
 function semesterDates(code: string) {
-  const y = Number(code.slice(0, 4));
-  return code.endsWith("A") ? { semesterStart: `${y}-02-01`, semesterEnd: `${y}-07-31` } : { semesterStart: `${y}-08-01`, semesterEnd: `${y + 1}-01-31` };
+  const span = defaultSemesterSpan(code) as SemesterSpan;
+  return { semesterStart: span.start, semesterEnd: span.end };
 }
 
 const day = (d: Date) => new Date(Date.UTC(d.getUTCFullYear(), d.getUTCMonth(), d.getUTCDate(), 23, 59));

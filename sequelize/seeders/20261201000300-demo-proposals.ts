@@ -22,10 +22,11 @@ import { createHash } from "node:crypto";
 import { PDFDocument, StandardFonts, rgb } from "pdf-lib";
 import type { Sequelize, Transaction } from "sequelize";
 import { prepareSiteNights, targetNights, limitAltitude } from "~/lib/astro/visibility";
-import { semesterOf } from "~/lib/astro/astrometry";
+import { officeSemesters } from "~/lib/office/semesters.server";
+import { semesterOf, upcomingSemesters, type SemesterSpan } from "~/lib/semesters";
 import { Call, CallOffer, Filter, Instrument, Observation, PlannedEpoch, Proposal, ProposalMember, StoredFile, Telescope, Target, User, AuditEntry } from "~/models/index.server";
 import type { MoonCategory } from "~/lib/domain";
-import { proposalCode, upcomingSemesters } from "~/lib/proposals/vocabulary";
+import { proposalCode } from "~/lib/proposals/vocabulary";
 import { demoCallPlan } from "./20261201000100-demo-observatory";
 import { surveyFields } from "../demo-survey";
 
@@ -410,7 +411,7 @@ const survey: Demo = {
 const allDemos = [...demos, survey];
 
 /** Epoch dates for an astrometric observation: per semester of the baseline, nights spread over the target's season. */
-function plannedEpochDates(site: Parameters<typeof prepareSiteNights>[0], start: string, t: T, o: O, epochHours: number): string[] {
+function plannedEpochDates(site: Parameters<typeof prepareSiteNights>[0], start: string, t: T, o: O, epochHours: number, semesters: SemesterSpan[]): string[] {
   const span = Math.min(Math.round((o.baseline ?? 1) * 365.25) + 1, 366 * 6);
   // One preparation per call start (two years, the longest demo baseline), sliced per baseline.
   const all = prepareSiteNights(site, start, longestSpan());
@@ -420,7 +421,7 @@ function plannedEpochDates(site: Parameters<typeof prepareSiteNights>[0], start:
   const bySemester = new Map<string, string[]>();
   for (const r of rows) {
     if (r.observableHours < Math.max(epochHours * 1.5, 0.75) || rank[r.night.moonCategory] > rank[o.moon]) continue;
-    const s = semesterOf(r.night.date);
+    const s = semesterOf(r.night.date, semesters);
     bySemester.set(s, [...(bySemester.get(s) ?? []), r.night.date]);
   }
   const out: string[] = [];
@@ -449,6 +450,7 @@ export async function up({ context: sequelize }: { context: Sequelize }) {
     const telescopes = await Telescope.findAll({ include: [{ model: Instrument, as: "instruments", include: [{ model: Filter, as: "filters" }] }], transaction });
     const byAperture = (a: "2.4" | "1.0") => telescopes.find((t) => t.apertureM === Number(a));
     const calls: Record<Stage, Call> = { running: callRunning, review: callReview, open: callOpen };
+    const semesters = await officeSemesters(transaction);
     const users = new Map((await User.findAll({ transaction })).map((u) => [u.email, u]));
     const serials: Record<string, number> = {};
     for (const [stage, call] of Object.entries(calls)) {
@@ -528,9 +530,9 @@ export async function up({ context: sequelize }: { context: Sequelize }) {
         await PlannedEpoch.bulkCreate(
           observations.flatMap((observation, i) =>
             // Half an hour per epoch bounds these frame counts; the sheet computes the exact time.
-            plannedEpochDates(site, call.semesterStart, d.targets[i], d.obs, 0.5).map((date) => {
+            plannedEpochDates(site, call.semesterStart, d.targets[i], d.obs, 0.5, semesters).map((date) => {
               const past = date < today && d.status === "accepted";
-              return { observationId: observation.id, date, semesterCode: semesterOf(date), status: past ? ("observed" as const) : ("planned" as const), observedAt: past ? new Date(`${date}T08:00:00Z`) : null };
+              return { observationId: observation.id, date, semesterCode: semesterOf(date, semesters), status: past ? ("observed" as const) : ("planned" as const), observedAt: past ? new Date(`${date}T08:00:00Z`) : null };
             }),
           ),
           { transaction },

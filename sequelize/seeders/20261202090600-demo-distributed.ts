@@ -16,7 +16,8 @@ import type { MoonCategory } from "~/lib/domain";
 import { pairKey } from "~/lib/review/conflicts";
 import { callFacts } from "~/lib/review/facts.server";
 import { suggestAssignments } from "~/lib/review/suggest";
-import { proposalCode, upcomingSemesters } from "~/lib/proposals/vocabulary";
+import { proposalCode } from "~/lib/proposals/vocabulary";
+import { defaultSemesterSpan, upcomingSemesters, type SemesterSpan } from "~/lib/semesters";
 import { AuditEntry, Call, CallOffer, CallReview, Filter, Instrument, Observation, Proposal, ProposalMember, ReviewAssignment, ReviewPanelMember, StoredFile, Target, Telescope, User } from "~/models/index.server";
 import { consortium, demoCallPlan } from "./20261201000100-demo-observatory";
 import { scienceCasePdf } from "./20261201000300-demo-proposals";
@@ -78,8 +79,8 @@ export async function up({ context: sequelize }: { context: Sequelize }) {
   const semesterCode = upcomingSemesters(plan.open.semesterCode, 2)[1];
   const existing = await Call.findOne({ where: { semesterCode } });
   if (existing && (await CallReview.findOne({ where: { callId: existing.id } }))?.committedAt) return;
-  const y = Number(semesterCode.slice(0, 4));
-  const dates = semesterCode.endsWith("A") ? { semesterStart: `${y}-02-01`, semesterEnd: `${y}-07-31` } : { semesterStart: `${y}-08-01`, semesterEnd: `${y + 1}-01-31` };
+  const span = defaultSemesterSpan(semesterCode) as SemesterSpan;
+  const dates = { semesterStart: span.start, semesterEnd: span.end };
   const turn = semesterCode.endsWith("A") ? 0 : 180;
 
   await sequelize.transaction(async (transaction) => {

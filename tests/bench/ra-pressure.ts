@@ -5,7 +5,7 @@
 // call in review (loading the call, the clear fractions and every board proposal's feasibility sheet).
 import { raPressure, type RaObservation } from "../../app/lib/allocation/ra-pressure";
 import { ensureMoonTimes, prepareSiteNights, type Site } from "../../app/lib/astro/visibility";
-import type { MoonCategory } from "../../app/lib/astro/visibility";
+import type { MoonCategory } from "../../app/lib/domain";
 import { benchServices } from "./services";
 
 const SITE: Site = { latitudeDeg: 31.3, longitudeDeg: -108.7, elevationM: 2100, timeZone: "America/Denver" }; // invented

@@ -6,6 +6,7 @@ import type { z } from "zod";
 import { runningTotals, type CellTotals } from "~/lib/allocation/running-totals";
 import type { SheetColumn, SheetRow } from "~/lib/allocation/sheet.server";
 import { allocationTiers } from "~/lib/domain";
+import { NONE } from "~/lib/format";
 import { allocationSheetSchema } from "~/lib/schemas/allocation";
 
 type SheetForm = z.input<typeof allocationSheetSchema>;
@@ -146,7 +147,7 @@ export function AllocationSheet({
                   <td>
                     {row.position}
                     <span className="block text-xs text-slate-600">
-                      computed {row.computedRank ?? "–"}
+                      computed {row.computedRank ?? NONE}
                       {row.chairRank !== null ? <span title={row.chairRankReason ?? undefined}> · chair {row.chairRank}</span> : null}
                     </span>
                   </td>

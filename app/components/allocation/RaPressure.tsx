@@ -2,9 +2,9 @@
 // the site offers in each one-hour bin of RA over the call's semester, by moon category; a bar
 // chart (plain SVG, drawn on the server too) and the table under it.
 import { Link } from "react-router";
+import { moonCategories as MOONS, type MoonCategory as Moon } from "~/lib/domain";
+import { NONE } from "~/lib/format";
 
-type Moon = "dark" | "grey" | "bright";
-const MOONS: Moon[] = ["dark", "grey", "bright"];
 type Split = Record<Moon, { darkHours: number; availableDarkHours: number; requestedHours: number }>;
 
 export type RaPressureView = {
@@ -200,7 +200,7 @@ export function RaPressure({ view }: { view: RaPressureView }) {
                       {MOONS.map((m) => <td key={`r-${m}`}>{h2(b.byMoonCategory[m].requestedHours)}</td>)}
                       <td className="font-semibold">{h2(b.requestedHours)}</td>
                       <td className={ratio !== null && ratio > 1 ? "font-semibold text-red-700" : ""}>
-                        {ratio !== null ? `${ratio.toFixed(2)}×` : b.requestedHours > 0 ? "no dark time" : "–"}
+                        {ratio !== null ? `${ratio.toFixed(2)}×` : b.requestedHours > 0 ? "no dark time" : NONE}
                       </td>
                     </tr>
                   );
@@ -214,7 +214,7 @@ export function RaPressure({ view }: { view: RaPressureView }) {
                   <td>{h1(r.availableDarkHours)}</td>
                   {MOONS.map((m) => <td key={`r-${m}`}>{h2(r.bins.reduce((s, b) => s + b.byMoonCategory[m].requestedHours, 0))}</td>)}
                   <td>{h2(r.requestedHours)}</td>
-                  <td>{r.availableDarkHours > 0 ? `${(r.requestedHours / r.availableDarkHours).toFixed(2)}×` : "–"}</td>
+                  <td>{r.availableDarkHours > 0 ? `${(r.requestedHours / r.availableDarkHours).toFixed(2)}×` : NONE}</td>
                 </tr>
               </tfoot>
             </table>

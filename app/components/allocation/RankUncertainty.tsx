@@ -2,8 +2,8 @@
 // says how reproducible the call's accepted list is and how many hours sit in the coin-flip band.
 import type { BoardUncertainty } from "~/lib/allocation/board-uncertainty";
 import { COIN_FLIP, DEFAULT_DRAWS } from "~/lib/allocation/rank-uncertainty";
+import { percent } from "~/lib/format";
 
-const percent = (x: number | null | undefined, digits = 0) => (x === null || x === undefined ? "–" : `${(x * 100).toFixed(digits)} %`);
 
 /** A bar over ranks 1…count: the 68 % interval, with a tick at the computed rank. */
 export function RankIntervalBar({ rank, interval, count }: { rank: number; interval: { low: number; high: number }; count: number }) {

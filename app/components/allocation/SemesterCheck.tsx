@@ -5,9 +5,8 @@ import { useEffect, useRef, useState } from "react";
 import { useRevalidator } from "react-router";
 import { Field, inputProps } from "~/components/Field";
 import type { SemesterCheckView } from "~/lib/allocation/semester-check.server";
+import { fixed, NONE, percent } from "~/lib/format";
 
-const pct = (x: number | null | undefined, digits = 0) => (x === null || x === undefined ? "–" : `${(x * 100).toFixed(digits)} %`);
-const num = (x: number | null | undefined, digits = 2) => (x === null || x === undefined ? "–" : x.toFixed(digits));
 const FLAG_TEXT = { "assured-below-goal": "assured below 90 %", "queue-below-goal": "queue below 50 %" } as const;
 
 /** A typed number as the API expects it; anything else goes as typed, for the server to name. */
@@ -91,7 +90,7 @@ export function SemesterCheck({ callId, latest }: { callId: number; latest: Seme
       {errors.form ? <p role="alert" className="field-error">{errors.form}</p> : null}
       {runningNow && job ? (
         <div className="space-y-1">
-          <div className="text-sm text-slate-700">{job.status === "queued" ? "Waiting for the check's worker…" : `Running ${job.realisations} realisations (seed ${job.seed})…`} {pct(job.progress)}</div>
+          <div className="text-sm text-slate-700">{job.status === "queued" ? "Waiting for the check's worker…" : `Running ${job.realisations} realisations (seed ${job.seed})…`} {percent(job.progress)}</div>
           <div role="progressbar" aria-label="Semester check progress" aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(job.progress * 100)} className="h-3 w-full rounded bg-slate-100">
             <div className="h-3 rounded bg-sky-600 transition-all" style={{ width: `${Math.round(job.progress * 100)}%` }} />
           </div>
@@ -106,7 +105,7 @@ export function SemesterCheck({ callId, latest }: { callId: number; latest: Seme
       {result ? (
         <div className="space-y-3">
           <p className="text-sm text-slate-700">
-            Run of {shown!.finishedAt ? `${shown!.finishedAt.slice(0, 16).replace("T", " ")} UTC` : "–"}: {result.realisations} realisations, seed {result.seed}. Flags: assured below {result.goals.assured * 100} % completion, queue below {result.goals.queue * 100} %.
+            Run of {shown!.finishedAt ? `${shown!.finishedAt.slice(0, 16).replace("T", " ")} UTC` : NONE}: {result.realisations} realisations, seed {result.seed}. Flags: assured below {result.goals.assured * 100} % completion, queue below {result.goals.queue * 100} %.
           </p>
           {result.notes.length ? <ul className="list-disc pl-5 text-sm text-amber-900">{result.notes.map((n) => <li key={n}>{n}</li>)}</ul> : null}
           <div className="overflow-x-auto">
@@ -117,28 +116,28 @@ export function SemesterCheck({ callId, latest }: { callId: number; latest: Seme
               <tbody>
                 {result.programmes.map((p) => (
                   <tr key={p.proposalId} data-testid={`check-${p.proposalId}`}>
-                    <td>{p.code ?? "–"}</td>
+                    <td>{p.code ?? NONE}</td>
                     <td>
                       {p.title}
                       {p.notes.length ? <ul className="mt-1 text-xs text-slate-600">{p.notes.map((n) => <li key={n}>{n}</li>)}</ul> : null}
                     </td>
                     <td>{p.tier}</td>
-                    <td>{num(p.allocatedHours, 1)}</td>
+                    <td>{fixed(p.allocatedHours, 1)}</td>
                     <td>{p.plannedVisits === p.wantedVisits ? p.plannedVisits : `${p.plannedVisits} of ${p.wantedVisits}`}</td>
-                    <td data-testid="completion">{pct(p.completionProbability)}</td>
-                    <td>{num(p.expectedExecutedHours, 1)} h ({pct(p.expectedExecutedFraction)})</td>
-                    <td>{p.epochs ? `${num(p.epochs.expectedAchieved, 1)} of ${p.epochs.planned}${p.epochs.planned < p.epochs.wanted ? ` (${p.epochs.wanted} wanted)` : ""}` : "–"}</td>
+                    <td data-testid="completion">{percent(p.completionProbability)}</td>
+                    <td>{fixed(p.expectedExecutedHours, 1)} h ({percent(p.expectedExecutedFraction)})</td>
+                    <td>{p.epochs ? `${fixed(p.epochs.expectedAchieved, 1)} of ${p.epochs.planned}${p.epochs.planned < p.epochs.wanted ? ` (${p.epochs.wanted} wanted)` : ""}` : NONE}</td>
                     <td>
                       {p.astrometry.length === 0
-                        ? "–"
+                        ? NONE
                         : p.astrometry.map((a) => (
                             <div key={a.observationId}>
-                              {num(a.expectedPmPrecisionMasPerYr, 3)} / {num(a.requiredPmPrecisionMasPerYr, 3)}
-                              {a.probabilityMet !== null ? <span className="text-xs text-slate-600"> (met in {pct(a.probabilityMet)})</span> : null}
+                              {fixed(a.expectedPmPrecisionMasPerYr, 3)} / {fixed(a.requiredPmPrecisionMasPerYr, 3)}
+                              {a.probabilityMet !== null ? <span className="text-xs text-slate-600"> (met in {percent(a.probabilityMet)})</span> : null}
                             </div>
                           ))}
                     </td>
-                    <td>{p.flag ? <span className="rounded bg-red-100 px-1.5 py-0.5 text-red-900">{FLAG_TEXT[p.flag]}</span> : "–"}</td>
+                    <td>{p.flag ? <span className="rounded bg-red-100 px-1.5 py-0.5 text-red-900">{FLAG_TEXT[p.flag]}</span> : NONE}</td>
                   </tr>
                 ))}
                 {result.programmes.length === 0 ? <tr><td colSpan={10}>No programme has a tier yet: fill by rank or set tiers first.</td></tr> : null}
@@ -152,11 +151,11 @@ export function SemesterCheck({ callId, latest }: { callId: number; latest: Seme
                 <tr key={t.telescopeId}>
                   <td>{telescopeName(t.telescopeId)}</td>
                   <td>{t.nights}</td>
-                  <td>{num(t.darkHours, 1)}</td>
-                  <td>{num(t.expectedClearDarkHours, 1)}</td>
-                  <td>{num(t.expectedUsedHours, 1)}</td>
-                  <td>{pct(t.expectedUseOfDark, 1)}</td>
-                  <td>{pct(t.expectedUseOfClearDark, 1)}</td>
+                  <td>{fixed(t.darkHours, 1)}</td>
+                  <td>{fixed(t.expectedClearDarkHours, 1)}</td>
+                  <td>{fixed(t.expectedUsedHours, 1)}</td>
+                  <td>{percent(t.expectedUseOfDark, 1)}</td>
+                  <td>{percent(t.expectedUseOfClearDark, 1)}</td>
                 </tr>
               ))}
             </tbody>

@@ -3,13 +3,13 @@
 import { lazy } from "react";
 import { ChartPlaceholder, ClientOnly } from "~/components/ClientOnly";
 import type { EpochProgress } from "~/lib/epochs/epochs.server";
+import { fixed } from "~/lib/format";
 import { EpochCalendar, type CalendarMark } from "./EpochCalendar";
 
 const EpochProgressChart = lazy(() => import("./EpochChart").then((m) => ({ default: m.EpochProgressChart })));
 
 type Observation = EpochProgress["observations"][number];
 type Reached = Observation["reachedSoFar"];
-const fx = (x: number | null | undefined, d = 2) => (x === null || x === undefined ? "—" : x.toFixed(d));
 
 function PrecisionCell({ label, p, testId, met }: { label: string; p: Reached | null; testId: string; met?: boolean | null }) {
   return (
@@ -17,9 +17,9 @@ function PrecisionCell({ label, p, testId, met }: { label: string; p: Reached | 
       <p className="text-xs font-semibold uppercase tracking-wide text-slate-600">{label}</p>
       {p && p.determined && p.properMotionPrecisionMasPerYr ? (
         <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-3 text-sm tabular-nums">
-          <dt>σ(μα*)</dt><dd data-testid={`${testId}-pmra`}>{fx(p.properMotionPrecisionMasPerYr.ra, 3)} mas/yr</dd>
-          <dt>σ(μδ)</dt><dd data-testid={`${testId}-pmdec`}>{fx(p.properMotionPrecisionMasPerYr.dec, 3)} mas/yr</dd>
-          <dt>σ(ϖ)</dt><dd data-testid={`${testId}-plx`}>{fx(p.parallaxPrecisionMas, 3)} mas</dd>
+          <dt>σ(μα*)</dt><dd data-testid={`${testId}-pmra`}>{fixed(p.properMotionPrecisionMasPerYr.ra, 3)} mas/yr</dd>
+          <dt>σ(μδ)</dt><dd data-testid={`${testId}-pmdec`}>{fixed(p.properMotionPrecisionMasPerYr.dec, 3)} mas/yr</dd>
+          <dt>σ(ϖ)</dt><dd data-testid={`${testId}-plx`}>{fixed(p.parallaxPrecisionMas, 3)} mas</dd>
           <dt>epochs</dt><dd>{p.epochs}</dd>
         </dl>
       ) : (
@@ -39,8 +39,8 @@ export function PrecisionSummary({ o }: { o: Observation }) {
       <PrecisionCell label="Projected (remaining planned epochs taken)" p={o.projected} testId="projected" met={o.metProjected} />
       <div className="rounded-md border border-slate-200 p-3" data-testid="required">
         <p className="text-xs font-semibold uppercase tracking-wide text-slate-600">Required</p>
-        <p className="mt-1 text-sm tabular-nums">{o.required.properMotionPrecisionMasPerYr === null ? "no proper-motion requirement set" : `σ(μ) ≤ ${fx(o.required.properMotionPrecisionMasPerYr, 2)} mas/yr in each coordinate`}</p>
-        <p className="mt-1 text-xs text-slate-600">Per planned epoch {fx(o.perEpochPrecisionMas, 2)} mas (the feasibility sheet's), {fx(o.hoursPerEpoch, 2)} h on sky.</p>
+        <p className="mt-1 text-sm tabular-nums">{o.required.properMotionPrecisionMasPerYr === null ? "no proper-motion requirement set" : `σ(μ) ≤ ${fixed(o.required.properMotionPrecisionMasPerYr, 2)} mas/yr in each coordinate`}</p>
+        <p className="mt-1 text-xs text-slate-600">Per planned epoch {fixed(o.perEpochPrecisionMas, 2)} mas (the feasibility sheet's), {fixed(o.hoursPerEpoch, 2)} h on sky.</p>
       </div>
     </div>
   );
@@ -50,7 +50,7 @@ export function EpochViews({ progress, o, telescopeName }: { progress: EpochProg
   const executed = progress.executed.filter((e) => e.observationId === o.observationId);
   const planned = progress.planned.filter((e) => e.observationId === o.observationId);
   const marks: CalendarMark[] = [
-    ...executed.map((e) => ({ date: e.observedAt.slice(0, 10), kind: e.lost ? ("lost" as const) : ("executed" as const), label: e.lost ? `lost (${e.lost.cause})` : `executed, ${fx(e.precisionMas)} mas` })),
+    ...executed.map((e) => ({ date: e.observedAt.slice(0, 10), kind: e.lost ? ("lost" as const) : ("executed" as const), label: e.lost ? `lost (${e.lost.cause})` : `executed, ${fixed(e.precisionMas, 2)} mas` })),
     ...planned.map((p) => ({ date: p.date, kind: "planned" as const, label: "planned" })),
     ...(o.replan?.dates ?? []).map((d) => ({ date: d.date, kind: "replan" as const, label: "re-plan" })),
   ];
@@ -85,11 +85,11 @@ export function EpochViews({ progress, o, telescopeName }: { progress: EpochProg
                   <td>{e.lost ? `lost (${e.lost.cause})` : "executed"}</td>
                   <td>{telescopeName(e.telescopeId)}</td>
                   <td className="tabular-nums">{e.frames}</td>
-                  <td className="tabular-nums">{fx(e.fwhmArcsec)}</td>
-                  <td className="tabular-nums">{fx(e.snr, 0)}</td>
-                  <td className="tabular-nums">{e.lost ? "—" : `${fx(e.precisionMas)} (${e.precisionSource})`}</td>
-                  <td className="tabular-nums">{fx(e.parallaxFactors.ra, 3)}</td>
-                  <td className="tabular-nums">{fx(e.parallaxFactors.dec, 3)}</td>
+                  <td className="tabular-nums">{fixed(e.fwhmArcsec, 2)}</td>
+                  <td className="tabular-nums">{fixed(e.snr, 0)}</td>
+                  <td className="tabular-nums">{e.lost ? "—" : `${fixed(e.precisionMas, 2)} (${e.precisionSource})`}</td>
+                  <td className="tabular-nums">{fixed(e.parallaxFactors.ra, 3)}</td>
+                  <td className="tabular-nums">{fixed(e.parallaxFactors.dec, 3)}</td>
                 </tr>
               ))}
               {planned.map((p) => (
@@ -98,9 +98,9 @@ export function EpochViews({ progress, o, telescopeName }: { progress: EpochProg
                   <td>planned · {p.semesterCode}</td>
                   <td>{telescopeName(o.telescopeId)}</td>
                   <td colSpan={3}></td>
-                  <td className="tabular-nums">{fx(o.perEpochPrecisionMas)} expected</td>
-                  <td className="tabular-nums">{fx(p.parallaxFactors.ra, 3)}</td>
-                  <td className="tabular-nums">{fx(p.parallaxFactors.dec, 3)}</td>
+                  <td className="tabular-nums">{fixed(o.perEpochPrecisionMas, 2)} expected</td>
+                  <td className="tabular-nums">{fixed(p.parallaxFactors.ra, 3)}</td>
+                  <td className="tabular-nums">{fixed(p.parallaxFactors.dec, 3)}</td>
                 </tr>
               ))}
             </tbody>

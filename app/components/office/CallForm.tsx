@@ -2,7 +2,8 @@ import { useState } from "react";
 import { Form, useNavigation } from "react-router";
 import { moonCategories, teamVisibilities, teamVisibilityLabels } from "~/lib/domain";
 import { callSchema, currencies, offerField, type CallFormValues } from "~/lib/schemas/office";
-import { formatInZone, formatUtc, zonedLocalToUtc } from "~/lib/zoned-time";
+import { formatUtc } from "~/lib/format";
+import { formatInZone, zonedLocalToUtc } from "~/lib/zoned-time";
 import { CallReviewOptions } from "./CallReviewOptions";
 import { fieldId, FormError, Message, NumberField, OfficeFields, TextField, useField, useOfficeForm, type FormResult } from "./fields";
 

@@ -3,7 +3,7 @@ import { useEffect, useState } from "react";
 import { useForm } from "react-hook-form";
 import { Form, useLocation, useNavigation, useRevalidator, useSubmit } from "react-router";
 import { Field, inputProps } from "~/components/Field";
-import { utc } from "~/components/workspace";
+import { formatUtc as utc } from "~/lib/format";
 import { chargeKindLabels, chargeStateLabels, formatMoney } from "~/lib/payments/money";
 import { declarePagesSchema } from "~/lib/schemas/charges";
 import type { CheckoutReturn, TeamChargeView, PageChargeOffer } from "~/lib/payments/team.server";

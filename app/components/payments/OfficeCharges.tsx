@@ -5,7 +5,7 @@ import { useForm } from "react-hook-form";
 import { Form, useNavigation, useSubmit } from "react-router";
 import { Field, inputProps } from "~/components/Field";
 import { SortableTable } from "~/components/SortableTable";
-import { utc } from "~/components/workspace";
+import { formatUtc as utc } from "~/lib/format";
 import { chargeKindLabels, chargeStateLabels, formatMoney } from "~/lib/payments/money";
 import type { OfficeChargeView } from "~/lib/payments/office.server";
 import type { ActionFailure, FormValues } from "~/lib/forms";

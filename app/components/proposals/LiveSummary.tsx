@@ -1,6 +1,7 @@
 import { useEffect, useMemo } from "react";
 import { useFetcher } from "react-router";
-import { fixed } from "~/components/workspace";
+import { secondsPerEpoch } from "~/lib/astro/exposure";
+import { fixed, NONE } from "~/lib/format";
 import { issueLine } from "~/lib/forms";
 import type { ObservationFields, ObservationPageData } from "./observation-results";
 
@@ -44,7 +45,7 @@ export function LiveSummary({ values, data: d }: { values: ObservationFields; da
   const answer = fetcher.data;
   const frames = Number(values.framesPerEpoch) || 0;
   const epochs = Number(values.epochsPerSemester) || 0;
-  const perEpoch = answer?.exposureSeconds !== undefined && instrument ? frames * (answer.exposureSeconds + instrument.readoutSeconds) + instrument.acquisitionSeconds : null;
+  const perEpoch = answer?.exposureSeconds !== undefined && instrument ? secondsPerEpoch(frames, answer.exposureSeconds, instrument) : null;
   const stale = fetcher.state !== "idle";
   return (
     <aside aria-labelledby="live-title" aria-live="polite" className="card space-y-2 bg-night-50">
@@ -62,9 +63,9 @@ export function LiveSummary({ values, data: d }: { values: ObservationFields; da
           <dt className="text-slate-600">Limited by</dt>
           <dd className="text-right">{answer.regime?.replace(/-/g, " ")}</dd>
           <dt className="text-slate-600">Time per epoch</dt>
-          <dd className="text-right tabular-nums">{perEpoch !== null ? `${fixed(perEpoch / 60, 1)} min` : "—"}</dd>
+          <dd className="text-right tabular-nums">{perEpoch !== null ? `${fixed(perEpoch / 60, 1)} min` : NONE}</dd>
           <dt className="text-slate-600">Per semester ({epochs} epoch{epochs === 1 ? "" : "s"})</dt>
-          <dd data-testid="live-hours" className="text-right tabular-nums">{perEpoch !== null ? `${fixed((perEpoch * epochs) / 3600, 2)} h` : "—"}</dd>
+          <dd data-testid="live-hours" className="text-right tabular-nums">{perEpoch !== null ? `${fixed((perEpoch * epochs) / 3600, 2)} h` : NONE}</dd>
           {answer.saturated ? <dd className="col-span-2 font-semibold text-red-800">Saturates: peak {Math.round(answer.peakPixelElectrons ?? 0)} e⁻ ≥ full well {answer.fullWellE} e⁻. Shorten the frames and take more of them.</dd> : null}
         </dl>
       ) : (

@@ -4,7 +4,7 @@ import { Form, useActionData, useNavigation, useSubmit } from "react-router";
 import type { z } from "zod";
 import { AbstractField } from "~/components/AbstractField";
 import { Field, inputProps } from "~/components/Field";
-import { utc } from "~/components/workspace";
+import { formatUtc as utc } from "~/lib/format";
 import type { ActionFailure } from "~/lib/forms";
 import type { OverviewResult, OverviewValues } from "~/lib/proposals/proposals.server";
 import { scienceCategories, scienceCategoryLabel, scienceCategoryValues } from "~/lib/proposals/vocabulary";

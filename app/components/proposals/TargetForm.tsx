@@ -6,7 +6,8 @@ import type { z } from "zod";
 import { Field, inputProps } from "~/components/Field";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
 import type { TargetRow } from "~/lib/proposals/targets.server";
-import { TARGET_BANDS, targetSchema } from "~/lib/schemas/proposals";
+import { BANDS } from "~/lib/astro/bands";
+import { targetSchema } from "~/lib/schemas/proposals";
 import type { TargetActionResult } from "./target-results";
 
 type TargetFields = z.input<typeof targetSchema>;
@@ -62,7 +63,7 @@ export function TargetForm({ editing, onDone }: { editing: TargetRow | null; onD
         <legend className="text-sm font-semibold">Magnitudes (Vega), one per band you know</legend>
         <p className="text-xs text-slate-600">An observation in a band left empty is computed from the nearest band given, and the feasibility sheet says so.</p>
         <div className="mt-2 grid grid-cols-3 gap-3 sm:grid-cols-5">
-          {TARGET_BANDS.map((b) => <div key={b}>{field(`mag_${b}`, b, undefined, { inputMode: "decimal" })}</div>)}
+          {BANDS.map((b) => <div key={b}>{field(`mag_${b}`, b, undefined, { inputMode: "decimal" })}</div>)}
         </div>
       </fieldset>
       {field("notes", "Notes", "optional: finding notes, priority…")}

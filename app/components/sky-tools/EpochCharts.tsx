@@ -1,8 +1,8 @@
 // The epoch planner's parallax-factor chart (recharts), loaded on demand by EpochTool (React.lazy).
 import { CartesianGrid, ComposedChart, Line, ResponsiveContainer, Scatter, Tooltip, XAxis, YAxis } from "recharts";
 import { PARALLAX_FACTOR_TICKS, halfYearTicks } from "~/components/chart-ticks";
-import { fmt } from "./live";
 import type { EpochAnswer } from "./EpochTool";
+import { grouped as fmt } from "~/lib/format";
 
 export function ParallaxChart({ plan }: { plan: EpochAnswer }) {
   const curve = plan.parallaxCurve.map((c) => ({ t: Date.parse(c.date), ra: c.ra, dec: c.dec }));

@@ -5,7 +5,8 @@ import { Field, inputProps } from "~/components/Field";
 import type { FitPrecision, Plan } from "~/lib/astro/astrometry";
 import { plainIssue } from "~/lib/forms";
 import { LiveStatusLine, TelescopePicker } from "./LiveStatus";
-import { compact, fmt, isoDateInput, issuesByField, useLiveApi, type SkyTelescope } from "./live";
+import { compact, isoDateInput, issuesByField, useLiveApi, type SkyTelescope } from "./live";
+import { grouped as fmt } from "~/lib/format";
 
 const ParallaxChartLazy = lazy(() => import("./EpochCharts").then((m) => ({ default: m.ParallaxChart })));
 

@@ -1,9 +1,10 @@
 import { useForm } from "react-hook-form";
 import { Field, inputProps } from "~/components/Field";
 import type { ExposureResult } from "~/lib/astro/exposure";
-import { BANDS } from "~/lib/astro/photometry";
+import { BANDS } from "~/lib/astro/bands";
 import { LiveStatusLine, TelescopePicker } from "./LiveStatus";
-import { compact, fmt, issuesByField, useLiveApi, type SkyTelescope } from "./live";
+import { compact, issuesByField, useLiveApi, type SkyTelescope } from "./live";
+import { grouped as fmt } from "~/lib/format";
 
 export type ExposureForm = {
   /** a telescope id (its aperture and obstruction), or "custom" for the two fields below */

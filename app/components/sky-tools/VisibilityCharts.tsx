@@ -1,8 +1,9 @@
 // The Visibility tool's charts (recharts), loaded on demand by VisibilityTool (React.lazy).
 import { Bar, BarChart, CartesianGrid, Cell, Line, LineChart, ReferenceArea, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
 import { ALTITUDE_TICKS, wholeHourTicks } from "~/components/chart-ticks";
-import { MOON_COLOURS, fmt, localTime } from "./live";
+import { MOON_COLOURS, localTime } from "./live";
 import type { Curve } from "./VisibilityTool";
+import { grouped as fmt } from "~/lib/format";
 
 export function AltitudeChart({ curve, limit, timeZone }: { curve: Curve; limit: number; timeZone: string }) {
   const data = curve.points.map((p) => ({ t: Date.parse(p.time), target: p.targetAltDeg, sun: p.sunAltDeg, moon: p.moonAltDeg }));

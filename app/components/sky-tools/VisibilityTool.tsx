@@ -4,8 +4,10 @@ import { ChartPlaceholder, ClientOnly } from "~/components/ClientOnly";
 import { Field, inputProps } from "~/components/Field";
 import { airmass } from "~/lib/astro/airmass";
 import type { VisibilityJson } from "~/lib/astro/visibility";
+import { moonCategories } from "~/lib/domain";
 import { LiveStatusLine, TelescopePicker } from "./LiveStatus";
-import { MOON_COLOURS, fmt, isoDateInput, issuesByField, localTime, useLiveApi, utcTime, type SkyTelescope } from "./live";
+import { MOON_COLOURS, isoDateInput, issuesByField, localTime, useLiveApi, utcTime, type SkyTelescope } from "./live";
+import { grouped as fmt } from "~/lib/format";
 
 // recharts is a large chunk: loaded in the browser only, by the pages that draw a chart
 const AltitudeChartLazy = lazy(() => import("./VisibilityCharts").then((m) => ({ default: m.AltitudeChart })));
@@ -192,7 +194,7 @@ function HoursFigure({ answer }: { answer: VisibilityAnswer }) {
         </ClientOnly>
       </div>
       <p className="flex gap-4 text-xs text-slate-600">
-        {(["dark", "grey", "bright"] as const).map((c) => (
+        {moonCategories.map((c) => (
           <span key={c} className="inline-flex items-center gap-1">
             <span className="inline-block h-3 w-3 rounded-sm" style={{ background: MOON_COLOURS[c] }} /> {c}
           </span>

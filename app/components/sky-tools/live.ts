@@ -129,13 +129,6 @@ export const STATUS_TEXT: Record<LiveStatus, string> = {
   failed: "Not recomputed. The numbers below are for the last inputs that worked.",
 };
 
-export const fmt = (x: number | null | undefined, digits = 2) => {
-  if (x === null || x === undefined || !Number.isFinite(x)) return "—";
-  const text = x.toLocaleString("en-GB", { maximumFractionDigits: digits, minimumFractionDigits: digits });
-  // no "-0.000": a value that rounds to zero is shown as zero
-  return /^-0(\.0*)?$/.test(text) ? text.slice(1) : text;
-};
-
 export const utcTime = (iso: string | null) => (iso ? iso.slice(11, 16) : "—");
 
 /** Local wall-clock HH:MM of an ISO instant in an IANA zone (for display beside UTC). */

@@ -4,6 +4,7 @@
 import { data } from "react-router";
 import { Op } from "sequelize";
 import { limitAltitude, prepareSiteNights } from "~/lib/astro/visibility";
+import { moonCategories } from "~/lib/domain";
 import { nightsInSemester, type FeasibilitySheet } from "~/lib/proposals/feasibility";
 import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
 import { callNotFound } from "~/lib/review/chair.server";
@@ -76,7 +77,7 @@ export async function callRaPressure({ callId, telescopeId, sheets }: { callId: 
   const codeOf = new Map(proposals.map((p) => [p.id, p.code]));
   const roundSplit = (b: (typeof result.bins)[number]["byMoonCategory"]) =>
     Object.fromEntries(
-      (["dark", "grey", "bright"] as const).map((c) => [c, { darkHours: round(b[c].darkHours), availableDarkHours: round(b[c].availableDarkHours), requestedHours: round(b[c].requestedHours) }]),
+      moonCategories.map((c) => [c, { darkHours: round(b[c].darkHours), availableDarkHours: round(b[c].availableDarkHours), requestedHours: round(b[c].requestedHours) }]),
     ) as typeof b;
   return {
     call: { id: call.id, semesterCode: call.semesterCode },

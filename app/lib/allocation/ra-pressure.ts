@@ -23,13 +23,13 @@ import {
   moonSegments,
   targetNights,
   type Interval,
-  type MoonCategory,
   type PreparedSite,
   type SiteNight,
 } from "../astro/visibility";
+import { moonCategories, type MoonCategory } from "../domain";
 
 export const RA_BINS = 24;
-const CATEGORIES: readonly MoonCategory[] = ["dark", "grey", "bright"];
+const CATEGORIES = moonCategories;
 const DEG_PER_MS = SIDEREAL_RATE_DEG_PER_DAY / DAY_MS;
 const HOUR_MS = 3_600_000;
 

@@ -11,7 +11,6 @@ import {
   planEpochs,
   precisionForMovedEpochs,
   properMotionForVelocity,
-  semesterOf,
   tangentialVelocityKmS,
 } from "./astrometry";
 import type { Site } from "./visibility";
@@ -139,15 +138,6 @@ describe("API-shaped fit and moved epochs", () => {
   });
 });
 
-describe("semesters", () => {
-  it("A = 1 Feb – 31 Jul, B = 1 Aug – 31 Jan (January belongs to the previous year's B)", () => {
-    expect(semesterOf("2027-02-01")).toBe("2027A");
-    expect(semesterOf("2027-07-31")).toBe("2027A");
-    expect(semesterOf("2027-08-01")).toBe("2027B");
-    expect(semesterOf("2028-01-31")).toBe("2027B");
-  });
-});
-
 describe("epoch planner", () => {
   const site: Site = { latitudeDeg: 31.3, longitudeDeg: -108.7, elevationM: 2100, timeZone: "America/Denver" }; // invented
   const target = { raDeg: 84.2, decDeg: 18.5 };
@@ -171,6 +161,24 @@ describe("epoch planner", () => {
     // greedy placement beats the same number of epochs bunched in the first season
     const bunched = fitPrecision(target.raDeg, target.decDeg, times.map((_, i) => ({ time: times[0] + i * 10 * DAY, sigmaMas: 4 })));
     expect(plan.precision.properMotionPrecisionMasPerYr.ra).toBeLessThan(bunched.properMotionPrecisionMasPerYr.ra);
+  });
+
+  it("names each epoch's semester by the office's dates for the calls, not by a fixed Feb/Aug rule", () => {
+    // invented calls whose semesters run October–March and April–September
+    const semesters = [
+      { code: "2027B", start: "2027-10-01", end: "2028-03-31" },
+      { code: "2028A", start: "2028-04-01", end: "2028-09-30" },
+    ];
+    const plan = planEpochs({ site, target, firstDate: "2027-10-01", baselineYears: 1, epochs: 8, perEpochPrecisionMas: 4, limit: { maxAirmass: 1.6 }, secondsPerEpoch: 1800, semesters });
+    expect(plan.epochs).toHaveLength(8);
+    // the months where the two rules disagree (Feb–Mar: 2027B here, 2028A by Feb/Aug) hold epochs
+    expect(plan.epochs.filter((e) => e.date >= "2028-02-01" && e.date <= "2028-03-31").length).toBeGreaterThan(0);
+    for (const e of plan.epochs) expect([e.date, e.semester]).toEqual([e.date, e.date <= "2028-03-31" ? "2027B" : "2028A"]);
+    const count = (code: string) => plan.epochs.filter((e) => (code === "2027B" ? e.date <= "2028-03-31" : e.date > "2028-03-31")).length;
+    expect(plan.perSemester).toEqual([
+      { semester: "2027B", epochs: count("2027B"), hours: count("2027B") / 2 },
+      ...(count("2028A") ? [{ semester: "2028A", epochs: count("2028A"), hours: count("2028A") / 2 }] : []),
+    ]);
   });
 
   it("re-plans after epochs already taken (fixed): they enter the fit with their own precision", () => {

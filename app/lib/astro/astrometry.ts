@@ -14,6 +14,7 @@ import * as Astro from "astronomy-engine";
 import { DEG, type Target } from "./coordinates";
 import { prepareSiteNights, targetNights, limitAltitude, type Limit, type Site } from "./visibility";
 import { DAY_MS, addDays, dayNumber, utDays } from "./time";
+import { semesterOf, type SemesterSpan } from "../semesters";
 
 /** km/s per (arcsec/yr · pc): 1 au per Julian year. v_t = K · μ · d. */
 export const KM_S_PER_ARCSEC_YR_PC = 4.74047;
@@ -172,56 +173,6 @@ export function astrometryForDates(a: { raDeg: number; decDeg: number; epochs: s
   };
 }
 
-export type SemesterRule = { aStartMonth: number; bStartMonth: number };
-/** Semester A = 1 Feb – 31 Jul, B = 1 Aug – 31 Jan (our default; calls may set their own). */
-export const DEFAULT_SEMESTERS: SemesterRule = { aStartMonth: 2, bStartMonth: 8 };
-
-export function semesterOf(date: string, rule: SemesterRule = DEFAULT_SEMESTERS): string {
-  const y = Number(date.slice(0, 4));
-  const m = Number(date.slice(5, 7));
-  if (m >= rule.aStartMonth && m < rule.bStartMonth) return `${y}A`;
-  return m >= rule.bStartMonth ? `${y}B` : `${y - 1}B`;
-}
-
-/** One semester of a plan: its code and first and last nights (local dates), as the office set them. */
-export type SemesterSpan = { code: string; start: string; end: string };
-
-function addMonths(date: string, months: number): string {
-  const y = Number(date.slice(0, 4));
-  const m = Number(date.slice(5, 7)) - 1 + months;
-  const d = date.slice(8, 10);
-  const yy = y + Math.floor(m / 12);
-  const mm = ((m % 12) + 12) % 12;
-  return `${yy}-${String(mm + 1).padStart(2, "0")}-${d}`;
-}
-
-function nextCode(code: string): string | null {
-  const m = /^(\d{4})([AB])$/.exec(code);
-  if (!m) return null;
-  return m[2] === "A" ? `${m[1]}B` : `${Number(m[1]) + 1}A`;
-}
-
-/**
- * `count` consecutive semesters from `first` (the call's own). A later semester takes the dates
- * of a call the office has set up for it (`known`) when there is one; otherwise it starts the day
- * after the previous one ends and lasts six months.
- */
-export function semesterSequence(first: SemesterSpan, count: number, known: SemesterSpan[] = []): SemesterSpan[] {
-  const out: SemesterSpan[] = [first];
-  for (let i = 1; i < count; i++) {
-    const prev = out[i - 1];
-    const code = nextCode(prev.code) ?? `${first.code}+${i}`;
-    const hit = known.find((k) => k.code === code);
-    if (hit) {
-      out.push(hit);
-      continue;
-    }
-    const start = addDays(prev.end, 1);
-    out.push({ code, start, end: addDays(addMonths(start, 6), -1) });
-  }
-  return out;
-}
-
 /** Default tolerance of a planned epoch: ± this many nights. */
 export const EPOCH_TOLERANCE_NIGHTS = 7;
 /** An epoch whose tolerance window has fewer usable nights than this is fragile (weather). */
@@ -242,7 +193,11 @@ export type PlanInput = {
   secondsPerEpoch?: number;
   /** shortest useful window in a night (hours) */
   minWindowHours?: number;
-  semesters?: SemesterRule;
+  /**
+   * The office's semesters (the calls' own dates), which name the semester of each epoch; a night
+   * outside them follows on from the last one before it (lib/semesters semesterOf).
+   */
+  semesters?: SemesterSpan[];
   maxEpochs?: number;
   /**
    * Epochs per semester: the plan places exactly `epochs` in each listed semester (inside its

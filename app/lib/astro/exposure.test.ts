@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { ccdEquation, computeExposure, rates, snrForTime, timeForSnr, type ExposureInput } from "./exposure";
-import { BANDS, ZERO_POINTS, collectingAreaCm2 } from "./photometry";
+import { BANDS } from "./bands";
+import { ZERO_POINTS, collectingAreaCm2 } from "./photometry";
 
 const camera = { throughput: 0.6, pixelScaleArcsec: 0.3, readNoiseE: 5, darkEPerPixelPerS: 0.002, fullWellE: 100_000 };
 const base: ExposureInput = {

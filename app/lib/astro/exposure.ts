@@ -12,7 +12,9 @@
 //   not extinguished again: tabulated sky brightness is what the site sees.
 // - Peak pixel: a Gaussian PSF centred on a pixel puts erf(p / (2√2 σ))² of the light in it.
 
-import { collectingAreaCm2, EXTINCTION, SKY_BRIGHTNESS, ZERO_POINTS, type Band } from "./photometry";
+import type { Band } from "./bands";
+import type { MoonCategory } from "../domain";
+import { collectingAreaCm2, EXTINCTION, SKY_BRIGHTNESS, ZERO_POINTS } from "./photometry";
 
 export type ExposureInput = {
   band: Band;
@@ -20,7 +22,7 @@ export type ExposureInput = {
   airmass: number;
   seeingArcsec: number;
   skyMagPerArcsec2?: number;
-  moonCategory?: "dark" | "grey" | "bright";
+  moonCategory?: MoonCategory;
   extinctionMagPerAirmass?: number;
   /** photons s⁻¹ cm⁻² of a magnitude-0 star over the band; BCP98 when omitted */
   zeroPointPhotons?: number;
@@ -152,4 +154,13 @@ export function computeExposure(input: ExposureInput): ExposureResult {
 /** The CCD equation itself, for checks against worked examples. */
 export function ccdEquation(a: { sourceElectrons: number; pixels: number; skyPerPixel: number; darkPerPixel: number; readNoiseE: number }): number {
   return a.sourceElectrons / Math.sqrt(a.sourceElectrons + a.pixels * (a.skyPerPixel + a.darkPerPixel + a.readNoiseE ** 2));
+}
+
+/**
+ * Time on sky for one epoch (one visit): each frame's exposure plus its readout, then the
+ * instrument's acquisition (slew, acquisition and set-up) once per visit. The feasibility sheet
+ * and the live summary of the observation form both count it this way.
+ */
+export function secondsPerEpoch(frames: number, exposureSeconds: number, instrument: { readoutSeconds: number; acquisitionSeconds: number }): number {
+  return frames * (exposureSeconds + instrument.readoutSeconds) + instrument.acquisitionSeconds;
 }

@@ -19,7 +19,7 @@
 // of Holmberg et al. 2006 / Ramírez et al. 2012) and use the band's own extinction coefficient.
 // That is an approximation: Rayleigh scattering makes moonlit sky bluer than the Sun.
 
-import type { Band } from "./photometry";
+import type { Band } from "./bands";
 
 const DEG = Math.PI / 180;
 

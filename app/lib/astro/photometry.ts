@@ -1,7 +1,7 @@
 // Photometric system data: zero points, sky brightness and extinction per band.
 
-export type Band = "U" | "B" | "V" | "R" | "I";
-export const BANDS: Band[] = ["U", "B", "V", "R", "I"];
+import { BANDS, type Band } from "./bands";
+import type { MoonCategory } from "../domain";
 
 const H_C_ERG_CM = 6.62607015e-27 * 2.99792458e10;
 
@@ -47,7 +47,7 @@ export const ZERO_POINT_SOURCE = "Bessell, Castelli & Plez (1998), Table A2 (fro
  * solar activity, zenith distance and the Moon's distance from the field; with the Moon's
  * position given, astro/moonlight.ts models the moonlit sky instead.
  */
-export const SKY_BRIGHTNESS: Record<Band, Record<"dark" | "grey" | "bright", number>> = {
+export const SKY_BRIGHTNESS: Record<Band, Record<MoonCategory, number>> = {
   U: { dark: 21.9, grey: 20.2, bright: 18.3 },
   B: { dark: 22.5, grey: 21.2, bright: 19.5 },
   V: { dark: 21.6, grey: 20.7, bright: 19.4 },

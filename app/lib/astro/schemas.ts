@@ -2,9 +2,10 @@
 // as JSON numbers or as the strings a form or a query string carries; an empty string is "missing".
 import { z } from "zod";
 import { parseDec, parseRa } from "./coordinates";
-import { BANDS } from "./photometry";
-import { canonicalTimeZone, TIME_ZONE_MAX_LENGTH } from "../time-zones";
-import { isIsoDate, isValidTimeZone } from "./time";
+import { BANDS } from "./bands";
+import { moonCategories } from "../domain";
+import { timeZoneSchema } from "../time-zones";
+import { isIsoDate } from "./time";
 
 const blankToUndefined = (v: unknown) => (v === "" || v === null ? undefined : typeof v === "string" ? Number(v.trim()) : v);
 
@@ -42,11 +43,7 @@ export const dateField = z
   .refine((d) => d >= "1900-01-01" && d <= "2199-12-31", { error: "must lie between 1900 and 2199" });
 
 // Canonicalised ("europe/madrid" → "Europe/Madrid"), so the caches keyed by zone see one name per zone.
-export const timeZoneField = z
-  .string()
-  .max(TIME_ZONE_MAX_LENGTH, { error: "must be an IANA time zone, e.g. Europe/Madrid" })
-  .refine(isValidTimeZone, { error: "must be an IANA time zone, e.g. Europe/Madrid" })
-  .transform((zone) => canonicalTimeZone(zone) ?? zone);
+export const timeZoneField = timeZoneSchema("must be an IANA time zone, e.g. Europe/Madrid");
 
 const idField = z.preprocess(blankToUndefined, z.number({ error: "must be a numeric id" }).int({ error: "must be a numeric id" }).positive({ error: "must be a numeric id" }).max(4_294_967_295, { error: "must be a numeric id" }));
 
@@ -114,7 +111,7 @@ export const exposureBodySchema = z
       .optional(),
     seeingArcsec: num("seeingArcsec", 0.1, 10),
     skyMagPerArcsec2: optionalNum("skyMagPerArcsec2", 10, 25),
-    moonCategory: z.enum(["dark", "grey", "bright"], { error: "moonCategory must be dark, grey or bright" }).optional(),
+    moonCategory: z.enum(moonCategories, { error: `moonCategory must be ${moonCategories.slice(0, -1).join(", ")} or ${moonCategories.at(-1)}` }).optional(),
     extinctionMagPerAirmass: optionalNum("extinctionMagPerAirmass", 0, 3),
     telescope: telescopeBody.optional(),
     telescopeId: idField.optional(),

@@ -4,9 +4,7 @@ export const DAY_MS = 86_400_000;
 export const J2000_UTC_MS = Date.UTC(2000, 0, 1, 12, 0, 0);
 
 import { Lru } from "../lru";
-import { isValidTimeZone, requireTimeZone } from "../time-zones";
-
-export { isValidTimeZone };
+import { requireTimeZone } from "../time-zones";
 
 // One formatter per canonical zone (a spelling is canonicalised first), at most 128 kept.
 const formatters = new Lru<string, Intl.DateTimeFormat>(128);

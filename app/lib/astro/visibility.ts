@@ -22,10 +22,9 @@ import * as Astro from "astronomy-engine";
 import { DEG, directionAt, toRaDec, vectorSeparationDeg, type Target, type Vec3 } from "./coordinates";
 import { altitudeForAirmass } from "./airmass";
 import { DAY_MS, addDays, dayNumber, isoTime, localDate, utDays, zoneOffsetMs } from "./time";
+import type { MoonCategory } from "../domain";
 
 export type Site = { latitudeDeg: number; longitudeDeg: number; elevationM: number; timeZone: string };
-
-export type MoonCategory = "dark" | "grey" | "bright";
 
 /**
  * Moon categories. Time counts as dark while the Moon's centre is below the horizon (geometric

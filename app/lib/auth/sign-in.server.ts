@@ -11,6 +11,7 @@ import { TOTPStrategy } from "remix-auth-totp";
 import { Op, QueryTypes, Transaction } from "sequelize";
 import { RateLimitKey, sequelize, SignInCode, SignInRequest, User } from "~/models/index.server";
 import { writeAudit } from "../audit.server";
+import { INVALID_EMAIL_MESSAGE, normaliseEmail } from "../email";
 import { env } from "../env.server";
 import { enqueueMail } from "../mail/queue.server";
 import { signInCodeMail } from "../mail/templates.server";
@@ -48,7 +49,7 @@ const strategy = new TOTPStrategy<null>(
     magicLinkPath: MAGIC_LINK_PATH,
     totpGeneration: { period: CODE_LIFETIME_SECONDS, maxAttempts: MAX_CODE_ATTEMPTS, charSet: CODE_ALPHABET },
     customErrors: {
-      invalidEmail: "Enter a valid e-mail address, like name@institute.example.",
+      invalidEmail: INVALID_EMAIL_MESSAGE,
       invalidTotp: "That code is not right. Check the e-mail and try again, or ask for a new code.",
       expiredTotp: "That code has expired. Ask for a new one below.",
       missingSessionEmail: "Start again from this browser: ask for a new code.",
@@ -204,7 +205,7 @@ export async function verifySignInCode(request: Request, { code }: { code?: stri
   const record = await SignInCode.findOne({ where: { tokenHash: sha256(jwe) } });
   if (!record) throw await failWith(request, "No code is waiting for this browser: ask for a new one.");
 
-  const claimed = totpFields((request.headers.get("Cookie") ?? "").split(";"))?.email?.trim().toLowerCase();
+  const claimed = normaliseEmail(totpFields((request.headers.get("Cookie") ?? "").split(";"))?.email ?? "") || undefined;
   if (claimed && claimed !== record.email) {
     await SignInCode.update({ attempts: MAX_CODE_ATTEMPTS }, { where: { id: record.id } });
     await writeAudit({

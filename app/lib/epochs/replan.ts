@@ -1,7 +1,8 @@
 // A re-plan of an observation's remaining epochs (pure): the planner (astro/astrometry.ts
 // planEpochs) over the semesters that still hold planned epochs, the same number of epochs in
 // each, from tomorrow on, with the epochs already taken fixed in the fit.
-import { planEpochs, type SemesterSpan } from "~/lib/astro/astrometry";
+import { planEpochs } from "~/lib/astro/astrometry";
+import type { SemesterSpan } from "~/lib/semesters";
 import { addDays, dayNumber } from "~/lib/astro/time";
 import type { Site } from "~/lib/astro/visibility";
 

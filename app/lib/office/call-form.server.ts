@@ -2,6 +2,7 @@
 // and a stored call turned back into the form's wall-clock values.
 import { listTelescopes, observatoryTimeZone, type getCall } from "./office.server";
 import { utcToZonedLocal } from "../zoned-time";
+import { semesterAfter } from "../semesters";
 import { DEFAULT_REVIEWS_PER_SUBMITTER } from "../review/vocabulary";
 import type { CallFormValues } from "~/lib/schemas/office";
 
@@ -55,15 +56,6 @@ export function emptyCallForm(latest: { semesterCode: string; semesterEnd: strin
 }
 
 function nextSemester(latest: { semesterCode: string; semesterEnd: string }) {
-  const year = Number(latest.semesterCode.slice(0, 4));
-  const code = latest.semesterCode.endsWith("A") ? `${year}B` : `${year + 1}A`;
-  const end = new Date(`${latest.semesterEnd}T00:00:00Z`);
-  const start = new Date(end.getTime() + 86_400_000);
-  const last = new Date(Date.UTC(start.getUTCFullYear(), start.getUTCMonth() + 6, 0));
-  return {
-    semesterCode: code,
-    title: `Call for proposals ${code}`,
-    semesterStart: start.toISOString().slice(0, 10),
-    semesterEnd: last.toISOString().slice(0, 10),
-  };
+  const next = semesterAfter({ code: latest.semesterCode, end: latest.semesterEnd });
+  return { semesterCode: next.code, title: `Call for proposals ${next.code}`, semesterStart: next.start, semesterEnd: next.end };
 }

@@ -3,6 +3,8 @@
 // the message belongs to, never a database error surfacing as a 500.
 import { Refusal } from "~/lib/forms";
 import { ForeignKeyConstraintError, Op, UniqueConstraintError, type Transaction } from "sequelize";
+import { callPhase, type CallPhase } from "~/lib/call-phase";
+import { currentCallsWhere } from "~/lib/call-phase.server";
 import { moonCategories, type MoonCategory } from "~/lib/domain";
 import type { CallInput, FilterInput, InstrumentInput, TelescopeInput } from "~/lib/schemas/office";
 import { Call, CallOffer, Filter, Instrument, Observation, Proposal, sequelize, Telescope } from "~/models/index.server";
@@ -467,7 +469,7 @@ export async function updateCall({ actor, callId, values }: { actor: Actor; call
 /** Calls whose deadline has not passed (open, or announced with a later opening), for everyone. */
 export async function listPublicCalls({ now = new Date() }: { now?: Date } = {}) {
   const calls = await Call.findAll({
-    where: { deadlineAt: { [Op.gt]: now } },
+    where: currentCallsWhere(now),
     include: [{ model: CallOffer, as: "offers", include: [{ model: Telescope, as: "telescope" }] }],
     order: [["deadlineAt", "ASC"]],
   });
@@ -490,7 +492,7 @@ export async function listPublicCalls({ now = new Date() }: { now?: Date } = {})
     const list = [...telescopes.values()].sort((a, b) => b.apertureM - a.apertureM);
     return {
       ...plainCall(c),
-      status: c.opensAt <= now ? ("open" as const) : ("announced" as const),
+      status: callPhase(c, now) as Exclude<CallPhase, "closed">,
       telescopes: list,
       timeZones: [...new Set(list.map((t) => t.timeZone))],
     };

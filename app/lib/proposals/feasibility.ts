@@ -30,17 +30,15 @@ import {
   epochPrecisionMas,
   fitPrecision,
   roundNoNegativeZero,
-  semesterSequence,
-  type SemesterSpan,
   parallaxFactors,
   planEpochs,
-  semesterOf,
   type Plan,
 } from "../astro/astrometry";
 import type { Target as AstroTarget } from "../astro/coordinates";
-import { computeExposure, type ExposureResult } from "../astro/exposure";
-import { BANDS, type Band } from "../astro/photometry";
+import { computeExposure, secondsPerEpoch, type ExposureResult } from "../astro/exposure";
+import { BANDS, isBand, type Band } from "../astro/bands";
 import { DAY_MS, dayNumber } from "../astro/time";
+import { semesterSequence, type SemesterSpan } from "../semesters";
 import {
   MOON_CATEGORY_THRESHOLDS,
   MOON_TIME_RULE,
@@ -53,10 +51,10 @@ import {
   prepareSiteNights,
   summarise,
   targetNights,
-  type MoonCategory,
   type Site,
   type TargetNight,
 } from "../astro/visibility";
+import { moonCategories, type MoonCategory } from "../domain";
 
 // ---------------------------------------------------------------------------------------------
 // Input
@@ -320,7 +318,7 @@ export function nightsInSemester(start: string, end: string): number {
  */
 export function magnitudeFor(magnitudes: Record<string, number>, band: string): { band: string; magnitude: number; assumed: boolean } | null {
   if (Number.isFinite(magnitudes[band])) return { band, magnitude: magnitudes[band], assumed: false };
-  const order = BANDS as string[];
+  const order: readonly string[] = BANDS;
   const at = order.indexOf(band);
   const have = Object.keys(magnitudes).filter((b) => Number.isFinite(magnitudes[b]));
   if (have.length === 0) return null;
@@ -330,7 +328,7 @@ export function magnitudeFor(magnitudes: Record<string, number>, band: string): 
 }
 
 function asBand(band: string): Band {
-  return (BANDS as string[]).includes(band) ? (band as Band) : "V";
+  return isBand(band) ? band : "V";
 }
 
 function skyFor(filter: SheetFilter, category: MoonCategory) {
@@ -428,7 +426,7 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
     /** a night's observable hours in this observation's moon category or darker (split at moonrise/moonset) */
     const usableOf = (row: TargetNight) => {
       const split = row.hoursByMoonCategory as Record<MoonCategory, number>;
-      return (["dark", "grey", "bright"] as const).filter(allowed).reduce((sum, c) => sum + split[c], 0);
+      return moonCategories.filter(allowed).reduce((sum, c) => sum + split[c], 0);
     };
     let usableHours = 0;
     let usableNights = 0;
@@ -533,7 +531,7 @@ export function buildFeasibilitySheet(input: FeasibilityInput): FeasibilitySheet
     }
 
     const frameSeconds = exposure?.exposureSeconds ?? obs.exposureSeconds;
-    const totalSeconds = frameSeconds === null ? null : obs.framesPerEpoch * (frameSeconds + instrument.readoutSeconds) + instrument.acquisitionSeconds;
+    const totalSeconds = frameSeconds === null ? null : secondsPerEpoch(obs.framesPerEpoch, frameSeconds, instrument);
     const timePerEpoch = {
       frames: obs.framesPerEpoch,
       exposureSeconds: frameSeconds,
@@ -676,9 +674,6 @@ function fmtE(x: number) {
 
 export const blockingProblems = (sheet: Pick<FeasibilitySheet, "problems">) => sheet.problems.filter((p) => p.severity === "blocking");
 
-/** Epoch semester codes the same way the planner assigns them. */
-export { semesterOf };
-
 // ---------------------------------------------------------------------------------------------
 // Astrometry part of one observation: the PI's epochs or a plan with exactly "epochs per
 // semester" in each semester of the baseline; per-epoch windows (± tolerance nights); what
@@ -794,7 +789,7 @@ function astrometryPart(a: AstrometryArgs): { astrometry: NonNullable<Observatio
         });
       } else {
         const split = row.hoursByMoonCategory as Record<MoonCategory, number>;
-        const usable = (["dark", "grey", "bright"] as const).filter(allowed).reduce((sum, c) => sum + split[c], 0);
+        const usable = moonCategories.filter(allowed).reduce((sum, c) => sum + split[c], 0);
         if (usable < visit) {
           problems.push({
             severity: "warning",

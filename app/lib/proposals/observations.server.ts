@@ -1,4 +1,5 @@
 // Observations of a proposal: per target, an instrument and filter from the call's telescopes.
+import { byBand } from "~/lib/astro/bands";
 import { Refusal } from "~/lib/forms";
 import { writeAudit } from "~/lib/audit.server";
 import type { FeasibilityInput } from "~/lib/proposals/feasibility";
@@ -30,7 +31,6 @@ export async function instrumentOptions({ callId, transaction }: { callId: numbe
     order: [["apertureM", "DESC"], ["id", "ASC"]],
     transaction,
   });
-  const bandOrder = ["U", "B", "V", "R", "I"];
   return telescopes.flatMap((t) =>
     (t.instruments ?? []).map((i) => ({
       telescopeId: t.id,
@@ -42,7 +42,7 @@ export async function instrumentOptions({ callId, transaction }: { callId: numbe
       acquisitionSeconds: i.acquisitionSeconds,
       filters: (i.filters ?? [])
         .map((f) => ({ id: f.id, band: f.band }))
-        .sort((a, b) => (bandOrder.indexOf(a.band) + 99) % 99 - (bandOrder.indexOf(b.band) + 99) % 99 || a.band.localeCompare(b.band)),
+        .sort((a, b) => byBand(a.band, b.band) || a.band.localeCompare(b.band)),
     })),
   );
 }

@@ -9,6 +9,7 @@ import path from "node:path";
 import fontkit from "@pdf-lib/fontkit";
 import { PDFDocument, rgb, type PDFFont, type PDFPage } from "pdf-lib";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
+import { fixed as f, fixedNoMinusZero as f0 } from "~/lib/format";
 import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
 import type { FeasibilitySheet } from "~/lib/proposals/feasibility";
 import { scienceCategoryLabel } from "~/lib/proposals/vocabulary";
@@ -257,9 +258,7 @@ export class Writer {
   }
 }
 
-const f = (x: number | null | undefined, d = 1) => (x === null || x === undefined || !Number.isFinite(x) ? "—" : x.toFixed(d));
 /** fixed digits without a negative zero */
-const f0 = (x: number, d: number) => x.toFixed(d).replace(/^-(0\.?0*)$/, "$1");
 const big = (x: number) => (x >= 1e5 ? x.toExponential(2) : Math.round(x).toString());
 
 function technicalPages(w: Writer, sheet: FeasibilitySheet) {

@@ -5,12 +5,15 @@ import { Refusal } from "~/lib/forms";
 import { data } from "react-router";
 import { Op, QueryTypes, type Transaction } from "sequelize";
 import type { SessionUser } from "~/lib/auth/auth.server";
+import { callPhase, deadlinePassed } from "~/lib/call-phase";
+import { normaliseEmail } from "~/lib/email";
+import { openCallsWhere } from "~/lib/call-phase.server";
 import { writeAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
 import { enqueueMail } from "~/lib/mail/queue.server";
 import { plainMail } from "~/lib/mail/templates.server";
 import type { ProposalStatus } from "~/lib/domain";
-import { upcomingSemesters } from "~/lib/proposals/vocabulary";
+import { upcomingSemesters } from "~/lib/semesters";
 import type { z } from "zod";
 import type { newProposalSchema, overviewSchema } from "~/lib/schemas/proposals";
 import { AuditEntry, Call, Proposal, ProposalMember, sequelize, User } from "~/models/index.server";
@@ -24,24 +27,16 @@ export function notFound(): never {
 
 /** Where-clause of the memberships that are this user's (claimed, or invited by address and not yet claimed). */
 export function membershipWhere(user: Actor) {
-  return { [Op.or]: [{ userId: user.id }, { userId: null, email: user.email.toLowerCase() }] };
+  return { [Op.or]: [{ userId: user.id }, { userId: null, email: normaliseEmail(user.email) }] };
 }
 
 /** Invitations to this address become the user's: called at sign-in, never by a loader. */
 export async function claimInvitations({ user }: { user: Actor }) {
   const [claimed] = await ProposalMember.update(
     { userId: user.id, acceptedAt: new Date() },
-    { where: { userId: null, email: user.email.toLowerCase() } },
+    { where: { userId: null, email: normaliseEmail(user.email) } },
   );
   return claimed;
-}
-
-export function deadlinePassed(call: Pick<Call, "deadlineAt">, now = new Date()) {
-  return now.getTime() >= call.deadlineAt.getTime();
-}
-
-export function callIsOpen(call: Pick<Call, "opensAt" | "deadlineAt">, now = new Date()) {
-  return now.getTime() >= call.opensAt.getTime() && !deadlinePassed(call, now);
 }
 
 export type Access = { proposal: Proposal; call: Call; membership: ProposalMember; role: MemberRole; isPi: boolean; editable: boolean };
@@ -140,7 +135,7 @@ export async function listProposalsForUser({ user }: { user: Actor }): Promise<P
 }
 
 export async function openCalls({ now = new Date() }: { now?: Date } = {}) {
-  const calls = await Call.findAll({ where: { opensAt: { [Op.lte]: now }, deadlineAt: { [Op.gt]: now } }, order: [["deadlineAt", "ASC"]] });
+  const calls = await Call.findAll({ where: openCallsWhere(now), order: [["deadlineAt", "ASC"]] });
   return calls.map((c) => ({ id: c.id, semesterCode: c.semesterCode, title: c.title, deadlineAt: c.deadlineAt.toISOString(), pageLimit: c.pageLimit }));
 }
 
@@ -148,14 +143,14 @@ export async function createProposal({ user, ...input }: { user: Actor } & z.out
   return sequelize.transaction(async (transaction) => {
     const call = await Call.findByPk(input.callId, { transaction });
     if (!call) throw new Refusal("Choose one of the open calls.", { status: 400, field: "callId" });
-    if (!callIsOpen(call)) {
+    if (callPhase(call) !== "open") {
       throw new Refusal(deadlinePassed(call) ? `The deadline of call ${call.semesterCode} has passed.` : `Call ${call.semesterCode} opens on ${call.opensAt.toISOString().slice(0, 10)}.`, { status: 400, field: "callId" });
     }
     const proposal = await Proposal.create(
       { callId: call.id, title: input.title, abstract: input.abstract ?? "", scienceCategory: null, semestersRequested: [call.semesterCode], createdById: user.id },
       { transaction },
     );
-    await ProposalMember.create({ proposalId: proposal.id, userId: user.id, email: user.email.toLowerCase(), role: "pi", acceptedAt: new Date() }, { transaction });
+    await ProposalMember.create({ proposalId: proposal.id, userId: user.id, email: normaliseEmail(user.email), role: "pi", acceptedAt: new Date() }, { transaction });
     await writeAudit(
       { actorId: user.id, action: "proposal.created", entityType: "proposal", entityId: proposal.id, proposalId: proposal.id, details: { callId: call.id, semesterCode: call.semesterCode, title: input.title } },
       transaction,

@@ -14,7 +14,8 @@ import { designatedReviewerName, designatedReviewerProblem } from "~/lib/proposa
 import { selfReferenceCheck } from "~/lib/review/self-reference.server";
 import { latestScienceCase } from "~/lib/proposals/science-case.server";
 import { Observation, ProposalMember, sequelize, Target } from "~/models/index.server";
-import { assertPi, deadlinePassed, getProposalForUser, type Access, type Actor } from "./proposals.server";
+import { deadlinePassed } from "~/lib/call-phase";
+import { assertPi, getProposalForUser, type Access, type Actor } from "./proposals.server";
 
 export type ChecklistItem = { key: string; label: string; ok: boolean; detail: string; href?: string };
 

@@ -3,6 +3,7 @@
 // is claimed when the invitee signs in with it (never by a read).
 import { Refusal } from "~/lib/forms";
 import { writeAudit } from "~/lib/audit.server";
+import { normaliseEmail } from "~/lib/email";
 import { env } from "~/lib/env.server";
 import { enqueueMail } from "~/lib/mail/queue.server";
 import { plainMail } from "~/lib/mail/templates.server";
@@ -53,7 +54,7 @@ export async function teamRows({ user, proposalId }: { user: Actor; proposalId: 
 }
 
 export async function inviteCoI({ user, proposalId, email }: { user: Actor; proposalId: number; email: string }) {
-  const address = email.trim().toLowerCase();
+  const address = normaliseEmail(email);
   return sequelize.transaction(async (transaction) => {
     const access = await getProposalForUser({ proposalId, user, transaction, lock: true });
     assertEditable(access);

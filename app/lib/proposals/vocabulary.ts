@@ -1,4 +1,5 @@
 // Browser-safe vocabulary of the PI's workspace (no server imports: the forms use it too).
+import { shortSemester } from "~/lib/semesters";
 
 /** Our own list of science categories; a proposal picks exactly one. */
 export const scienceCategories = [
@@ -25,31 +26,7 @@ export function wordCount(text: string) {
   return words.length;
 }
 
-export const SEMESTER_CODE = /^\d{4}[AB]$/;
-
-/** The call's own semester and the next `count − 1` ones: 2027A → 2027A, 2027B, 2028A, 2028B. */
-export function upcomingSemesters(first: string, count = 4) {
-  if (!SEMESTER_CODE.test(first)) return [first];
-  let year = Number(first.slice(0, 4));
-  let half = first.slice(4);
-  const out: string[] = [];
-  for (let i = 0; i < count; i++) {
-    out.push(`${year}${half}`);
-    if (half === "A") half = "B";
-    else {
-      half = "A";
-      year++;
-    }
-  }
-  return out;
-}
-
 export const memberRoleLabels = { pi: "PI", coi: "Co-I" } as const;
-
-/** 2027A → 27A: the short semester of proposal codes. */
-export function shortSemester(semesterCode: string) {
-  return SEMESTER_CODE.test(semesterCode) ? semesterCode.slice(2) : semesterCode;
-}
 
 /**
  * Nightshare's proposal code: the serial within the call first, zero-padded to three digits,

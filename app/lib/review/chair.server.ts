@@ -10,7 +10,8 @@ import { writeAudit } from "~/lib/audit.server";
 import { env } from "~/lib/env.server";
 import { enqueueMail } from "~/lib/mail/queue.server";
 import { plainMail } from "~/lib/mail/templates.server";
-import { deadlinePassed } from "~/lib/proposals/proposals.server";
+import { deadlinePassed } from "~/lib/call-phase";
+import { closedCallsWhere } from "~/lib/call-phase.server";
 import { Call, CallReview, Proposal, ReviewAssignment, ReviewPanelMember, RoleGrant, sequelize, User } from "~/models/index.server";
 import { conflictReasonWithoutTeam, HIDDEN_TEAM, teamHidden } from "./anonymity.server";
 import { pairKey, type Conflict } from "./conflicts";
@@ -43,7 +44,7 @@ async function factsOrNotFound(callId: number, transaction?: Transaction): Promi
 
 /** Calls whose deadline has passed, newest first, with what their review has reached. */
 export async function reviewCalls({ now = new Date() }: { now?: Date } = {}) {
-  const calls = await Call.findAll({ where: { deadlineAt: { [Op.lte]: now } }, include: [{ model: CallReview, as: "review" }], order: [["deadlineAt", "DESC"]] });
+  const calls = await Call.findAll({ where: closedCallsWhere(now), include: [{ model: CallReview, as: "review" }], order: [["deadlineAt", "DESC"]] });
   const counts = await Proposal.findAll({
     where: { callId: calls.map((c) => c.id) },
     attributes: ["callId", "status", [sequelize.fn("COUNT", sequelize.col("id")), "n"]],

@@ -7,6 +7,7 @@
 // In a distributed review every reviewer is on a team of the call, so "competitor" there means
 // (when the call keeps competitors apart) a shared telescope × moon category among the hours the
 // two proposals request (`requests`), and nothing at all when it does not.
+import { sameEmail } from "~/lib/email";
 
 export type ConflictRule = "team" | "institution" | "competitor" | "declared";
 
@@ -39,7 +40,7 @@ export function normaliseInstitution(name: string | null | undefined): string {
     .trim();
 }
 
-const isMember = (m: TeamMemberFacts, r: ReviewerFacts) => m.userId === r.reviewerId || m.email.trim().toLowerCase() === r.email.trim().toLowerCase();
+const isMember = (m: TeamMemberFacts, r: ReviewerFacts) => m.userId === r.reviewerId || sameEmail(m.email, r.email);
 
 /** The first reason for each conflicted pair (in the order of the rules above), keyed `proposalId:reviewerId`. */
 export function detectConflicts({

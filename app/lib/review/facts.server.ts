@@ -3,6 +3,7 @@
 import { Op, type Transaction } from "sequelize";
 import { Call, CallReview, Proposal, ProposalMember, ReviewAssignment, ReviewerProfile, ReviewPanelMember, RoleGrant, User } from "~/models/index.server";
 import { computeFeasibilitySheets } from "~/lib/proposals/feasibility.server";
+import { sameEmail } from "~/lib/email";
 import { detectConflicts, pairKey, type Competition, type Conflict, type ProposalFacts } from "./conflicts";
 
 /** Proposals that take part in a call's review (submitted ones before the chair starts it). */
@@ -145,8 +146,7 @@ export async function pairConflict({ callId, proposalId, reviewerId, transaction
   let cells = new Map<number, string[]>();
   if (competition === "requests") {
     // only the sheets that matter for this pair: the proposal and the reviewer's own teams'
-    const reviewerEmail = reviewer.email.trim().toLowerCase();
-    const own = competing.filter((p) => (byProposal.get(p.id) ?? []).some((m) => m.userId === reviewerId || m.email.trim().toLowerCase() === reviewerEmail)).map((p) => p.id);
+    const own = competing.filter((p) => (byProposal.get(p.id) ?? []).some((m) => m.userId === reviewerId || sameEmail(m.email, reviewer.email))).map((p) => p.id);
     cells = await requestedCells({ call, proposalIds: [...new Set([proposalId, ...own])] });
   }
   const conflicts = detectConflicts({

@@ -1,12 +1,8 @@
 import { z } from "zod";
+import { emailField } from "~/lib/email";
 
 export const emailSchema = z.object({
-  email: z
-    .string()
-    .trim()
-    .min(1, "Enter your e-mail address.")
-    .max(254, "That address is too long.")
-    .pipe(z.email("Enter a valid e-mail address, like name@institute.example.")),
+  email: emailField("Enter your e-mail address."),
   redirectTo: z.string().optional(),
 });
 

@@ -2,9 +2,12 @@
 // before sending) and the action (checked again). Numbers arrive as typed text; an empty field is
 // a message, never a silent 0.
 import { z } from "zod";
+import { isIsoDate } from "~/lib/astro/time";
 import { moonCategories, teamVisibilities, type TeamVisibility } from "~/lib/domain";
 import { DEFAULT_REVIEWS_PER_SUBMITTER, MAX_REVIEWS_PER_SUBMITTER, reviewModes, unreviewedPolicies, type ReviewMode, type UnreviewedPolicy } from "~/lib/review/vocabulary";
-import { canonicalTimeZone, isValidTimeZone, startOfDateInZone, zonedLocalToUtc } from "~/lib/zoned-time";
+import { addMonths, SEMESTER_CODE } from "~/lib/semesters";
+import { isValidTimeZone, timeZoneSchema } from "~/lib/time-zones";
+import { startOfDateInZone, zonedLocalToUtc } from "~/lib/zoned-time";
 
 interface NumberRule {
   min: number;
@@ -58,8 +61,7 @@ export const telescopeSchema = z.object({
     .string({ error: "Choose the site's time zone." })
     .trim()
     .min(1, "Choose the site's time zone.")
-    .refine(isValidTimeZone, "That is not an IANA time zone; pick one from the list, like America/Denver.")
-    .transform((zone) => canonicalTimeZone(zone) ?? zone),
+    .pipe(timeZoneSchema("That is not an IANA time zone; pick one from the list, like America/Denver.")),
   apertureM: numberField("Aperture", { min: 0.05, max: 50, unit: "m" }),
   centralObstruction: numberField("Central obstruction", { min: 0, max: 0.9, unit: "of the diameter" }),
 });
@@ -124,7 +126,7 @@ const dateField = (label: string) =>
     .string({ error: `Enter the ${label}.` })
     .trim()
     .min(1, `Enter the ${label}.`)
-    .refine((v) => /^\d{4}-\d{2}-\d{2}$/.test(v) && !Number.isNaN(Date.parse(`${v}T00:00:00Z`)) && new Date(`${v}T00:00:00Z`).toISOString().startsWith(v), {
+    .refine(isIsoDate, {
       message: `The ${label} is not a date (YYYY-MM-DD).`,
     });
 
@@ -138,12 +140,6 @@ const money = (label: string) =>
   numberField(label, { min: 0, max: 1e6 }).refine((v) => Math.abs(v * 100 - Math.round(v * 100)) < 1e-6, {
     message: `${label} has at most two decimals.`,
   });
-
-function monthsAfter(date: string, months: number) {
-  const d = new Date(`${date}T00:00:00Z`);
-  d.setUTCMonth(d.getUTCMonth() + months);
-  return d.toISOString().slice(0, 10);
-}
 
 // ---- distributed review (call options). Left out of a body (reviewMode absent), the call keeps
 // what it had and a new call is panel-reviewed; with reviewMode present, an absent checkbox is "off".
@@ -173,7 +169,7 @@ export const callSchema = z
       .string({ error: "Enter the semester code." })
       .trim()
       .toUpperCase()
-      .regex(/^\d{4}[AB]$/, "A semester code is the year and A or B, like 2027A."),
+      .regex(SEMESTER_CODE, "A semester code is the year and A or B, like 2027A."),
     title: name("title", 200).min(3, "Give the call a title of at least 3 characters."),
     timeZone: z.string().refine(isValidTimeZone, "The observatory's time zone is not set; set up a telescope first."),
     opensAt: localDateTime("opening"),
@@ -200,9 +196,9 @@ export const callSchema = z
     }
     if (call.semesterEnd <= call.semesterStart) {
       ctx.addIssue({ code: "custom", path: ["semesterEnd"], message: "The semester must end after it starts." });
-    } else if (call.semesterEnd < monthsAfter(call.semesterStart, MIN_SEMESTER_MONTHS)) {
+    } else if (call.semesterEnd < addMonths(call.semesterStart, MIN_SEMESTER_MONTHS)) {
       ctx.addIssue({ code: "custom", path: ["semesterEnd"], message: `A semester lasts at least ${MIN_SEMESTER_MONTHS} months; this one is shorter.` });
-    } else if (call.semesterEnd > monthsAfter(call.semesterStart, MAX_SEMESTER_MONTHS)) {
+    } else if (call.semesterEnd > addMonths(call.semesterStart, MAX_SEMESTER_MONTHS)) {
       ctx.addIssue({ code: "custom", path: ["semesterEnd"], message: `A semester lasts at most ${MAX_SEMESTER_MONTHS} months; this one is longer.` });
     }
     const offers: { telescopeId: number; moonCategory: (typeof moonCategories)[number]; hoursOffered: number }[] = [];

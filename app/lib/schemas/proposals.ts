@@ -1,11 +1,13 @@
 // Forms of the PI's workspace: shared by the browser (react-hook-form) and the actions (safeParse).
 import { z } from "zod";
+import { BANDS, isBand, type Band } from "~/lib/astro/bands";
 import { parseDec, parseRa } from "~/lib/astro/coordinates";
 import { moonCategories } from "~/lib/domain";
+import { emailField } from "~/lib/email";
 import { idSchema, MAX_ID, TEXT_COLUMN_BYTES, utf8Bytes } from "~/lib/forms";
-import { ABSTRACT_WORD_LIMIT, scienceCategoryValues, SEMESTER_CODE, wordCount } from "~/lib/proposals/vocabulary";
+import { ABSTRACT_WORD_LIMIT, scienceCategoryValues, wordCount } from "~/lib/proposals/vocabulary";
+import { SEMESTER_CODE } from "~/lib/semesters";
 
-export const TARGET_BANDS = ["U", "B", "V", "R", "I"] as const;
 
 /** Notes of a target (a TEXT column: 65 535 bytes; this many characters of any script fit). */
 export const NOTES_MAX_CHARS = 10_000;
@@ -73,12 +75,7 @@ export const overviewSchema = z
   });
 
 export const inviteSchema = z.object({
-  email: z
-    .string()
-    .trim()
-    .min(1, "Enter the Co-I's e-mail address.")
-    .max(254, "That address is too long.")
-    .pipe(z.email("Enter a valid e-mail address, like name@institute.example.")),
+  email: emailField("Enter the Co-I's e-mail address."),
 });
 
 export const memberSchema = z.object({ memberId: idSchema("member", "Choose a member.") });
@@ -95,7 +92,7 @@ export const targetSchema = z
       .union([z.string(), z.null()])
       .optional()
       .transform((v) => (v ?? "").trim().toUpperCase())
-      .refine((v) => v === "" || (TARGET_BANDS as readonly string[]).includes(v), `The band is one of ${TARGET_BANDS.join(", ")}.`)
+      .refine((v) => v === "" || isBand(v), `The band is one of ${BANDS.join(", ")}.`)
       .transform((v) => v || null),
     // one magnitude per band (form fields and CSV columns mag_U … mag_I); `magnitude` + `band` is the older single pair
     mag_U: numberField("U magnitude", { min: -2, max: 30 }),
@@ -112,13 +109,13 @@ export const targetSchema = z
       .refine((v) => v === null || v.length > NOTES_MAX_CHARS * 2 || utf8Bytes(v) <= TEXT_COLUMN_BYTES, "The notes are too long to store; shorten them."),
   })
   .transform((value, ctx) => {
-    const magnitudes: Partial<Record<(typeof TARGET_BANDS)[number], number>> = {};
-    for (const b of TARGET_BANDS) {
+    const magnitudes: Partial<Record<Band, number>> = {};
+    for (const b of BANDS) {
       const m = value[`mag_${b}`];
       if (m !== null) magnitudes[b] = m;
     }
     if (value.magnitude !== null && value.band) {
-      const band = value.band as (typeof TARGET_BANDS)[number];
+      const band = value.band as Band;
       const other = magnitudes[band];
       if (other !== undefined && other !== value.magnitude) {
         ctx.addIssue({ code: "custom", path: ["magnitude"], message: `The ${band} magnitude is given twice (${value.magnitude} and ${other}): keep one.` });
