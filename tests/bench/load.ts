@@ -105,6 +105,17 @@ export async function runLoadBench(): Promise<string[]> {
       const goal = c === 50 ? "(no goal at 50)" : `goal ≥ 70 %  ${pct >= 70 ? "met" : `MISSED by ${(70 - pct).toFixed(0)} points`}`;
       lines.push(`  ${String(c).padStart(2)} clients: ${a.toFixed(0)} / ${b.toFixed(0)} req/s = ${pct.toFixed(0)} %   ${goal}`);
     }
+    // Before the front called the science routes directly: the same route through React Router's
+    // whole cycle (the path with a trailing slash, which the front leaves to React Router).
+    lines.push("the same through React Router's request cycle (/api/v1/visibility/, not taken directly) / bare node:http, in turn as above:");
+    for (const c of [1, 10] as const) {
+      const rrUrl = `${app.url}/api/v1/visibility/?${VISIBILITY_QUERY}`;
+      const bareUrl = `${bare.url}/visibility?${VISIBILITY_QUERY}`;
+      const runs = [await autocannon(rrUrl, c), await autocannon(bareUrl, c), await autocannon(bareUrl, c), await autocannon(rrUrl, c)];
+      const a = (runs[0].rps + runs[3].rps) / 2;
+      const b = (runs[1].rps + runs[2].rps) / 2;
+      lines.push(`  ${String(c).padStart(2)} clients: ${a.toFixed(0)} / ${b.toFixed(0)} req/s = ${((100 * a) / b).toFixed(0)} %`);
+    }
   } finally {
     await bare.close();
     await app.stop();
