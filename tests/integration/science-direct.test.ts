@@ -13,7 +13,7 @@ const comparable = (headers: Record<string, string>) => {
   return { ...rest, "content-security-policy": csp?.replace(/'nonce-[^']+'/, "'nonce-…'") };
 };
 
-async function both(send: (path: string) => Promise<{ status: number; headers: Record<string, string>; text: string }>, path: string) {
+async function both(send: (path: string) => PromiseLike<{ status: number; headers: Record<string, string>; text: string }>, path: string) {
   const direct = await send(path);
   const throughRouter = await send(`${path}/`);
   return { direct, throughRouter };
