@@ -6,7 +6,7 @@ import type { IncomingMessage } from "node:http";
 import path from "node:path";
 import { writeReadableStreamToWritable } from "@react-router/node";
 import express, { type Request as ExpressRequest, type Response as ExpressResponse } from "express";
-import { createRequestHandler, type ServerBuild } from "react-router";
+import { createRequestHandler, RouterContextProvider, type ServerBuild } from "react-router";
 import {
   bodyLimitFor,
   contentSecurityPolicy,
@@ -91,14 +91,84 @@ export function createHttpApp({ build, clientDir, trustProxy = false, appUrl = p
     next();
   });
   const handle = handler ?? createRequestHandler(build, process.env.NODE_ENV);
+  const direct = handler ? new Map<string, DirectRoute>() : directRoutes(build);
   app.use(async (req, res, next) => {
     try {
-      await reactRouterRequest(req, res, handle);
+      const request = await fetchRequest(req, res);
+      if (!request) return;
+      const route = direct.get(req.path);
+      const fn = req.method === "GET" ? route?.loader : req.method === "POST" ? route?.action : undefined;
+      if (fn) await directRequest(req, res, request, fn, build);
+      else await sendResponse(req, res, await handle(request));
     } catch (error) {
       next(error);
     }
   });
   return app;
+}
+
+// ---------------------------------------------------------------------------------------------
+// The science API without React Router's request cycle
+
+/**
+ * The public science routes (visibility, exposure, astrometry, epoch plan): pure computations
+ * that read no session and catch their own failures (lib/science-api.server's `guarded` answers
+ * every error as JSON). For them React Router's cycle — matching the path twice, the root
+ * middleware, the data strategy, `Response.json` and reading that body back — costs more than
+ * the computation itself, so the front calls the same route module's loader (GET) or action
+ * (POST) and writes its `data()` as React Router would: `Response.json`'s status, headers and
+ * `application/json`, after the same security headers, cross-site and body-size checks. The root
+ * middleware has nothing to do for them: the 413 page is for pages (the API's 413 is answered
+ * above), and their database failures never reach `handleError` (no `databaseFailed` mark).
+ * Only the exact paths: any other spelling, and other methods, go through React Router.
+ */
+const DIRECT_ROUTE_IDS: Record<string, string> = {
+  "/api/v1/visibility": "routes/api.v1.visibility",
+  "/api/v1/exposure": "routes/api.v1.exposure",
+  "/api/v1/astrometry": "routes/api.v1.astrometry",
+  "/api/v1/epoch-plan": "routes/api.v1.epoch-plan",
+};
+
+type RouteFunction = (args: { request: Request; params: Record<string, string>; context: RouterContextProvider }) => unknown;
+type DirectRoute = { loader?: RouteFunction; action?: RouteFunction };
+
+function directRoutes(build: ServerBuild) {
+  const routes = new Map<string, DirectRoute>();
+  for (const [pathname, id] of Object.entries(DIRECT_ROUTE_IDS)) {
+    const module = build.routes[id]?.module as DirectRoute | undefined;
+    // a build without the route (or a changed id) is served by React Router as before
+    if (module) routes.set(pathname, { loader: module.loader, action: module.action });
+  }
+  return routes;
+}
+
+type DataWithInit = { type: "DataWithResponseInit"; data: unknown; init: ResponseInit | null };
+const isDataWithInit = (value: unknown): value is DataWithInit =>
+  typeof value === "object" && value !== null && (value as { type?: unknown }).type === "DataWithResponseInit";
+
+async function directRequest(req: ExpressRequest, res: ExpressResponse, request: Request, fn: RouteFunction, build: ServerBuild) {
+  const args = { request, params: {}, context: new RouterContextProvider() };
+  let result: unknown;
+  try {
+    result = await fn(args);
+  } catch (error) {
+    if (error instanceof Response) return sendResponse(req, res, error);
+    // as React Router answers a resource route's unexpected error
+    build.entry.module.handleError?.(error, args);
+    return sendResponse(req, res, new Response("Unexpected Server Error", { status: 500, headers: { "X-Remix-Error": "yes" } }));
+  }
+  if (result instanceof Response) return sendResponse(req, res, result);
+  if (!isDataWithInit(result)) return sendResponse(req, res, typeof result === "string" ? new Response(result) : Response.json(result));
+  // Response.json(data, init) without building a stream and reading it back
+  const headers = new Headers(result.init?.headers);
+  if (!headers.has("content-type")) headers.set("content-type", "application/json");
+  const body = Buffer.from(JSON.stringify(result.data) ?? "null");
+  if (res.destroyed || res.writableEnded) return;
+  res.statusMessage = result.init?.statusText ?? "";
+  res.status(result.init?.status ?? 200);
+  setResponseHeaders(req, res, headers);
+  res.setHeader("Content-Length", body.length);
+  res.end(body);
 }
 
 function refuse(res: ExpressResponse, api: boolean, status: number, message: string, detail: string, field = "(request)") {
@@ -170,7 +240,8 @@ function discardRest(req: IncomingMessage) {
   req.resume();
 }
 
-async function reactRouterRequest(req: ExpressRequest, res: ExpressResponse, handle: Handler) {
+/** The Fetch API request React Router (or a direct route) gets; null when a 413 was answered. */
+async function fetchRequest(req: ExpressRequest, res: ExpressResponse): Promise<Request | null> {
   let body: Buffer | undefined;
   const headers = new Headers();
   for (const [key, values] of Object.entries(req.headers)) {
@@ -186,7 +257,8 @@ async function reactRouterRequest(req: ExpressRequest, res: ExpressResponse, han
       const message = `The request is larger than ${megabytes(limit)}, the limit for ${what}. Nothing was saved.`;
       if (isApiPath(req.path)) {
         res.status(413).setHeader("Cache-Control", "no-store");
-        return void res.json({ error: message, issues: [{ path: "(body)", message }] });
+        res.json({ error: message, issues: [{ path: "(body)", message }] });
+        return null;
       }
       // Pages: React Router renders the error page (the root middleware answers 413).
       headers.set(INTERNAL_HEADERS.bodyTooLarge, String(limit));
@@ -202,9 +274,7 @@ async function reactRouterRequest(req: ExpressRequest, res: ExpressResponse, han
   res.on("finish", () => (finished = true));
   res.on("close", () => finished || controller.abort());
   const url = new URL(`${req.protocol}://${requestHost(req)}${req.originalUrl}`);
-  const request = new Request(url.href, { method: req.method, headers, body: body ? new Uint8Array(body.buffer as ArrayBuffer, body.byteOffset, body.byteLength) : undefined, signal: controller.signal });
-  const response = await handle(request);
-  await sendResponse(req, res, response);
+  return new Request(url.href, { method: req.method, headers, body: body ? new Uint8Array(body.buffer as ArrayBuffer, body.byteOffset, body.byteLength) : undefined, signal: controller.signal });
 }
 
 /** The host React Router sees, as @react-router/express builds it. */
@@ -216,6 +286,16 @@ function requestHost(req: ExpressRequest) {
   return `${hostname}${port ? `:${port}` : ""}`;
 }
 
+function setResponseHeaders(req: ExpressRequest, res: ExpressResponse, headers: Headers) {
+  for (const [key, value] of headers.entries()) {
+    // A route's own security headers (e.g. a sandbox for uploaded files) replace the defaults.
+    if (key === "set-cookie") res.append(key, value);
+    else res.setHeader(key, value);
+  }
+  // Nothing said to a signed-in browser may sit in a shared or back-button cache.
+  if (req.headers.cookie || headers.has("set-cookie")) res.setHeader("Cache-Control", "private, no-store");
+}
+
 async function sendResponse(req: ExpressRequest, res: ExpressResponse, response: Response) {
   if (res.destroyed || res.writableEnded) {
     await response.body?.cancel();
@@ -223,13 +303,7 @@ async function sendResponse(req: ExpressRequest, res: ExpressResponse, response:
   }
   res.statusMessage = response.statusText;
   res.status(response.status);
-  for (const [key, value] of response.headers.entries()) {
-    // A route's own security headers (e.g. a sandbox for uploaded files) replace the defaults.
-    if (key === "set-cookie") res.append(key, value);
-    else res.setHeader(key, value);
-  }
-  // Nothing said to a signed-in browser may sit in a shared or back-button cache.
-  if (req.headers.cookie || response.headers.has("set-cookie")) res.setHeader("Cache-Control", "private, no-store");
+  setResponseHeaders(req, res, response.headers);
   if (response.headers.get("Content-Type")?.match(/text\/event-stream/i)) res.flushHeaders();
   if (!response.body) return void res.end();
   // JSON is never streamed: one write with the headers instead of a write per chunk and one to end

@@ -95,6 +95,12 @@ try {
           child.once("exit", (status) => (status === 0 ? (writeBuildStamp(before), resolve()) : reject(new Error("The build failed."))));
         });
 
+  // The front (serve-local.ts and what it imports) is TypeScript: bundled to plain JavaScript
+  // here (esbuild, tsx's own compiler; packages stay imports), the app process is plain node, and
+  // tsx's loader does not sit on each of the build's imports (it about doubled their load time).
+  // Two folders below the repository, like app/cli, so its `import.meta.dirname` paths still hold.
+  const front = dev ? Promise.resolve(null) : bundleFront();
+
   console.log("[start] migrations and demo data");
   const { sequelize } = await import("../models/index.server");
   const { createMigrator, createSeeder } = await import("../../sequelize/migrator");
@@ -103,12 +109,15 @@ try {
   if (seeded.length) console.log(`[start] seeded: ${seeded.map((s) => s.name).join(", ")}`);
   await sequelize.close();
   await build;
+  const frontScript = await front;
 
   const startApp = async () => {
     const child = dev
       ? spawn(bin("react-router"), ["dev", "--host", e.HOST ?? "127.0.0.1", "--port", String(appPort), "--strictPort"], { stdio: "inherit", cwd: repoRoot })
-      : // The build is plain JavaScript; node loads the small TypeScript front through tsx's loader (one process).
-        spawn(process.execPath, ["--import", "tsx", path.join(repoRoot, "app/cli/serve-local.ts")], { stdio: "inherit", cwd: repoRoot });
+      : frontScript
+        ? spawn(process.execPath, [frontScript], { stdio: "inherit", cwd: repoRoot })
+        : // without the bundle: the TypeScript front through tsx's loader
+          spawn(process.execPath, ["--import", "tsx", path.join(repoRoot, "app/cli/serve-local.ts")], { stdio: "inherit", cwd: repoRoot });
     return childService("app", child);
   };
   services.push(await supervise("the app", startApp, opts));
@@ -132,4 +141,17 @@ try {
 } catch (error) {
   console.error(`[start] ${error instanceof Error ? error.message : error}`);
   await shutdown(1);
+}
+
+/** The bundled front's path, or null when esbuild failed (the app is then served through tsx). */
+async function bundleFront(): Promise<string | null> {
+  const outfile = path.join(repoRoot, ".data/front/serve-local.mjs");
+  try {
+    const { build } = await import("esbuild");
+    await build({ entryPoints: [path.join(repoRoot, "app/cli/serve-local.ts")], outfile, bundle: true, packages: "external", platform: "node", format: "esm", target: "node20", logLevel: "warning" });
+    return outfile;
+  } catch (error) {
+    console.error("[start] could not bundle the HTTP front; serving it through tsx:", error instanceof Error ? error.message : error);
+    return null;
+  }
 }
