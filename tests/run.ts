@@ -80,7 +80,7 @@ async function copyTemplate() {
     from: template,
     to: slots.map((slot) => slot.DATABASE_NAME),
   });
-  console.log(`=== database per worker: ok (${slots.length} copies of ${template}) in ${((Date.now() - started) / 1000).toFixed(1)} s`);
+  console.log(`=== database per worker: ok (${slots.length === 1 ? "one copy" : `${slots.length} copies`} of ${template}) in ${((Date.now() - started) / 1000).toFixed(1)} s`);
   return 0;
 }
 
