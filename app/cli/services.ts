@@ -87,6 +87,12 @@ function stopper(name: string, child: ChildProcess): Service {
   };
 }
 
+function privateDir(parent: string, name: string) {
+  const dir = path.join(parent, name);
+  mkdirSync(dir, { recursive: true });
+  return dir;
+}
+
 function logFile(dir: string, name: string) {
   mkdirSync(dir, { recursive: true });
   return openSync(path.join(dir, `${name}.log`), "a");
@@ -169,7 +175,9 @@ export async function startMaildev(options: { smtpPort: number; webPort: number;
       "--web-ip", "127.0.0.1",
       "--silent",
     ],
-    { stdio: ["ignore", out, out] },
+    // Its own temporary folder: maildev keeps the .eml and attachment files in <tmpdir>/maildev,
+    // which every instance on the machine would share, and "delete all" empties it.
+    { stdio: ["ignore", out, out], env: { ...process.env, TMPDIR: privateDir(options.logDir, "maildev-tmp") } },
   );
   await readyOrKill(child, async () => {
     try {

@@ -3,7 +3,7 @@
 // duplicate, early, late, wrong-amount and expired cases), the receipt, waivers (audited), the CSV
 // and who may see or pay what. Amounts are worked by hand beside each check.
 import { spawnSync } from "node:child_process";
-import { writeFileSync } from "node:fs";
+import { mkdtempSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import Stripe from "stripe";
@@ -242,7 +242,7 @@ describe("seeing and paying charges", () => {
     });
     expect(pdf.status).toBe(200);
     expect(pdf.headers["content-type"]).toBe("application/pdf");
-    const file = path.join(tmpdir(), `receipt-${fee.id}.pdf`);
+    const file = path.join(mkdtempSync(path.join(tmpdir(), "ns-receipt-")), `receipt-${fee.id}.pdf`);
     writeFileSync(file, pdf.body as Buffer);
     const text = spawnSync("pdftotext", [file, "-"], { encoding: "utf8" }).stdout;
     expect(text).toContain("EUR 450.00");
