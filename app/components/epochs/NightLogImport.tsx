@@ -2,7 +2,7 @@
 import { useEffect, useState } from "react";
 import { useActionData, useFetcher } from "react-router";
 import { NIGHT_LOG_COLUMNS, type NightLogReport } from "~/lib/epochs/night-log-csv";
-import { issueLine, type ActionFailure, type FieldErrors } from "~/lib/forms";
+import { issueLine, valueText, type ActionFailure, type FieldErrors } from "~/lib/forms";
 
 /** What the page's action answers: the report and the refused rows' text, or a refusal of the whole log. */
 export type NightLogAnswer = ActionFailure | { ok: true; intent: "night-log"; saved: number; report: NightLogReport; remaining: string };
@@ -12,7 +12,7 @@ export function NightLogImport() {
   const pageAnswer = useActionData<NightLogAnswer>();
   const answer = fetcher.data ?? pageAnswer;
   // after a plain form post (no script yet) the page comes back with the refused rows in the box
-  const [text, setText] = useState(answer ? (answer.ok ? answer.remaining : (answer.values.csv ?? "")) : "");
+  const [text, setText] = useState(answer ? (answer.ok ? answer.remaining : (valueText(answer.values, "csv") ?? "")) : "");
   useEffect(() => {
     if (fetcher.state === "idle" && answer?.ok) setText(answer.remaining);
   }, [answer, fetcher.state]);

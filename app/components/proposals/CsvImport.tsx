@@ -1,6 +1,6 @@
 import { useEffect, useRef, useState } from "react";
 import { useActionData, useFetcher } from "react-router";
-import { issueLine } from "~/lib/forms";
+import { issueLine, valueText } from "~/lib/forms";
 import { CSV_COLUMNS, CSV_UPLOAD_MAX_BYTES } from "~/lib/proposals/target-csv";
 import type { TargetActionResult } from "./target-results";
 
@@ -9,7 +9,7 @@ export function CsvImport() {
   const fetcher = useFetcher<TargetActionResult>();
   const pageAnswer = useActionData<TargetActionResult>();
   const answer = fetcher.data ?? pageAnswer;
-  const initial = answer?.intent === "import" ? (answer.ok ? (answer.remaining ?? "") : (answer.values.csv ?? "")) : "";
+  const initial = answer?.intent === "import" ? (answer.ok ? (answer.remaining ?? "") : (valueText(answer.values, "csv") ?? "")) : "";
   const [text, setText] = useState(initial);
   const [fileNote, setFileNote] = useState<string | null>(null);
   const fileRef = useRef<HTMLInputElement>(null);
