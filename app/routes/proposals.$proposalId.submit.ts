@@ -2,7 +2,7 @@
 // workspace. A resource route: the strip's fetcher reads the answer; a GET goes to the summary.
 import { redirect } from "react-router";
 import { z } from "zod";
-import type { ReadinessAnswer } from "~/components/proposals/ReadinessStrip";
+import type { ReadinessDone } from "~/components/proposals/ReadinessStrip";
 import { formAction, intent } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
@@ -23,7 +23,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const proposalId = proposalIdParam(params);
   await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
   return formAction(request, stripIntents, async (input) => {
-    const ok = (intent: Extract<ReadinessAnswer, { ok: true }>["intent"], message: string): ReadinessAnswer => ({ ok: true, intent, message });
+    const ok = (intent: ReadinessDone["intent"], message: string): ReadinessDone => ({ ok: true, intent, message });
     switch (input.intent) {
       case "submit": {
         const r = await submitProposal({ user, proposalId });

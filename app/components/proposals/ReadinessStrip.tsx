@@ -7,7 +7,8 @@ import type { WorkspaceHeader } from "~/lib/proposals/proposals.server";
 import type { submissionChecklist } from "~/lib/proposals/submit.server";
 
 /** What the strip's buttons answer (POST /proposals/:id/submit); deleting a draft answers with a redirect instead. */
-export type ReadinessAnswer = ActionFailure | { ok: true; intent: "submit" | "withdraw" | "reopen"; message: string };
+export type ReadinessDone = { ok: true; intent: "submit" | "withdraw" | "reopen"; message: string };
+export type ReadinessAnswer = ActionFailure | ReadinessDone;
 
 /** The checklist of a draft, as the workspace's loader hands it over. */
 export type Readiness = Pick<Awaited<ReturnType<typeof submissionChecklist>>, "items" | "ready" | "requestedHours" | "requestedHoursBySemester" | "selfReference">;
