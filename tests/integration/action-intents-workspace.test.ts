@@ -245,3 +245,18 @@ describe("a refused save of the summary keeps every semester ticked", () => {
     expect((await Proposal.findByPk(proposalId))!.version).toBe(version);
   });
 });
+
+describe("a refused save of a reviewer's categories keeps every box ticked", () => {
+  it("a known and an unknown category both come back in the 400's values", async () => {
+    const { status, answer } = await postForAnswer("/review/settings", reviewer.cookie, [
+      ["intent", "save"],
+      ["categories", "exoplanets"],
+      ["categories", "not-a-category"],
+    ]);
+    expect(status).toBe(400);
+    const body = answer.data as { ok: boolean; errors: Record<string, string>; values: Record<string, unknown> };
+    expect(body.ok).toBe(false);
+    expect(body.errors).toEqual({ "categories.1": "Choose categories from the list." });
+    expect(body.values.categories).toEqual(["exoplanets", "not-a-category"]);
+  });
+});
