@@ -38,11 +38,10 @@ export function formFields(form: FormData): Record<string, string | string[]> {
   return out;
 }
 
-/** What the user typed, to echo: the first string of each field, `intent` left out. */
+/** What the user typed, to echo: every field as read (a repeated one as its array), `intent` left out. */
 export function formValues(fields: Record<string, string | string[]>): FormValues {
-  const out: FormValues = {};
-  for (const [key, value] of Object.entries(fields)) if (key !== "intent") out[key] = Array.isArray(value) ? value[0] : value;
-  return out;
+  const { intent: _intent, ...values } = fields;
+  return values;
 }
 
 export function failure(

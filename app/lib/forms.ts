@@ -3,8 +3,30 @@ import { z } from "zod";
 
 export type FieldErrors = Record<string, string>;
 
-/** What the user typed, echoed with a refusal so the form keeps it (files and `intent` left out). */
-export type FormValues = Record<string, string>;
+/**
+ * What the user typed, echoed with a refusal so the form keeps it (files and `intent` left out):
+ * a field posted once is its string, a field posted several times (ticked boxes) every value in order.
+ */
+export type FormValues = Record<string, string | string[]>;
+
+/** A typed field as text (of a field posted twice, the first value); undefined when it was not posted. */
+export function valueText(values: FormValues | null | undefined, name: string): string | undefined {
+  const value = values?.[name];
+  return Array.isArray(value) ? value[0] : value;
+}
+
+/** What was typed, one text a field, for forms whose fields are all single (spread over their blank values). */
+export function valueTexts(values: FormValues | null | undefined): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const [name, value] of Object.entries(values ?? {})) out[name] = Array.isArray(value) ? value[0] : value;
+  return out;
+}
+
+/** Every value posted under `name` (the boxes ticked); none posted → []. */
+export function valueList(values: FormValues | null | undefined, name: string): string[] {
+  const value = values?.[name];
+  return value === undefined ? [] : Array.isArray(value) ? value : [value];
+}
 
 export interface ActionFailure {
   ok: false;

@@ -14,6 +14,7 @@ import { formAction, idParam, intent } from "~/lib/actions.server";
 import { hours } from "~/lib/format";
 import { resendSchema, templateSchema, type DecisionsAnswer } from "~/lib/schemas/decisions";
 import type { Route } from "./+types/admin.calls.$callId.decisions";
+import { valueText } from "~/lib/forms";
 
 export function meta({ data: d }: Route.MetaArgs) {
   return [{ title: `Decisions ${d?.decisions.call.semesterCode ?? ""} · Observatory office · Nightshare` }];
@@ -59,7 +60,7 @@ export default function Decisions({ loaderData }: Route.ComponentProps) {
   const { call } = decisions;
   const unsent = decisions.rows.filter((r) => !r.sent).length;
   // a template's answer belongs to its editor; the rest (sending, an unknown button) to the page
-  const editorsAnswer = actionData?.intent === "save-template" && (actionData.ok || decisionOutcomes.some((o) => o === actionData.values.outcome));
+  const editorsAnswer = actionData?.intent === "save-template" && (actionData.ok || decisionOutcomes.some((o) => o === valueText(actionData.values, "outcome")));
   const pageAnswer = actionData && !editorsAnswer ? actionData : undefined;
   return (
     <div className="space-y-6">
@@ -108,7 +109,7 @@ export default function Decisions({ loaderData }: Route.ComponentProps) {
                             <Form method="post" className="mt-3 flex flex-wrap items-end gap-2">
                               <input type="hidden" name="intent" value="resend" />
                               <input type="hidden" name="proposalId" value={r.proposalId} />
-                              <label className="flex-1">Reason for sending again<input name="reason" className="input" defaultValue={pageAnswer && !pageAnswer.ok && pageAnswer.intent === "resend" ? (pageAnswer.values.reason ?? "") : ""} aria-invalid={pageAnswer && !pageAnswer.ok && pageAnswer.errors.reason ? true : undefined} /></label>
+                              <label className="flex-1">Reason for sending again<input name="reason" className="input" defaultValue={pageAnswer && !pageAnswer.ok && pageAnswer.intent === "resend" ? (valueText(pageAnswer.values, "reason") ?? "") : ""} aria-invalid={pageAnswer && !pageAnswer.ok && pageAnswer.errors.reason ? true : undefined} /></label>
                               <button type="submit" className="btn-quiet" disabled={busy}>Send this letter again</button>
                               {pageAnswer && !pageAnswer.ok && pageAnswer.errors.reason ? <p className="field-error w-full" role="alert">{pageAnswer.errors.reason}</p> : null}
                             </Form>

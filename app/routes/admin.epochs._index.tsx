@@ -4,7 +4,7 @@ import { NightLogImport, type NightLogAnswer } from "~/components/epochs/NightLo
 import { ErrorPage } from "~/components/ErrorPage";
 import { formAction, intent } from "~/lib/actions.server";
 import { astrometryProgrammes, importNightLog, requireEpochOffice } from "~/lib/epochs/epochs.server";
-import { refusedNightLogText } from "~/lib/epochs/night-log-csv";
+import { NIGHT_LOG_MAX_BYTES, refusedNightLogText } from "~/lib/epochs/night-log-csv";
 import { Refusal, utf8Bytes } from "~/lib/forms";
 import type { Route } from "./+types/admin.epochs._index";
 
@@ -17,7 +17,6 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { programmes: await astrometryProgrammes() };
 }
 
-const MAX_UPLOAD_BYTES = 2 * 1024 * 1024;
 const PASTE = "Paste the night log (a header row and one row per epoch).";
 
 const nightLogIntents = z.discriminatedUnion("intent", [
@@ -27,7 +26,7 @@ const nightLogIntents = z.discriminatedUnion("intent", [
       csv: z
         .string({ error: PASTE })
         .refine((csv) => csv.trim() !== "", { error: PASTE })
-        .refine((csv) => utf8Bytes(csv) <= MAX_UPLOAD_BYTES, { error: "The night log is larger than 2 MB; split it." }),
+        .refine((csv) => utf8Bytes(csv) <= NIGHT_LOG_MAX_BYTES, { error: "The night log is larger than 2 MB; split it." }),
     }),
   ),
 ]);

@@ -20,7 +20,7 @@ import { DISAGREEMENT_SPAN, MIN_GRADES } from "~/lib/allocation/normalise";
 import { HIDDEN_TEAM } from "~/lib/domain";
 import { requireRole } from "~/lib/auth/auth.server";
 import { formAction, idParam, intent } from "~/lib/actions.server";
-import { idSchema } from "~/lib/forms";
+import { idSchema, valueText } from "~/lib/forms";
 import { chairRankSchema, reasonSchema } from "~/lib/schemas/allocation";
 import { scienceCategoryLabel } from "~/lib/proposals/vocabulary";
 import { Telescope } from "~/models/index.server";
@@ -106,7 +106,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
   const busy = useNavigation().state !== "idle";
   const err = (field: string) => (actionData && !actionData.ok ? actionData.errors[field] : undefined);
   // what was typed comes back only with a refusal; after a success the forms start empty
-  const typed = (field: string) => (actionData && !actionData.ok ? actionData.values[field] : undefined);
+  const typed = (field: string) => (actionData && !actionData.ok ? valueText(actionData.values, field) : undefined);
   const moveRefused = actionData && !actionData.ok && actionData.intent === "move";
   const { call } = board;
   const telescopeName = (id: number) => telescopes.find((t) => t.id === id)?.name ?? `telescope ${id}`;

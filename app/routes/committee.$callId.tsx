@@ -2,7 +2,7 @@ import { Form, Link, useActionData, useNavigation } from "react-router";
 import { Field, inputProps } from "~/components/Field";
 import { requireRole } from "~/lib/auth/auth.server";
 import { formAction, idParam, intent } from "~/lib/actions.server";
-import { idSchema, Refusal } from "~/lib/forms";
+import { idSchema, Refusal, valueList, valueText } from "~/lib/forms";
 import { observatoryTimeZone } from "~/lib/office/office.server";
 import { scienceCategoryLabel } from "~/lib/proposals/vocabulary";
 import { chairReopenReview, reassign, remindReviewer, reviewBoard, saveReviewSetup, startReview } from "~/lib/review/chair.server";
@@ -92,10 +92,11 @@ export default function CallReviewPage({ loaderData }: Route.ComponentProps) {
   const errors = actionData && !actionData.ok ? actionData.errors : {};
   // a panel member's message sits at panel.<n>
   const err = (field: string) => errors[field] ?? Object.entries(errors).find(([key]) => key.startsWith(`${field}.`))?.[1];
-  const typed = (field: string): string | undefined => actionData?.values[field];
+  const typed = (field: string) => valueText(actionData?.values, field);
   const deadlineLocal = typed("reviewDeadline") ?? (review.reviewDeadlineAt ? utcToZonedLocal(review.reviewDeadlineAt, timeZone) : "");
-  // a refused form comes back with its first box only: the browser keeps the others once the page runs, so the saved panel shows until then
-  const panelIds = board.panel.map((r) => r.reviewerId);
+  // a refused setup keeps the boxes the chair ticked; otherwise the saved panel is ticked
+  const refusedSetup = actionData && !actionData.ok && actionData.intent === "setup";
+  const ticked = refusedSetup ? valueList(actionData.values, "panel") : board.panel.map((r) => String(r.reviewerId));
   return (
     <div className="space-y-6">
       <p className="text-sm"><Link to="/committee">Committee</Link> › {call.semesterCode}</p>
@@ -159,7 +160,7 @@ export default function CallReviewPage({ loaderData }: Route.ComponentProps) {
             <div className="mt-1 grid gap-1 sm:grid-cols-2">
               {candidates.map((c) => (
                 <label key={c.reviewerId} className="flex items-start gap-2 font-normal">
-                  <input type="checkbox" name="panel" value={c.reviewerId} defaultChecked={panelIds.includes(c.reviewerId)} />
+                  <input type="checkbox" name="panel" value={c.reviewerId} defaultChecked={ticked.includes(String(c.reviewerId))} />
                   <span>
                     {c.name} <span className="text-sm text-slate-600">· {c.institution ?? "no institution"} · {c.categories.map((x) => scienceCategoryLabel(x)).join(", ") || "no categories stated"}</span>
                   </span>

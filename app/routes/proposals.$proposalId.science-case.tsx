@@ -5,7 +5,7 @@ import { ErrorPage } from "~/components/ErrorPage";
 import { Field, inputProps } from "~/components/Field";
 import { failure, formAction, intent, refusalFailure } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
-import { Refusal } from "~/lib/forms";
+import { Refusal, valueText } from "~/lib/forms";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { getProposalForUser } from "~/lib/proposals/proposals.server";
 import { SelfReferenceWarnings } from "~/components/SelfReferenceWarnings";
@@ -75,7 +75,7 @@ export default function ScienceCase({ loaderData, actionData }: Route.ComponentP
   const busy = navigation.state === "submitting";
   const [clientError, setClientError] = useState<string | null>(null);
   const serverError = actionData && !actionData.ok ? actionData.errors.file ?? actionData.errors.form : undefined;
-  const refusedName = actionData && !actionData.ok ? (actionData.values.filename ?? null) : null;
+  const refusedName = actionData && !actionData.ok ? (valueText(actionData.values, "filename") ?? null) : null;
   const error = clientError ?? serverError;
   const [current, ...earlier] = history;
   const href = (id: number, inline = false) => `/proposals/${proposalId}/files/${id}${inline ? "?inline=1" : ""}`;

@@ -2,6 +2,7 @@
 // workspace. A resource route: the strip's fetcher reads the answer; a GET goes to the summary.
 import { redirect } from "react-router";
 import { z } from "zod";
+import type { ReadinessDone } from "~/components/proposals/ReadinessStrip";
 import { formAction, intent } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
@@ -22,18 +23,18 @@ export async function action({ request, params }: Route.ActionArgs) {
   const proposalId = proposalIdParam(params);
   await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
   return formAction(request, stripIntents, async (input) => {
-    const ok = (message: string) => ({ ok: true as const, intent: input.intent, message });
+    const ok = (intent: ReadinessDone["intent"], message: string): ReadinessDone => ({ ok: true, intent, message });
     switch (input.intent) {
       case "submit": {
         const r = await submitProposal({ user, proposalId });
-        return ok(`Submitted as ${r.code}. A receipt${r.pdfAttached ? " with the proposal PDF" : ""} is on its way to ${r.recipients.join(", ")}.`);
+        return ok(input.intent, `Submitted as ${r.code}. A receipt${r.pdfAttached ? " with the proposal PDF" : ""} is on its way to ${r.recipients.join(", ")}.`);
       }
       case "withdraw":
         await withdrawProposal({ user, proposalId });
-        return ok("The proposal is withdrawn and the team has been told by e-mail. You can reopen it as a draft until the deadline.");
+        return ok(input.intent, "The proposal is withdrawn and the team has been told by e-mail. You can reopen it as a draft until the deadline.");
       case "reopen":
         await reopenProposal({ user, proposalId });
-        return ok("The proposal is a draft again. Submit it again before the deadline; it keeps its code.");
+        return ok(input.intent, "The proposal is a draft again. Submit it again before the deadline; it keeps its code.");
       case "delete": {
         const { title } = await deleteDraft({ user, proposalId });
         return redirect(`/proposals?deleted=${encodeURIComponent(title)}`);

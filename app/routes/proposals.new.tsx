@@ -7,7 +7,7 @@ import { Field, inputProps } from "~/components/Field";
 import { formatUtc as utc } from "~/lib/format";
 import { requireUser } from "~/lib/auth/auth.server";
 import { formAction, intent } from "~/lib/actions.server";
-import type { ActionFailure } from "~/lib/forms";
+import { valueText, type ActionFailure } from "~/lib/forms";
 import { createProposal, openCalls } from "~/lib/proposals/proposals.server";
 import { newProposalSchema } from "~/lib/schemas/proposals";
 import type { Route } from "./+types/proposals.new";
@@ -42,9 +42,9 @@ export default function NewProposal({ loaderData }: Route.ComponentProps) {
   const { register, handleSubmit, formState, watch } = useForm<z.input<typeof newProposalSchema>, unknown, z.output<typeof newProposalSchema>>({
     resolver: zodResolver(newProposalSchema),
     defaultValues: {
-      callId: actionData?.values.callId ?? (preselected ? String(preselected) : ""),
-      title: actionData?.values.title ?? "",
-      abstract: actionData?.values.abstract ?? "",
+      callId: valueText(actionData?.values, "callId") ?? (preselected ? String(preselected) : ""),
+      title: valueText(actionData?.values, "title") ?? "",
+      abstract: valueText(actionData?.values, "abstract") ?? "",
     },
   });
   const error = (field: "callId" | "title" | "abstract") => formState.errors[field]?.message ?? actionData?.errors[field];
@@ -69,7 +69,7 @@ export default function NewProposal({ loaderData }: Route.ComponentProps) {
           <div className="mt-2 grid gap-3 sm:grid-cols-2">
             {calls.map((c) => (
               <label key={c.id} className="flex cursor-pointer items-start gap-3 rounded-md border border-slate-300 bg-white p-3 font-normal has-[:checked]:border-night-700 has-[:checked]:bg-night-50">
-                <input type="radio" value={String(c.id)} className="mt-1" defaultChecked={String(c.id) === String(actionData?.values.callId ?? preselected ?? "")} {...register("callId")} aria-invalid={error("callId") ? true : undefined} />
+                <input type="radio" value={String(c.id)} className="mt-1" defaultChecked={String(c.id) === String(valueText(actionData?.values, "callId") ?? preselected ?? "")} {...register("callId")} aria-invalid={error("callId") ? true : undefined} />
                 <span>
                   <span className="block font-semibold text-night-900">{c.semesterCode}</span>
                   <span className="block text-sm text-slate-600">{c.title}</span>

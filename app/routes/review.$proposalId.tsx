@@ -15,6 +15,7 @@ import { reviewStatusLabels } from "~/lib/review/vocabulary";
 import { conflictSchema, gradeSchema } from "~/lib/schemas/review";
 import { fixed, formatUtc } from "~/lib/format";
 import type { Route } from "./+types/review.$proposalId";
+import { valueText } from "~/lib/forms";
 
 export function meta({ data: d }: Route.MetaArgs) {
   return [{ title: `${d?.reading.proposal.code ?? "Proposal"} · Review · Nightshare` }];
@@ -181,7 +182,7 @@ export default function ReviewProposal({ loaderData }: Route.ComponentProps) {
             <p className="text-sm text-slate-600">The assignment is released, the chair is told, and this proposal leaves your desk.</p>
             <Form method="post" className="space-y-2" noValidate>
               <Field label="Reason" id="reason" error={conflictError}>
-                <input id="reason" name="reason" className="input" defaultValue={actionData && !actionData.ok && actionData.intent === "conflict" ? actionData.values.reason : ""} aria-invalid={conflictError ? true : undefined} />
+                <input id="reason" name="reason" className="input" defaultValue={actionData && !actionData.ok && actionData.intent === "conflict" ? valueText(actionData.values, "reason") : ""} aria-invalid={conflictError ? true : undefined} />
               </Field>
               <button className="btn bg-red-700 hover:bg-red-800" name="intent" value="conflict" disabled={navigation.state !== "idle"}>Declare the conflict</button>
             </Form>

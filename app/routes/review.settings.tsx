@@ -2,6 +2,7 @@ import { Form, Link, useActionData, useNavigation } from "react-router";
 import { z } from "zod";
 import { formAction, intent } from "~/lib/actions.server";
 import { requireRole } from "~/lib/auth/auth.server";
+import { valueList } from "~/lib/forms";
 import { scienceCategories } from "~/lib/proposals/vocabulary";
 import { myCategories, saveMyCategories } from "~/lib/review/desk.server";
 import { reviewerCategoriesSchema } from "~/lib/schemas/review";
@@ -29,6 +30,8 @@ export async function action({ request }: Route.ActionArgs) {
 export default function ReviewSettings({ loaderData }: Route.ComponentProps) {
   const actionData = useActionData<typeof action>();
   const navigation = useNavigation();
+  // a refused save keeps the boxes as they were ticked
+  const ticked = actionData && !actionData.ok ? valueList(actionData.values, "categories") : loaderData.categories;
   return (
     <div className="mx-auto max-w-2xl card space-y-3">
       <p className="text-sm"><Link to="/review">Review desk</Link> › Categories</p>
@@ -38,7 +41,7 @@ export default function ReviewSettings({ loaderData }: Route.ComponentProps) {
       <Form method="post" className="space-y-2">
         {scienceCategories.map((c) => (
           <label key={c.value} className="flex items-center gap-2 font-normal">
-            <input type="checkbox" name="categories" value={c.value} defaultChecked={loaderData.categories.includes(c.value)} /> {c.label}
+            <input type="checkbox" name="categories" value={c.value} defaultChecked={ticked.includes(c.value)} /> {c.label}
           </label>
         ))}
         {actionData && !actionData.ok ? <p className="field-error" role="alert">{actionData.errors.categories ?? Object.values(actionData.errors)[0]}</p> : null}

@@ -13,7 +13,7 @@ import {
   verifySignInCode,
 } from "~/lib/auth/sign-in.server";
 import { failure, formAction, intent } from "~/lib/actions.server";
-import type { ActionFailure } from "~/lib/forms";
+import { valueText, type ActionFailure } from "~/lib/forms";
 import { codeSchema, emailSchema } from "~/lib/schemas/auth";
 import { getSession, sessionStorage } from "~/lib/auth/session.server";
 import type { Route } from "./+types/sign-in";
@@ -67,7 +67,7 @@ function EmailStep({ redirectTo, email }: { redirectTo: string; email: string })
   const server = actionData && !actionData.ok ? actionData : undefined;
   const { register, handleSubmit, formState } = useForm<z.input<typeof emailSchema>, unknown, z.output<typeof emailSchema>>({
     resolver: zodResolver(emailSchema),
-    defaultValues: { email: server?.values.email ?? email, redirectTo },
+    defaultValues: { email: valueText(server?.values, "email") ?? email, redirectTo },
   });
   const error = formState.errors.email?.message ?? server?.errors.email;
   return (
@@ -84,7 +84,7 @@ function EmailStep({ redirectTo, email }: { redirectTo: string; email: string })
             type="email"
             autoComplete="email"
             autoFocus
-            defaultValue={server?.values.email ?? email}
+            defaultValue={valueText(server?.values, "email") ?? email}
             {...inputProps("email", error)}
             {...register("email")}
           />
@@ -101,7 +101,7 @@ function CodeStep({ email, minutes }: { email: string; minutes: number }) {
   const server = actionData && !actionData.ok ? actionData : undefined;
   const { register, handleSubmit, formState } = useForm<z.input<typeof codeSchema>, unknown, z.output<typeof codeSchema>>({
     resolver: zodResolver(codeSchema),
-    defaultValues: { code: server?.values.code ?? "" },
+    defaultValues: { code: valueText(server?.values, "code") ?? "" },
   });
   const submit = useSubmit();
   const error = formState.errors.code?.message ?? server?.errors.code;

@@ -6,7 +6,7 @@ import { Field, inputProps } from "~/components/Field";
 import { writeAudit } from "~/lib/audit.server";
 import { requireUser, safeRedirectTo } from "~/lib/auth/auth.server";
 import { formAction, intent } from "~/lib/actions.server";
-import type { ActionFailure } from "~/lib/forms";
+import { valueText, type ActionFailure } from "~/lib/forms";
 import { profileSchema } from "~/lib/schemas/auth";
 import { User } from "~/models/index.server";
 import type { Route } from "./+types/welcome";
@@ -33,8 +33,8 @@ export default function Welcome({ loaderData }: Route.ComponentProps) {
   const { register, handleSubmit, formState } = useForm<z.input<typeof profileSchema>, unknown, z.output<typeof profileSchema>>({
     resolver: zodResolver(profileSchema),
     defaultValues: {
-      name: actionData?.values.name ?? loaderData.name,
-      institution: actionData?.values.institution ?? loaderData.institution,
+      name: valueText(actionData?.values, "name") ?? loaderData.name,
+      institution: valueText(actionData?.values, "institution") ?? loaderData.institution,
     },
   });
   const error = (field: "name" | "institution") => formState.errors[field]?.message ?? actionData?.errors[field];
@@ -47,12 +47,12 @@ export default function Welcome({ loaderData }: Route.ComponentProps) {
       <Form method="post" noValidate className="space-y-4" onSubmit={handleSubmit((_, e) => submit(e?.target as HTMLFormElement))}>
         <input type="hidden" name="intent" value="save" />
         <Field label="Your name" id="name" error={error("name")}>
-          <input autoComplete="name" defaultValue={actionData?.values.name ?? loaderData.name} {...inputProps("name", error("name"))} {...register("name")} />
+          <input autoComplete="name" defaultValue={valueText(actionData?.values, "name") ?? loaderData.name} {...inputProps("name", error("name"))} {...register("name")} />
         </Field>
         <Field label="Institution" id="institution" error={error("institution")}>
           <input
             autoComplete="organization"
-            defaultValue={actionData?.values.institution ?? loaderData.institution}
+            defaultValue={valueText(actionData?.values, "institution") ?? loaderData.institution}
             {...inputProps("institution", error("institution"))}
             {...register("institution")}
           />

@@ -1,7 +1,7 @@
 import type { Server } from "node:http";
 import path from "node:path";
 import supertest from "supertest";
-import type { ServerBuild } from "react-router";
+import { UNSAFE_decodeViaTurboStream as decodeTurboStream, type ServerBuild } from "react-router";
 import { createHttpApp } from "~/cli/http-app";
 import { testEnv } from "./env";
 
@@ -37,4 +37,28 @@ export async function listen(): Promise<{ url: string; close(): Promise<void> }>
 /** Form bodies as a browser posts them. */
 export function form(values: Record<string, string | number | boolean>) {
   return new URLSearchParams(Object.entries(values).map(([k, v]) => [k, String(v)])).toString();
+}
+
+/**
+ * Posts a form as the browser's router does (to `<path>.data`) and decodes what the action
+ * answered, so a test can read the 400's `values` and `errors` rather than search the page's text.
+ * `fields` are pairs, so a name can repeat (ticked boxes).
+ */
+export async function postForAnswer(path: string, cookie: string, fields: [string, string | number][]) {
+  const [pathname, search] = path.split("?");
+  const res = await (await request())
+    .post(`${pathname}.data${search ? `?${search}` : ""}`)
+    .set("Cookie", cookie)
+    .type("form")
+    .send(new URLSearchParams(fields.map(([k, v]) => [k, String(v)])).toString())
+    .buffer(true)
+    .parse((stream, done) => {
+      let text = "";
+      stream.setEncoding("utf8");
+      stream.on("data", (chunk: string) => (text += chunk));
+      stream.on("end", () => done(null, text));
+    });
+  const decoded = await decodeTurboStream(new Response(res.body as string).body!, globalThis);
+  await decoded.done;
+  return { status: res.status, answer: decoded.value as { data?: unknown; error?: unknown } };
 }

@@ -5,7 +5,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { UNKNOWN_INTENT } from "~/lib/actions.server";
 import { astrometryProgrammes } from "~/lib/epochs/epochs.server";
 import { AuditEntry, Instrument, Telescope } from "~/models/index.server";
-import { form, request } from "../helpers/app";
+import { form, postForAnswer, request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
 import { newUser } from "../helpers/session";
 import { testCall } from "./proposals-fixtures";
@@ -148,5 +148,31 @@ describe("JSON actions refuse a bogus intent and malformed ids with a 400 naming
     const notJson = await (await request()).post("/api/v1/admin/users").set("Cookie", cookies.admin).set("Content-Type", "application/json").send("{not json");
     expect(notJson.status).toBe(400);
     expect(notJson.body.issues[0].path).toBe("(body)");
+  });
+});
+
+describe("a refused review setup keeps the panel the chair ticked", () => {
+  it("two ticked reviewers come back in the 400's values, and the page without script shows both boxes ticked", async () => {
+    const call = (await testCall()).id;
+    const first = (await newUser({ name: "Intent Test Panel One", roles: ["reviewer"] })).user.id;
+    const second = (await newUser({ name: "Intent Test Panel Two", roles: ["reviewer"] })).user.id;
+    const fields: [string, string | number][] = [
+      ["intent", "setup"],
+      ["reviewDeadline", "next Tuesday"],
+      ["perProposal", "2"],
+      ["panel", first],
+      ["panel", second],
+    ];
+    const { status, answer } = await postForAnswer(`/committee/${call}`, cookies.chair, fields);
+    expect(status).toBe(400);
+    const body = answer.data as { ok: boolean; intent: string; errors: Record<string, string>; values: Record<string, unknown> };
+    expect(body.ok).toBe(false);
+    expect(body.intent).toBe("setup");
+    expect(body.errors.reviewDeadline).toBe("Enter the review deadline as date and time.");
+    expect(body.values.panel).toEqual([String(first), String(second)]);
+
+    const page = await (await request()).post(`/committee/${call}`).set("Cookie", cookies.chair).type("form").send(new URLSearchParams(fields.map(([k, v]) => [k, String(v)])).toString());
+    expect(page.status).toBe(400);
+    for (const id of [first, second]) expect(page.text).toContain(`<input type="checkbox" name="panel" checked="" value="${id}"/>`);
   });
 });

@@ -5,7 +5,7 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { CallReview, Observation, Proposal, ProposalMember, ReviewAssignment, Target, User } from "~/models/index.server";
 import { instrumentOptions } from "~/lib/proposals/observations.server";
-import { form, request } from "../helpers/app";
+import { form, postForAnswer, request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
 import { newUser } from "../helpers/session";
 import { goodTarget, pdfWithPages, readyProposal, testCall } from "./proposals-fixtures";
@@ -24,6 +24,7 @@ let targetId: number;
 let observationId: number;
 let memberId: number;
 let good: { instrumentId: number; filterId: number };
+let callSemester: string;
 
 beforeAll(async () => {
   await ensureDatabase();
@@ -32,6 +33,7 @@ beforeAll(async () => {
   // not the PIs' institution, or the pair would be a conflict and the page a 404
   await User.update({ institution: "Intent Test Reviewing Observatory" }, { where: { id: reviewer.user.id } });
   const call = await testCall();
+  callSemester = call.semesterCode;
   proposalId = (await readyProposal({ user: pi.user, callId: call.id, title: "Intent test programme" })).proposal.id;
   targetId = (await Target.findOne({ where: { proposalId } }))!.id;
   observationId = (await Observation.findOne({ where: { proposalId } }))!.id;
@@ -215,5 +217,46 @@ describe("the proposal JSON route parses its URL id", () => {
     const res = await (await request()).get(`/api/v1/proposals/${proposalId}`).set("Cookie", pi.cookie);
     expect(res.status).toBe(200);
     expect(res.body.proposal.title).toBe("Intent test programme");
+  });
+});
+
+describe("a refused save of the summary keeps every semester ticked", () => {
+  it("two ticked semesters come back in the 400's values, the title's message with them", async () => {
+    const version = (await Proposal.findByPk(proposalId))!.version;
+    const year = Number(callSemester.slice(0, 4));
+    const next = callSemester.endsWith("A") ? `${year}B` : `${year + 1}A`;
+    const { status, answer } = await postForAnswer(`/proposals/${proposalId}?index`, pi.cookie, [
+      ["intent", "save"],
+      ["version", version],
+      ["title", ""],
+      ["abstract", "Kept through a refusal."],
+      ["scienceCategory", ""],
+      ["isMultiSemester", "on"],
+      ["semestersRequested", callSemester],
+      ["semestersRequested", next],
+    ]);
+    expect(status).toBe(400);
+    const body = answer.data as { ok: boolean; errors: Record<string, string>; values: Record<string, unknown> };
+    expect(body.ok).toBe(false);
+    expect(Object.keys(body.errors)).toEqual(["title"]);
+    expect(body.values.semestersRequested).toEqual([callSemester, next]);
+    expect(body.values.abstract).toBe("Kept through a refusal.");
+    expect(body.values.isMultiSemester).toBe("on");
+    expect((await Proposal.findByPk(proposalId))!.version).toBe(version);
+  });
+});
+
+describe("a refused save of a reviewer's categories keeps every box ticked", () => {
+  it("a known and an unknown category both come back in the 400's values", async () => {
+    const { status, answer } = await postForAnswer("/review/settings", reviewer.cookie, [
+      ["intent", "save"],
+      ["categories", "exoplanets"],
+      ["categories", "not-a-category"],
+    ]);
+    expect(status).toBe(400);
+    const body = answer.data as { ok: boolean; errors: Record<string, string>; values: Record<string, unknown> };
+    expect(body.ok).toBe(false);
+    expect(body.errors).toEqual({ "categories.1": "Choose categories from the list." });
+    expect(body.values.categories).toEqual(["exoplanets", "not-a-category"]);
   });
 });

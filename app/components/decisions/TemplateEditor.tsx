@@ -6,12 +6,13 @@ import { Field, inputProps } from "~/components/Field";
 import { composeLetter, PLACEHOLDERS, placeholderNames } from "~/lib/decisions/template";
 import { outcomeLabels, type DecisionOutcome, type LetterFacts } from "~/lib/decisions/vocabulary";
 import { templateSchema, type DecisionsAnswer } from "~/lib/schemas/decisions";
+import { valueText } from "~/lib/forms";
 
 /** One outcome's template, checked as it is typed, with the letter it makes for a sample proposal. */
 export function TemplateEditor({ outcome, initial, sample }: { outcome: DecisionOutcome; initial: { subject: string; body: string; custom: boolean }; sample: LetterFacts | null }) {
   const fetcher = useFetcher<DecisionsAnswer>();
   const data = fetcher.data;
-  const answer = data && (data.ok ? data.intent === "save-template" && data.outcome === outcome : data.values.outcome === outcome) ? data : undefined;
+  const answer = data && (data.ok ? data.intent === "save-template" && data.outcome === outcome : valueText(data.values, "outcome") === outcome) ? data : undefined;
   const { register, handleSubmit, formState, watch, setError } = useForm({
     resolver: zodResolver(templateSchema),
     mode: "onChange",

@@ -8,7 +8,7 @@ import { Field, inputProps } from "~/components/Field";
 import { lostCauses } from "~/lib/domain";
 import type { epochProgress, telescopeChoices } from "~/lib/epochs/epochs.server";
 import { epochFormSchema, formFieldOf, OBSERVED_AT_HINT, type EpochFormFields } from "~/lib/epochs/schema";
-import { plainIssue, type ActionFailure, type FieldErrors } from "~/lib/forms";
+import { plainIssue, valueTexts, type ActionFailure, type FieldErrors } from "~/lib/forms";
 
 /** What the page's action answers. */
 export type RecordEpochAnswer = ActionFailure | { ok: true; intent: "record"; message: string };
@@ -38,7 +38,7 @@ export function RecordEpochForm({ progress, telescopes, answer }: { progress: Aw
   const hydrated = useHydrated();
   const first = progress.observations[0];
   const empty: EpochFormFields = { observationId: String(first?.observationId ?? ""), observedAt: "", telescopeId: String(first?.telescopeId ?? telescopes[0]?.id ?? ""), frames: "", fwhmArcsec: "", snr: "", precisionMas: "", lostCause: "", note: "" };
-  const typed = answer && !answer.ok ? { ...empty, ...answer.values } : empty;
+  const typed = answer && !answer.ok ? { ...empty, ...valueTexts(answer.values) } : empty;
   const { register, handleSubmit, formState } = useForm<z.input<typeof epochFormSchema>, unknown, z.output<typeof epochFormSchema>>({ resolver: zodResolver(epochFormSchema), defaultValues: typed });
   // the record's schema reports a lost epoch's cause at `lost` / `lost.cause`, which is no field of the form
   const clientErrors: Record<string, { message?: string; cause?: { message?: string } } | undefined> = formState.errors;

@@ -6,6 +6,7 @@ import { formatUtc } from "~/lib/format";
 import { formatInZone, zonedLocalToUtc } from "~/lib/zoned-time";
 import { CallReviewOptions } from "./CallReviewOptions";
 import { fieldId, FormError, Message, NumberField, OfficeFields, TextField, useField, useOfficeForm, type FormResult } from "./fields";
+import { valueTexts } from "~/lib/forms";
 
 
 const moonLabels = { dark: "Dark", grey: "Grey", bright: "Bright" } as const;
@@ -87,7 +88,7 @@ export function CallForm({
   const { errors, onSubmit, register } = useOfficeForm(callSchema, result?.errors);
   const navigation = useNavigation();
   const busy = navigation.state === "submitting";
-  const typed = result?.values ?? {};
+  const typed = valueTexts(result?.values);
   const v = (name: keyof CallFormValues) => (typed[name] ?? initial[name]) as string | number | undefined;
   const cell = (telescopeId: number, moon: string) => typed[offerField(telescopeId, moon)] ?? initial.offers[telescopeId]?.[moon] ?? 0;
   const p = `call-${intent}`;
@@ -243,7 +244,7 @@ export function CallForm({
         <Message id={fieldId(p, "teamVisibility")} error={errors.teamVisibility} />
       </fieldset>
 
-      <CallReviewOptions prefix={p} initial={initial} typed={result?.values} errors={errors} />
+      <CallReviewOptions prefix={p} initial={initial} typed={result ? typed : undefined} errors={errors} />
 
       <button type="submit" className="btn" disabled={busy}>
         {busy ? "Saving…" : submitLabel}

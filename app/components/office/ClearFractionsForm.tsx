@@ -4,6 +4,7 @@ import { Form, useNavigation, useSubmit } from "react-router";
 import type { z } from "zod";
 import { clearFractionsSchema, MONTH_NAMES } from "~/lib/schemas/office";
 import type { FormResult } from "./fields";
+import { valueText } from "~/lib/forms";
 
 type In = z.input<typeof clearFractionsSchema>;
 type Out = z.output<typeof clearFractionsSchema>;
@@ -18,7 +19,7 @@ export function ClearFractionsForm({ months, result }: { months: { month: number
   const submit = useSubmit();
   const busy = useNavigation().state !== "idle";
   const typed = result && !result.ok ? result.values : undefined;
-  const defaults = Object.fromEntries(months.map((m) => [`m${m.month}`, typed?.[`m${m.month}`] ?? percentText(m.clearFraction)])) as In;
+  const defaults = Object.fromEntries(months.map((m) => [`m${m.month}`, valueText(typed, `m${m.month}`) ?? percentText(m.clearFraction)])) as In;
   const { register, handleSubmit, control, formState } = useForm<In, unknown, Out>({ resolver: zodResolver(clearFractionsSchema), defaultValues: defaults });
   const watched = useWatch({ control }) as Record<string, string | undefined>;
   const error = (name: string): string | undefined => (get(formState.errors, name) as { message?: string } | undefined)?.message ?? result?.errors?.[name];

@@ -1,6 +1,7 @@
 import { useActionData, useFetcher } from "react-router";
 import { filterSchema } from "~/lib/schemas/office";
 import { fieldId, resultFor, useOfficeForm, type FormResult } from "./fields";
+import { valueTexts } from "~/lib/forms";
 
 export const filterColumns = [
   { name: "band", label: "Band", unit: "", width: "w-20" },
@@ -21,7 +22,7 @@ export function FilterRow({ filter, isNew = false }: { filter?: FilterValues & {
   const result = posted && !posted.ok ? posted : undefined;
   const { errors, onSubmit, register } = useOfficeForm(filterSchema, result?.errors, fetcher.submit);
   const formId = isNew ? "filter-new" : `filter-${filter!.id}`;
-  const values = { ...filter, ...result?.values } as Record<string, string | number | undefined>;
+  const values = { ...filter, ...valueTexts(result?.values) } as Record<string, string | number | undefined>;
   const busy = fetcher.state !== "idle";
   return (
     <tr className={isNew ? "bg-night-50" : undefined}>

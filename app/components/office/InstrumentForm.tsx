@@ -1,6 +1,7 @@
 import { Form, useNavigation } from "react-router";
 import { instrumentSchema } from "~/lib/schemas/office";
 import { FormError, NumberField, OfficeFields, TextField, useOfficeForm, type FormResult } from "./fields";
+import { valueTexts } from "~/lib/forms";
 
 export const instrumentFields = [
   { name: "pixelScaleArcsec", label: "Pixel scale", unit: "″/pixel", hint: "On the sky, per (binned) pixel" },
@@ -30,7 +31,7 @@ export function InstrumentForm({
   const { errors, onSubmit, register } = useOfficeForm(instrumentSchema, result?.errors);
   const navigation = useNavigation();
   const busy = navigation.state === "submitting" && navigation.formData?.get("intent") === intent;
-  const v = { ...initial, ...result?.values } as Record<string, string | number | undefined>;
+  const v = { ...initial, ...valueTexts(result?.values) } as Record<string, string | number | undefined>;
   const p = `instrument-${intent}`;
   return (
     <Form method="post" noValidate onSubmit={onSubmit} className="space-y-4" aria-label={submitLabel}>

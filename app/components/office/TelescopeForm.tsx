@@ -1,6 +1,7 @@
 import { Form, useNavigation } from "react-router";
 import { telescopeSchema } from "~/lib/schemas/office";
 import { FormError, NumberField, OfficeFields, TextField, useOfficeForm, type FormResult } from "./fields";
+import { valueTexts } from "~/lib/forms";
 
 export interface TelescopeValues {
   name: string;
@@ -29,7 +30,7 @@ export function TelescopeForm({
   const { errors, onSubmit, register } = useOfficeForm(telescopeSchema, result?.errors);
   const navigation = useNavigation();
   const busy = navigation.state === "submitting" && navigation.formData?.get("intent") === intent;
-  const v = { ...initial, ...result?.values } as Partial<Record<keyof TelescopeValues, string | number>>;
+  const v = { ...initial, ...valueTexts(result?.values) } as Partial<Record<keyof TelescopeValues, string | number>>;
   const p = `telescope-${intent}`;
   return (
     <Form method="post" noValidate onSubmit={onSubmit} className="space-y-4" aria-label={submitLabel}>

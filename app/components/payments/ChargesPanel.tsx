@@ -7,7 +7,7 @@ import { formatUtc as utc } from "~/lib/format";
 import { chargeKindLabels, chargeStateLabels, formatMoney } from "~/lib/payments/money";
 import { declarePagesSchema } from "~/lib/schemas/charges";
 import type { CheckoutReturn, TeamChargeView, PageChargeOffer } from "~/lib/payments/team.server";
-import type { ActionFailure } from "~/lib/forms";
+import { valueText, type ActionFailure } from "~/lib/forms";
 import type { z } from "zod";
 
 /** What the Charges tab's action answers (a Pay press that works is a redirect to the payment page). */
@@ -104,7 +104,7 @@ function PagesForm({ offer, answer }: { offer: Extract<PageChargeOffer, { open: 
   const submit = useSubmit();
   const busy = useNavigation().formData?.get("intent") === "declare-pages";
   const mine = answer?.intent === "declare-pages" ? answer : null;
-  const typed = mine && !mine.ok ? String(mine.values.pages ?? "") : "";
+  const typed = mine && !mine.ok ? (valueText(mine.values, "pages") ?? "") : "";
   const { register, handleSubmit, formState, watch } = useForm<z.input<typeof declarePagesSchema>, unknown, z.output<typeof declarePagesSchema>>({ resolver: zodResolver(declarePagesSchema), defaultValues: { intent: "declare-pages", pages: typed } });
   const error = formState.errors.pages?.message ?? (mine && !mine.ok ? (mine.errors.pages ?? mine.errors.form) : undefined);
   const pages = Number(watch("pages"));
@@ -131,7 +131,7 @@ function PagesForm({ offer, answer }: { offer: Extract<PageChargeOffer, { open: 
 
 export function ChargesPanel({ data, answer }: { data: Data; answer: Answer }) {
   const { charges, isPi, pageCharge, returned } = data;
-  const payError = (id: number) => (answer && !answer.ok && answer.intent === "pay" && String(answer.values.chargeId) === String(id) ? (answer.errors.chargeId ?? answer.errors.form) : undefined);
+  const payError = (id: number) => (answer && !answer.ok && answer.intent === "pay" && valueText(answer.values, "chargeId") === String(id) ? (answer.errors.chargeId ?? answer.errors.form) : undefined);
   const declared = answer?.intent === "declare-pages" && answer.ok ? answer.message : null;
   return (
     <div className="space-y-5">

@@ -8,7 +8,7 @@ import { SortableTable } from "~/components/SortableTable";
 import { formatUtc as utc } from "~/lib/format";
 import { chargeKindLabels, chargeStateLabels, formatMoney } from "~/lib/payments/money";
 import type { OfficeChargeView } from "~/lib/payments/office.server";
-import type { ActionFailure, FormValues } from "~/lib/forms";
+import { valueText, type ActionFailure, type FormValues } from "~/lib/forms";
 import { waiveSchema } from "~/lib/schemas/charges";
 
 /** What the office's waive action answers. */
@@ -21,8 +21,8 @@ const column = createColumnHelper<OfficeChargeView>();
 function WaiveForm({ charge, answer, onDone }: { charge: OfficeChargeView; answer: Answer; onDone: () => void }) {
   const submit = useSubmit();
   const busy = useNavigation().formData?.get("chargeId") === String(charge.id);
-  const mine = answer && String(answer.values.chargeId) === String(charge.id) ? answer : null;
-  const typed = mine && !mine.ok ? String(mine.values.reason ?? "") : "";
+  const mine = answer && valueText(answer.values, "chargeId") === String(charge.id) ? answer : null;
+  const typed = mine && !mine.ok ? (valueText(mine.values, "reason") ?? "") : "";
   const { register, handleSubmit, formState } = useForm({ resolver: zodResolver(waiveSchema), defaultValues: { intent: "waive" as const, chargeId: charge.id, reason: typed } });
   const error = formState.errors.reason?.message ?? (mine && !mine.ok ? (mine.errors.reason ?? mine.errors.chargeId ?? mine.errors.form) : undefined);
   useEffect(() => {
@@ -45,7 +45,7 @@ function WaiveForm({ charge, answer, onDone }: { charge: OfficeChargeView; answe
 }
 
 function Actions({ charge, answer }: { charge: OfficeChargeView; answer: Answer }) {
-  const mine = answer && String(answer.values.chargeId) === String(charge.id) && !answer.ok;
+  const mine = answer && valueText(answer.values, "chargeId") === String(charge.id) && !answer.ok;
   const [open, setOpen] = useState(Boolean(mine));
   if (charge.state === "paid" || charge.state === "waived") {
     return charge.state === "waived" ? <span className="text-xs text-slate-600" title={charge.waiveReason ?? undefined}>by {charge.waivedBy ?? "—"}: {charge.waiveReason}</span> : null;

@@ -9,6 +9,7 @@ import type { ObservationRow } from "~/lib/proposals/observations.server";
 import { observationSchema } from "~/lib/schemas/proposals";
 import { LiveSummary } from "./LiveSummary";
 import type { ObservationActionResult, ObservationFields, ObservationPageData } from "./observation-results";
+import { valueTexts } from "~/lib/forms";
 
 type FieldName = keyof ObservationFields;
 
@@ -58,7 +59,7 @@ export function ObservationForm({ data: d, editing, onDone }: { data: Observatio
   const result = answer && (answer.intent === "create" || answer.intent === "update") ? answer : undefined;
   const { register, handleSubmit, formState, watch, setValue, reset } = useForm<ObservationFields, unknown, z.output<typeof observationSchema>>({
     resolver: zodResolver(observationSchema),
-    defaultValues: editing ? formOf(editing) : result && !result.ok ? { ...blank(d), ...result.values } : blank(d),
+    defaultValues: editing ? formOf(editing) : result && !result.ok ? { ...blank(d), ...valueTexts(result.values) } : blank(d),
   });
   useEffect(() => {
     if (result?.ok && fetcher.state === "idle") {

@@ -5,7 +5,7 @@ import type { z } from "zod";
 import { AbstractField } from "~/components/AbstractField";
 import { Field, inputProps } from "~/components/Field";
 import { formatUtc as utc } from "~/lib/format";
-import type { ActionFailure } from "~/lib/forms";
+import { valueList, valueText, type ActionFailure } from "~/lib/forms";
 import type { OverviewResult, OverviewValues } from "~/lib/proposals/proposals.server";
 import { scienceCategories, scienceCategoryLabel, scienceCategoryValues } from "~/lib/proposals/vocabulary";
 import { overviewSchema } from "~/lib/schemas/proposals";
@@ -90,13 +90,12 @@ export function OverviewForm({ values, version, semesters, callSemester, editabl
     resolver: zodResolver(overviewSchema),
     defaultValues: {
       version: String(version),
-      title: fromAction?.title ?? start.title,
-      abstract: fromAction?.abstract ?? start.abstract,
-      scienceCategory: scienceCategoryValues.find((c) => c === (fromAction ? fromAction.scienceCategory : start.scienceCategory)) ?? "",
-      isMultiSemester: fromAction ? fromAction.isMultiSemester === "on" : start.isMultiSemester,
-      // what was typed comes back one value a field: the first semester ticked
-      semestersRequested: fromAction ? (fromAction.semestersRequested ? [fromAction.semestersRequested] : []) : start.semestersRequested,
-      isTargetOfOpportunity: fromAction ? fromAction.isTargetOfOpportunity === "on" : start.isTargetOfOpportunity,
+      title: valueText(fromAction, "title") ?? start.title,
+      abstract: valueText(fromAction, "abstract") ?? start.abstract,
+      scienceCategory: scienceCategoryValues.find((c) => c === (fromAction ? valueText(fromAction, "scienceCategory") : start.scienceCategory)) ?? "",
+      isMultiSemester: fromAction ? valueText(fromAction, "isMultiSemester") === "on" : start.isMultiSemester,
+      semestersRequested: fromAction ? valueList(fromAction, "semestersRequested") : start.semestersRequested,
+      isTargetOfOpportunity: fromAction ? valueText(fromAction, "isTargetOfOpportunity") === "on" : start.isTargetOfOpportunity,
     },
   });
   const errors = actionData && !actionData.ok ? actionData.errors : {};

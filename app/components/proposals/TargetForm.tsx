@@ -9,6 +9,7 @@ import type { TargetRow } from "~/lib/proposals/targets.server";
 import { BANDS } from "~/lib/astro/bands";
 import { targetSchema } from "~/lib/schemas/proposals";
 import type { TargetActionResult } from "./target-results";
+import { valueTexts } from "~/lib/forms";
 
 type TargetFields = z.input<typeof targetSchema>;
 const emptyTarget = { name: "", ra: "", dec: "", pmra: "", pmdec: "", mag_U: "", mag_B: "", mag_V: "", mag_R: "", mag_I: "", magnitude: "", band: "", notes: "" };
@@ -31,7 +32,7 @@ export function TargetForm({ editing, onDone }: { editing: TargetRow | null; onD
   const result = answer && (answer.intent === "create" || answer.intent === "update") ? answer : undefined;
   const { register, handleSubmit, formState, reset } = useForm<TargetFields, unknown, z.output<typeof targetSchema>>({
     resolver: zodResolver(targetSchema),
-    defaultValues: editing ? formOf(editing) : result && !result.ok ? { ...emptyTarget, ...result.values } : emptyTarget,
+    defaultValues: editing ? formOf(editing) : result && !result.ok ? { ...emptyTarget, ...valueTexts(result.values) } : emptyTarget,
   });
   useEffect(() => {
     if (result?.ok && fetcher.state === "idle") {

@@ -2,7 +2,7 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import { useForm } from "react-hook-form";
 import { Form, useNavigation, useSubmit } from "react-router";
 import { Field } from "~/components/Field";
-import type { ActionFailure } from "~/lib/forms";
+import { valueText, type ActionFailure } from "~/lib/forms";
 import { wordCount } from "~/lib/proposals/vocabulary";
 import { meritCriteria, meritSteps, PI_COMMENT_MIN_WORDS, type ReviewStatus } from "~/lib/review/vocabulary";
 import { gradeSchema, type GradeInput, type GradeValues } from "~/lib/schemas/review";
@@ -22,7 +22,7 @@ export function GradeForm({ review, actionData }: { review: GradeFormReview; act
   const navigation = useNavigation();
   const submit = useSubmit();
   const typed = actionData && !actionData.ok && (actionData.intent === "draft" || actionData.intent === "submit") ? actionData.values : null;
-  const initial = (k: "science" | "feasibility" | "legacy" | "overall") => typed?.[k] ?? (review.grade[k] === null ? "" : String(review.grade[k]));
+  const initial = (k: "science" | "feasibility" | "legacy" | "overall") => valueText(typed, k) ?? (review.grade[k] === null ? "" : String(review.grade[k]));
   const { register, handleSubmit, formState, watch, setValue } = useForm<GradeInput, unknown, GradeValues>({
     resolver: zodResolver(gradeSchema),
     defaultValues: {
@@ -30,8 +30,8 @@ export function GradeForm({ review, actionData }: { review: GradeFormReview; act
       feasibility: initial("feasibility"),
       legacy: initial("legacy"),
       overall: initial("overall"),
-      commentToPi: typed?.commentToPi ?? review.grade.commentToPi,
-      commentToCommittee: typed?.commentToCommittee ?? review.grade.commentToCommittee,
+      commentToPi: valueText(typed, "commentToPi") ?? review.grade.commentToPi,
+      commentToCommittee: valueText(typed, "commentToCommittee") ?? review.grade.commentToCommittee,
       submit: false,
     },
   });

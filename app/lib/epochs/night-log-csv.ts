@@ -9,6 +9,8 @@ export const NIGHT_LOG_COLUMNS = ["proposal", "target", "observed_at", "telescop
 export const REQUIRED_NIGHT_LOG_COLUMNS = ["proposal", "observed_at", "telescope", "frames"] as const;
 export const FIELD_OF: Record<string, string> = { observedAt: "observed_at", fwhmArcsec: "fwhm", precisionMas: "precision_mas", "lost.cause": "lost", lost: "lost", observationId: "target", telescopeId: "telescope" };
 export const MAX_NIGHT_LOG_ROWS = 2_000;
+/** The largest night log the office page takes, pasted or read from a file. */
+export const NIGHT_LOG_MAX_BYTES = 2 * 1024 * 1024;
 
 export const normaliseNightLogColumn = (c: string) => c.toLowerCase().replace(/[\s_-]/g, "");
 export const KNOWN_NIGHT_LOG_COLUMNS = new Map<string, string>(NIGHT_LOG_COLUMNS.map((c) => [normaliseNightLogColumn(c), c]));
