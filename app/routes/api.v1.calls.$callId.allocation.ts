@@ -16,7 +16,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const callId = apiId(params.callId, "callId");
   const body = await apiBody(request, allocationSchema);
   const saved = await apiAttempt(() => saveAllocation({ actor: user, callId, rows: body.rows, tiers: body.tiers }));
-  const board = await callBoard({ callId });
+  const board = await apiAttempt(() => callBoard({ callId }));
   return json({ saved, proposals: board.proposals.map((p) => ({ proposalId: p.proposalId, tier: p.tier, waitlisted: p.waitlisted, allocation: p.allocation })) });
 }
 

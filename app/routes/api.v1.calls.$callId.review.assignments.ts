@@ -14,7 +14,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const callId = apiId(params.callId, "callId");
   const body = await apiBody(request, assignmentsSchema);
   const result = await apiAttempt(() => replaceAssignments({ actor: user, callId, pairs: body.assignments, commit: body.commit }));
-  return json({ ...result, ...(await reviewState({ callId })) });
+  return json({ ...result, ...(await apiAttempt(() => reviewState({ callId }))) });
 }
 
 export async function loader() {

@@ -4,6 +4,7 @@ import { ChartPlaceholder, ClientOnly, useHydrated } from "~/components/ClientOn
 import { hours, ProblemsList, TotalsTable } from "~/components/FeasibilityParts";
 import { ErrorPage } from "~/components/ErrorPage";
 import { Field, inputProps } from "~/components/Field";
+import { orNotFound } from "~/lib/actions.server";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
 import { isIsoDate } from "~/lib/astro/time";
 import { requireUser } from "~/lib/auth/auth.server";
@@ -33,9 +34,9 @@ const OPEN_CARDS = 3;
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  await getProposalForUser({ proposalId, user });
+  await orNotFound(getProposalForUser({ proposalId, user }));
   const started = performance.now();
-  const input = await loadFeasibilityInput({ proposalId });
+  const input = await orNotFound(loadFeasibilityInput({ proposalId }));
   const sheet = feasibilitySheetOf(input);
   const url = new URL(request.url);
   const obsParam = url.searchParams.get("obs");

@@ -2,6 +2,7 @@ import { Link, NavLink, Outlet, useFetcher } from "react-router";
 import { SelfReferenceSummary } from "~/components/SelfReferenceWarnings";
 import { StatusBadge } from "~/components/StatusBadge";
 import { utc } from "~/components/workspace";
+import { orNotFound } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { proposalStatusLabels, type ProposalStatus } from "~/lib/domain";
 import { memberRoleLabels } from "~/lib/proposals/vocabulary";
@@ -20,11 +21,11 @@ export function meta({ data }: Route.MetaArgs) {
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const access = await getProposalForUser({ proposalId, user });
+  const access = await orNotFound(getProposalForUser({ proposalId, user }));
   // The checklist is for drafts only: a submitted or decided proposal shows its state instead.
   const readiness =
     access.proposal.status === "draft"
-      ? await submissionChecklist({ user, proposalId, access }).then(({ items, ready, requestedHours, requestedHoursBySemester, selfReference }) => ({ items, ready, requestedHours, requestedHoursBySemester, selfReference }))
+      ? await orNotFound(submissionChecklist({ user, proposalId, access })).then(({ items, ready, requestedHours, requestedHoursBySemester, selfReference }) => ({ items, ready, requestedHours, requestedHoursBySemester, selfReference }))
       : null;
   // Epoch progress is a tab once an astrometry programme is accepted (the route answers for any proposal)
   const epochTab = access.proposal.status === "accepted" && (await Observation.count({ where: { proposalId, baselineYears: { [Op.ne]: null } } })) > 0;

@@ -1,12 +1,12 @@
 // Small helpers shared by the workspace's loaders and actions.
 import { data } from "react-router";
 import { idSchema, Refusal } from "../forms";
-import { notFound } from "./proposals.server";
+import { NO_PROPOSAL } from "./proposals.server";
 
 /** The :proposalId of the URL as a number; anything else is a proposal that does not exist. */
 export function proposalIdParam(params: { proposalId?: string }): number {
   const id = idSchema("proposal").safeParse(params.proposalId);
-  if (!id.success) notFound();
+  if (!id.success) throw data({ message: NO_PROPOSAL }, { status: 404 });
   return id.data;
 }
 
