@@ -1,7 +1,7 @@
 import { saveAllocation } from "~/lib/allocation/allocate.server";
 import { callBoard } from "~/lib/allocation/board.server";
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import { allocationSchema } from "~/lib/schemas/allocation";
 import type { Route } from "./+types/api.v1.calls.$callId.allocation";
 

@@ -1,7 +1,7 @@
 import { data } from "react-router";
 import { callRaPressure } from "~/lib/allocation/ra-pressure.server";
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.calls.$callId.ra-pressure";
 
 /**

@@ -1,7 +1,7 @@
 import { boardUncertainty } from "~/lib/allocation/board-uncertainty";
 import { callBoard } from "~/lib/allocation/board.server";
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.calls.$callId.reproducibility";
 
 /**

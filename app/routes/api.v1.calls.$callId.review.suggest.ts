@@ -1,5 +1,5 @@
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import { suggestForCall } from "~/lib/review/chair.server";
 import { suggestSchema } from "~/lib/schemas/review";
 import type { Route } from "./+types/api.v1.calls.$callId.review.suggest";

@@ -1,6 +1,6 @@
 import { requireRole } from "~/lib/auth/auth.server";
 import { revealTeams, teamRevealState } from "~/lib/review/anonymity.server";
-import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.calls.$callId.review.teams";
 
 /** GET /api/v1/calls/:callId/review/teams (chair): whether the call is dual-anonymous, the grades in, whether the teams are revealed. */

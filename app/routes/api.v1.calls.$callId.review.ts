@@ -1,5 +1,5 @@
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import { reviewState } from "~/lib/review/chair.server";
 import type { Route } from "./+types/api.v1.calls.$callId.review";
 

@@ -1,6 +1,6 @@
 import { startSemesterCheck } from "~/lib/allocation/semester-check.server";
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import { semesterCheckSchema } from "~/lib/schemas/semester-check";
 import type { Route } from "./+types/api.v1.calls.$callId.semester-check";
 

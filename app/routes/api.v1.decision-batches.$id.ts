@@ -1,6 +1,6 @@
 import { requireRole } from "~/lib/auth/auth.server";
 import { batchProgress } from "~/lib/decisions/send.server";
-import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.decision-batches.$id";
 
 /** GET /api/v1/decision-batches/:id (admin) → `{ id, callId, kind, letters, total, queued, sent, failed, retrying, done, percent, lastError, createdAt }`. */

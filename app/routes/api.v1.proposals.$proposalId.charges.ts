@@ -1,7 +1,7 @@
 import { data } from "react-router";
 import { requireUser } from "~/lib/auth/auth.server";
 import { chargesForTeam } from "~/lib/payments/team.server";
-import { apiAttempt, apiId, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiId, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.proposals.$proposalId.charges";
 
 /** GET /api/v1/proposals/:proposalId/charges: the proposal's charges, for its team (others 404). */

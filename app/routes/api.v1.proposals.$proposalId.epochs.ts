@@ -1,7 +1,7 @@
 import { requireEpochOffice, requireUser } from "~/lib/auth/auth.server";
 import { epochProgress, epochReadAccess, recordEpoch } from "~/lib/epochs/epochs.server";
 import { epochRecordSchema } from "~/lib/epochs/schema";
-import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.proposals.$proposalId.epochs";
 
 /**

@@ -5,7 +5,7 @@ import { observationDetails } from "~/lib/proposals/feasibility-summary";
 import { feasibilitySheetOf, loadFeasibilityInput } from "~/lib/proposals/feasibility.server";
 import { apiIssues, idSchema } from "~/lib/forms";
 import { getProposalForUser } from "~/lib/proposals/proposals.server";
-import { apiAttempt, apiId, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiId, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.proposals.$proposalId.feasibility";
 
 const querySchema = z.object({ observationId: idSchema("observation") });

@@ -6,7 +6,7 @@ import { observationRowsOf } from "~/lib/proposals/observations.server";
 import { targetRowsOf } from "~/lib/proposals/targets.server";
 import { teamRows } from "~/lib/proposals/team.server";
 import { getProposalForUser, overviewValues, workspaceHeader } from "~/lib/proposals/proposals.server";
-import { apiAttempt, apiId } from "~/lib/review/api.server";
+import { apiAttempt, apiId } from "~/lib/http/api.server";
 import { committeeAccess, committeeReading } from "~/lib/review/read.server";
 import type { Route } from "./+types/api.v1.proposals.$proposalId";
 

@@ -1,4 +1,4 @@
-import { apiAttempt, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, json, methodNotAllowed } from "~/lib/http/api.server";
 import { listMyAssignments, requireDeskUser } from "~/lib/review/desk.server";
 import type { Route } from "./+types/api.v1.review.assignments";
 

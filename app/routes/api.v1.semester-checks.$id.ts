@@ -1,6 +1,6 @@
 import { semesterCheckById } from "~/lib/allocation/semester-check.server";
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.semester-checks.$id";
 
 /**

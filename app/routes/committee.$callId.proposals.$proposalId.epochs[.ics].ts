@@ -1,4 +1,4 @@
-import { downloadResponse, refusalText } from "~/lib/allocation/download.server";
+import { downloadResponse, refusalText } from "~/lib/http/download.server";
 import { epochsIcs } from "~/lib/allocation/exports.server";
 import { idParam } from "~/lib/actions.server";
 import { requireRole } from "~/lib/auth/auth.server";

@@ -1,4 +1,4 @@
-import { csvResponse, refusalText } from "~/lib/allocation/download.server";
+import { csvDownload } from "~/lib/http/download.server";
 import { rankedListCsv } from "~/lib/allocation/exports.server";
 import { idParam } from "~/lib/actions.server";
 import { requireRole } from "~/lib/auth/auth.server";
@@ -7,11 +7,5 @@ import type { Route } from "./+types/committee.$callId.ranked-list[.csv]";
 /** The ranked list as CSV, in the board's order (chair). */
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
-  const callId = idParam(params.callId, "call");
-  try {
-    const { filename, csv } = await rankedListCsv({ callId });
-    return csvResponse(filename, csv);
-  } catch (error) {
-    return refusalText(error);
-  }
+  return csvDownload(rankedListCsv({ callId: idParam(params.callId, "call") }));
 }

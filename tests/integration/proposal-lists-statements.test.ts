@@ -72,7 +72,7 @@ describe("one proposal in the API: the access check once", () => {
     const plain = await newUser({ name: "Plain PI" });
     const committee = await newUser({ name: "Committee PI", roles: ["chair", "reviewer"] });
     for (const pi of [plain, committee]) {
-      const proposal = await readyProposal({ user: pi.user, callId, title: `Checked once ${Date.now()}` });
+      const { proposal } = await readyProposal({ user: pi.user, callId, title: `Checked once ${Date.now()}` });
       const res = await (await request()).get(`/api/v1/proposals/${proposal.id}`).set("Cookie", pi.cookie);
       expect(res.body.proposal.title).toMatch(/^Checked once/);
       expect(res.body.readOnly).toBeUndefined();

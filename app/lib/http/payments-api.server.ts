@@ -1,6 +1,6 @@
 // The charges' JSON routes: refusals as `{ error, issues: [{ path, message }] }` with their status.
 import { data } from "react-router";
-import { apiRefusal } from "~/lib/review/api.server";
+import { apiRefusal } from "~/lib/http/api.server";
 
 const NO_STORE = { "Cache-Control": "private, no-store" };
 

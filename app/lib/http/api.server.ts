@@ -1,4 +1,5 @@
-// Helpers of the review's JSON routes: ids from the URL, JSON bodies, refusals as `{ error, issues }`.
+// The JSON API routes' HTTP adapter: ids from the URL, JSON bodies, and the data layer's refusals
+// as `{ error, issues: [{ path, message }] }` with their status.
 import { data } from "react-router";
 import type { z } from "zod";
 import { apiIssues, idSchema, Refusal } from "~/lib/forms";

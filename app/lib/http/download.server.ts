@@ -18,3 +18,12 @@ export function refusalText(error: unknown): Response {
   throw error;
 }import { Refusal } from "~/lib/forms";
 
+/** A CSV download of what `read` builds; a refusal (an unknown call) as plain text with its status. */
+export async function csvDownload(read: Promise<{ filename: string; csv: string }>): Promise<Response> {
+  try {
+    const { filename, csv } = await read;
+    return csvResponse(filename, csv);
+  } catch (error) {
+    return refusalText(error);
+  }
+}
