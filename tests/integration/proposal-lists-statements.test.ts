@@ -34,7 +34,7 @@ async function statementsOf(path: string, cookie: string, which: (sql: string) =
 }
 
 /** The access check: a membership of this user (by id or invited address), not the team list's read of every member. */
-const membershipCheck = (sql: string) => /FROM `proposal_members`/.test(sql) && /`user_id` = \d+/.test(sql);
+const membershipCheck = (sql: string) => /FROM `proposal_members`/.test(sql) && /`userId` = \d+/.test(sql);
 
 let person: Awaited<ReturnType<typeof newUser>>;
 let callId: number;
