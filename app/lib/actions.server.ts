@@ -98,12 +98,17 @@ export async function formAction<S extends z.ZodType<{ intent: string }>, R>(
   }
 }
 
-/** A loader's or action's read: a missing record is the 404 page, not a 500. */
-export async function orNotFound<T>(read: Promise<T>): Promise<T> {
+/**
+ * A loader's or action's read: a refusal of the data layer is the page's error with its status
+ * and message — 404 the not-found page (a record that is gone, or not this user's), 403 the
+ * role's page, 400/409 "not understood"/"changed meanwhile" — not a 500. Give the read's promise,
+ * or a function running several reads.
+ */
+export async function orNotFound<T>(read: Promise<T> | (() => Promise<T>)): Promise<T> {
   try {
-    return await read;
+    return await (typeof read === "function" ? read() : read);
   } catch (error) {
-    if (error instanceof Refusal && error.status === 404) throw data({ message: error.message }, { status: 404 });
+    if (error instanceof Refusal) throw data({ message: error.message }, { status: error.status });
     throw error;
   }
 }

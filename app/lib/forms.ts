@@ -108,10 +108,19 @@ export class Refusal extends Error {
   readonly status: number;
   /** the form field (or JSON path) it belongs to; "form" for the form as a whole */
   readonly field: string;
-  constructor(message: string, { status = 400, field = "form" }: { status?: number; field?: string } = {}) {
+  /** when to ask again (a busy queue's 503): the API sends it as Retry-After */
+  readonly retryAfterSeconds?: number;
+  /** more facts for the API's body (the id of the check already running) */
+  readonly details?: Record<string, unknown>;
+  constructor(
+    message: string,
+    { status = 400, field = "form", retryAfterSeconds, details }: { status?: number; field?: string; retryAfterSeconds?: number; details?: Record<string, unknown> } = {},
+  ) {
     super(message);
     this.status = status;
     this.field = field;
+    this.retryAfterSeconds = retryAfterSeconds;
+    this.details = details;
   }
 }
 

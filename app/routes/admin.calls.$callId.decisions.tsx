@@ -10,7 +10,7 @@ import { templatesFor } from "~/lib/decisions/facts.server";
 import { resendLetter, sendDecisions } from "~/lib/decisions/send.server";
 import { money } from "~/lib/decisions/template";
 import { decisionOutcomes, outcomeLabels } from "~/lib/decisions/vocabulary";
-import { formAction, idParam, intent } from "~/lib/actions.server";
+import { formAction, idParam, intent, orNotFound } from "~/lib/actions.server";
 import { hours } from "~/lib/format";
 import { resendSchema, templateSchema, type DecisionsAnswer } from "~/lib/schemas/decisions";
 import type { Route } from "./+types/admin.calls.$callId.decisions";
@@ -23,7 +23,7 @@ export function meta({ data: d }: Route.MetaArgs) {
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "admin");
   const callId = idParam(params.callId, "call");
-  const [decisions, templates] = await Promise.all([callDecisions({ callId }), templatesFor()]);
+  const [decisions, templates] = await orNotFound(Promise.all([callDecisions({ callId }), templatesFor()]));
   return { decisions, templates };
 }
 

@@ -1,4 +1,4 @@
-import { csvResponse } from "~/lib/allocation/download.server";
+import { csvResponse } from "~/lib/http/download.server";
 import { requireRole } from "~/lib/auth/auth.server";
 import { chargesCsv } from "~/lib/payments/office.server";
 import type { Route } from "./+types/admin.charges[.csv]";

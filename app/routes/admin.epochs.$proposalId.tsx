@@ -1,12 +1,13 @@
-import { Link, useActionData } from "react-router";
+import { data, Link, useActionData } from "react-router";
 import { z } from "zod";
 import { EpochViews, PrecisionSummary } from "~/components/epochs/EpochProgressView";
 import { RecordEpochForm, type RecordEpochAnswer } from "~/components/epochs/RecordEpochForm";
 import { ErrorPage } from "~/components/ErrorPage";
-import { formAction, idParam, intent } from "~/lib/actions.server";
-import { astrometryProgrammes, epochProgress, recordEpoch, requireEpochOffice, telescopeChoices } from "~/lib/epochs/epochs.server";
+import { formAction, idParam, intent, orNotFound } from "~/lib/actions.server";
+import { requireEpochOffice } from "~/lib/auth/auth.server";
+import { astrometryProgrammes, epochProgress, recordEpoch, telescopeChoices } from "~/lib/epochs/epochs.server";
 import { epochFormSchema } from "~/lib/epochs/schema";
-import { notFound } from "~/lib/proposals/proposals.server";
+import { NO_PROPOSAL } from "~/lib/proposals/proposals.server";
 import type { Route } from "./+types/admin.epochs.$proposalId";
 
 export function meta() {
@@ -17,8 +18,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   await requireEpochOffice(request);
   const proposalId = idParam(params.proposalId, "proposal");
   const programme = (await astrometryProgrammes()).find((p) => p.proposalId === proposalId);
-  if (!programme) notFound();
-  const [progress, telescopes] = await Promise.all([epochProgress({ proposalId, withReplan: false }), telescopeChoices()]);
+  if (!programme) throw data({ message: NO_PROPOSAL }, { status: 404 });
+  const [progress, telescopes] = await orNotFound(Promise.all([epochProgress({ proposalId, withReplan: false }), telescopeChoices()]));
   return { programme, progress, telescopes };
 }
 

@@ -1,6 +1,6 @@
 import { requireRole } from "~/lib/auth/auth.server";
 import { changeRole, listUsersWithRoles, signOutEverywhere } from "~/lib/auth/users.server";
-import { apiAttempt, apiBody, json } from "~/lib/review/api.server";
+import { apiAttempt, apiBody, json } from "~/lib/http/api.server";
 import { adminUserActionSchema } from "~/lib/schemas/roles";
 import type { Route } from "./+types/api.v1.admin.users";
 

@@ -1,4 +1,4 @@
-import { astrometryResponse, methodNotAllowed } from "~/lib/science-api.server";
+import { astrometryResponse, methodNotAllowed } from "~/lib/http/science-api.server";
 import type { Route } from "./+types/api.v1.astrometry";
 
 // Public: anonymous use is allowed, under the per-IP rate limit.

@@ -1,6 +1,6 @@
 import { fillAllocationByRank } from "~/lib/allocation/allocate.server";
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.calls.$callId.allocation.fill-by-rank";
 
 /** POST /api/v1/calls/:callId/allocation/fill-by-rank (chair): assured → queue → filler down the board. */

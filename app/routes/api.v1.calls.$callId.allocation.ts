@@ -1,7 +1,7 @@
 import { saveAllocation } from "~/lib/allocation/allocate.server";
 import { callBoard } from "~/lib/allocation/board.server";
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import { allocationSchema } from "~/lib/schemas/allocation";
 import type { Route } from "./+types/api.v1.calls.$callId.allocation";
 
@@ -16,7 +16,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const callId = apiId(params.callId, "callId");
   const body = await apiBody(request, allocationSchema);
   const saved = await apiAttempt(() => saveAllocation({ actor: user, callId, rows: body.rows, tiers: body.tiers }));
-  const board = await callBoard({ callId });
+  const board = await apiAttempt(() => callBoard({ callId }));
   return json({ saved, proposals: board.proposals.map((p) => ({ proposalId: p.proposalId, tier: p.tier, waitlisted: p.waitlisted, allocation: p.allocation })) });
 }
 

@@ -1,6 +1,6 @@
 import { moveOnBoard } from "~/lib/allocation/allocate.server";
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import { boardMoveSchema } from "~/lib/schemas/allocation";
 import type { Route } from "./+types/api.v1.calls.$callId.board.rank";
 

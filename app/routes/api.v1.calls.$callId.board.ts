@@ -1,7 +1,7 @@
 import { callBoard } from "~/lib/allocation/board.server";
 import { boardUncertainty } from "~/lib/allocation/board-uncertainty";
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.calls.$callId.board";
 
 /**
@@ -12,7 +12,8 @@ import type { Route } from "./+types/api.v1.calls.$callId.board";
  */
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
-  const board = await callBoard({ callId: apiId(params.callId, "callId") });
+  const callId = apiId(params.callId, "callId");
+  const board = await apiAttempt(() => callBoard({ callId }));
   const uncertainty = boardUncertainty(board);
   return json({
     panel: board.panel,

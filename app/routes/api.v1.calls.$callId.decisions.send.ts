@@ -1,6 +1,6 @@
 import { requireRole } from "~/lib/auth/auth.server";
 import { sendDecisions } from "~/lib/decisions/send.server";
-import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import { sendBodySchema } from "~/lib/schemas/decisions";
 import type { Route } from "./+types/api.v1.calls.$callId.decisions.send";
 

@@ -1,7 +1,7 @@
 import { requireRole } from "~/lib/auth/auth.server";
 import { callDecisions } from "~/lib/decisions/decisions.server";
 import { notLockedRefusal } from "~/lib/decisions/facts.server";
-import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.calls.$callId.decisions";
 
 /**

@@ -1,7 +1,7 @@
 import { data } from "react-router";
 import { callRaPressure } from "~/lib/allocation/ra-pressure.server";
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.calls.$callId.ra-pressure";
 
 /**
@@ -18,7 +18,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     throw data({ error: "The request has invalid fields.", issues: [{ path: "telescopeId", message: "give one telescopeId" }] }, { status: 400 });
   }
   const telescopeId = apiId(given[0], "telescopeId");
-  return json(await callRaPressure({ callId, telescopeId }));
+  return json(await apiAttempt(() => callRaPressure({ callId, telescopeId })));
 }
 
 export async function action() {

@@ -1,7 +1,7 @@
 import { boardUncertainty } from "~/lib/allocation/board-uncertainty";
 import { callBoard } from "~/lib/allocation/board.server";
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.calls.$callId.reproducibility";
 
 /**
@@ -12,7 +12,8 @@ import type { Route } from "./+types/api.v1.calls.$callId.reproducibility";
  */
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
-  const board = await callBoard({ callId: apiId(params.callId, "callId") });
+  const callId = apiId(params.callId, "callId");
+  const board = await apiAttempt(() => callBoard({ callId }));
   const { expectedAgreement, spread, draws, seed, quartileAgreement, proposals, leftOut } = boardUncertainty(board).reproducibility;
   return json({ expectedAgreement, spread, draws, seed, quartileAgreement, proposals, leftOut });
 }

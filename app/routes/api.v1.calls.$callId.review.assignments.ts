@@ -1,5 +1,5 @@
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import { replaceAssignments, reviewState } from "~/lib/review/chair.server";
 import { assignmentsSchema } from "~/lib/schemas/review";
 import type { Route } from "./+types/api.v1.calls.$callId.review.assignments";
@@ -14,7 +14,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const callId = apiId(params.callId, "callId");
   const body = await apiBody(request, assignmentsSchema);
   const result = await apiAttempt(() => replaceAssignments({ actor: user, callId, pairs: body.assignments, commit: body.commit }));
-  return json({ ...result, ...(await reviewState({ callId })) });
+  return json({ ...result, ...(await apiAttempt(() => reviewState({ callId }))) });
 }
 
 export async function loader() {

@@ -1,5 +1,5 @@
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import { suggestForCall } from "~/lib/review/chair.server";
 import { suggestSchema } from "~/lib/schemas/review";
 import type { Route } from "./+types/api.v1.calls.$callId.review.suggest";
@@ -10,7 +10,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (request.method !== "POST") return methodNotAllowed("POST");
   const callId = apiId(params.callId, "callId");
   const { perProposal } = await apiBody(request, suggestSchema);
-  return json(await suggestForCall({ callId, perProposal }));
+  return json(await apiAttempt(() => suggestForCall({ callId, perProposal })));
 }
 
 export async function loader() {

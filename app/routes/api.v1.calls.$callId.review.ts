@@ -1,12 +1,13 @@
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import { reviewState } from "~/lib/review/chair.server";
 import type { Route } from "./+types/api.v1.calls.$callId.review";
 
 /** GET /api/v1/calls/:callId/review (chair): panel, proposals in review, assignments, conflicts, loads. */
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
-  return json(await reviewState({ callId: apiId(params.callId, "callId") }));
+  const callId = apiId(params.callId, "callId");
+  return json(await apiAttempt(() => reviewState({ callId })));
 }
 
 export async function action() {

@@ -1,6 +1,6 @@
 import { startSemesterCheck } from "~/lib/allocation/semester-check.server";
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import { semesterCheckSchema } from "~/lib/schemas/semester-check";
 import type { Route } from "./+types/api.v1.calls.$callId.semester-check";
 
@@ -13,7 +13,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireRole(request, "chair");
   const callId = apiId(params.callId, "callId");
   const body = await apiBody(request, semesterCheckSchema);
-  return json(await startSemesterCheck({ actor: user, callId, ...body }), 202);
+  return json(await apiAttempt(() => startSemesterCheck({ actor: user, callId, ...body })), 202);
 }
 
 export async function loader() {

@@ -1,8 +1,8 @@
 import { data } from "react-router";
 import { requireUser } from "~/lib/auth/auth.server";
-import { emptyJsonBody, refusalJson } from "~/lib/payments/api.server";
+import { emptyJsonBody, refusalJson } from "~/lib/http/payments-api.server";
 import { chargeOfPi, startCheckout } from "~/lib/payments/checkout.server";
-import { apiId, methodNotAllowed } from "~/lib/review/api.server";
+import { apiId, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.charges.$chargeId.checkout";
 
 /**

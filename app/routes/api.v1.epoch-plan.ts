@@ -1,4 +1,4 @@
-import { epochPlanResponse, methodNotAllowed } from "~/lib/science-api.server";
+import { epochPlanResponse, methodNotAllowed } from "~/lib/http/science-api.server";
 import type { Route } from "./+types/api.v1.epoch-plan";
 
 // Public: anonymous use is allowed, under the per-IP rate limit.

@@ -1,4 +1,4 @@
-import { exposureResponse, methodNotAllowed } from "~/lib/science-api.server";
+import { exposureResponse, methodNotAllowed } from "~/lib/http/science-api.server";
 import type { Route } from "./+types/api.v1.exposure";
 
 // Public: anonymous use is allowed, under the per-IP rate limit.

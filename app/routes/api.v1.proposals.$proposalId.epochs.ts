@@ -1,7 +1,7 @@
-import { requireUser } from "~/lib/auth/auth.server";
-import { epochProgress, epochReadAccess, recordEpoch, requireEpochOffice } from "~/lib/epochs/epochs.server";
+import { requireEpochOffice, requireUser } from "~/lib/auth/auth.server";
+import { epochProgress, epochReadAccess, recordEpoch } from "~/lib/epochs/epochs.server";
 import { epochRecordSchema } from "~/lib/epochs/schema";
-import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.proposals.$proposalId.epochs";
 
 /**
@@ -13,8 +13,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const proposalId = apiId(params.proposalId, "proposalId");
   const q = new URL(request.url).searchParams.get("observationId");
   const observationId = q === null ? undefined : apiId(q, "observationId");
-  await epochReadAccess({ user, proposalId });
-  const progress = await epochProgress({ proposalId, observationId, withReplan: new URL(request.url).searchParams.get("replan") === "1" });
+  await apiAttempt(() => epochReadAccess({ user, proposalId }));
+  const progress = await apiAttempt(() => epochProgress({ proposalId, observationId, withReplan: new URL(request.url).searchParams.get("replan") === "1" }));
   return json(progress);
 }
 

@@ -5,7 +5,7 @@ import { observationDetails } from "~/lib/proposals/feasibility-summary";
 import { feasibilitySheetOf, loadFeasibilityInput } from "~/lib/proposals/feasibility.server";
 import { apiIssues, idSchema } from "~/lib/forms";
 import { getProposalForUser } from "~/lib/proposals/proposals.server";
-import { apiId, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiId, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.proposals.$proposalId.feasibility";
 
 const querySchema = z.object({ observationId: idSchema("observation") });
@@ -18,10 +18,10 @@ const querySchema = z.object({ observationId: idSchema("observation") });
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = apiId(params.proposalId, "proposalId");
-  await getProposalForUser({ proposalId, user });
+  await apiAttempt(() => getProposalForUser({ proposalId, user }));
   const query = querySchema.safeParse({ observationId: new URL(request.url).searchParams.get("observationId") ?? undefined });
   if (!query.success) return data(apiIssues(query.error), { status: 400 });
-  const details = observationDetails(feasibilitySheetOf(await loadFeasibilityInput({ proposalId })), query.data.observationId);
+  const details = observationDetails(feasibilitySheetOf(await apiAttempt(() => loadFeasibilityInput({ proposalId }))), query.data.observationId);
   if (!details) return data({ error: "No such observation on this proposal.", issues: [{ path: "observationId", message: "is not an observation of this proposal" }] }, { status: 404 });
   return data(details, { headers: { "Cache-Control": "private, no-store" } });
 }

@@ -1,13 +1,13 @@
 import { data } from "react-router";
 import { requireUser } from "~/lib/auth/auth.server";
+import { Refusal } from "~/lib/forms";
 import { feasibilitySheetOf, loadFeasibilityInputWithRows } from "~/lib/proposals/feasibility.server";
 import { observationRowsOf } from "~/lib/proposals/observations.server";
 import { targetRowsOf } from "~/lib/proposals/targets.server";
 import { teamRows } from "~/lib/proposals/team.server";
-import { getProposalForUser, membershipWhere, overviewValues, workspaceHeader } from "~/lib/proposals/proposals.server";
-import { apiId } from "~/lib/review/api.server";
+import { getProposalForUser, overviewValues, workspaceHeader } from "~/lib/proposals/proposals.server";
+import { apiAttempt, apiId } from "~/lib/http/api.server";
 import { committeeAccess, committeeReading } from "~/lib/review/read.server";
-import { ProposalMember } from "~/models/index.server";
 import type { Route } from "./+types/api.v1.proposals.$proposalId";
 
 /**
@@ -17,15 +17,18 @@ import type { Route } from "./+types/api.v1.proposals.$proposalId";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = apiId(params.proposalId, "proposalId");
-  // only the committee's roles need to know first whether they are on the team
+  // one access check: the team's; the committee's roles fall back to their read-only view
   const committee = user.roles.includes("chair") || user.roles.includes("reviewer");
-  if (committee && !(await ProposalMember.findOne({ where: { proposalId, ...membershipWhere(user) }, attributes: ["id"] }))) {
-    const reading = await committeeReading(await committeeAccess({ user, proposalId }));
+  const access = await apiAttempt(() => getProposalForUser({ proposalId, user }).catch((error: unknown) => {
+    if (committee && error instanceof Refusal && error.status === 404) return null;
+    throw error;
+  }));
+  if (!access) {
+    const reading = await apiAttempt(async () => committeeReading(await committeeAccess({ user, proposalId })));
     return data({ ...reading, readOnly: true }, { headers: { "Cache-Control": "private, no-store" } });
   }
-  const access = await getProposalForUser({ proposalId, user });
-  // access checked once above; the targets and observations are read once, for the lists and the sheet
-  const [team, parts] = await Promise.all([teamRows({ user, proposalId }), loadFeasibilityInputWithRows({ proposal: access.proposal })]);
+  // the targets and observations are read once, for the lists and the sheet
+  const [team, parts] = await apiAttempt(() => Promise.all([teamRows({ user, proposalId }), loadFeasibilityInputWithRows({ proposal: access.proposal })]));
   const targets = targetRowsOf(parts.targets, parts.observations);
   const observations = observationRowsOf(parts.observations, parts.input);
   let feasibilitySheet = null;

@@ -1,4 +1,4 @@
-import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import { declareConflict, requireDeskUser } from "~/lib/review/desk.server";
 import { conflictSchema } from "~/lib/schemas/review";
 import type { Route } from "./+types/api.v1.review.assignments.$assignmentId.conflict";

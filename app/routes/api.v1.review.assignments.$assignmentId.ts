@@ -1,4 +1,4 @@
-import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import { saveGrade, requireDeskUser } from "~/lib/review/desk.server";
 import { gradeSchema } from "~/lib/schemas/review";
 import type { Route } from "./+types/api.v1.review.assignments.$assignmentId";

@@ -1,6 +1,6 @@
 import { semesterCheckById } from "~/lib/allocation/semester-check.server";
 import { requireRole } from "~/lib/auth/auth.server";
-import { apiId, json, methodNotAllowed } from "~/lib/review/api.server";
+import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.semester-checks.$id";
 
 /**
@@ -9,7 +9,8 @@ import type { Route } from "./+types/api.v1.semester-checks.$id";
  */
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
-  const check = await semesterCheckById({ id: apiId(params.id, "id") });
+  const id = apiId(params.id, "id");
+  const check = await apiAttempt(() => semesterCheckById({ id }));
   if (!check) return json({ error: "No such semester check.", issues: [] }, 404);
   return json(check);
 }

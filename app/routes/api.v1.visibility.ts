@@ -1,4 +1,4 @@
-import { methodNotAllowed, visibilityResponse } from "~/lib/science-api.server";
+import { methodNotAllowed, visibilityResponse } from "~/lib/http/science-api.server";
 import type { Route } from "./+types/api.v1.visibility";
 
 // Public: anonymous use is allowed, under the per-IP rate limit.

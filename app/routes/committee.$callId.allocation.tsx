@@ -2,7 +2,7 @@ import { Link, useActionData, useNavigation } from "react-router";
 import { AllocationSheet } from "~/components/allocation/AllocationSheet";
 import { allocationSheet, saveAllocationSheet } from "~/lib/allocation/sheet.server";
 import { requireRole } from "~/lib/auth/auth.server";
-import { failure, idParam, refusalFailure, UNKNOWN_INTENT } from "~/lib/actions.server";
+import { failure, idParam, orNotFound, refusalFailure, UNKNOWN_INTENT } from "~/lib/actions.server";
 import { fieldErrors } from "~/lib/forms";
 import { allocationSheetSchema } from "~/lib/schemas/allocation";
 import type { Route } from "./+types/committee.$callId.allocation";
@@ -16,7 +16,7 @@ export function meta({ data: d }: Route.MetaArgs) {
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
-  return { sheet: await allocationSheet({ callId: idParam(params.callId, "call") }) };
+  return { sheet: await orNotFound(allocationSheet({ callId: idParam(params.callId, "call") })) };
 }
 
 /**

@@ -1,7 +1,7 @@
 import { useMemo, useState } from "react";
 import { Link, useRevalidator } from "react-router";
 import { HelpfulnessCell } from "~/components/committee/HelpfulnessCell";
-import { idParam } from "~/lib/actions.server";
+import { idParam, orNotFound } from "~/lib/actions.server";
 import { requireRole } from "~/lib/auth/auth.server";
 import { scienceCategoryLabel } from "~/lib/proposals/vocabulary";
 import { reviewBoard } from "~/lib/review/chair.server";
@@ -16,7 +16,7 @@ export function meta({ data: d }: Route.MetaArgs) {
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
   const callId = idParam(params.callId, "call");
-  const [board, helpfulness] = await Promise.all([reviewBoard({ callId }), helpfulnessByReviewer({ callId })]);
+  const [board, helpfulness] = await orNotFound(Promise.all([reviewBoard({ callId }), helpfulnessByReviewer({ callId })]));
   return { board, helpfulness, method: SUGGESTION_METHOD };
 }
 

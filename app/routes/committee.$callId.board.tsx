@@ -19,7 +19,7 @@ import type { FeasibilitySheet } from "~/lib/proposals/feasibility";
 import { DISAGREEMENT_SPAN, MIN_GRADES } from "~/lib/allocation/normalise";
 import { HIDDEN_TEAM } from "~/lib/domain";
 import { requireRole } from "~/lib/auth/auth.server";
-import { formAction, idParam, intent } from "~/lib/actions.server";
+import { formAction, idParam, intent, orNotFound } from "~/lib/actions.server";
 import { idSchema, valueText } from "~/lib/forms";
 import { chairRankSchema, reasonSchema } from "~/lib/schemas/allocation";
 import { scienceCategoryLabel } from "~/lib/proposals/vocabulary";
@@ -80,12 +80,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
   const callId = idParam(params.callId, "call");
   const sheets = new Map<number, FeasibilitySheet>(); // read once for the board and its RA pressure
-  const [board, telescopes, semesterCheck] = await Promise.all([
-    callBoard({ callId, sheets }),
-    Telescope.findAll({ attributes: ["id", "name"], order: [["id", "ASC"]] }),
-    latestSemesterCheck({ callId }),
-  ]);
-  const [raPressure, owed] = await Promise.all([raPressureSection({ callId, telescopeId: new URL(request.url).searchParams.get("telescopeId"), sheets }), owedBeforeCall({ callId })]);
+  const [board, telescopes, semesterCheck] = await orNotFound(
+    Promise.all([callBoard({ callId, sheets }), Telescope.findAll({ attributes: ["id", "name"], order: [["id", "ASC"]] }), latestSemesterCheck({ callId })]),
+  );
+  const [raPressure, owed] = await orNotFound(Promise.all([raPressureSection({ callId, telescopeId: new URL(request.url).searchParams.get("telescopeId"), sheets }), owedBeforeCall({ callId })]));
   const { rows: drawn, reproducibility, coinFlip } = boardUncertainty(board);
   // the page needs each row's interval, not the grades the bootstrap drew from
   const proposals = board.proposals.map(({ zScores: _z, ...row }) => ({

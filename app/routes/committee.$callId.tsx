@@ -1,7 +1,7 @@
 import { Form, Link, useActionData, useNavigation } from "react-router";
 import { Field, inputProps } from "~/components/Field";
 import { requireRole } from "~/lib/auth/auth.server";
-import { formAction, idParam, intent } from "~/lib/actions.server";
+import { formAction, idParam, intent, orNotFound } from "~/lib/actions.server";
 import { idSchema, Refusal, valueList, valueText } from "~/lib/forms";
 import { observatoryTimeZone } from "~/lib/office/office.server";
 import { scienceCategoryLabel } from "~/lib/proposals/vocabulary";
@@ -23,7 +23,7 @@ export function meta({ data: d }: Route.MetaArgs) {
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requireRole(request, "chair");
   const callId = idParam(params.callId, "call");
-  const [board, candidates, timeZone, teams] = await Promise.all([reviewBoard({ callId }), reviewerCandidates(), observatoryTimeZone(), teamRevealState({ callId })]);
+  const [board, candidates, timeZone, teams] = await orNotFound(Promise.all([reviewBoard({ callId }), reviewerCandidates(), observatoryTimeZone(), teamRevealState({ callId })]));
   return { board, candidates, timeZone, teams, now: new Date().toISOString() };
 }
 

@@ -2,7 +2,7 @@ import { useState } from "react";
 import { data, useActionData, useRevalidator, useSubmit } from "react-router";
 import { z } from "zod";
 import { ConflictPanel, OverviewForm, toFormData, type OverviewAnswer } from "~/components/proposals/Overview";
-import { formAction, intent } from "~/lib/actions.server";
+import { formAction, intent, orNotFound } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import type { FormValues } from "~/lib/forms";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
@@ -13,7 +13,7 @@ import type { Route } from "./+types/proposals.$proposalId._index";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  const { proposal, call, editable } = await getProposalForUser({ proposalId: proposalIdParam(params), user });
+  const { proposal, call, editable } = await orNotFound(getProposalForUser({ proposalId: proposalIdParam(params), user }));
   return { values: overviewValues(proposal), version: proposal.version, semesters: upcomingSemesters(call.semesterCode), callSemester: call.semesterCode, editable };
 }
 
@@ -27,7 +27,7 @@ function conflictAnswer(values: FormValues, conflict: Extract<OverviewResult, { 
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
+  await orNotFound(getProposalForUser({ proposalId, user })); // a stranger gets the 404 before any parsing
   return formAction(request, overviewIntents, async ({ intent: _intent, ...input }, { values }) => {
     const result = await updateOverview({ user, proposalId, ...input });
     if (!result.ok) return data(conflictAnswer(values, result.conflict), { status: 409 });

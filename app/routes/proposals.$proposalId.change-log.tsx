@@ -1,4 +1,5 @@
 import { formatUtc as utc } from "~/lib/format";
+import { orNotFound } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { proposalHistory, type HistoryEntry } from "~/lib/proposals/proposals.server";
@@ -6,7 +7,7 @@ import type { Route } from "./+types/proposals.$proposalId.change-log";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  return { entries: await proposalHistory({ user, proposalId: proposalIdParam(params) }) };
+  return { entries: await orNotFound(proposalHistory({ user, proposalId: proposalIdParam(params) })) };
 }
 
 const fieldNames: Record<string, string> = {

@@ -1,4 +1,5 @@
 import { data } from "react-router";
+import { orNotFound } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { idSchema } from "~/lib/forms";
 import { receiptPdfOfCharge } from "~/lib/payments/receipt.server";
@@ -10,9 +11,9 @@ import type { Route } from "./+types/proposals.$proposalId.charges.$chargeId.rec
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  await getProposalForUser({ proposalId, user });
+  await orNotFound(getProposalForUser({ proposalId, user }));
   const chargeId = idSchema("charge").safeParse(params.chargeId);
-  const receipt = chargeId.success ? await receiptPdfOfCharge({ chargeId: chargeId.data, proposalId }) : null;
+  const receipt = chargeId.success ? await orNotFound(receiptPdfOfCharge({ chargeId: chargeId.data, proposalId })) : null;
   if (!receipt) throw data({ message: "There is no receipt at this address: the charge is not paid, or not this proposal's." }, { status: 404 });
   return new Response(Buffer.from(receipt.pdf), {
     headers: {

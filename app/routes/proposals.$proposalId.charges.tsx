@@ -1,6 +1,6 @@
 import { redirect } from "react-router";
 import { ChargesPanel } from "~/components/payments/ChargesPanel";
-import { formAction } from "~/lib/actions.server";
+import { formAction, orNotFound } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { idSchema, Refusal } from "~/lib/forms";
 import { startCheckout } from "~/lib/payments/checkout.server";
@@ -39,14 +39,14 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   // the return first, the charges after: a payment confirmed in between shows as paid in the table
   // while the notice still waits (and polls), never as "paid" above a row that is not
   const returned = await checkoutReturn(new URL(request.url), proposalId);
-  const view = await chargesForTeam({ user, proposalId });
+  const view = await orNotFound(chargesForTeam({ user, proposalId }));
   return { ...view, proposalId, returned };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  await getProposalForUser({ proposalId, user });
+  await orNotFound(getProposalForUser({ proposalId, user }));
   return formAction(request, proposalChargesIntent, async (input) => {
     switch (input.intent) {
       case "declare-pages": {

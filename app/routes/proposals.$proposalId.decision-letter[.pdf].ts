@@ -1,4 +1,5 @@
 import { data } from "react-router";
+import { orNotFound } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { letterRowForUser } from "~/lib/decisions/decisions.server";
 import { buildLetterPdf } from "~/lib/decisions/letter-pdf.server";
@@ -9,7 +10,7 @@ import type { Route } from "./+types/proposals.$proposalId.decision-letter[.pdf]
 /** The decision letter as a PDF for the PI and Co-Is (404 before it is sent, or for anyone else). */
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  const letter = await letterRowForUser({ user, proposalId: proposalIdParam(params) });
+  const letter = await orNotFound(letterRowForUser({ user, proposalId: proposalIdParam(params) }));
   if (!letter) throw data({ message: "No decision has been sent for this proposal yet." }, { status: 404 });
   const bytes = await buildLetterPdf(letter);
   return new Response(Buffer.from(bytes), {

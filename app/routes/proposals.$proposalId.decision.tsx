@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { RateComment } from "~/components/decisions/RateComment";
 import { formatUtc as utc } from "~/lib/format";
-import { formAction, intent } from "~/lib/actions.server";
+import { formAction, intent, orNotFound } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { decisionForUser } from "~/lib/decisions/decisions.server";
 import { chargesText } from "~/lib/decisions/template";
@@ -15,8 +15,8 @@ import type { Route } from "./+types/proposals.$proposalId.decision";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const { letter } = await decisionForUser({ user, proposalId });
-  return { proposalId, letter, helpfulness: letter ? await myHelpfulness({ user, proposalId }) : [] };
+  const { letter } = await orNotFound(decisionForUser({ user, proposalId }));
+  return { proposalId, letter, helpfulness: letter ? await orNotFound(myHelpfulness({ user, proposalId })) : [] };
 }
 
 const decisionIntents = z.discriminatedUnion("intent", [intent("rate", helpfulnessSchema)]);
@@ -25,7 +25,7 @@ const decisionIntents = z.discriminatedUnion("intent", [intent("rate", helpfulne
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
+  await orNotFound(getProposalForUser({ proposalId, user })); // a stranger gets the 404 before any parsing
   return formAction(
     request,
     decisionIntents,

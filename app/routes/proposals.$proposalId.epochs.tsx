@@ -5,7 +5,7 @@ import { ErrorPage } from "~/components/ErrorPage";
 import { requireUser } from "~/lib/auth/auth.server";
 import { acceptReplan, epochProgress, telescopeChoices } from "~/lib/epochs/epochs.server";
 import { replanAcceptSchema } from "~/lib/epochs/schema";
-import { formAction, intent } from "~/lib/actions.server";
+import { formAction, intent, orNotFound } from "~/lib/actions.server";
 import { fixed } from "~/lib/format";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { getProposalForUser } from "~/lib/proposals/proposals.server";
@@ -18,9 +18,9 @@ export function meta() {
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const access = await getProposalForUser({ proposalId, user });
+  const access = await orNotFound(getProposalForUser({ proposalId, user }));
   const obs = new URL(request.url).searchParams.get("obs");
-  const [progress, telescopes] = await Promise.all([epochProgress({ proposalId }), telescopeChoices()]);
+  const [progress, telescopes] = await orNotFound(Promise.all([epochProgress({ proposalId }), telescopeChoices()]));
   const selected = progress.observations.find((o) => String(o.observationId) === obs) ?? progress.observations[0] ?? null;
   return { progress, telescopes, selectedId: selected?.observationId ?? null, isPi: access.isPi, accepted: access.proposal.status === "accepted" };
 }
@@ -30,7 +30,7 @@ const epochIntents = z.discriminatedUnion("intent", [intent("accept-replan", rep
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  await getProposalForUser({ proposalId, user });
+  await orNotFound(getProposalForUser({ proposalId, user }));
   return formAction(request, epochIntents, async (input) => {
     const { replaced } = await acceptReplan({ user, proposalId, observationId: input.observationId, dates: input.dates.split(",") });
     return { ok: true as const, intent: input.intent, message: `Re-plan accepted: the remaining planned epochs are now ${replaced} new dates.` };

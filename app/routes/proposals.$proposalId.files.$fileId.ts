@@ -1,3 +1,4 @@
+import { orNotFound } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { idSchema } from "~/lib/forms";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
@@ -9,7 +10,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
   const fileId = idSchema("file").safeParse(params.fileId).data ?? 0;
-  const file = await getProposalFileForUser({ proposalId, fileId, user });
+  const file = await orNotFound(getProposalFileForUser({ proposalId, fileId, user }));
   const inline = new URL(request.url).searchParams.get("inline") === "1";
   const ascii = file.filename.replace(/[^\x20-\x7e]/g, "_").replace(/["\\]/g, "_");
   return new Response(new Uint8Array(file.data), {

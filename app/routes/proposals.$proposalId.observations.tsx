@@ -5,7 +5,7 @@ import { LiveFeasibilitySummary } from "~/components/FeasibilityParts";
 import { DeleteButton } from "~/components/proposals/DeleteButton";
 import { ObservationForm } from "~/components/proposals/ObservationForm";
 import { useWorkspace } from "~/components/workspace";
-import { formAction, intent } from "~/lib/actions.server";
+import { formAction, intent, orNotFound } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { idSchema } from "~/lib/forms";
 import { createObservation, deleteObservation, listObservations, updateObservation } from "~/lib/proposals/observations.server";
@@ -18,8 +18,8 @@ import type { Route } from "./+types/proposals.$proposalId.observations";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const { observations, options } = await listObservations({ user, proposalId });
-  const targets = await listTargets({ user, proposalId });
+  const { observations, options } = await orNotFound(listObservations({ user, proposalId }));
+  const targets = await orNotFound(listTargets({ user, proposalId }));
   return { observations, options, targets: targets.map((t) => ({ id: t.id, name: t.name, magnitude: t.magnitude, band: t.band })) };
 }
 
@@ -34,7 +34,7 @@ const observationIntents = z.discriminatedUnion("intent", [
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
+  await orNotFound(getProposalForUser({ proposalId, user })); // a stranger gets the 404 before any parsing
   return formAction(request, observationIntents, async (input) => {
     switch (input.intent) {
       case "create":

@@ -3,7 +3,7 @@ import { Form, useNavigation } from "react-router";
 import { z } from "zod";
 import { ErrorPage } from "~/components/ErrorPage";
 import { Field, inputProps } from "~/components/Field";
-import { failure, formAction, intent, refusalFailure } from "~/lib/actions.server";
+import { failure, formAction, intent, orNotFound, refusalFailure } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { Refusal, valueText } from "~/lib/forms";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
@@ -23,14 +23,14 @@ export function meta() {
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const access = await getProposalForUser({ proposalId, user });
+  const access = await orNotFound(getProposalForUser({ proposalId, user }));
   return {
     proposalId,
     pageLimit: access.call.pageLimit,
     editable: access.editable,
     maxBytes: SCIENCE_CASE_MAX_BYTES,
-    history: await scienceCaseHistory({ proposalId, user }),
-    selfReference: await selfReferenceCheck({ proposalId, call: access.call }),
+    history: await orNotFound(scienceCaseHistory({ proposalId, user })),
+    selfReference: await orNotFound(selfReferenceCheck({ proposalId, call: access.call })),
   };
 }
 
@@ -39,7 +39,7 @@ const scienceCaseIntents = z.discriminatedUnion("intent", [intent("upload")]);
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const access = await getProposalForUser({ proposalId, user });
+  const access = await orNotFound(getProposalForUser({ proposalId, user }));
   // A little over the file limit for the multipart envelope.
   const form = await readLimitedFormData(request, SCIENCE_CASE_MAX_BYTES + 64 * 1024);
   if (!form) {

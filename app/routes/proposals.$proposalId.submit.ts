@@ -3,7 +3,7 @@
 import { redirect } from "react-router";
 import { z } from "zod";
 import type { ReadinessDone } from "~/components/proposals/ReadinessStrip";
-import { formAction, intent } from "~/lib/actions.server";
+import { formAction, intent, orNotFound } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { submitProposal } from "~/lib/proposals/submit.server";
@@ -12,7 +12,7 @@ import type { Route } from "./+types/proposals.$proposalId.submit";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  const { proposal } = await getProposalForUser({ proposalId: proposalIdParam(params), user });
+  const { proposal } = await orNotFound(getProposalForUser({ proposalId: proposalIdParam(params), user }));
   return redirect(`/proposals/${proposal.id}`);
 }
 
@@ -21,7 +21,7 @@ const stripIntents = z.discriminatedUnion("intent", [intent("submit"), intent("w
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
+  await orNotFound(getProposalForUser({ proposalId, user })); // a stranger gets the 404 before any parsing
   return formAction(request, stripIntents, async (input) => {
     const ok = (intent: ReadinessDone["intent"], message: string): ReadinessDone => ({ ok: true, intent, message });
     switch (input.intent) {

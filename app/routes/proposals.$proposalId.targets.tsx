@@ -6,7 +6,7 @@ import { TargetForm } from "~/components/proposals/TargetForm";
 import { useWorkspace } from "~/components/workspace";
 import { fixed } from "~/lib/format";
 import { BANDS } from "~/lib/astro/bands";
-import { failure, formAction, intent } from "~/lib/actions.server";
+import { failure, formAction, intent, orNotFound } from "~/lib/actions.server";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
 import { requireUser } from "~/lib/auth/auth.server";
 import { fieldErrors, idSchema } from "~/lib/forms";
@@ -19,7 +19,7 @@ import type { Route } from "./+types/proposals.$proposalId.targets";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  return { targets: await listTargets({ user, proposalId: proposalIdParam(params) }) };
+  return { targets: await orNotFound(listTargets({ user, proposalId: proposalIdParam(params) })) };
 }
 
 const targetId = z.object({ targetId: idSchema("target") });
@@ -35,7 +35,7 @@ const targetIntents = z.discriminatedUnion("intent", [
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
+  await orNotFound(getProposalForUser({ proposalId, user })); // a stranger gets the 404 before any parsing
   return formAction(request, targetIntents, async (input, { form, values }) => {
     switch (input.intent) {
       case "create":

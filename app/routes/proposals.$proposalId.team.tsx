@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { InviteForm, MemberActions, TeamReviewer } from "~/components/proposals/TeamForms";
 import { useWorkspace } from "~/components/workspace";
-import { formAction, intent } from "~/lib/actions.server";
+import { formAction, intent, orNotFound } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { getProposalForUser } from "~/lib/proposals/proposals.server";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
@@ -14,8 +14,8 @@ import type { Route } from "./+types/proposals.$proposalId.team";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const { proposal, call } = await getProposalForUser({ proposalId, user });
-  const members = await listTeam({ user, proposalId });
+  const { proposal, call } = await orNotFound(getProposalForUser({ proposalId, user }));
+  const members = await orNotFound(listTeam({ user, proposalId }));
   const reviewer = call.reviewMode === "distributed" ? { designatedUserId: proposal.designatedReviewerId ?? null, perSubmitter: call.reviewsPerSubmitter, semesterCode: call.semesterCode } : null;
   return { members, reviewer };
 }
@@ -30,7 +30,7 @@ const teamIntents = z.discriminatedUnion("intent", [
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  await getProposalForUser({ proposalId, user }); // a stranger gets the 404 before any parsing
+  await orNotFound(getProposalForUser({ proposalId, user })); // a stranger gets the 404 before any parsing
   return formAction(request, teamIntents, async (input) => {
     switch (input.intent) {
       case "invite": {

@@ -2,6 +2,7 @@ import { Link, NavLink, Outlet } from "react-router";
 import { ReadinessStrip } from "~/components/proposals/ReadinessStrip";
 import { StatusBadge } from "~/components/StatusBadge";
 import { formatUtc as utc } from "~/lib/format";
+import { orNotFound } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { memberRoleLabels } from "~/lib/proposals/vocabulary";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
@@ -18,11 +19,11 @@ export function meta({ data }: Route.MetaArgs) {
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const access = await getProposalForUser({ proposalId, user });
+  const access = await orNotFound(getProposalForUser({ proposalId, user }));
   // The checklist is for drafts only: a submitted or decided proposal shows its state instead.
   const readiness =
     access.proposal.status === "draft"
-      ? await submissionChecklist({ user, proposalId, access }).then(({ items, ready, requestedHours, requestedHoursBySemester, selfReference }) => ({ items, ready, requestedHours, requestedHoursBySemester, selfReference }))
+      ? await orNotFound(submissionChecklist({ user, proposalId, access })).then(({ items, ready, requestedHours, requestedHoursBySemester, selfReference }) => ({ items, ready, requestedHours, requestedHoursBySemester, selfReference }))
       : null;
   // Epoch progress is a tab once an astrometry programme is accepted (the route answers for any proposal)
   const epochTab = access.proposal.status === "accepted" && (await Observation.count({ where: { proposalId, baselineYears: { [Op.ne]: null } } })) > 0;

@@ -1,3 +1,4 @@
+import { orNotFound } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { withoutAuthorship } from "~/lib/review/anonymity.server";
@@ -9,7 +10,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
   const fileId = /^\d{1,10}$/.test(params.fileId) ? Number(params.fileId) : 0;
-  const { file, hideTeam } = await committeeFile({ user, proposalId, fileId });
+  const { file, hideTeam } = await orNotFound(committeeFile({ user, proposalId, fileId }));
   const inline = new URL(request.url).searchParams.get("inline") === "1";
   // dual-anonymous: a neutral file name and no authorship metadata
   const filename = hideTeam ? ANONYMOUS_FILENAME : file.filename;

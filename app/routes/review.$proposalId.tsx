@@ -3,7 +3,7 @@ import { z } from "zod";
 import { ProblemsList, TotalsTable } from "~/components/FeasibilityParts";
 import { Field } from "~/components/Field";
 import { GradeForm, type ReviewAnswer } from "~/components/review/GradeForm";
-import { formAction, intent } from "~/lib/actions.server";
+import { formAction, intent, orNotFound } from "~/lib/actions.server";
 import { formatDec, formatRa } from "~/lib/astro/coordinates";
 import { requireUser } from "~/lib/auth/auth.server";
 import { memberRoleLabels, scienceCategoryLabel } from "~/lib/proposals/vocabulary";
@@ -24,8 +24,8 @@ export function meta({ data: d }: Route.MetaArgs) {
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const access = await committeeAccess({ user, proposalId });
-  const reading = await committeeReading(access);
+  const access = await orNotFound(committeeAccess({ user, proposalId }));
+  const reading = await orNotFound(committeeReading(access));
   const sheet = reading.feasibilitySheet;
   const feasibility = sheet
     ? {
@@ -54,11 +54,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const base = { reading: { ...reading, feasibilitySheet: null }, feasibility, now: new Date().toISOString() };
   if (access.as === "reviewer") {
     // the page gets the review, not the proposal and call records behind it (their ids name the PI's account)
-    const { proposal: _proposal, call: _call, ...review } = await reviewForProposal({ user, proposalId });
+    const { proposal: _proposal, call: _call, ...review } = await orNotFound(reviewForProposal({ user, proposalId }));
     return { ...base, as: "reviewer" as const, review, reviews: null };
   }
   // the chair reads every review of the proposal, committee comments included
-  const board = await reviewBoard({ callId: access.call.id });
+  const board = await orNotFound(reviewBoard({ callId: access.call.id }));
   const reviews = board.assignments
     .filter((a) => a.proposalId === proposalId)
     .map((a) => ({ ...a, reviewer: board.panel.find((r) => r.reviewerId === a.reviewerId)?.name ?? `user ${a.reviewerId}` }));
@@ -78,7 +78,7 @@ const reviewIntents = z.discriminatedUnion("intent", [
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const proposalId = proposalIdParam(params);
-  const review = await reviewForProposal({ user, proposalId });
+  const review = await orNotFound(reviewForProposal({ user, proposalId }));
   return formAction(request, reviewIntents, async (input) => {
     switch (input.intent) {
       case "conflict":

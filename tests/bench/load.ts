@@ -40,7 +40,7 @@ export function autocannon(url: string, connections: number, seconds = SECONDS, 
 
 /** The bare server: no framework, the same visibility function as the API route. */
 async function bareServer() {
-  const { visibilityResponse } = await import("../../app/lib/science-api.server");
+  const { visibilityResponse } = await import("../../app/lib/http/science-api.server");
   const server: Server = createServer(async (req, res) => {
     const url = new URL(req.url ?? "/", "http://127.0.0.1");
     if (url.pathname === "/healthz") {

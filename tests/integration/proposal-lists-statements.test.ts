@@ -1,6 +1,7 @@
 // My proposals and GET /api/v1/proposals read a fixed number of SQL statements, however many
 // proposals the person has (they were 5 per proposal): counted with a Sequelize query hook on
-// the built app's instance, for N and 2N proposals. A count, not a timing.
+// the built app's instance, for N and 2N proposals. A count, not a timing. GET
+// /api/v1/proposals/:id checks the team once, also for a PI who holds a committee role.
 import { Sequelize } from "sequelize";
 import { beforeAll, describe, expect, it } from "vitest";
 import { request } from "../helpers/app";
@@ -19,7 +20,7 @@ Sequelize.addHook("afterInit", (instance) => {
 // the mail and reminder workers run in the same process; their statements are not the request's
 const worker = /outgoing_mail|review_reminders|^(START TRANSACTION|COMMIT|ROLLBACK|SET SESSION)/i;
 
-async function statementsOf(path: string, cookie: string) {
+async function statementsOf(path: string, cookie: string, which: (sql: string) => boolean = () => true) {
   const counts: number[] = [];
   for (let i = 0; i < 3; i++) {
     statements = [];
@@ -27,10 +28,13 @@ async function statementsOf(path: string, cookie: string) {
     const res = await (await request()).get(path).set("Cookie", cookie);
     counting = false;
     expect(res.status).toBe(200);
-    counts.push(statements.filter((s) => !worker.test(s)).length);
+    counts.push(statements.filter((s) => !worker.test(s) && which(s)).length);
   }
   return Math.min(...counts);
 }
+
+/** The access check: a membership of this user (by id or invited address), not the team list's read of every member. */
+const membershipCheck = (sql: string) => /FROM `proposal_members`/.test(sql) && /`userId` = \d+/.test(sql);
 
 let person: Awaited<ReturnType<typeof newUser>>;
 let callId: number;
@@ -60,5 +64,19 @@ describe("proposal lists: SQL statements per request", () => {
     expect(page8).toBe(page4);
     // and stays small: session, memberships, counts, the sheets' inputs (+ the open calls on the page)
     expect(api8).toBeLessThanOrEqual(10);
+  });
+});
+
+describe("one proposal in the API: the access check once", () => {
+  it("reads the caller's membership in one statement, for a PI and for a PI who is also chair and reviewer", { timeout: 60_000 }, async () => {
+    const plain = await newUser({ name: "Plain PI" });
+    const committee = await newUser({ name: "Committee PI", roles: ["chair", "reviewer"] });
+    for (const pi of [plain, committee]) {
+      const { proposal } = await readyProposal({ user: pi.user, callId, title: `Checked once ${Date.now()}` });
+      const res = await (await request()).get(`/api/v1/proposals/${proposal.id}`).set("Cookie", pi.cookie);
+      expect(res.body.proposal.title).toMatch(/^Checked once/);
+      expect(res.body.readOnly).toBeUndefined();
+      expect(await statementsOf(`/api/v1/proposals/${proposal.id}`, pi.cookie, membershipCheck), pi.user.name ?? "").toBe(1);
+    }
   });
 });

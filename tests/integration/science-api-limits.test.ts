@@ -2,7 +2,7 @@
 // a bounded worker pool, and answers 429/503 with Retry-After and a JSON body, while cheap
 // requests and other pages still answer.
 import { describe, expect, it } from "vitest";
-import { COST_BUDGET_PER_MINUTE, epochPlanCost } from "~/lib/science-api.server";
+import { COST_BUDGET_PER_MINUTE, epochPlanCost } from "~/lib/http/science-api.server";
 import { request } from "../helpers/app";
 
 const SITE = { latitudeDeg: 31.9, longitudeDeg: -111.6, elevationM: 2100, timeZone: "america/PHOENIX" };

@@ -1,7 +1,7 @@
 // RA pressure of one telescope for a call (issue 12): loads the call, the telescope's site and
 // clear fractions, and the board's proposals' feasibility sheets, then hands plain data to the
 // pure computation in ./ra-pressure.ts. Callers check the role first (chair).
-import { data } from "react-router";
+import { Refusal } from "~/lib/forms";
 import { Op } from "sequelize";
 import { limitAltitude, prepareSiteNights } from "~/lib/astro/visibility";
 import { moonCategories } from "~/lib/domain";
@@ -16,7 +16,7 @@ const round = (x: number, digits = 3) => Math.round(x * 10 ** digits) / 10 ** di
 
 function telescopeNotOffered(semesterCode: string): never {
   const message = `That telescope offers no time in call ${semesterCode}.`;
-  throw data({ error: message, message, issues: [{ path: "telescopeId", message }] }, { status: 404 });
+  throw new Refusal(message, { status: 404, field: "telescopeId" });
 }
 
 /** Telescopes with hours offered in the call, in id order. */

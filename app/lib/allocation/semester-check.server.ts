@@ -10,10 +10,10 @@ import { existsSync } from "node:fs";
 import path from "node:path";
 import { pathToFileURL } from "node:url";
 import { Worker } from "node:worker_threads";
-import { data } from "react-router";
 import { Op } from "sequelize";
 import stringify from "safe-stable-stringify";
 import type { MoonCategory } from "~/lib/domain";
+import { Refusal } from "~/lib/forms";
 import { loadFeasibilityInputs } from "~/lib/proposals/feasibility.server";
 import { callNotFound } from "~/lib/review/chair.server";
 import { Allocation, BoardEntry, Call, CallOffer, Proposal, ReviewAssignment, SemesterCheck, Telescope, TelescopeClearFraction } from "~/models/index.server";
@@ -187,8 +187,8 @@ async function drain() {
 export const MAX_CHECKS_WAITING = 4;
 const checkOfCall = new Map<number, Promise<number | null>>();
 
-function refuseCheck(status: 409 | 503, message: string, extra: Record<string, unknown> = {}, headers: Record<string, string> = {}): never {
-  throw data({ error: message, issues: [{ path: "callId", message }], ...extra }, { status, headers: { "Cache-Control": "private, no-store", ...headers } });
+function refuseCheck(status: 409 | 503, message: string, extra: Record<string, unknown> = {}, retryAfterSeconds?: number): never {
+  throw new Refusal(message, { status, field: "callId", details: extra, retryAfterSeconds });
 }
 
 /** Queues a check of the call's allocation; it runs in a worker thread. 409 while one of the call's is waiting, 503 when the queue is full. */
@@ -199,7 +199,7 @@ export async function startSemesterCheck({ actor, callId, realisations, seed }: 
     if (id !== null) refuseCheck(409, `A semester check of this call is already queued or running (check ${id}); wait for its result.`, { id });
     return startSemesterCheck({ actor, callId, realisations, seed }); // that one did not start
   }
-  if (checkOfCall.size >= MAX_CHECKS_WAITING) refuseCheck(503, `${MAX_CHECKS_WAITING} semester checks are already waiting; try again in a minute.`, {}, { "Retry-After": "30" });
+  if (checkOfCall.size >= MAX_CHECKS_WAITING) refuseCheck(503, `${MAX_CHECKS_WAITING} semester checks are already waiting; try again in a minute.`, {}, 30);
   let settle: (id: number | null) => void = () => undefined;
   checkOfCall.set(callId, new Promise((resolve) => (settle = resolve)));
   try {

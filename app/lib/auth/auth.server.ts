@@ -3,6 +3,7 @@
 import { data, redirect } from "react-router";
 import { RoleGrant, User } from "~/models/index.server";
 import type { GrantableRole } from "~/models/RoleGrant";
+import { isEpochOffice } from "~/lib/epochs/office-roles";
 import { endUserSession, findUserSession, getSession, sessionStorage } from "./session.server";
 
 export {
@@ -81,6 +82,14 @@ export async function requireRole(request: Request, role: GrantableRole): Promis
   if (user.roles.includes(role)) return user;
   if (isApi(request)) throw data({ error: `This needs the ${role} role.` }, { status: 403 });
   throw data({ message: `This part of Nightshare is for the ${role} role, which your account does not hold.` }, { status: 403 });
+}
+
+/** The epoch log's keepers, the office or an observer; others get 403 (JSON on the API). */
+export async function requireEpochOffice(request: Request): Promise<SessionUser> {
+  const user = await requireUser(request);
+  if (isEpochOffice(user)) return user;
+  if (isApi(request)) throw data({ error: "This needs the admin or observer role." }, { status: 403 });
+  throw data({ message: "The epoch log is kept by the observatory office and its observers (admin or observer role)." }, { status: 403 });
 }
 
 /** Ends this browser's server-side session (an old copy of the cookie stops working too). */

@@ -2,12 +2,11 @@
 // the progress a PI sees (executed against planned, precision so far and projected, a re-plan),
 // accepting the re-plan, and what multi-semester programmes are still owed.
 import { Refusal } from "~/lib/forms";
-import { data } from "react-router";
 import { Op, type Transaction } from "sequelize";
 import { EPOCH_TOLERANCE_NIGHTS } from "~/lib/astro/astrometry";
 import { DAY_MS, dateOfDayNumber, dayNumber, localDate } from "~/lib/astro/time";
 import { writeAudit } from "~/lib/audit.server";
-import { requireUser, type SessionUser } from "~/lib/auth/auth.server";
+import type { SessionUser } from "~/lib/auth/auth.server";
 import { baselineSemesters, type FeasibilitySheet } from "~/lib/proposals/feasibility";
 import { feasibilitySheetOf, loadFeasibilityInput, loadFeasibilityInputs } from "~/lib/proposals/feasibility.server";
 import { getProposalForUser, notFound } from "~/lib/proposals/proposals.server";
@@ -15,23 +14,10 @@ import { Call, ExecutedEpoch, Instrument, Observation, PlannedEpoch, Proposal, s
 import type { EpochRecordSource } from "~/models/ExecutedEpoch";
 import type { NightLogReport } from "./night-log-csv";
 import { parseNightLogCsv } from "./night-log-csv.server";
+import { isEpochOffice } from "./office-roles";
 import { epochPrecision, meetsRequired, parallaxFactorsAt, plannedEpochTime, precisionReached, type PrecisionReached } from "./progress";
 import { replanRemaining, type Replan } from "./replan";
 import { parseObservedAt, type EpochRecordInput } from "./schema";
-
-export const EPOCH_OFFICE_ROLES = ["admin", "observer"] as const;
-
-export function isEpochOffice(user: Pick<SessionUser, "roles">) {
-  return user.roles.some((r) => (EPOCH_OFFICE_ROLES as readonly string[]).includes(r));
-}
-
-/** The office or an observer; others get 403 (JSON on the API). */
-export async function requireEpochOffice(request: Request): Promise<SessionUser> {
-  const user = await requireUser(request);
-  if (isEpochOffice(user)) return user;
-  if (new URL(request.url).pathname.startsWith("/api/")) throw data({ error: "This needs the admin or observer role." }, { status: 403 });
-  throw data({ message: "The epoch log is kept by the observatory office and its observers (admin or observer role)." }, { status: 403 });
-}
 
 /**
  * A proposal's epochs are read by its team, the office (admin) and, for accepted programmes, the
@@ -317,7 +303,7 @@ export async function epochProgress({ proposalId, observationId, withReplan = tr
     });
   }
   const main = (observationId !== undefined ? perObservation.find((o) => o.observationId === observationId) : perObservation[0]) ?? null;
-  if (observationId !== undefined && !main) throw data({ error: "The request has invalid fields.", issues: [{ path: "observationId", message: "is not one of this proposal's astrometric observations" }] }, { status: 400 });
+  if (observationId !== undefined && !main) refuse("observationId is not one of this proposal's astrometric observations.", "observationId");
   return {
     proposalId,
     executed,

@@ -2,7 +2,6 @@
 // sees a proposal only through a membership (by user id, or by the invited address until sign-in
 // claims it); for anyone else the proposal does not exist (404, never 403).
 import { Refusal } from "~/lib/forms";
-import { data } from "react-router";
 import { Op, QueryTypes, type Transaction } from "sequelize";
 import type { SessionUser } from "~/lib/auth/auth.server";
 import { callPhase, deadlinePassed } from "~/lib/call-phase";
@@ -21,8 +20,12 @@ import type { MemberRole } from "~/models/ProposalMember";
 
 export type Actor = Pick<SessionUser, "id" | "email">;
 
-export function notFound(): never {
-  throw data({ error: "No such proposal.", message: "There is no proposal at this address, or you are not on its team." }, { status: 404 });
+/** What anyone off a proposal's team is told: it does not exist for them. */
+export const NO_PROPOSAL = "There is no proposal at this address, or you are not on its team.";
+
+/** The proposal (or the reviewer's assignment of it) is not this user's: a 404 refusal. */
+export function notFound(field = "proposalId"): never {
+  throw new Refusal(NO_PROPOSAL, { status: 404, field });
 }
 
 /** Where-clause of the memberships that are this user's (claimed, or invited by address and not yet claimed). */

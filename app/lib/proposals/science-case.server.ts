@@ -3,7 +3,6 @@
 // upload is a new stored_files row, so earlier versions stay in the history.
 import { createHash } from "node:crypto";
 import { PDFArray, PDFDict, PDFDocument, PDFHexString, PDFName, PDFStream, PDFString, type PDFObject } from "pdf-lib";
-import { data } from "react-router";
 import { writeAudit } from "~/lib/audit.server";
 import { readForm, Refusal } from "~/lib/forms";
 import { assertEditable, getProposalForUser, type Actor } from "~/lib/proposals/proposals.server";
@@ -224,7 +223,7 @@ export async function scienceCaseHistory({ proposalId, user }: { proposalId: num
 export async function getProposalFileForUser({ proposalId, fileId, user }: { proposalId: number; fileId: number; user: Actor }) {
   await getProposalForUser({ proposalId, user });
   const file = Number.isSafeInteger(fileId) && fileId > 0 ? await StoredFile.findOne({ where: { id: fileId, proposalId } }) : null;
-  if (!file) throw data({ error: "No such file.", message: "There is no such file in this proposal." }, { status: 404 });
+  if (!file) throw new Refusal("There is no such file in this proposal.", { status: 404, field: "fileId" });
   return file;
 }
 

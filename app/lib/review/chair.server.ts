@@ -3,7 +3,6 @@
 // caller who holds the chair role (the routes check it first); every state change and its audit
 // entry share one transaction.
 import { Refusal } from "~/lib/forms";
-import { data } from "react-router";
 import { Op, type Transaction } from "sequelize";
 import type { SessionUser } from "~/lib/auth/auth.server";
 import { writeAudit } from "~/lib/audit.server";
@@ -21,15 +20,9 @@ import { CHAIR_REOPEN_DAYS, DEFAULT_PER_PROPOSAL, type ReviewStatus } from "./vo
 
 export type Chair = Pick<SessionUser, "id" | "email" | "roles">;
 
+/** No call has this id: a 404 refusal. */
 export function callNotFound(): never {
-  throw data({ error: "No such call.", message: "There is no call at this address." }, { status: 404 });
-}
-
-/** A committee page's `:callId`: anything but a positive whole number is no call of ours (404). */
-export function pageCallId(params: { callId?: string }): number {
-  const id = Number(params.callId);
-  if (!/^\d{1,10}$/.test(params.callId ?? "") || !Number.isSafeInteger(id) || id <= 0) callNotFound();
-  return id;
+  throw new Refusal("There is no call at this address.", { status: 404, field: "callId" });
 }
 
 export function reviewDeadlineText(at: Date | null) {

@@ -1,17 +1,11 @@
 // The charges' JSON routes: refusals as `{ error, issues: [{ path, message }] }` with their status.
 import { data } from "react-router";
-import { Refusal } from "~/lib/forms";
+import { apiRefusal } from "~/lib/http/api.server";
 
 const NO_STORE = { "Cache-Control": "private, no-store" };
 
-export function refusalJson(error: unknown): never {
-  if (error instanceof Refusal) {
-    const path = error.field;
-    const headers: Record<string, string> = { ...NO_STORE, ...(error.status === 503 ? { "Retry-After": "60" } : {}) };
-    throw data({ error: error.message, issues: [{ path, message: error.message }] }, { status: error.status, headers });
-  }
-  throw error;
-}
+/** A refusal as `{ error, issues: [{ path, message }] }` with its status (a 503 with Retry-After). */
+export const refusalJson = apiRefusal;
 
 /**
  * A body that must carry nothing: empty, or a JSON object without fields. Every field sent is named

@@ -1,4 +1,5 @@
-// Helpers of the review's JSON routes: ids from the URL, JSON bodies, refusals as `{ error, issues }`.
+// The JSON API routes' HTTP adapter: ids from the URL, JSON bodies, and the data layer's refusals
+// as `{ error, issues: [{ path, message }] }` with their status.
 import { data } from "react-router";
 import type { z } from "zod";
 import { apiIssues, idSchema, Refusal } from "~/lib/forms";
@@ -30,13 +31,26 @@ export async function apiBody<S extends z.ZodType>(request: Request, schema: S):
   return parsed.data;
 }
 
-/** Runs a change; a refusal from the data layer becomes `{ error, issues: [{ path, message }] }` with its status. */
+/**
+ * A refusal of the data layer as the API's answer: `{ error, issues: [{ path, message }] }` (and
+ * its `details`) with its status, Retry-After when it says when to ask again; anything else is
+ * thrown on.
+ */
+export function apiRefusal(error: unknown): never {
+  if (!(error instanceof Refusal)) throw error;
+  const retry = error.retryAfterSeconds ?? (error.status === 503 ? 60 : undefined);
+  throw data(
+    { error: error.message, issues: [{ path: error.field, message: error.message }], ...error.details },
+    { status: error.status, headers: { ...NO_STORE, ...(retry === undefined ? {} : { "Retry-After": String(retry) }) } },
+  );
+}
+
+/** Runs a read or a change; a refusal from the data layer becomes `{ error, issues: [{ path, message }] }` with its status. */
 export async function apiAttempt<R>(work: () => Promise<R>) {
   try {
     return await work();
   } catch (error) {
-    if (error instanceof Refusal) throw data({ error: error.message, issues: [{ path: error.field, message: error.message }] }, { status: error.status });
-    throw error;
+    apiRefusal(error);
   }
 }
 

@@ -1,3 +1,5 @@
+// Downloads (CSV, iCalendar) that no cache keeps, and refusals as plain text for a download link.
+import { Refusal } from "~/lib/forms";
 
 /** A file download that no cache keeps (the board's numbers are the chair's only). */
 export function downloadResponse(filename: string, contentType: string, body: string): Response {
@@ -16,5 +18,14 @@ export const csvResponse = (filename: string, csv: string) => downloadResponse(f
 export function refusalText(error: unknown): Response {
   if (error instanceof Refusal) return new Response(error.message, { status: error.status, headers: { "Content-Type": "text/plain; charset=utf-8" } });
   throw error;
-}import { Refusal } from "~/lib/forms";
+}
 
+/** A CSV download of what `read` builds; a refusal (an unknown call) as plain text with its status. */
+export async function csvDownload(read: Promise<{ filename: string; csv: string }>): Promise<Response> {
+  try {
+    const { filename, csv } = await read;
+    return csvResponse(filename, csv);
+  } catch (error) {
+    return refusalText(error);
+  }
+}

@@ -6,12 +6,12 @@ import type { z } from "zod";
 import { apiIssues } from "~/lib/forms";
 import { Lru } from "~/lib/lru";
 import { officeSemesters } from "~/lib/office/semesters.server";
-import { Filter, Instrument, Telescope } from "~/models/index.server";
-import { astrometryForDates, centroidPrecisionMas, epochPrecisionMas, type FitPrecision, type Plan } from "./astro/astrometry";
-import { computePool, PoolBusy, PoolTimeout } from "./astro/compute-pool.server";
-import { computeExposure, type ExposureInput } from "./astro/exposure";
-import type { Band } from "./astro/bands";
-import { EXTINCTION, SKY_BRIGHTNESS, ZERO_POINTS } from "./astro/photometry";
+import { instrumentWithFilters, telescopeById, type Telescope } from "~/lib/office/science-lookups.server";
+import { astrometryForDates, centroidPrecisionMas, epochPrecisionMas, type FitPrecision, type Plan } from "~/lib/astro/astrometry";
+import { computePool, PoolBusy, PoolTimeout } from "~/lib/astro/compute-pool.server";
+import { computeExposure, type ExposureInput } from "~/lib/astro/exposure";
+import type { Band } from "~/lib/astro/bands";
+import { EXTINCTION, SKY_BRIGHTNESS, ZERO_POINTS } from "~/lib/astro/photometry";
 import {
   astrometryBodySchema,
   epochPlanBodySchema,
@@ -19,11 +19,11 @@ import {
   visibilityQuerySchema,
   type EpochPlanBody,
   type ExposureBody,
-} from "./astro/schemas";
-import { MOON_CATEGORY_THRESHOLDS, MOON_TIME_RULE, REFRACTION_MODEL, type Limit, type Site } from "./astro/visibility";
-import { AIRMASS_FORMULA, airmass as airmassAt, altitudeForAirmass } from "./astro/airmass";
-import { MOONLIGHT_MODEL, moonlitSky, type MoonlightResult } from "./astro/moonlight";
-import { runScienceTask } from "./astro/science-tasks";
+} from "~/lib/astro/schemas";
+import { MOON_CATEGORY_THRESHOLDS, MOON_TIME_RULE, REFRACTION_MODEL, type Limit, type Site } from "~/lib/astro/visibility";
+import { AIRMASS_FORMULA, airmass as airmassAt, altitudeForAirmass } from "~/lib/astro/airmass";
+import { MOONLIGHT_MODEL, moonlitSky, type MoonlightResult } from "~/lib/astro/moonlight";
+import { runScienceTask } from "~/lib/astro/science-tasks";
 
 const intEnv = (name: string, fallback: number) => {
   const v = Number(process.env[name]);
@@ -147,7 +147,7 @@ export function zoneFromLongitude(lon: number): string {
 }
 
 async function telescopeSite(id: number, path: string): Promise<{ site: Site; telescope: Telescope }> {
-  const t = await Telescope.findByPk(id);
+  const t = await telescopeById(id);
   if (!t) throw new BadInput([{ path, message: `no telescope with id ${id}` }]);
   return { telescope: t, site: { latitudeDeg: t.latitudeDeg, longitudeDeg: t.longitudeDeg, elevationM: t.elevationM, timeZone: t.timeZone } };
 }
@@ -190,7 +190,7 @@ async function exposureInput(b: ExposureBody): Promise<ExposureInput & { moonlig
   let extinction = b.extinctionMagPerAirmass;
   let sky = b.skyMagPerArcsec2;
   if (b.instrumentId !== undefined) {
-    const inst = await Instrument.findByPk(b.instrumentId, { include: [{ model: Filter, as: "filters" }] });
+    const inst = await instrumentWithFilters(b.instrumentId);
     if (!inst) throw new BadInput([{ path: "instrumentId", message: `no instrument with id ${b.instrumentId}` }]);
     instrument ??= {
       throughput: inst.throughput,
@@ -209,7 +209,7 @@ async function exposureInput(b: ExposureBody): Promise<ExposureInput & { moonlig
       sky = cat === "dark" ? filter.skyDarkMag : cat === "grey" ? filter.skyGreyMag : filter.skyBrightMag;
     }
     if (!telescope && b.telescopeId === undefined) {
-      const t = await Telescope.findByPk(inst.telescopeId);
+      const t = await telescopeById(inst.telescopeId);
       if (t) telescope = { apertureM: t.apertureM, centralObstruction: t.centralObstruction };
     }
   }
