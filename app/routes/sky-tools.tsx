@@ -7,8 +7,8 @@ import { planEpochs } from "~/lib/astro/astrometry";
 import { computeExposure } from "~/lib/astro/exposure";
 import { ZERO_POINTS } from "~/lib/astro/photometry";
 import { officeSemesters } from "~/lib/office/semesters.server";
+import { telescopeSites } from "~/lib/office/telescopes.server";
 import { MOON_CATEGORY_THRESHOLDS, REFRACTION_MODEL, altitudeCurve, computeVisibility, type Site } from "~/lib/astro/visibility";
-import { Telescope } from "~/models/index.server";
 import type { Route } from "./+types/sky-tools";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sky tools · Nightshare" }];
@@ -23,18 +23,7 @@ const TARGET = { ra: "05:36:48", dec: "+18:30:00", raDeg: 84.2, decDeg: 18.5 };
 // telescope, so that the page is useful before any script runs; the forms then recompute live
 // through the JSON API (the same computations).
 export async function loader() {
-  const rows = await Telescope.findAll({ order: [["name", "ASC"]] });
-  const telescopes: SkyTelescope[] = rows.map((t) => ({
-    id: t.id,
-    name: t.name,
-    siteName: t.siteName,
-    latitudeDeg: t.latitudeDeg,
-    longitudeDeg: t.longitudeDeg,
-    elevationM: t.elevationM,
-    timeZone: t.timeZone,
-    apertureM: t.apertureM,
-    centralObstruction: t.centralObstruction,
-  }));
+  const telescopes: SkyTelescope[] = await telescopeSites();
   const scope = telescopes[0];
   const site: Site = scope
     ? { latitudeDeg: scope.latitudeDeg, longitudeDeg: scope.longitudeDeg, elevationM: scope.elevationM, timeZone: scope.timeZone }

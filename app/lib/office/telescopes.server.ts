@@ -18,6 +18,11 @@ export async function listTelescopes() {
   }));
 }
 
+/** The telescopes as sites and optics, for the public sky tools. */
+export async function telescopeSites() {
+  return (await Telescope.findAll({ order: [["name", "ASC"]] })).map(plainTelescope);
+}
+
 function plainTelescope(t: Telescope) {
   return {
     id: t.id,
