@@ -6,5 +6,10 @@ import { Call } from "~/models/index.server";
 
 export async function officeSemesters(transaction?: Transaction): Promise<SemesterSpan[]> {
   const calls = await Call.findAll({ attributes: ["semesterCode", "semesterStart", "semesterEnd"], order: [["semesterStart", "ASC"], ["id", "ASC"]], transaction });
-  return calls.map((c) => ({ code: c.semesterCode, start: c.semesterStart, end: c.semesterEnd }));
+  return calls.map(semesterSpan);
+}
+
+/** A call's semester as the planner reads it. */
+export function semesterSpan(call: Pick<Call, "semesterCode" | "semesterStart" | "semesterEnd">): SemesterSpan {
+  return { code: call.semesterCode, start: call.semesterStart, end: call.semesterEnd };
 }

@@ -7,7 +7,9 @@ import { Call, CallOffer, Filter, Instrument, Observation, PlannedEpoch, Proposa
 import { sheetTarget } from "~/models/Target";
 import { observationSettings } from "~/models/Observation";
 import { Lru } from "../lru";
-import { plainInstrument } from "../office/office.server";
+import { officeSemesters, semesterSpan } from "../office/semesters.server";
+import { plainFilter } from "../office/filters.server";
+import { plainInstrument } from "../office/instruments.server";
 
 export type { FeasibilitySheet } from "~/lib/proposals/feasibility";
 
@@ -53,14 +55,14 @@ async function readFeasibilityInputs({ proposalIds, proposals: given, calls: giv
   // a caller that has the calls with their offers passes them; otherwise every call is read with
   // its offers in one statement (a few per semester), for the proposals' calls and the later semesters
   const haveCalls = givenCalls && callIds.every((id) => givenCalls.some((c) => c.id === id));
-  const [callRows, targets, observations, telescopes, calls] = await Promise.all([
+  const [callRows, targets, observations, telescopes, semesters] = await Promise.all([
     haveCalls ? givenCalls : Call.findAll({ include: [{ model: CallOffer, as: "offers" }], order: [["semesterStart", "ASC"], ["id", "ASC"]] }),
     // plain rows: hundreds of proposals' targets and observations need no model instances
     Target.findAll({ where: { proposalId: ids }, order: [["id", "ASC"]], raw: true }),
     Observation.findAll({ where: { proposalId: ids }, order: [["id", "ASC"]], raw: true }),
     Telescope.findAll({ include: [{ model: Instrument, as: "instruments", include: [{ model: Filter, as: "filters" }] }], order: [["id", "ASC"], [{ model: Instrument, as: "instruments" }, "id", "ASC"], [{ model: Instrument, as: "instruments" }, { model: Filter, as: "filters" }, "id", "ASC"]] }),
-    haveCalls ? Call.findAll({ attributes: ["semesterCode", "semesterStart", "semesterEnd"], order: [["semesterStart", "ASC"]] }) : null,
-  ]).then(([callRows, targets, observations, telescopes, calls]) => [callRows, targets, observations, telescopes, calls ?? callRows] as const);
+    haveCalls ? officeSemesters() : null,
+  ]).then(([callRows, targets, observations, telescopes, semesters]) => [callRows, targets, observations, telescopes, semesters ?? callRows.map(semesterSpan)] as const);
   const epochs = observations.length
     ? await PlannedEpoch.findAll({ where: { observationId: observations.map((o) => o.id) }, order: [["id", "ASC"]] })
     : [];
@@ -82,16 +84,7 @@ async function readFeasibilityInputs({ proposalIds, proposals: given, calls: giv
     })),
     instruments: instruments.map(plainInstrument),
     filters: instruments.flatMap((i) =>
-      (i.filters ?? []).map((f) => ({
-        id: f.id,
-        instrumentId: f.instrumentId,
-        band: f.band,
-        zeroPointPhotons: f.zeroPointPhotons,
-        extinctionMagPerAirmass: f.extinctionMagPerAirmass,
-        skyDarkMag: f.skyDarkMag,
-        skyGreyMag: f.skyGreyMag,
-        skyBrightMag: f.skyBrightMag,
-      })),
+      (i.filters ?? []).map((f) => ({ ...plainFilter(f), instrumentId: f.instrumentId })),
     ),
   };
   const targetsOf = byProposal(targets);
@@ -107,9 +100,7 @@ async function readFeasibilityInputs({ proposalIds, proposals: given, calls: giv
         semesterEnd: call.semesterEnd,
         offers: (call.offers ?? []).map((o) => ({ telescopeId: o.telescopeId, moonCategory: o.moonCategory, hoursOffered: o.hoursOffered })),
         // the office's own dates for later semesters (the epoch planner's semesters)
-        laterSemesters: calls
-          .filter((c) => c.semesterStart > call.semesterEnd)
-          .map((c) => ({ code: c.semesterCode, start: c.semesterStart, end: c.semesterEnd })),
+        laterSemesters: semesters.filter((s) => s.start > call.semesterEnd),
       },
       // plain rows bring MariaDB's TINYINT and JSON text
       isMultiSemester: Boolean(proposal.isMultiSemester),

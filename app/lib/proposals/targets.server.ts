@@ -8,24 +8,13 @@ import { DUPLICATE_RADIUS_ARCSEC, type CsvReport, type CsvRowResult } from "~/li
 import { parseTargetCsv } from "~/lib/proposals/target-csv.server";
 import { Observation, sequelize, Target } from "~/models/index.server";
 import { sheetTarget } from "~/models/Target";
+import type { SheetTarget } from "./feasibility";
 import { assertEditable, getProposalForUser, type Actor } from "./proposals.server";
 
 export const MAX_TARGETS = 1_000;
 
-export type TargetRow = {
-  id: number;
-  name: string;
-  raDeg: number;
-  decDeg: number;
-  pmRaMasPerYr: number | null;
-  pmDecMasPerYr: number | null;
-  /** band → magnitude */
-  magnitudes: Record<string, number>;
-  magnitude: number | null;
-  band: string | null;
-  notes: string | null;
-  observations: number;
-};
+/** A target as the sheet reads it, with its notes and how many observations use it. */
+export type TargetRow = SheetTarget & { notes: string | null; observations: number };
 
 export async function listTargets({ user, proposalId }: { user: Actor; proposalId: number }): Promise<TargetRow[]> {
   await getProposalForUser({ proposalId, user });
