@@ -18,7 +18,7 @@ export function valueText(values: FormValues | null | undefined, name: string): 
 /** What was typed, one text a field, for forms whose fields are all single (spread over their blank values). */
 export function valueTexts(values: FormValues | null | undefined): Record<string, string> {
   const out: Record<string, string> = {};
-  for (const [name, value] of Object.entries(values ?? {})) out[name] = Array.isArray(value) ? value[0] : value;
+  for (const name of Object.keys(values ?? {})) out[name] = valueText(values, name) ?? "";
   return out;
 }
 
