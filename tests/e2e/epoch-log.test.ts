@@ -137,4 +137,28 @@ describe("the epoch log", () => {
     expect(errors).toEqual([]);
     await piContext.close();
   });
+
+  it("the night log can be read from a file into the box, then imported with a report per row", { timeout: 120_000 }, async () => {
+    const observer = await newUser({ roles: ["observer"], name: "Browser Night Log" });
+    const context = await suite.browser.newContext({ viewport: { width: 1400, height: 1000 } });
+    const [name, value] = (await sessionCookieFor(observer.email)).split("=");
+    await context.addCookies([{ name, value, url: suite.server.url }]);
+    const page = await context.newPage();
+    const errors = watchConsole(page);
+    await page.goto(`${suite.server.url}/admin/epochs`);
+    await page.getByRole("heading", { name: "Import a night log (CSV)" }).waitFor();
+    await page.locator('html[data-hydrated="yes"]').waitFor();
+    // an invented programme code that no proposal has: the row is refused and kept in the box
+    const csv = "proposal,observed_at,telescope,frames\nZZ99/99Z,2026-01-12T02:20Z,Nowhere scope,5\n";
+    expect(await page.locator("#night-log").inputValue()).toBe("");
+    await page.locator("#night-log-file").setInputFiles({ name: "night.csv", mimeType: "text/csv", buffer: Buffer.from(csv) });
+    await expect.poll(() => page.locator("#night-log").inputValue()).toBe(csv);
+    expect(await page.getByText("Read night.csv; check it in the box, then import.").count()).toBe(1);
+    await page.getByRole("button", { name: "Import the night log" }).click();
+    await expect.poll(() => page.getByRole("status").first().textContent()).toContain("1 refused");
+    expect(await page.locator("#night-log").inputValue()).toContain("ZZ99/99Z");
+    await screenshot(page, "epoch-log-07-night-log-file");
+    expect(errors).toEqual([]);
+    await context.close();
+  });
 });
