@@ -1,11 +1,11 @@
 // `npm run bench`: prints timings; nothing here is asserted (timings are not tests).
 //   npm run bench               everything
-//   npm run bench -- pdf        one section (visibility, review, board, ra-pressure, semester-check, pages, load, pdf, decisions, restart)
+//   npm run bench -- pdf        one section (visibility, review, board, ra-pressure, semester-check, pages, load, pdf, decisions, restart; `share` runs only the load section's framework share)
 import { availableParallelism, loadavg } from "node:os";
 import { runAstroBench } from "./astro";
 import { runBoardBench } from "./board";
 import { runDecisionsBench } from "./decisions";
-import { runLoadBench } from "./load";
+import { runLoadBench, runShareBench } from "./load";
 import { runPagesBench } from "./pages";
 import { runPdfBench } from "./pdf";
 import { runRaPressureBench } from "./ra-pressure";
@@ -15,9 +15,15 @@ import { runSemesterCheckBench } from "./semester-check";
 
 const only = process.argv[2];
 const want = (name: string) => !only || only === name;
-console.log(`Nightshare benchmarks — node ${process.version}, ${new Date().toISOString()}`);
+console.log(
+  `Nightshare benchmarks — node ${process.version}, ${new Date().toISOString()}`,
+);
 // Figures are only comparable on a quiet machine: a load above the number of cores inflates them.
-console.log(`machine: ${availableParallelism()} cores, load average ${loadavg().map((l) => l.toFixed(1)).join(" / ")} (1/5/15 min)`);
+console.log(
+  `machine: ${availableParallelism()} cores, load average ${loadavg()
+    .map((l) => l.toFixed(1))
+    .join(" / ")} (1/5/15 min)`,
+);
 if (want("visibility")) {
   console.log("\n[visibility]");
   for (const line of runAstroBench()) console.log("  " + line);
@@ -45,6 +51,12 @@ if (want("pages")) {
 if (want("load")) {
   console.log("\n[load: concurrent keep-alive clients]");
   for (const line of await runLoadBench()) console.log("  " + line);
+}
+if (only === "share") {
+  console.log(
+    "\n[framework's share: the visibility API through our front against bare node:http]",
+  );
+  for (const line of await runShareBench()) console.log("  " + line);
 }
 if (want("pdf")) {
   console.log("\n[proposal PDF and submission]");

@@ -70,6 +70,53 @@ describe("proxy trust", () => {
   });
 });
 
+/**
+ * The front with a build whose visibility route echoes what reached its loader: a science GET is
+ * answered before express's router (http-app.ts `front`), so its request must be cleaned the same way.
+ */
+function echoScienceFront(options: { trustProxy?: false | number | string[] } = {}) {
+  const loader = ({ request }: { request: Request }) => ({
+    clientIp: request.headers.get("x-nightshare-client-ip"),
+    nonce: request.headers.get("x-nightshare-csp-nonce"),
+    tooLarge: request.headers.get("x-nightshare-body-too-large"),
+    url: request.url,
+  });
+  const build = { routes: { "routes/api.v1.visibility": { module: { loader } } }, entry: { module: {} } };
+  return createHttpApp({ build: build as never, clientDir: path.join(testEnv.buildDir, "client"), ...options });
+}
+
+describe("a science GET answered before the router", () => {
+  it("sets the client address itself and drops forged internal headers", async () => {
+    const res = await supertest(echoScienceFront())
+      .get("/api/v1/visibility?ra=1")
+      .set("X-Forwarded-For", "1.2.3.4")
+      .set("X-Nightshare-Client-Ip", "6.6.6.6")
+      .set("X-Nightshare-Csp-Nonce", "chosen")
+      .set("X-Nightshare-Body-Too-Large", "1");
+    expect(res.status).toBe(200);
+    expect(res.body.clientIp).toMatch(/127\.0\.0\.1$/);
+    expect(res.body.tooLarge).toBeNull();
+    // the nonce the loader saw is the one in the policy sent, not the client's
+    expect(res.body.nonce).not.toBe("chosen");
+    expect(res.headers["content-security-policy"]).toContain(`'nonce-${res.body.nonce}'`);
+    expect(res.headers["x-frame-options"]).toBe("DENY");
+    expect(res.body.url).toMatch(/\/api\/v1\/visibility\?ra=1$/);
+  });
+
+  it("honours TRUST_PROXY as express does", async () => {
+    const res = await supertest(echoScienceFront({ trustProxy: 1 })).get("/api/v1/visibility").set("X-Forwarded-For", "1.2.3.4, 5.6.7.8");
+    expect(res.body.clientIp).toBe("5.6.7.8");
+  });
+
+  it("gives each request its own nonce", async () => {
+    const agent = supertest(echoScienceFront());
+    const nonces = new Set<string>();
+    for (let i = 0; i < 300; i++) nonces.add((await agent.get("/api/v1/visibility")).body.nonce);
+    // 300 requests span more than one refill of the nonce pool (256 per refill)
+    expect(nonces.size).toBe(300);
+  });
+});
+
 describe("cross-site requests", () => {
   it("refuses a text/plain POST to an API route (400 JSON naming the content type) and changes nothing", async () => {
     const target = await newUser();

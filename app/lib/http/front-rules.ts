@@ -122,8 +122,9 @@ export function crossSiteReason(headers: { origin?: string; secFetchSite?: strin
  * The one response our own pages may frame: a committee member's inline science case
  * (`/review/:proposalId/files/:fileId?inline=1`, shown in the review page). Everything else stays unframeable.
  */
-export function framedBySameOrigin(method: string, path: string, query: Record<string, unknown>) {
-  return method === "GET" && /^\/review\/\d{1,10}\/files\/\d{1,10}$/.test(path) && query.inline === "1";
+export function framedBySameOrigin(method: string, path: string, query: () => Record<string, unknown>) {
+  // the query is read only for the file path (parsing it is most of this check's cost)
+  return method === "GET" && /^\/review\/\d{1,10}\/files\/\d{1,10}$/.test(path) && query().inline === "1";
 }
 
 export function contentSecurityPolicy({ nonce, formActionOrigins = [], frameAncestors = "'none'" }: { nonce: string; formActionOrigins?: string[]; frameAncestors?: string }) {
