@@ -15,9 +15,7 @@ import { runSemesterCheckBench } from "./semester-check";
 
 const only = process.argv[2];
 const want = (name: string) => !only || only === name;
-console.log(
-  `Nightshare benchmarks — node ${process.version}, ${new Date().toISOString()}`,
-);
+console.log(`Nightshare benchmarks — node ${process.version}, ${new Date().toISOString()}`);
 // Figures are only comparable on a quiet machine: a load above the number of cores inflates them.
 console.log(
   `machine: ${availableParallelism()} cores, load average ${loadavg()
@@ -53,9 +51,7 @@ if (want("load")) {
   for (const line of await runLoadBench()) console.log("  " + line);
 }
 if (only === "share") {
-  console.log(
-    "\n[framework's share: the visibility API through our front against bare node:http]",
-  );
+  console.log("\n[framework's share: the visibility API through our front against bare node:http]");
   for (const line of await runShareBench()) console.log("  " + line);
 }
 if (want("pdf")) {
