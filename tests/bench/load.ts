@@ -17,14 +17,7 @@ const LEVELS = [1, 10, 50] as const;
 // an invented site; 30 nights stay below the worker pool's threshold (31), as the Sky tools ask
 export const VISIBILITY_QUERY = "lat=31.3&lon=-108.7&elevation=2100&timeZone=America%2FDenver&ra=150.25&dec=12.5&from=2027-02-01&nights=30&maxAirmass=2";
 
-export type LoadResult = {
-  rps: number;
-  p50: number;
-  p99: number;
-  errors: number;
-  non2xx: number;
-  requests: number;
-};
+export type LoadResult = { rps: number; p50: number; p99: number; errors: number; non2xx: number; requests: number };
 
 /** autocannon in its own process: the figures of `connections` keep-alive clients for SECONDS. */
 export function autocannon(url: string, connections: number, seconds = SECONDS, headers: Record<string, string> = {}): Promise<LoadResult> {
@@ -32,30 +25,15 @@ export function autocannon(url: string, connections: number, seconds = SECONDS, 
   for (const [k, v] of Object.entries(headers)) args.push("-H", `${k}=${v}`);
   args.push(url);
   return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, args, {
-      stdio: ["ignore", "pipe", "pipe"],
-    });
+    const child = spawn(process.execPath, args, { stdio: ["ignore", "pipe", "pipe"] });
     let out = "";
     let err = "";
     child.stdout.on("data", (d) => (out += d));
     child.stderr.on("data", (d) => (err += d));
     child.once("exit", (code) => {
       if (code !== 0) return reject(new Error(`autocannon failed: ${err.slice(-500)}`));
-      const r = JSON.parse(out) as {
-        requests: { average: number; total: number };
-        latency: { p50: number; p99: number };
-        errors: number;
-        timeouts: number;
-        non2xx: number;
-      };
-      resolve({
-        rps: r.requests.average,
-        p50: r.latency.p50,
-        p99: r.latency.p99,
-        errors: r.errors + r.timeouts,
-        non2xx: r.non2xx,
-        requests: r.requests.total,
-      });
+      const r = JSON.parse(out) as { requests: { average: number; total: number }; latency: { p50: number; p99: number }; errors: number; timeouts: number; non2xx: number };
+      resolve({ rps: r.requests.average, p50: r.latency.p50, p99: r.latency.p99, errors: r.errors + r.timeouts, non2xx: r.non2xx, requests: r.requests.total });
     });
   });
 }
@@ -66,29 +44,18 @@ export async function bareServer() {
   const server: Server = createServer(async (req, res) => {
     const url = new URL(req.url ?? "/", "http://127.0.0.1");
     if (url.pathname === "/healthz") {
-      res.writeHead(200, {
-        "Content-Type": "application/json",
-        "Cache-Control": "no-store",
-      });
+      res.writeHead(200, { "Content-Type": "application/json", "Cache-Control": "no-store" });
       res.end('{"status":"ok"}');
       return;
     }
-    const headers = new Headers({
-      "x-nightshare-client-ip": req.socket.remoteAddress ?? "unknown",
-    });
+    const headers = new Headers({ "x-nightshare-client-ip": req.socket.remoteAddress ?? "unknown" });
     const r = (await visibilityResponse(new Request(url, { headers }))) as unknown as { data: unknown; init?: { status?: number } };
-    res.writeHead(r.init?.status ?? 200, {
-      "Content-Type": "application/json; charset=utf-8",
-      "Cache-Control": "no-store",
-    });
+    res.writeHead(r.init?.status ?? 200, { "Content-Type": "application/json; charset=utf-8", "Cache-Control": "no-store" });
     res.end(JSON.stringify(r.data));
   });
   await new Promise<void>((r) => server.listen(0, "127.0.0.1", () => r()));
   server.keepAliveTimeout = 30_000;
-  return {
-    url: `http://127.0.0.1:${(server.address() as AddressInfo).port}`,
-    close: () => new Promise((r) => server.close(() => r(null))),
-  };
+  return { url: `http://127.0.0.1:${(server.address() as AddressInfo).port}`, close: () => new Promise((r) => server.close(() => r(null))) };
 }
 
 const row = (label: string, c: number, r: LoadResult, extra = "") =>
@@ -96,20 +63,13 @@ const row = (label: string, c: number, r: LoadResult, extra = "") =>
 
 export async function runLoadBench(): Promise<string[]> {
   // the science API's per-address limits would answer 429 to a load test from one address
-  const app = await benchApp({
-    env: {
-      SCIENCE_REQUESTS_PER_MINUTE: "1000000000",
-      SCIENCE_BUDGET_PER_MINUTE: "1000000000000",
-    },
-  });
+  const app = await benchApp({ env: { SCIENCE_REQUESTS_PER_MINUTE: "1000000000", SCIENCE_BUDGET_PER_MINUTE: "1000000000000" } });
   const bare = await bareServer();
   process.env.SCIENCE_REQUESTS_PER_MINUTE = "1000000000";
   const lines: string[] = [`${SECONDS} s per run (LOAD_SECONDS sets it; 10 by default), autocannon in a child process, keep-alive, no pipelining`];
   try {
     const { Proposal } = await import("../../app/models/index.server");
-    const survey = (await Proposal.findOne({
-      where: { title: "The Wren Survey: faint halo stars in 500 fields" },
-    }))!;
+    const survey = (await Proposal.findOne({ where: { title: "The Wren Survey: faint halo stars in 500 fields" } }))!;
     const cookie = await app.cookieFor("pi@kestrel-ridge.example");
     const appRuns: [string, string, Record<string, string>][] = [
       ["/healthz", "/healthz", {}],
@@ -125,10 +85,7 @@ export async function runLoadBench(): Promise<string[]> {
         lines.push(row(`app: ${label}`, c, r, goal));
       }
     }
-    for (const [label, pathname] of [
-      ["/healthz (constant)", "/healthz"],
-      ["visibility (same function)", `/visibility?${VISIBILITY_QUERY}`],
-    ] as const) {
+    for (const [label, pathname] of [["/healthz (constant)", "/healthz"], ["visibility (same function)", `/visibility?${VISIBILITY_QUERY}`]] as const) {
       for (const c of LEVELS) {
         await fetch(bare.url + pathname).then((r) => r.arrayBuffer());
         const r = await autocannon(bare.url + pathname, c);
@@ -175,12 +132,7 @@ async function shareLines(appBase: string, bareBase: string): Promise<string[]> 
 
 /** `npm run bench -- share`: only the framework's share (LOAD_SECONDS per run, as the load section). */
 export async function runShareBench(): Promise<string[]> {
-  const app = await benchApp({
-    env: {
-      SCIENCE_REQUESTS_PER_MINUTE: "1000000000",
-      SCIENCE_BUDGET_PER_MINUTE: "1000000000000",
-    },
-  });
+  const app = await benchApp({ env: { SCIENCE_REQUESTS_PER_MINUTE: "1000000000", SCIENCE_BUDGET_PER_MINUTE: "1000000000000" } });
   const bare = await bareServer();
   process.env.SCIENCE_REQUESTS_PER_MINUTE = "1000000000";
   try {

@@ -1,6 +1,7 @@
 // `npm run bench`: prints timings; nothing here is asserted (timings are not tests).
 //   npm run bench               everything
-//   npm run bench -- pdf        one section (visibility, review, board, ra-pressure, semester-check, pages, load, pdf, decisions, restart; `share` runs only the load section's framework share)
+//   npm run bench -- pdf        one section (visibility, review, board, ra-pressure, semester-check, pages, load, pdf, decisions, restart;
+//                               `share`: only the load section's framework share)
 import { availableParallelism, loadavg } from "node:os";
 import { runAstroBench } from "./astro";
 import { runBoardBench } from "./board";
@@ -17,11 +18,7 @@ const only = process.argv[2];
 const want = (name: string) => !only || only === name;
 console.log(`Nightshare benchmarks — node ${process.version}, ${new Date().toISOString()}`);
 // Figures are only comparable on a quiet machine: a load above the number of cores inflates them.
-console.log(
-  `machine: ${availableParallelism()} cores, load average ${loadavg()
-    .map((l) => l.toFixed(1))
-    .join(" / ")} (1/5/15 min)`,
-);
+console.log(`machine: ${availableParallelism()} cores, load average ${loadavg().map((l) => l.toFixed(1)).join(" / ")} (1/5/15 min)`);
 if (want("visibility")) {
   console.log("\n[visibility]");
   for (const line of runAstroBench()) console.log("  " + line);
