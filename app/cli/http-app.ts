@@ -1,11 +1,14 @@
 // The HTTP front of the app: security headers, static files from the client build, the
-// cross-site and body-size checks, then React Router's request handler. Shared by `npm start`
+// cross-site and body-size checks, then React Router's request handler (the science GETs are
+// answered before express: see `answerScienceGet`). Shared by `npm start`
 // and the integration and browser tests, so both run the same stack.
 import { randomBytes } from "node:crypto";
 import { createServer, type IncomingMessage, type ServerResponse } from "node:http";
 import path from "node:path";
+import type { TLSSocket } from "node:tls";
 import { writeReadableStreamToWritable } from "@react-router/node";
 import express, { type Request as ExpressRequest, type Response as ExpressResponse } from "express";
+import proxyaddr from "proxy-addr";
 import { createRequestHandler, RouterContextProvider, type ServerBuild } from "react-router";
 import {
   bodyLimitFor,
@@ -27,6 +30,7 @@ export const INTERNAL_HEADERS = {
   nonce: "x-nightshare-csp-nonce",
   bodyTooLarge: "x-nightshare-body-too-large",
 } as const;
+const INTERNAL_NAMES: readonly string[] = Object.values(INTERNAL_HEADERS);
 
 type Handler = (request: Request) => Promise<Response>;
 
@@ -58,18 +62,24 @@ export function createHttpApp({ build, clientDir, trustProxy = false, appUrl = p
   const direct = handler ? new Map<string, DirectRoute>() : directRoutes(build);
   const clientIp = (req: ExpressRequest) => req.ip ?? req.socket.remoteAddress ?? "unknown";
 
+  /** The security headers of every answer (the policy with the request's nonce). */
+  const securityHeaders = (nonce: string, framed: boolean): [string, string][] => {
+    const list: [string, string][] = [
+      ["Content-Security-Policy", (framed ? framedPolicy : policy).replace(NONCE_SLOT, nonce)],
+      ["X-Content-Type-Options", "nosniff"],
+      ["X-Frame-Options", framed ? "SAMEORIGIN" : "DENY"],
+      ["Referrer-Policy", "same-origin"],
+      ["Cross-Origin-Opener-Policy", "same-origin"],
+    ];
+    if (https) list.push(["Strict-Transport-Security", "max-age=31536000"]);
+    return list;
+  };
   /** The headers of every answer, and the request's own values only this front may set. */
   const frontHeaders = (req: ExpressRequest, res: ExpressResponse) => {
-    for (const name of Object.values(INTERNAL_HEADERS)) delete req.headers[name];
+    for (const name of INTERNAL_NAMES) delete req.headers[name];
     const nonce = cspNonce();
     req.headers[INTERNAL_HEADERS.nonce] = nonce;
-    const framed = framedBySameOrigin(req.method, req.path, () => req.query);
-    res.setHeader("Content-Security-Policy", (framed ? framedPolicy : policy).replace(NONCE_SLOT, nonce));
-    res.setHeader("X-Content-Type-Options", "nosniff");
-    res.setHeader("X-Frame-Options", framed ? "SAMEORIGIN" : "DENY");
-    res.setHeader("Referrer-Policy", "same-origin");
-    res.setHeader("Cross-Origin-Opener-Policy", "same-origin");
-    if (https) res.setHeader("Strict-Transport-Security", "max-age=31536000");
+    for (const [name, value] of securityHeaders(nonce, framedBySameOrigin(req.method, req.path, () => req.query))) res.setHeader(name, value);
   };
   app.use((req, res, next) => {
     frontHeaders(req, res);
@@ -115,24 +125,21 @@ export function createHttpApp({ build, clientDir, trustProxy = false, appUrl = p
   });
 
   // A science GET (the exact path, no extension, no body, no cross-site check for a GET) is
-  // answered before express's router: the same headers and the same direct call as through it,
-  // without the router's layers, which cost as much as the computation on the busiest calls.
-  // Everything else (other methods, spellings, paths) goes through express as above.
+  // answered before express: the same headers, client address and direct call as through it,
+  // in plain node (express's router and its request and response prototypes cost as much as the
+  // computation on the busiest calls). Everything else goes through express as above.
+  const science: ScienceFront = {
+    trust: app.get("trust proxy fn") as ScienceFront["trust"],
+    trustEnabled: app.enabled("trust proxy"),
+    securityHeaders: (nonce) => securityHeaders(nonce, false),
+    build,
+  };
   const front = (req: IncomingMessage, res: ServerResponse) => {
     const url = req.url ?? "";
     const query = url.indexOf("?");
     const loader = req.method === "GET" ? direct.get(query < 0 ? url : url.slice(0, query))?.loader : undefined;
     if (!loader) return void app(req, res);
-    // what express does before its router, so that req.ip, req.protocol and res.status hold
-    const expressReq = Object.setPrototypeOf(req, app.request) as ExpressRequest;
-    const expressRes = Object.setPrototypeOf(res, app.response) as ExpressResponse;
-    expressReq.res = expressRes;
-    expressRes.req = expressReq;
-    expressRes.locals = Object.create(null);
-    expressReq.originalUrl = url;
-    frontHeaders(expressReq, expressRes);
-    expressReq.headers[INTERNAL_HEADERS.clientIp] = clientIp(expressReq);
-    directRequest(expressReq, expressRes, bodilessRequest(expressReq), loader, build).catch((error) => {
+    answerScienceGet(req, res, loader, science).catch((error) => {
       console.error("[app] science request failed:", error);
       if (!res.headersSent) res.writeHead(500, { "Content-Type": "text/plain" });
       res.end("Unexpected Server Error");
@@ -207,6 +214,91 @@ async function directRequest(req: ExpressRequest, res: ExpressResponse, request:
   res.status(result.init?.status ?? 200);
   setResponseHeaders(req, res, headers);
   res.end(body);
+}
+
+type ScienceFront = {
+  /** express's compiled `trust proxy` (address, hop) → trusted */
+  trust: (address: string, hop: number) => boolean;
+  trustEnabled: boolean;
+  securityHeaders: (nonce: string) => [string, string][];
+  build: ServerBuild;
+};
+type Answer = { status: number; statusText?: string; headers?: Headers; body: string | Buffer; json: boolean };
+
+/** A science GET in plain node: as `directRequest` after express's layers, without express. */
+async function answerScienceGet(req: IncomingMessage, res: ServerResponse, loader: RouteFunction, front: ScienceFront) {
+  const nonce = cspNonce();
+  const headers = new Headers();
+  for (const [key, values] of Object.entries(req.headers)) {
+    if (values === undefined || INTERNAL_NAMES.includes(key)) continue;
+    if (Array.isArray(values)) for (const value of values) headers.append(key, value);
+    else headers.set(key, values);
+  }
+  headers.set(INTERNAL_HEADERS.nonce, nonce);
+  // express's req.ip: the nearest address the configured proxies do not vouch for
+  headers.set(INTERNAL_HEADERS.clientIp, proxyaddr(req, front.trust) ?? "unknown");
+  const request = new Request(`${plainProtocol(req, front.trust)}://${plainHost(req, front)}${req.url}`, { headers });
+  const args = { request, params: {}, context: new RouterContextProvider() };
+  let answer: Answer;
+  try {
+    const result = await loader(args);
+    if (isDataWithInit(result)) {
+      const init = result.init;
+      answer = { status: init?.status ?? 200, statusText: init?.statusText, headers: init?.headers ? new Headers(init.headers) : undefined, body: JSON.stringify(result.data) ?? "null", json: true };
+    } else answer = await fromResponse(result instanceof Response ? result : typeof result === "string" ? new Response(result) : Response.json(result));
+  } catch (error) {
+    if (error instanceof Response) answer = await fromResponse(error);
+    else {
+      front.build.entry.module.handleError?.(error, args);
+      answer = await fromResponse(new Response("Unexpected Server Error", { status: 500, headers: { "X-Remix-Error": "yes" } }));
+    }
+  }
+  if (res.destroyed || res.writableEnded) return;
+  // the security headers, which a route's own replace; the route's; then the cache rule
+  const out = new Map<string, [string, string]>();
+  for (const [name, value] of front.securityHeaders(nonce)) out.set(name.toLowerCase(), [name, value]);
+  const cookies = answer.headers?.getSetCookie() ?? [];
+  for (const [name, value] of answer.headers ?? []) if (name !== "set-cookie") out.set(name, [name, value]);
+  if (answer.json && !out.has("content-type")) out.set("content-type", ["content-type", "application/json"]);
+  if (req.headers.cookie || cookies.length) out.set("cache-control", ["Cache-Control", "private, no-store"]);
+  const flat: string[] = [];
+  for (const [name, value] of out.values()) flat.push(name, value);
+  for (const cookie of cookies) flat.push("set-cookie", cookie);
+  // one write: the status line, the headers and the body
+  flat.push("Content-Length", String(Buffer.byteLength(answer.body)));
+  res.writeHead(answer.status, answer.statusText || undefined, flat);
+  res.end(answer.body);
+}
+
+async function fromResponse(response: Response): Promise<Answer> {
+  return { status: response.status, statusText: response.statusText, headers: response.headers, body: Buffer.from(await response.arrayBuffer()), json: false };
+}
+
+const firstValue = (value: string | string[] | undefined) => (Array.isArray(value) ? value[0] : value);
+
+/** express's req.protocol, without express. */
+function plainProtocol(req: IncomingMessage, trust: ScienceFront["trust"]) {
+  const protocol = (req.socket as TLSSocket).encrypted ? "https" : "http";
+  if (!trust(req.socket.remoteAddress ?? "", 0)) return protocol;
+  const header = firstValue(req.headers["x-forwarded-proto"]) || protocol;
+  return header.split(",")[0].trim();
+}
+
+/** `requestHost` (React Router's express adapter's host) without express. */
+function plainHost(req: IncomingMessage, front: ScienceFront) {
+  const forwarded = front.trustEnabled ? firstValue(req.headers["x-forwarded-host"]) : undefined;
+  const [, forwardedPort] = forwarded?.split(":") ?? [];
+  const [, hostPort] = req.headers.host?.split(":") ?? [];
+  const port = [forwardedPort, hostPort].map((p) => Number.parseInt(p ?? "", 10)).find((p) => Number.isSafeInteger(p));
+  // express's req.hostname: the forwarded host only from a trusted proxy, without its port
+  let host = forwarded && front.trust(req.socket.remoteAddress ?? "", 0) ? forwarded.split(",")[0].trimEnd() : req.headers.host;
+  if (host) {
+    const offset = host[0] === "[" ? host.indexOf("]") + 1 : 0;
+    const colon = host.indexOf(":", offset);
+    if (colon !== -1) host = host.slice(0, colon);
+  }
+  const hostname = host?.split(/[\\/?#@]/)[0] || "localhost";
+  return `${hostname}${port ? `:${port}` : ""}`;
 }
 
 function refuse(res: ExpressResponse, api: boolean, status: number, message: string, detail: string, field = "(request)") {
@@ -295,20 +387,6 @@ function cspNonce() {
   const nonce = noncePool.toString("base64", nonceOffset, nonceOffset + NONCE_BYTES);
   nonceOffset += NONCE_BYTES;
   return nonce;
-}
-
-/**
- * The request a science GET's loader gets: its URL and headers only. Without a body there is
- * nothing to read, and the computation cannot be stopped part-way, so it carries no abort signal.
- */
-function bodilessRequest(req: ExpressRequest) {
-  const headers = new Headers();
-  for (const [key, values] of Object.entries(req.headers)) {
-    if (values === undefined) continue;
-    if (Array.isArray(values)) for (const value of values) headers.append(key, value);
-    else headers.set(key, values);
-  }
-  return new Request(`${req.protocol}://${requestHost(req)}${req.originalUrl}`, { method: "GET", headers });
 }
 
 /** The Fetch API request React Router (or a direct route) gets; null when a 413 was answered. */

@@ -31,7 +31,7 @@ function echoFront(options: { trustProxy?: false | number | string[]; appUrl?: s
     clientDir: path.join(testEnv.buildDir, "client"),
     ...options,
     handler: async (req) =>
-      Response.json({ clientIp: req.headers.get("x-nightshare-client-ip"), bodyBytes: req.body ? (await req.arrayBuffer()).byteLength : 0 }),
+      Response.json({ clientIp: req.headers.get("x-nightshare-client-ip"), url: req.url, bodyBytes: req.body ? (await req.arrayBuffer()).byteLength : 0 }),
   });
 }
 
@@ -103,9 +103,33 @@ describe("a science GET answered before the router", () => {
     expect(res.body.url).toMatch(/\/api\/v1\/visibility\?ra=1$/);
   });
 
-  it("honours TRUST_PROXY as express does", async () => {
-    const res = await supertest(echoScienceFront({ trustProxy: 1 })).get("/api/v1/visibility").set("X-Forwarded-For", "1.2.3.4, 5.6.7.8");
+  it("honours TRUST_PROXY as express does: address, protocol and host", async () => {
+    const res = await supertest(echoScienceFront({ trustProxy: 1 }))
+      .get("/api/v1/visibility?x=1")
+      .set("X-Forwarded-For", "1.2.3.4, 5.6.7.8")
+      .set("X-Forwarded-Proto", "https")
+      .set("X-Forwarded-Host", "sky.example:8443");
     expect(res.body.clientIp).toBe("5.6.7.8");
+    expect(res.body.url).toBe("https://sky.example:8443/api/v1/visibility?x=1");
+    // the same request through express's layers to React Router sees the same
+    const viaExpress = await supertest(echoFront({ trustProxy: 1 }))
+      .get("/api/v1/visibility/?x=1")
+      .set("X-Forwarded-For", "1.2.3.4, 5.6.7.8")
+      .set("X-Forwarded-Proto", "https")
+      .set("X-Forwarded-Host", "sky.example:8443");
+    expect(viaExpress.status).toBe(200);
+    expect(viaExpress.body.url).toBe("https://sky.example:8443/api/v1/visibility/?x=1");
+    expect(viaExpress.body.clientIp).toBe("5.6.7.8");
+  });
+
+  it("without TRUST_PROXY ignores the forwarded address, protocol and host", async () => {
+    const res = await supertest(echoScienceFront())
+      .get("/api/v1/visibility")
+      .set("X-Forwarded-For", "1.2.3.4")
+      .set("X-Forwarded-Proto", "https")
+      .set("X-Forwarded-Host", "sky.example");
+    expect(res.body.clientIp).toMatch(/127\.0\.0\.1$/);
+    expect(res.body.url).toMatch(/^http:\/\/127\.0\.0\.1:\d+\/api\/v1\/visibility$/);
   });
 
   it("gives each request its own nonce", async () => {
