@@ -245,13 +245,16 @@ describe("the night-log CSV import", () => {
       `${code},,2026-04-06T00:10,${telescope.name},0,,,,aliens,`,
       `${code},Nowhere,2026-04-07T00:10,${telescope.name},5,,,2,,`,
       `${code},,2026-04-08T00:10,${telescope.name},5,,,2,,,extra`,
+      `${code},,2026-04-09T00:10,${telescope.name},5,,140,,,snr without fwhm`,
+      `${code},,2026-04-10T00:10,${telescope.name},5,0.9,140,2,,both`,
+      `${code},,2026-04-11T00:10,${telescope.name},5,wide,,2,,bad fwhm`,
     ].join("\n");
     const res = await (await request()).post("/admin/epochs").set("Cookie", observer.cookie).type("form").send(new URLSearchParams({ intent: "night-log", csv }).toString());
     expect(res.status).toBe(200);
     expect(await ExecutedEpoch.count({ where: { observationId } })).toBe(before + 3);
     const text = res.text.replaceAll("<!-- -->", "");
     expect(text).toContain("3 recorded");
-    expect(text).toContain("8 refused");
+    expect(text).toContain("11 refused");
     expect(text).toContain("999/99Z&quot; is not an accepted astrometry programme");
     expect(text).toContain("No such scope&quot; is not a telescope");
     expect(text).toMatch(/observed_at must be a date and UTC time/);
@@ -260,6 +263,13 @@ describe("the night-log CSV import", () => {
     expect(text).toContain("lost must be weather or technical");
     expect(text).toContain("Nowhere&quot; is not an astrometric target");
     expect(text).toContain("11 cells but the header has 10 columns");
+    // each refusal names the column the office wrote, not the API's field behind it
+    const table = text.match(/<table[^>]*aria-label="Night log report"[\s\S]*?<\/table>/)?.[0] ?? "";
+    expect(table).toContain("fwhm is required to derive the precision from the SNR");
+    expect(table).toContain("Give precision_mas or snr, not both");
+    expect(table).toContain("fwhm must be a number above 0 and at most 20");
+    expect(table).toContain("unless snr and fwhm are given");
+    expect(table).not.toMatch(/fwhmArcsec|precisionMas|observedAt|telescopeId|lost\.cause/);
     const box = text.match(/<textarea[^>]*id="night-log"[^>]*>([\s\S]*?)<\/textarea>/)?.[1] ?? "";
     expect(box).toContain("No such scope");
     expect(box).not.toContain(",good");
