@@ -20,7 +20,7 @@ export function CsvReportTable({ label, rows, done }: { label: string; rows: Rep
                   <span className="text-emerald-800">{done}</span>
                 ) : (
                   <ul className="text-red-800">
-                    {r.problems.map((p, i) => <li key={i}>{issueLine(p.field, p.message)}</li>)}
+                    {r.problems.map((p, i) => <li key={i}>{issueLine(p.field, p.message, { asWritten: true })}</li>)}
                   </ul>
                 )}
               </td>

@@ -32,4 +32,12 @@ describe("issueLine", () => {
     expect(issueLine("dec", "Dec: must be in the range −90 ≤ Dec ≤ +90 degrees")).toBe("Dec must be in the range −90 ≤ Dec ≤ +90 degrees");
     expect(issueLine("name", 'duplicate: "A" is already on line 2')).toBe('name: Duplicate: "A" is already on line 2');
   });
+
+  it("keeps a CSV column's spelling when the message opens with it", () => {
+    expect(issueLine("precision_mas", "precision_mas is required for an executed epoch", { asWritten: true })).toBe("precision_mas is required for an executed epoch");
+    expect(issueLine("fwhm", "fwhm must be a number above 0", { asWritten: true })).toBe("fwhm must be a number above 0");
+    expect(issueLine("fwhm", "fwhm must be a number above 0")).toBe("Fwhm must be a number above 0");
+    expect(issueLine("dec", "Dec: must be in the range", { asWritten: true })).toBe("Dec must be in the range");
+    expect(issueLine("observed_at", "duplicate: already on line 2", { asWritten: true })).toBe("observed_at: Duplicate: already on line 2");
+  });
 });

@@ -91,11 +91,17 @@ export function plainIssue(message: string, opts: { field?: string; name?: strin
   return text.charAt(0).toUpperCase() + text.slice(1);
 }
 
-/** "field: message" for a list of problems, without naming the field twice (`dec: Dec: must…` → `Dec must…`). */
-export function issueLine(field: string, message: string): string {
+/**
+ * "field: message" for a list of problems, without naming the field twice (`dec: Dec: must…` →
+ * `Dec must…`). `asWritten`: the field is a column the user typed (a CSV header), so a message
+ * opening with it keeps its spelling (`precision_mas is required`, not `Precision_mas …`).
+ */
+export function issueLine(field: string, message: string, opts: { asWritten?: boolean } = {}): string {
   const text = plainIssue(message, { field, name: field });
   const leaf = field.split(".").pop() ?? field;
-  return !leaf || text.toLowerCase().startsWith(leaf.toLowerCase()) ? text : `${field}: ${text}`;
+  if (!leaf) return text;
+  if (!text.toLowerCase().startsWith(leaf.toLowerCase())) return `${field}: ${text}`;
+  return opts.asWritten && new RegExp(`^${escape(leaf)}(?![\\w])`).test(message.trim()) ? `${leaf}${text.slice(leaf.length)}` : text;
 }
 
 /**

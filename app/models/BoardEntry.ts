@@ -13,6 +13,8 @@ export class BoardEntry extends Model<InferAttributes<BoardEntry>, InferCreation
   declare chairRankReason: string | null;
   declare tier: AllocationTier | null;
   declare waitlisted: CreationOptional<boolean>;
+  /** The chair set its hours, tier or waitlist by hand: fill by rank keeps them. */
+  declare allocatedByHand: CreationOptional<boolean>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -24,6 +26,7 @@ export class BoardEntry extends Model<InferAttributes<BoardEntry>, InferCreation
         chairRankReason: { type: DataTypes.STRING(500), allowNull: true },
         tier: { type: DataTypes.ENUM(...allocationTiers), allowNull: true },
         waitlisted: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+        allocatedByHand: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
         createdAt: DataTypes.DATE(3),
         updatedAt: DataTypes.DATE(3),
       },

@@ -108,7 +108,7 @@ export default function Assignments({ loaderData }: Route.ComponentProps) {
         <div className="flex flex-wrap items-end gap-3">
           {distributed ? (
             <p className="max-w-xl text-sm" data-testid="distributed-note">
-              Reviewed by its submitters: each team's designated reviewer gets {call.reviewsPerSubmitter} proposals of the call, never their own{call.separateCompetitors ? " nor one asking for the same telescope and moon category as theirs" : ""}.
+              Reviewed by its submitters: each team's designated reviewer gets {call.reviewsPerSubmitter} proposals of the call (a reviewer several teams designated, {call.reviewsPerSubmitter} for each), never their own{call.separateCompetitors ? " nor one asking for the same telescope and moon category as theirs" : ""}.
             </p>
           ) : (
             <div>
@@ -123,7 +123,7 @@ export default function Assignments({ loaderData }: Route.ComponentProps) {
         </div>
         <p className="text-xs text-slate-500">
           {distributed
-            ? `The suggestion is a ${method}: every designated reviewer gets ${call.reviewsPerSubmitter} proposals free of conflicts where possible, the reviews are spread evenly over the proposals, and proposals of the reviewer's own category come first.`
+            ? `The suggestion is a ${method}: every designated reviewer gets ${call.reviewsPerSubmitter} proposals per team that designated them, free of conflicts where possible, the reviews are spread evenly over the proposals, and proposals of the reviewer's own category come first.`
             : `The suggestion is a ${method}: every proposal gets ${k} reviewers free of conflicts where possible, loads stay within one, and reviewers who know the category come first.`}
         </p>
         {suggestion ? (
@@ -133,7 +133,7 @@ export default function Assignments({ loaderData }: Route.ComponentProps) {
               <ul className="mt-1 list-disc pl-5 text-amber-900" aria-label="Reviewers with fewer proposals">
                 {suggestion.short.map((x) => <li key={x.reviewerId}>{reviewerName(x.reviewerId)} gets {x.count}: {x.reason}.</li>)}
               </ul>
-            ) : distributed ? <p>Every designated reviewer gets {call.reviewsPerSubmitter} proposals.</p> : null}
+            ) : distributed ? <p>Every designated reviewer gets {call.reviewsPerSubmitter} proposals per team that designated them.</p> : null}
             {distributed && !suggestion.impossible.length ? null : suggestion.impossible.length ? (
               <ul className="mt-1 list-disc pl-5 text-red-800">
                 {suggestion.impossible.map((x) => <li key={x.proposalId}>Impossible for {proposalLabel(x.proposalId)}: {x.reason}.</li>)}
@@ -145,8 +145,9 @@ export default function Assignments({ loaderData }: Route.ComponentProps) {
         <p className="text-sm" aria-live="polite">
           {pairs.size} pairs · loads {counts.length ? `${Math.min(...counts)}–${Math.max(...counts)}` : "—"}{spread > 1 ? " (more than one apart)" : ""} · {distributed
             ? (() => {
-                const under = counts.filter((c) => c < call.reviewsPerSubmitter).length;
-                return under ? `${under} reviewer${under === 1 ? "" : "s"} with fewer than ${call.reviewsPerSubmitter}` : `every reviewer has ${call.reviewsPerSubmitter}`;
+                // k for each team that designated the reviewer
+                const under = loads.filter((l) => l.count < call.reviewsPerSubmitter * Math.max(1, l.teams ?? 1)).length;
+                return under ? `${under} reviewer${under === 1 ? "" : "s"} with fewer than they owe` : `every reviewer has ${call.reviewsPerSubmitter} per team`;
               })()
             : short.length ? `${short.length} proposal${short.length === 1 ? "" : "s"} with fewer than ${k}` : `every proposal has ${k}`}
           {dirty ? " · unsaved changes" : ""} · {review.committedAt ? "committed" : "not committed"}

@@ -36,7 +36,8 @@ export function meta({ data: d }: Route.MetaArgs) {
 }
 
 const boardIntents = z.discriminatedUnion("intent", [
-  intent("fill"),
+  // a checkbox: sent as "on" when ticked, absent otherwise
+  intent("fill", z.object({ replaceHandSet: z.preprocess((v) => v === "on" || v === "true", z.boolean()) })),
   intent("lock"),
   intent("unlock", z.object({ reason: reasonSchema })),
   intent(
@@ -58,9 +59,10 @@ export async function action({ request, params }: Route.ActionArgs) {
     const done = (message: string) => ({ ok: true as const, intent: input.intent, message, at: Date.now() });
     switch (input.intent) {
       case "fill": {
-        const filled = await fillAllocationByRank({ actor: user, callId });
+        const filled = await fillAllocationByRank({ actor: user, callId, replaceHandSet: input.replaceHandSet });
         const count = (tier: string) => filled.tiers.filter((t) => t.tier === tier).length;
-        return done(`Filled by rank: ${count("assured")} assured, ${count("queue")} queue, ${count("filler")} filler, ${filled.tiers.filter((t) => t.tier === null).length} without hours.`);
+        const kept = filled.kept.length ? ` ${filled.kept.length} proposal${filled.kept.length === 1 ? "" : "s"} whose hours you set by hand kept as ${filled.kept.length === 1 ? "it is" : "they are"}.` : "";
+        return done(`Filled by rank: ${count("assured")} assured, ${count("queue")} queue, ${count("filler")} filler, ${filled.tiers.filter((t) => t.tier === null).length} without hours.${kept}`);
       }
       case "lock": {
         const { outcomes } = await lockAllocation({ actor: user, callId });
@@ -107,6 +109,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
   const typed = (field: string) => (actionData && !actionData.ok ? valueText(actionData.values, field) : undefined);
   const moveRefused = actionData && !actionData.ok && actionData.intent === "move";
   const { call } = board;
+  const handSet = board.proposals.filter((p) => p.allocatedByHand);
   const telescopeName = (id: number) => telescopes.find((t) => t.id === id)?.name ?? `telescope ${id}`;
   const [sorting, setSorting] = useState<SortingState>([{ id: "computedRank", desc: false }]);
   // the last semester check's outcome per programme, in the table beside the allocation
@@ -183,7 +186,16 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
       column.accessor("disagreement", { header: "Reviewers", cell: (c) => (c.getValue() ? <span className="rounded bg-amber-100 px-1.5 py-0.5 text-amber-900">disagree</span> : "agree") }),
       column.accessor((r) => hours(r, true), { id: "hoursThis", header: `Requested ${call.semesterCode}`, cell: (c) => requestedCell(c.row.original, c.getValue(), true) }),
       column.accessor((r) => hours(r, false), { id: "hoursLater", header: "Requested later", cell: (c) => requestedCell(c.row.original, c.getValue(), false) }),
-      column.accessor((r) => r.tier ?? "", { id: "tier", header: "Tier", cell: (c) => c.getValue() || NONE }),
+      column.accessor((r) => r.tier ?? "", {
+        id: "tier",
+        header: "Tier",
+        cell: (c) => (
+          <span>
+            {c.getValue() || NONE}
+            {c.row.original.allocatedByHand ? <span className="block text-xs text-slate-600" title="Set by hand on the allocation page: fill by rank keeps it">by hand</span> : null}
+          </span>
+        ),
+      }),
       column.accessor((r) => r.allocation.filter((a) => a.semesterCode === call.semesterCode).reduce((sum, a) => sum + a.hours, 0), { id: "allocated", header: `Allocated ${call.semesterCode}`, cell: (c) => c.getValue().toFixed(1) }),
       column.accessor((r) => checkOf.get(r.proposalId)?.completionProbability ?? null, {
         id: "completion",
@@ -280,10 +292,18 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
         ) : (
           <div className="space-y-3">
             <div className="flex flex-wrap gap-3">
-              <Form method="post"><button className="btn" name="intent" value="fill" disabled={busy}>Fill by rank</button></Form>
+              <Form method="post" className="flex flex-wrap items-center gap-3">
+                <button className="btn" name="intent" value="fill" disabled={busy}>Fill by rank</button>
+                {handSet.length ? (
+                  <label className="text-sm" data-testid="replace-hand-set">
+                    <input type="checkbox" name="replaceHandSet" className="mr-1" />
+                    also refill the {handSet.length} proposal{handSet.length === 1 ? "" : "s"} whose hours you set by hand ({handSet.map((p) => p.code ?? `#${p.proposalId}`).join(", ")})
+                  </label>
+                ) : null}
+              </Form>
               <Form method="post"><button className="btn" name="intent" value="lock" disabled={busy}>Lock the allocation</button></Form>
             </div>
-            <p className="text-sm text-slate-700">Fill by rank gives each proposal, down the board's order, its requested hours and the first tier that still holds them: assured up to {Math.round(board.settings.assuredShareLimit * 100)} % of offered, queue up to offered, filler up to offered + {Math.round(board.settings.fillerMargin * 100)} %. Locking sets the outcomes: hours allocated → accepted, the rest declined.</p>
+            <p className="text-sm text-slate-700">Fill by rank gives each proposal, down the board's order, its requested hours and the first tier that still holds them: assured up to {Math.round(board.settings.assuredShareLimit * 100)} % of offered, queue up to offered, filler up to offered + {Math.round(board.settings.fillerMargin * 100)} %. What you set by hand on the allocation page (hours, tier, waitlist) is kept and counted first, unless you tick the box. Locking sets the outcomes: hours allocated → accepted, the rest declined.</p>
             <Form key={actionData?.ok ? actionData.at : "move"} method="post" className="flex flex-wrap items-end gap-3" noValidate>
               <input type="hidden" name="intent" value="move" />
               <Field label="Move proposal" id="moveProposal" error={err("proposalId")}>

@@ -1,8 +1,9 @@
 // Demo epoch log (INVENTED data): an observer account, and for the running semester's accepted
 // astrometry programmes an executed record for each planned epoch already past (invented FWHM
 // and SNR around the observation's own seeing and SNR goal), every third of them lost instead —
-// weather or technical — with a make-up epoch for a lost one and a spare-time epoch, so that the
-// PIs' Epoch progress shows a precision so far.
+// weather or technical — with a make-up epoch three nights later for every loss but the first and a
+// spare-time epoch, so that the PIs' Epoch progress shows a precision so far and the next call's
+// ranking board shows a loss still owed (beside any made up).
 // Idempotent: an observation that already has records is left alone.
 import { Op, type Sequelize } from "sequelize";
 import { epochPrecision, plannedEpochTime } from "~/lib/epochs/progress";
@@ -34,6 +35,7 @@ export async function up({ context: sequelize }: { context: Sequelize }) {
   });
   await sequelize.transaction(async (transaction) => {
     let k = 0;
+    let firstLoss = true;
     for (const o of observations) {
       if (await ExecutedEpoch.findOne({ where: { observationId: o.id }, transaction })) continue;
       const telescope = o.instrument?.telescope;
@@ -71,9 +73,12 @@ export async function up({ context: sequelize }: { context: Sequelize }) {
           { actorId: observer.id, action: lost ? "epoch.lost" : "epoch.executed", entityType: "executed_epoch", entityId: row.id, proposalId: o.proposalId as number, details: { seeded: true, observationId: o.id } },
           { transaction },
         );
-        // invented: a lost epoch made up three nights later, and one spare-time epoch three weeks
-        // after the first, when those nights are past (unplanned epochs the log takes as well)
-        const extra = [...(lost ? [{ days: 3, note: "invented: make-up for the lost epoch" }] : []), ...(i === 0 ? [{ days: 21, note: "invented: spare time on a clear night" }] : [])];
+        // invented: a lost epoch made up three nights later (all but the first loss), and one
+        // spare-time epoch three weeks after the first, when those nights are past (unplanned
+        // epochs the log takes as well)
+        const madeUp = lost && !firstLoss;
+        if (lost) firstLoss = false;
+        const extra = [...(madeUp ? [{ days: 3, note: "invented: make-up for the lost epoch" }] : []), ...(i === 0 ? [{ days: 21, note: "invented: spare time on a clear night" }] : [])];
         for (const x of extra) {
           const at = new Date(observedAt.getTime() + x.days * 86_400_000);
           if (at.getTime() > Date.now() - 86_400_000) continue;

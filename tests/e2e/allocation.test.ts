@@ -1,5 +1,6 @@
 // The allocation page in Chromium: the running totals and warnings follow what the chair types,
-// a tier is required for hours (message by the field, typed hours kept), and a save survives a reload.
+// a tier is required for hours (message by the field, typed hours kept), a save survives a reload,
+// and the board's fill by rank keeps the hours saved by hand unless the chair ticks to refill them.
 import { describe, expect, it } from "vitest";
 import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
 import { Allocation, BoardEntry, Proposal, ReviewAssignment, Telescope } from "~/models/index.server";
@@ -82,6 +83,29 @@ describe("the allocation page", () => {
     expect(await hoursBox(0).inputValue()).toBe("200");
     expect(await page.getByLabel(`Tier of S2-${call.semesterCode}`).inputValue()).toBe("queue");
     await screenshot(page, "allocation-02-saved");
+    await page.getByTestId(`by-hand-${ids[0]}`).waitFor();
+
+    // fill by rank on the board keeps what the chair set by hand: 200 h assured, 40 h queue
+    await page.goto(`${suite.server.url}/committee/${call.id}/board`);
+    await page.getByTestId("replace-hand-set").waitFor();
+    await page.getByRole("button", { name: "Fill by rank" }).click();
+    await page.getByText(/2 proposals whose hours you set by hand kept as they are\.$/).waitFor();
+    await page.goto(`${suite.server.url}/committee/${call.id}/allocation`);
+    await page.locator('form[data-hydrated="yes"]').waitFor();
+    expect(await hoursBox(0).inputValue()).toBe("200");
+    expect(await hoursBox(1).inputValue()).toBe("40");
+    expect(await page.getByLabel(`Tier of S2-${call.semesterCode}`).inputValue()).toBe("queue");
+    await screenshot(page, "allocation-03-kept-after-fill");
+
+    // ticked, the fill replaces them with the requested hours
+    await page.goto(`${suite.server.url}/committee/${call.id}/board`);
+    await page.getByLabel(/also refill the 2 proposals whose hours you set by hand/).check();
+    await page.getByRole("button", { name: "Fill by rank" }).click();
+    await page.getByText(/^Filled by rank: 2 assured/).waitFor();
+    await page.goto(`${suite.server.url}/committee/${call.id}/allocation`);
+    await page.locator('form[data-hydrated="yes"]').waitFor();
+    expect(Number(await hoursBox(0).inputValue())).toBeCloseTo(requested, 6);
+    expect(await page.getByTestId(`by-hand-${ids[0]}`).count()).toBe(0);
     expect(errors).toEqual([]);
     await context.close();
   });

@@ -269,7 +269,8 @@ describe("the chair's changes: positions, hours, tiers, lock and unlock", () => 
 
   it("fills by rank: every small request fits the assured budget and gets its requested hours", async () => {
     const app = await request();
-    const res = await app.post(`/api/v1/calls/${call.id}/allocation/fill-by-rank`).set(asJson(chair.cookie)).send("{}");
+    // the hours the chair PUT above count as set by hand: refilled only on the chair's explicit choice
+    const res = await app.post(`/api/v1/calls/${call.id}/allocation/fill-by-rank`).set(asJson(chair.cookie)).send({ replaceHandSet: true });
     expect(res.status).toBe(200);
     expect(res.body.tiers.map((t: { tier: string }) => t.tier)).toEqual(["assured", "assured", "assured", "assured"]);
     let requested = 0;

@@ -242,7 +242,7 @@ describe("delivery by the review deadline", () => {
     await CallReview.update({ reviewDeadlineAt: new Date(Date.now() - 60_000) }, { where: { callId: call.id } });
     const board = await callBoard({ callId: call.id });
     const duty = Object.fromEntries(board.proposals.map((r) => [nameOfProposal(r.proposalId), r.reviewDuty]));
-    expect(duty.D1).toEqual({ reviewerId: pi.D1.user.id, owed: 3, delivered: 3, late: false });
+    expect(duty.D1).toEqual({ reviewerId: pi.D1.user.id, owed: 3, delivered: 3, late: false, teams: 1 });
     expect(duty.B2).toMatchObject({ owed: 3, delivered: 3, late: false });
     expect(duty.D3).toMatchObject({ owed: 3, delivered: 1, late: true });
     expect(duty.D2).toMatchObject({ owed: 2, delivered: 0, late: true });

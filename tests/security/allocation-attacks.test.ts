@@ -307,7 +307,13 @@ describe("hostile bodies", () => {
     const { call, proposals } = await callWithProposals(1, "Waitlist fill");
     const app = await request();
     expect((await app.put(`/api/v1/calls/${call.id}/allocation`).set(json(chair.cookie)).send({ rows: [], tiers: [{ proposalId: proposals[0].id, tier: null, waitlisted: true }] })).status).toBe(200);
-    const filled = await app.post(`/api/v1/calls/${call.id}/allocation/fill-by-rank`).set(json(chair.cookie)).send("{}");
+    // the chair's own waitlisting is kept by a plain fill: still waitlisted, still no hours
+    const plain = await app.post(`/api/v1/calls/${call.id}/allocation/fill-by-rank`).set(json(chair.cookie)).send("{}");
+    expect(plain.status, plain.text.slice(0, 200)).toBe(200);
+    expect(plain.body.kept).toEqual([proposals[0].id]);
+    expect((await BoardEntry.findOne({ where: { proposalId: proposals[0].id } }))!.waitlisted).toBe(true);
+    expect(await Allocation.sum("hours", { where: { proposalId: proposals[0].id } })).toBeFalsy();
+    const filled = await app.post(`/api/v1/calls/${call.id}/allocation/fill-by-rank`).set(json(chair.cookie)).send({ replaceHandSet: true });
     expect(filled.status, filled.text.slice(0, 200)).toBe(200);
     const entry = (await BoardEntry.findOne({ where: { proposalId: proposals[0].id } }))!;
     expect(entry.tier).toBe("assured");

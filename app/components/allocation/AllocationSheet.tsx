@@ -153,6 +153,7 @@ export function AllocationSheet({
                   </td>
                   <td className="max-w-xs">
                     <span className="font-medium">{row.code}</span> {row.title}
+                    {row.allocatedByHand ? <span className="block text-xs text-slate-600" data-testid={`by-hand-${row.proposalId}`}>set by hand: fill by rank keeps it</span> : null}
                     {row.requestedError ? <span className="block text-xs text-red-800">{row.requestedError}</span> : null}
                     {row.notOffered.length ? (
                       <span className="block text-xs text-amber-800">

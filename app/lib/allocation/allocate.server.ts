@@ -70,11 +70,22 @@ export async function moveOnBoard({ actor, callId, proposalId, chairRank, reason
   });
 }
 
+/** A proposal's hours as one comparable text (cells with hours, sorted; hours to 1e-6 h). */
+function hoursText(rows: { telescopeId: number; moonCategory: string; semesterCode: string; hours: number }[]) {
+  return rows
+    .filter((r) => r.hours > 0)
+    .map((r) => `${r.telescopeId}|${r.moonCategory}|${r.semesterCode}|${Math.round(r.hours * 1e6)}`)
+    .sort()
+    .join(",");
+}
+
 /**
  * Replaces the allocation of every proposal named in `rows` or `tiers`: its hours per telescope ×
  * moon category × semester (the call's own, or a later one the proposal asks for) and its tier.
+ * `by: "hand"` (the page, the API): a proposal whose hours, tier or waitlist this changes is marked
+ * as set by hand, which fill by rank then keeps; `by: "fill"` clears the mark of those it names.
  */
-export async function saveAllocation({ actor, callId, rows, tiers, basedOn }: { actor: Chair; callId: number; rows: AllocationRow[]; tiers: TierRow[]; basedOn?: number }) {
+export async function saveAllocation({ actor, callId, rows, tiers, basedOn, by = "hand" }: { actor: Chair; callId: number; rows: AllocationRow[]; tiers: TierRow[]; basedOn?: number; by?: "hand" | "fill" }) {
   await ensureAllocationRow(callId);
   return sequelize.transaction(async (transaction) => {
     const { call } = await openAllocation(callId, transaction);
@@ -112,12 +123,20 @@ export async function saveAllocation({ actor, callId, rows, tiers, basedOn }: { 
       if (tier === null) throw new Refusal(`Proposal ${row.proposalId} has hours but no tier: give it assured, queue or filler.`, { status: 400, field: `rows.${i}.hours` });
       if (waitlisted) throw new Refusal(`Proposal ${row.proposalId} is waitlisted, so it has no hours: set them to 0 or take it off the waitlist.`, { status: 400, field: `rows.${i}.hours` });
     }
+    const before = await Allocation.findAll({ where: { callId, proposalId: { [Op.in]: proposalIds.length ? proposalIds : [0] } }, transaction });
     await Allocation.destroy({ where: { callId, proposalId: { [Op.in]: proposalIds.length ? proposalIds : [0] } }, transaction });
     const kept = rows.filter((r) => r.hours > 0);
     if (kept.length) await Allocation.bulkCreate(kept.map((r) => ({ ...r, callId })), { transaction });
-    for (const t of tiers) {
-      const [entry] = await BoardEntry.findOrCreate({ where: { proposalId: t.proposalId }, defaults: { callId, proposalId: t.proposalId, chairRank: null, chairRankReason: null, tier: null }, transaction });
-      await entry.update({ tier: t.tier, ...(t.waitlisted === undefined ? {} : { waitlisted: t.waitlisted }) }, { transaction });
+    for (const id of proposalIds) {
+      const entry = stored.get(id);
+      const given = tiers.find((t) => t.proposalId === id);
+      const tierChanged = given !== undefined && given.tier !== (entry?.tier ?? null);
+      const waitlistChanged = given?.waitlisted !== undefined && given.waitlisted !== (entry?.waitlisted ?? false);
+      const hoursChanged = hoursText(before.filter((a) => a.proposalId === id).map((a) => ({ ...a.get(), telescopeId: a.telescopeId as number }))) !== hoursText(kept.filter((r) => r.proposalId === id));
+      const byHand = by === "fill" ? false : tierChanged || waitlistChanged || hoursChanged || (entry?.allocatedByHand ?? false);
+      if (!given && byHand === (entry?.allocatedByHand ?? false)) continue;
+      const [row] = entry ? [entry] : await BoardEntry.findOrCreate({ where: { proposalId: id }, defaults: { callId, proposalId: id, chairRank: null, chairRankReason: null, tier: null }, transaction });
+      await row.update({ ...(given ? { tier: given.tier, ...(given.waitlisted === undefined ? {} : { waitlisted: given.waitlisted }) } : {}), allocatedByHand: byHand }, { transaction });
     }
     await writeAudit({ actorId: actor.id, action: "allocation.saved", entityType: "call", entityId: callId, details: { proposals: proposalIds, rows: kept.length, hours: kept.reduce((s, r) => s + r.hours, 0) } }, transaction);
     return { proposals: proposalIds.length, rows: kept.length };
@@ -161,8 +180,12 @@ export async function unlockAllocation({ actor, callId, reason }: { actor: Chair
   });
 }
 
-/** Fill by rank (see `fill.ts`) over the board's order, saved as the allocation to edit from. */
-export async function fillAllocationByRank({ actor, callId }: { actor: Chair; callId: number }) {
+/**
+ * Fill by rank (see `fill.ts`) over the board's order, saved as the allocation to edit from. The
+ * proposals the chair set by hand are kept as they are (their hours counted in the budgets) unless
+ * `replaceHandSet`, the chair's explicit choice to fill those too.
+ */
+export async function fillAllocationByRank({ actor, callId, replaceHandSet = false }: { actor: Chair; callId: number; replaceHandSet?: boolean }) {
   const board = await callBoard({ callId });
   if (board.locked) throw lockedRefusal(); // before computing the fill; saveAllocation checks again under the row lock
   const settings = await CallAllocation.findOne({ where: { callId } });
@@ -171,10 +194,12 @@ export async function fillAllocationByRank({ actor, callId }: { actor: Chair; ca
     offered: board.oversubscription.map((o) => ({ telescopeId: o.telescopeId, moonCategory: o.moonCategory, hours: o.offeredHours })),
     assuredShareLimit: settings?.assuredShareLimit ?? 0.8,
     fillerMargin: settings?.fillerMargin ?? 0.3,
-    ranked: boardOrder(board.proposals).map((p) => ({ proposalId: p.proposalId, requested: p.requested })),
+    ranked: boardOrder(board.proposals).filter((p) => replaceHandSet || !p.allocatedByHand).map((p) => ({ proposalId: p.proposalId, requested: p.requested })),
+    kept: replaceHandSet ? [] : board.proposals.filter((p) => p.allocatedByHand).map((p) => ({ proposalId: p.proposalId, tier: p.tier, allocated: p.allocation })),
   });
   const rows = filled.flatMap((f) => f.rows.map((r) => ({ proposalId: f.proposalId, ...r })));
   // a proposal the fill gives hours comes off the waitlist; one left without keeps its flag
-  const saved = await saveAllocation({ actor, callId, rows, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier, ...(f.tier === null ? {} : { waitlisted: false }) })) });
-  return { ...saved, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier })) };
+  const saved = await saveAllocation({ actor, callId, rows, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier, ...(f.tier === null ? {} : { waitlisted: false }) })), by: "fill" });
+  const kept = replaceHandSet ? [] : board.proposals.filter((p) => p.allocatedByHand).map((p) => p.proposalId);
+  return { ...saved, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier })), kept };
 }

@@ -90,6 +90,7 @@ export async function callBoard({ callId, sheets }: { callId: number; sheets?: M
       chairRankReason: entry?.chairRankReason ?? null,
       tier: entry?.tier ?? null,
       waitlisted: entry?.waitlisted ?? false,
+      allocatedByHand: entry?.allocatedByHand ?? false,
       requested,
       requestedError,
       reviewDuty: null as ReviewDuty | null,

@@ -32,6 +32,20 @@ describe("fill by rank", () => {
     expect(out.map((o) => o.tier)).toEqual([null, null]);
     expect(out.every((o) => o.rows.length === 0)).toBe(true);
   });
+
+  it("fills around the hours the chair set by hand, counting them in their tier", () => {
+    // the chair's 60 assured hours leave 20 of the assured share: the first 40 h request is queue (100 ≤ 100)
+    const kept = [{ proposalId: 9, tier: "assured" as const, allocated: [dark(60)] }];
+    const out = fillByRank({ ...base, kept, ranked: [1, 2].map((id) => ({ proposalId: id, requested: [dark(40)] })) });
+    expect(out.map((o) => [o.proposalId, o.tier])).toEqual([[1, "queue"], [2, null]]);
+    // hand-set queue hours count against offered: 70 + 35 = 105 > 100, within 130 → filler
+    // (the 90 h in 27B do not count here, or 195 would leave nothing)
+    const queued = fillByRank({ ...base, kept: [{ proposalId: 9, tier: "queue", allocated: [dark(70), dark(90, "27B")] }], ranked: [{ proposalId: 1, requested: [dark(35)] }] });
+    expect(queued.map((o) => o.tier)).toEqual(["filler"]);
+    // … but not against the assured share: 75 assured h still fit under 80
+    const assuredLeft = fillByRank({ ...base, kept: [{ proposalId: 9, tier: "queue", allocated: [dark(20)] }], ranked: [{ proposalId: 1, requested: [dark(75)] }] });
+    expect(assuredLeft.map((o) => o.tier)).toEqual(["assured"]);
+  });
 });
 
 describe("the board's order", () => {

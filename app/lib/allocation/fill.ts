@@ -6,6 +6,8 @@
 //   filler  — while all hours stay within offered × (1 + fillerMargin).
 // A proposal that fits none gets no hours and no tier. Later semesters' hours follow the proposal
 // (they become commitments on those semesters) and do not count against this semester's budget.
+// What the chair set by hand (`kept`) is not refilled: its hours in this semester take their
+// tier's share of the budgets first, and the ranked proposals are filled around them.
 import type { AllocationTier, MoonCategory } from "~/lib/domain";
 
 export type Cell = { telescopeId: number; moonCategory: MoonCategory; semesterCode: string; hours: number };
@@ -16,6 +18,8 @@ export type FillInput = {
   fillerMargin: number;
   /** In rank order, best first. */
   ranked: { proposalId: number; requested: Cell[] }[];
+  /** Proposals whose hours and tier the chair set by hand: left as they are, their hours counted. */
+  kept?: { proposalId: number; tier: AllocationTier | null; allocated: Cell[] }[];
 };
 export type FillResult = { proposalId: number; tier: AllocationTier | null; rows: Cell[] }[];
 
@@ -30,6 +34,13 @@ export function fillByRank(input: FillInput): FillResult {
     ["queue", (k) => offered.get(k) ?? 0, "all"],
     ["filler", (k) => (offered.get(k) ?? 0) * (1 + input.fillerMargin), "all"],
   ];
+  const take = (tier: AllocationTier, k: string, h: number) => {
+    used.all.set(k, (used.all.get(k) ?? 0) + h);
+    if (tier === "assured") used.assured.set(k, (used.assured.get(k) ?? 0) + h);
+  };
+  for (const p of input.kept ?? []) {
+    for (const c of p.allocated) if (p.tier && c.semesterCode === input.semesterCode && c.hours > 0) take(p.tier, key(c), c.hours);
+  }
   const out: FillResult = [];
   for (const p of input.ranked) {
     const here = new Map<string, number>();
@@ -47,12 +58,7 @@ export function fillByRank(input: FillInput): FillResult {
         }
       }
     }
-    if (tier) {
-      for (const [k, h] of here) {
-        used.all.set(k, (used.all.get(k) ?? 0) + h);
-        if (tier === "assured") used.assured.set(k, (used.assured.get(k) ?? 0) + h);
-      }
-    }
+    if (tier) for (const [k, h] of here) take(tier, k, h);
     out.push({ proposalId: p.proposalId, tier, rows: tier ? p.requested.filter((c) => c.hours > 0) : [] });
   }
   return out;

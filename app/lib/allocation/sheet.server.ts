@@ -23,6 +23,8 @@ export type SheetRow = {
   chairRankReason: string | null;
   tier: AllocationTier | null;
   waitlisted: boolean;
+  /** the chair set its hours, tier or waitlist by hand: fill by rank keeps them */
+  allocatedByHand: boolean;
   /** one per column, in the columns' order (the call's semester) */
   cells: SheetCell[];
   /** later semesters on telescope × moon categories this call offers */
@@ -72,6 +74,7 @@ export async function allocationSheet({ callId }: { callId: number }) {
       chairRankReason: p.chairRankReason,
       tier: p.tier,
       waitlisted: p.waitlisted,
+      allocatedByHand: p.allocatedByHand,
       cells: columns.map((c) => cell(c.telescopeId, c.moonCategory, semester)),
       laterCells,
       notOffered: p.requested.filter((r) => r.hours > 0 && !offered.has(`${r.telescopeId}|${r.moonCategory}`)),

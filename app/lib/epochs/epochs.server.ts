@@ -15,6 +15,7 @@ import type { EpochRecordSource } from "~/models/ExecutedEpoch";
 import type { NightLogReport } from "./night-log-csv";
 import { parseNightLogCsv } from "./night-log-csv.server";
 import { isEpochOffice } from "./office-roles";
+import { lostEpochsOwed } from "./owed";
 import { epochPrecision, meetsRequired, parallaxFactorsAt, plannedEpochTime, precisionReached, type PrecisionReached } from "./progress";
 import { replanRemaining, type Replan } from "./replan";
 import { parseObservedAt, type EpochRecordInput } from "./schema";
@@ -346,8 +347,8 @@ export async function acceptReplan({ user, proposalId, observationId, dates, now
 
 /**
  * What accepted multi-semester programmes of earlier calls still owe in `semesterCode`'s call:
- * lost epochs, planned epochs whose tolerance window has passed without a record, and the hours
- * these take (at each observation's time per epoch from its feasibility sheet).
+ * lost epochs not yet made up (owed.ts), planned epochs whose tolerance window has passed without
+ * a record, and the hours these take (at each observation's time per epoch from its feasibility sheet).
  */
 export async function owedBeforeCall({ callId, now = new Date() }: { callId: number; now?: Date }) {
   const call = await Call.findByPk(callId);
@@ -357,30 +358,34 @@ export async function owedBeforeCall({ callId, now = new Date() }: { callId: num
   if (earlier.length === 0) return [];
   const inputs = await loadFeasibilityInputs({ proposalIds: earlier.map((p) => p.id), proposals: earlier });
   const overdue = dateOfDayNumber(Math.floor(now.getTime() / DAY_MS) - EPOCH_TOLERANCE_NIGHTS - 1);
-  const out: { proposalId: number; code: string; title: string; lostEpochs: number; overdueEpochs: number; hoursOwed: number; executedEpochs: number }[] = [];
+  const out: { proposalId: number; code: string; title: string; lostEpochs: number; madeUpEpochs: number; overdueEpochs: number; hoursOwed: number; executedEpochs: number }[] = [];
   for (const p of earlier) {
     const input = inputs.get(p.id);
     if (!input) continue;
     const obsIds = input.observations.filter((o) => o.baselineYears !== null).map((o) => o.id);
     if (obsIds.length === 0) continue;
     const sheet = feasibilitySheetOf(input);
-    const records = await ExecutedEpoch.findAll({ where: { observationId: obsIds }, attributes: ["observationId", "lostCause"], raw: true });
+    const records = await ExecutedEpoch.findAll({ where: { observationId: obsIds }, attributes: ["observationId", "lostCause", "plannedEpochId", "observedAt"], raw: true });
     let lost = 0;
+    let madeUp = 0;
+    let owedLost = 0;
     let late = 0;
     let executedEpochs = 0;
     let hours = 0;
     for (const o of input.observations.filter((x) => obsIds.includes(x.id))) {
       const h = (sheetObservation(sheet, o.id)?.timePerEpoch.totalSeconds ?? 0) / 3600;
-      const l = records.filter((r) => r.observationId === o.id && r.lostCause).length;
-      const done = records.filter((r) => r.observationId === o.id && !r.lostCause).length;
+      const mine = records.filter((r) => r.observationId === o.id);
+      const losses = lostEpochsOwed(mine.map((r) => ({ observedAt: new Date(r.observedAt).getTime(), lost: r.lostCause !== null, planned: r.plannedEpochId !== null })));
       const d = o.epochs.filter((e) => e.status === "planned" && e.date < overdue).length;
-      lost += l;
+      lost += losses.lost;
+      madeUp += losses.madeUp;
+      owedLost += losses.owed;
       late += d;
-      executedEpochs += done;
-      hours += (l + d) * h;
+      executedEpochs += mine.filter((r) => !r.lostCause).length;
+      hours += (losses.owed + d) * h;
     }
-    if (lost + late === 0) continue;
-    out.push({ proposalId: p.id, code: p.code ?? `#${p.id}`, title: p.title, lostEpochs: lost, overdueEpochs: late, hoursOwed: Math.round(hours * 100) / 100, executedEpochs });
+    if (owedLost + late === 0) continue;
+    out.push({ proposalId: p.id, code: p.code ?? `#${p.id}`, title: p.title, lostEpochs: lost, madeUpEpochs: madeUp, overdueEpochs: late, hoursOwed: Math.round(hours * 100) / 100, executedEpochs });
   }
   return out;
 }

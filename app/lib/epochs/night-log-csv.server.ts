@@ -4,6 +4,10 @@ import { epochRecordSchema, parseObservedAt } from "./schema";
 import { FIELD_OF, KNOWN_NIGHT_LOG_COLUMNS, MAX_NIGHT_LOG_ROWS, NIGHT_LOG_COLUMNS, normaliseNightLogColumn, REQUIRED_NIGHT_LOG_COLUMNS, type NightLogContext, type NightLogReport, type NightLogRow } from "./night-log-csv";
 import type { CsvProblem } from "~/lib/proposals/target-csv";
 
+// The record's schema speaks the API's field names; the office wrote the night log's columns.
+const API_FIELDS = new RegExp(`\\b(${Object.keys(FIELD_OF).filter((k) => FIELD_OF[k] !== k).sort((a, b) => b.length - a.length).map((k) => k.replace(".", "\\.")).join("|")})\\b`, "g");
+const inColumns = (message: string) => message.replace(API_FIELDS, (m) => FIELD_OF[m]);
+
 export function parseNightLogCsv(text: string, ctx: NightLogContext): NightLogReport {
   const read = readCsv(text);
   if ("empty" in read) return { header: "", rows: [], error: `The night log is empty: it needs a header row (${NIGHT_LOG_COLUMNS.join(", ")}) and one row per epoch.` };
@@ -66,7 +70,7 @@ export function parseNightLogCsv(text: string, ctx: NightLogContext): NightLogRe
     if (!parsed.success) {
       for (const issue of parsed.error.issues) {
         const path = issue.path.join(".");
-        problems.push({ field: FIELD_OF[path] ?? path ?? "(row)", message: issue.message.replace(/^(observedAt|fwhmArcsec|precisionMas|snr|frames|lost\.cause|note)\b/, (m) => FIELD_OF[m] ?? m) });
+        problems.push({ field: FIELD_OF[path] ?? (path || "(row)"), message: inColumns(issue.message) });
       }
     }
     if (parsed.success && observationId !== null && problems.length === 0) {

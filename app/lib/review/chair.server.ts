@@ -203,14 +203,15 @@ export async function reviewState({ callId }: { callId: number }) {
 
 /**
  * The suggestion for the call's proposals in review and its panel; changes nothing. A distributed
- * call gives each designated reviewer the call's k proposals instead (`perProposal` is not used).
+ * call gives each designated reviewer the call's k proposals for each team that designated them
+ * instead (`perProposal` is not used).
  */
 export async function suggestForCall({ callId, perProposal }: { callId: number; perProposal: number }) {
   const facts = await factsOrNotFound(callId);
   const distributed = facts.call.reviewMode === "distributed";
   const result = suggestAssignments({
     proposals: facts.proposals.map((p) => ({ proposalId: p.proposalId, category: p.category })),
-    reviewers: facts.panel.map((r) => ({ reviewerId: r.reviewerId, categories: r.categories })),
+    reviewers: facts.panel.map((r) => ({ reviewerId: r.reviewerId, categories: r.categories, ...(distributed ? { teams: r.teams ?? 1 } : {}) })),
     perProposal: distributed ? facts.panel.length : perProposal,
     perReviewer: distributed ? facts.call.reviewsPerSubmitter : undefined,
     isConflict: (p, r) => facts.conflicts.has(pairKey(p, r)),

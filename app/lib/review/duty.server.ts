@@ -1,12 +1,14 @@
 // Distributed review: what each proposal's team owes. The team's designated reviewer owes the
-// reviews of their committed assignments in the call; after the review deadline a team that has
-// not delivered all of them is late. The call decides what the board does with that: flag it
+// reviews of their committed assignments in the call (k for each team that designated them, so a
+// reviewer two teams named owes 2k, and both teams are measured against that); after the review
+// deadline a team whose reviewer has not delivered all of them is late. The call decides what the board does with that: flag it
 // ("flag"), or flag it and give it no computed rank ("unranked", sorted last with the reason).
 import { Op } from "sequelize";
 import { Call, CallReview, Proposal, ReviewAssignment } from "~/models/index.server";
 import type { UnreviewedPolicy } from "./vocabulary";
 
-export type ReviewDuty = { reviewerId: number | null; owed: number; delivered: number; late: boolean };
+/** `teams`: how many teams designated this reviewer (owed and delivered are the reviewer's, for all of them). */
+export type ReviewDuty = { reviewerId: number | null; owed: number; delivered: number; late: boolean; teams: number };
 
 /** Duties of the call's proposals (empty for a panel-reviewed call). */
 export async function reviewDuties({ callId, now = new Date() }: { callId: number; now?: Date }): Promise<{ policy: UnreviewedPolicy; duties: Map<number, ReviewDuty> } | null> {
@@ -25,6 +27,8 @@ export async function reviewDuties({ callId, now = new Date() }: { callId: numbe
     if (a.status === "submitted") row.delivered++;
     perReviewer.set(a.reviewerId as number, row);
   }
+  const teamsOf = new Map<number, number>();
+  for (const p of proposals) if (p.designatedReviewerId) teamsOf.set(p.designatedReviewerId as number, (teamsOf.get(p.designatedReviewerId as number) ?? 0) + 1);
   const duties = new Map<number, ReviewDuty>();
   for (const p of proposals) {
     const reviewerId = (p.designatedReviewerId as number | null) ?? null;
@@ -32,7 +36,7 @@ export async function reviewDuties({ callId, now = new Date() }: { callId: numbe
     const owed = got?.owed ?? 0;
     const delivered = got?.delivered ?? 0;
     // a team without a reviewer (a proposal submitted before the call became distributed) owes nothing we can count
-    duties.set(p.id, { reviewerId, owed, delivered, late: deadlinePassed && delivered < owed });
+    duties.set(p.id, { reviewerId, owed, delivered, late: deadlinePassed && delivered < owed, teams: reviewerId ? (teamsOf.get(reviewerId) ?? 1) : 0 });
   }
   return { policy: call.unreviewedPolicy, duties };
 }
@@ -52,7 +56,10 @@ export function applyReviewDuty(rows: DutyRow[], duty: { policy: UnreviewedPolic
       row.computedRank = null;
       // nor a place in the rank bootstrap, which draws from the row's z-scores
       if (row.zScores) row.zScores = [];
-      row.rankWithheld = `not ranked: the team delivered ${row.reviewDuty.delivered} of its ${row.reviewDuty.owed} reviews by the review deadline`;
+      const d = row.reviewDuty;
+      row.rankWithheld = d.teams > 1
+        ? `not ranked: the team's reviewer, designated by ${d.teams} teams, delivered ${d.delivered} of their ${d.owed} reviews by the review deadline`
+        : `not ranked: the team delivered ${d.delivered} of its ${d.owed} reviews by the review deadline`;
     }
   }
   if (duty?.policy === "unranked") {

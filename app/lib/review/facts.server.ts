@@ -11,7 +11,15 @@ export const REVIEWED_STATUSES = ["in_review"] as const;
 /** Proposals whose teams count as competitors in the same call. */
 const COMPETING_STATUSES = ["submitted", "in_review", "accepted", "waitlisted", "declined"] as const;
 
-export type PanelReviewer = { reviewerId: number; name: string; email: string; institution: string | null; categories: string[] };
+export type PanelReviewer = {
+  reviewerId: number;
+  name: string;
+  email: string;
+  institution: string | null;
+  categories: string[];
+  /** distributed review: how many teams of the proposals in review designated this reviewer */
+  teams?: number;
+};
 
 export async function categoriesOf(userIds: number[], transaction?: Transaction) {
   const profiles = userIds.length ? await ReviewerProfile.findAll({ where: { userId: userIds }, transaction }) : [];
@@ -114,6 +122,8 @@ export async function callFacts({ callId, transaction, statuses = REVIEWED_STATU
     for (const r of panel) {
       const own = competing.filter((p) => p.scienceCategory && (byProposal.get(p.id) ?? []).some((m) => m.userId === r.reviewerId)).map((p) => p.scienceCategory as string);
       r.categories = [...new Set([...r.categories, ...own])];
+      // each team owes its k reviews: a reviewer designated by two teams owes both
+      r.teams = reviewed.filter((p) => p.designatedReviewerId === r.reviewerId).length;
     }
   }
   const all = detectConflicts({

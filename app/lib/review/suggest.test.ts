@@ -175,6 +175,21 @@ describe("distributed review: a quota per reviewer (perReviewer)", () => {
     expect(s.short.map((x) => x.reason)).toEqual(Array(4).fill("only 3 proposals of the call are free of conflicts with this reviewer (8 wanted)"));
   });
 
+  it("gives a reviewer two teams designated k for each team, and says so when conflicts leave fewer", () => {
+    // six proposals; reviewer 500 is on the teams of 100 and 101 (both designated them), 502–505 on 102–105
+    const proposals = Array.from({ length: 6 }, (_, i) => ({ proposalId: 100 + i, category: null }));
+    const reviewers = [{ reviewerId: 500, categories: [], teams: 2 }, ...[2, 3, 4, 5].map((j) => ({ reviewerId: 500 + j, categories: [] }))];
+    const own = (p: number, r: number) => (r === 500 ? p === 100 || p === 101 : p - 100 === r - 500);
+    const s = suggestAssignments({ proposals, reviewers, perProposal: reviewers.length, perReviewer: 2, isConflict: own });
+    expect(s.loads).toEqual([{ reviewerId: 500, count: 4 }, ...[502, 503, 504, 505].map((reviewerId) => ({ reviewerId, count: 2 }))]);
+    expect(s.assignments.some((a) => own(a.proposalId, a.reviewerId))).toBe(false);
+    expect(s.short).toEqual([]);
+    // k = 3: 6 wanted of the shared reviewer, only 4 proposals free of conflicts
+    const tight = suggestAssignments({ proposals, reviewers, perProposal: reviewers.length, perReviewer: 3, isConflict: own });
+    expect(tight.loads[0]).toEqual({ reviewerId: 500, count: 4 });
+    expect(tight.short).toEqual([{ reviewerId: 500, count: 4, reason: "only 4 proposals of the call are free of conflicts with this reviewer (6 wanted, 3 for each of 2 teams)" }]);
+  });
+
   // Independent check by exhaustive search on small random calls: every reviewer's choice of at most
   // k clean proposals; among the choices placing the most reviews, the smallest possible largest
   // load of a proposal. The solver must place as many and reach that largest load.

@@ -17,14 +17,20 @@
 // reviewer as many of their k as the conflicts allow; the convex cost moves to the proposals' side
 // (source → proposal: 0 per unit up to ⌊supply/P⌋, then B·1, B·2, … as unit arcs of capacity 1),
 // so that among those flows the reviews are spread evenly over the proposals, then matched by category.
+// Each submitting team owes k: a reviewer that n teams designated (`teams`) has the quota n·k.
 
 export type SuggestProposal = { proposalId: number; category: string | null };
-export type SuggestReviewer = { reviewerId: number; categories: readonly string[] };
+export type SuggestReviewer = {
+  reviewerId: number;
+  categories: readonly string[];
+  /** distributed review: how many teams designated this reviewer (default 1); each owes `perReviewer` */
+  teams?: number;
+};
 export type SuggestInput = {
   proposals: SuggestProposal[];
   reviewers: SuggestReviewer[];
   perProposal: number;
-  /** distributed review: each reviewer gets this many proposals (fewer only where conflicts leave fewer) */
+  /** distributed review: each reviewer gets this many proposals per team that designated them (fewer only where conflicts leave fewer) */
   perReviewer?: number;
   /** true for a pair that must never be assigned */
   isConflict: (proposalId: number, reviewerId: number) => boolean;
@@ -57,7 +63,8 @@ export function suggestAssignments({ proposals, reviewers, perProposal, perRevie
   // distributed: what each reviewer can take (their quota, or fewer clean proposals)
   const cleanPerReviewer = new Int32Array(R);
   for (const c of clean) for (const j of c) cleanPerReviewer[j]++;
-  const quota = Array.from({ length: R }, (_, j) => Math.min(Math.max(0, Math.floor(perReviewer ?? 0)), cleanPerReviewer[j]));
+  const wantedOf = reviewers.map((r) => Math.max(0, Math.floor(perReviewer ?? 0)) * Math.max(1, Math.floor(r.teams ?? 1)));
+  const quota = Array.from({ length: R }, (_, j) => Math.min(wantedOf[j], cleanPerReviewer[j]));
   const supply = quota.reduce((a, b) => a + b, 0);
   const demand = wanted.reduce((a, b) => a + b, 0);
   const total = distributed ? Math.min(demand, supply) : demand;
@@ -217,21 +224,22 @@ export function suggestAssignments({ proposals, reviewers, perProposal, perRevie
     }
   }
   const loads = reviewers.map((r, j) => ({ reviewerId: r.reviewerId, count: load[j] }));
-  const wantedPerReviewer = Math.max(0, Math.floor(perReviewer ?? 0));
   const short: Suggestion["short"] = !distributed
     ? []
-    : reviewers.flatMap((r, j) =>
-        load[j] >= wantedPerReviewer
+    : reviewers.flatMap((r, j) => {
+        const wanted = wantedOf[j];
+        const forTeams = (r.teams ?? 1) > 1 ? `, ${Math.floor(perReviewer ?? 0)} for each of ${Math.floor(r.teams ?? 1)} teams` : "";
+        return load[j] >= wanted
           ? []
           : [{
               reviewerId: r.reviewerId,
               count: load[j],
               reason:
-                cleanPerReviewer[j] < wantedPerReviewer
-                  ? `only ${cleanPerReviewer[j]} proposal${cleanPerReviewer[j] === 1 ? " of the call is" : "s of the call are"} free of conflicts with this reviewer (${wantedPerReviewer} wanted)`
-                  : `the call's other reviewers took the proposals this reviewer could have had (${wantedPerReviewer} wanted)`,
-            }],
-      );
+                cleanPerReviewer[j] < wanted
+                  ? `only ${cleanPerReviewer[j]} proposal${cleanPerReviewer[j] === 1 ? " of the call is" : "s of the call are"} free of conflicts with this reviewer (${wanted} wanted${forTeams})`
+                  : `the call's other reviewers took the proposals this reviewer could have had (${wanted} wanted${forTeams})`,
+            }];
+      });
   const counts = loads.map((l) => l.count);
   const balanced = counts.length === 0 || Math.max(...counts) - Math.min(...counts) <= 1;
   return { assignments, loads, impossible, short, balanced, categoryMatches };

@@ -34,6 +34,9 @@ export const allocationSchema = z.object({
 
 export const unlockSchema = z.object({ reason: reasonSchema });
 
+/** Fill by rank's one choice: also refill the proposals whose hours the chair set by hand. */
+export const fillSchema = z.object({ replaceHandSet: z.boolean({ error: "replaceHandSet must be true or false." }).default(false) }).strict();
+
 const blankToNull = (v: unknown) => (v === "" || v === undefined ? null : v);
 const hoursField = z.preprocess(
   (v) => (typeof v === "string" ? (v.trim() === "" ? 0 : Number(v.trim())) : v),
