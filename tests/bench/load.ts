@@ -105,7 +105,7 @@ async function shareLines(appBase: string, bareBase: string): Promise<string[]> 
   const lines: string[] = [];
   // The share from runs taken in turn (app, bare, bare, app; mean of each side), so that a
   // change in the shared machine's load falls on both sides alike.
-  lines.push("framework's share (visibility API through React Router and our front / the same function behind bare node:http; app, bare, bare, app in turn):");
+  lines.push("framework's share (visibility API through our HTTP front, which calls the route module's loader directly / the same function behind bare node:http; app, bare, bare, app in turn):");
   for (const c of LEVELS) {
     const appUrl = `${appBase}/api/v1/visibility?${VISIBILITY_QUERY}`;
     const bareUrl = `${bareBase}/visibility?${VISIBILITY_QUERY}`;
