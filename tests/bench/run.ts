@@ -2,7 +2,9 @@
 //   npm run bench               everything
 //   npm run bench -- pdf        one section (visibility, review, board, ra-pressure, semester-check, pages, load, pdf, decisions, restart;
 //                               `share`: only the load section's framework share)
+import { spawnSync } from "node:child_process";
 import { availableParallelism, loadavg } from "node:os";
+import { fileURLToPath } from "node:url";
 import { runAstroBench } from "./astro";
 import { runBoardBench } from "./board";
 import { runDecisionsBench } from "./decisions";
@@ -14,11 +16,26 @@ import { runRestartBench } from "./restart";
 import { runReviewBench } from "./review";
 import { runSemesterCheckBench } from "./semester-check";
 
+const SECTIONS = ["visibility", "review", "board", "ra-pressure", "semester-check", "pages", "load", "pdf", "decisions", "restart"];
 const only = process.argv[2];
-const want = (name: string) => !only || only === name;
-console.log(`Nightshare benchmarks — node ${process.version}, ${new Date().toISOString()}`);
+if (!process.env.BENCH_SECTION_ONLY) console.log(`Nightshare benchmarks — node ${process.version}, ${new Date().toISOString()}`);
+if (only && only !== "share" && !SECTIONS.includes(only)) {
+  console.error(`No section "${only}". Sections: ${SECTIONS.join(", ")}, share.`);
+  process.exit(2);
+}
+if (!only) {
+  // Every section in a process of its own: each starts (and at its end closes) its own database
+  // and the app's modules, whose connection cannot be opened again in the same process.
+  let failed = 0;
+  for (const section of SECTIONS) {
+    const run = spawnSync(process.execPath, [...process.execArgv, fileURLToPath(import.meta.url), section], { stdio: "inherit", env: { ...process.env, BENCH_SECTION_ONLY: "1" } });
+    if (run.status !== 0) failed++;
+  }
+  process.exit(failed ? 1 : 0);
+}
+const want = (name: string) => only === name;
 // Figures are only comparable on a quiet machine: a load above the number of cores inflates them.
-console.log(`machine: ${availableParallelism()} cores, load average ${loadavg().map((l) => l.toFixed(1)).join(" / ")} (1/5/15 min)`);
+console.log(`\nmachine: ${availableParallelism()} cores, load average ${loadavg().map((l) => l.toFixed(1)).join(" / ")} (1/5/15 min)`);
 if (want("visibility")) {
   console.log("\n[visibility]");
   for (const line of runAstroBench()) console.log("  " + line);

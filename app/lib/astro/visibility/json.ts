@@ -95,6 +95,35 @@ const roundSplit = (x: Record<MoonCategory, number>, digits: number) => ({ dark:
 
 export type VisibilityInput = { site: Site; target: Target; from: string; nights: number; limit: Limit };
 
+type SiteNightJson = Pick<NightJson, "sunset" | "sunrise" | "darkStart" | "darkEnd" | "moonrise" | "moonset" | "darkHoursByMoonCategory"> & { illumination: number; altitudeDeg: number };
+const siteNightsJson = new WeakMap<SiteNight, SiteNightJson>();
+
+/**
+ * A night's own fields (the Sun's, the Moon's, the dark hours), formatted once per night: the
+ * site's nights are shared by every target (prepareSiteNights caches them), so a sheet of 500
+ * targets formats them once, not 500 times.
+ */
+function siteNightJson(night: SiteNight): SiteNightJson {
+  let json = siteNightsJson.get(night);
+  if (!json) {
+    // first: it needs the Moon's times (hoursByMoon throws without them), which moonrise reads
+    const darkHours = roundSplit(darkHoursByMoon(night), 4);
+    json = {
+      sunset: iso(night.sunset),
+      sunrise: iso(night.sunrise),
+      darkStart: iso(night.darkStart),
+      darkEnd: iso(night.darkEnd),
+      moonrise: iso(night.moon?.moonrise ?? null),
+      moonset: iso(night.moon?.moonset ?? null),
+      illumination: round(night.moonIllumination, 4),
+      altitudeDeg: round(night.moonAltitudeDeg, 2),
+      darkHoursByMoonCategory: darkHours,
+    };
+    siteNightsJson.set(night, json);
+  }
+  return json;
+}
+
 /** The API's visibility answer: nights with ISO 8601 UTC times and a semester summary. */
 export function computeVisibility(input: VisibilityInput): VisibilityJson {
   const prepared = prepareSiteNights(input.site, input.from, input.nights);
@@ -104,25 +133,24 @@ export function computeVisibility(input: VisibilityInput): VisibilityJson {
     site: input.site,
     target: { raDeg: input.target.raDeg, decDeg: input.target.decDeg },
     limit: { minAltitudeDeg: round(minAltitudeDeg, 4), ...("maxAirmass" in input.limit ? { maxAirmass: input.limit.maxAirmass } : {}) },
-    nights: rows.map((r) => ({
-      date: r.night.date,
-      sunset: iso(r.night.sunset),
-      sunrise: iso(r.night.sunrise),
-      darkStart: iso(r.night.darkStart),
-      darkEnd: iso(r.night.darkEnd),
-      windows: r.windows.map((w) => ({ start: iso(w.start) as string, end: iso(w.end) as string })),
-      observableHours: round(r.observableHours, 4),
-      moon: {
-        illumination: round(r.night.moonIllumination, 4),
-        altitudeDeg: round(r.night.moonAltitudeDeg, 2),
-        separationDeg: round(r.moonSeparationDeg, 2),
-      },
-      moonCategory: r.night.moonCategory,
-      moonrise: iso(r.night.moon?.moonrise ?? null),
-      moonset: iso(r.night.moon?.moonset ?? null),
-      hoursByMoonCategory: roundSplit(r.hoursByMoonCategory as Record<MoonCategory, number>, 4),
-      darkHoursByMoonCategory: roundSplit(darkHoursByMoon(r.night), 4),
-    })),
+    nights: rows.map((r) => {
+      const night = siteNightJson(r.night);
+      return {
+        date: r.night.date,
+        sunset: night.sunset,
+        sunrise: night.sunrise,
+        darkStart: night.darkStart,
+        darkEnd: night.darkEnd,
+        windows: r.windows.map((w) => ({ start: iso(w.start) as string, end: iso(w.end) as string })),
+        observableHours: round(r.observableHours, 4),
+        moon: { illumination: night.illumination, altitudeDeg: night.altitudeDeg, separationDeg: round(r.moonSeparationDeg, 2) },
+        moonCategory: r.night.moonCategory,
+        moonrise: night.moonrise,
+        moonset: night.moonset,
+        hoursByMoonCategory: roundSplit(r.hoursByMoonCategory as Record<MoonCategory, number>, 4),
+        darkHoursByMoonCategory: { ...night.darkHoursByMoonCategory },
+      };
+    }),
     summary: summarise(rows),
   };
 }
