@@ -3,15 +3,13 @@
 // precision so far tighten. Screenshots in tests/screenshots/epoch-log-*.png.
 import { describe, expect, it } from "vitest";
 import { owedBeforeCall, recordEpoch } from "~/lib/epochs/epochs.server";
-import { createObservation } from "~/lib/proposals/observations.server";
-import { observationSchema } from "~/lib/schemas/proposals";
 import { getSessionUserFor } from "../helpers/epoch-user";
 import { Call, Instrument, Observation, PlannedEpoch, Proposal, ProposalMember, Telescope } from "~/models/index.server";
 import { screenshot, screenshotDir, watchConsole } from "../helpers/browser";
 import { demoCallPlan } from "../../sequelize/seeders/20261201000100-demo-observatory";
 import { appInBrowser } from "../helpers/browser-suite";
 import { newUser, sessionCookieFor } from "../helpers/session";
-import { readyProposal, testCall } from "../integration/proposals-fixtures";
+import { epochProgramme, testCall } from "../integration/proposals-fixtures";
 
 describe("the epoch log", () => {
   const suite = appInBrowser();
@@ -20,15 +18,7 @@ describe("the epoch log", () => {
     const observer = await newUser({ roles: ["observer"], name: "Browser Observer" });
     const pi = await newUser({ name: "Browser Epoch PI" });
     const call = await testCall();
-    const made = await readyProposal({ user: pi.user, callId: call.id, title: "Browser epoch programme" });
-    await createObservation({
-      user: pi.user,
-      proposalId: made.proposal.id,
-      input: observationSchema.parse({
-        targetId: made.target.id, instrumentId: made.option.instrumentId, filterId: made.filter.id, mode: "snr", snrGoal: "120", framesPerEpoch: "5",
-        epochsPerSemester: "2", moonCategory: "dark", maxAirmass: "1.8", seeingArcsec: "1.0", baselineYears: "2", requiredPmPrecisionMasPerYr: "1.5",
-      }),
-    });
+    const made = await epochProgramme({ user: pi.user, callId: call.id, title: "Browser epoch programme" });
     const proposalId = made.proposal.id;
     await Proposal.update({ status: "accepted", code: `B01/${call.semesterCode.slice(2)}`, serial: 902, submittedAt: new Date() }, { where: { id: proposalId } });
     const obs = (await Observation.findOne({ where: { proposalId, baselineYears: 2 } }))!;

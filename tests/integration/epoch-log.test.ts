@@ -13,13 +13,11 @@
 import * as Astro from "astronomy-engine";
 import { inverse, Matrix } from "ml-matrix";
 import { beforeAll, describe, expect, it } from "vitest";
-import { createObservation } from "~/lib/proposals/observations.server";
-import { observationSchema } from "~/lib/schemas/proposals";
 import { AuditEntry, ExecutedEpoch, Instrument, Observation, PlannedEpoch, Proposal, Target, Telescope } from "~/models/index.server";
 import { request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
 import { newUser } from "../helpers/session";
-import { readyProposal, testCall } from "./proposals-fixtures";
+import { epochProgramme, readyProposal, testCall } from "./proposals-fixtures";
 
 type Person = Awaited<ReturnType<typeof newUser>>;
 let observer: Person;
@@ -75,15 +73,7 @@ beforeAll(async () => {
   pi = await newUser({ name: "Log PI" });
   stranger = await newUser({ name: "Log Stranger" });
   const call = await testCall();
-  const made = await readyProposal({ user: pi.user, callId: call.id, title: "Epoch log programme" });
-  await createObservation({
-    user: pi.user,
-    proposalId: made.proposal.id,
-    input: observationSchema.parse({
-      targetId: made.target.id, instrumentId: made.option.instrumentId, filterId: made.filter.id, mode: "snr", snrGoal: "120", framesPerEpoch: "5",
-      epochsPerSemester: "2", moonCategory: "dark", maxAirmass: "1.8", seeingArcsec: "1.0", baselineYears: "2", requiredPmPrecisionMasPerYr: "1.5",
-    }),
-  });
+  const made = await epochProgramme({ user: pi.user, callId: call.id, title: "Epoch log programme" });
   proposalId = made.proposal.id;
   code = `E01/${call.semesterCode.slice(2)}`;
   await Proposal.update({ status: "accepted", code, serial: 901, submittedAt: new Date() }, { where: { id: proposalId } });
@@ -351,15 +341,7 @@ describe("a lost epoch made up", () => {
     const { owedBeforeCall } = await import("~/lib/epochs/epochs.server");
     const { computeFeasibilitySheet } = await import("~/lib/proposals/feasibility.server");
     const earlier = await testCall();
-    const made = await readyProposal({ user: pi.user, callId: earlier.id, title: "Made-up epochs programme" });
-    await createObservation({
-      user: pi.user,
-      proposalId: made.proposal.id,
-      input: observationSchema.parse({
-        targetId: made.target.id, instrumentId: made.option.instrumentId, filterId: made.filter.id, mode: "snr", snrGoal: "120", framesPerEpoch: "5",
-        epochsPerSemester: "2", moonCategory: "dark", maxAirmass: "1.8", seeingArcsec: "1.0", baselineYears: "2", requiredPmPrecisionMasPerYr: "1.5",
-      }),
-    });
+    const made = await epochProgramme({ user: pi.user, callId: earlier.id, title: "Made-up epochs programme" });
     const id = made.proposal.id;
     await Proposal.update({ status: "accepted", code: `E02/${earlier.semesterCode.slice(2)}`, serial: 902, submittedAt: new Date(), isMultiSemester: true }, { where: { id } });
     const obs = (await Observation.findOne({ where: { proposalId: id, baselineYears: 2 } }))!;

@@ -75,3 +75,20 @@ export async function readyProposal({ user, callId, title = "Proper motions in t
   await storeScienceCase({ proposalId: proposal.id, user, file: { name: "case.pdf", type: "application/pdf", bytes: await pdfWithPages(2) } });
   return { proposal, target, option, filter };
 }
+
+/**
+ * A ready proposal with a second observation for multi-epoch astrometry (2 epochs per semester
+ * over a 2-year baseline, 1.5 mas/yr wanted): the programme the epoch-log tests record against.
+ */
+export async function epochProgramme({ user, callId, title }: { user: Actor; callId: number; title: string }) {
+  const made = await readyProposal({ user, callId, title });
+  await createObservation({
+    user,
+    proposalId: made.proposal.id,
+    input: observationSchema.parse({
+      targetId: made.target.id, instrumentId: made.option.instrumentId, filterId: made.filter.id, mode: "snr", snrGoal: "120", framesPerEpoch: "5",
+      epochsPerSemester: "2", moonCategory: "dark", maxAirmass: "1.8", seeingArcsec: "1.0", baselineYears: "2", requiredPmPrecisionMasPerYr: "1.5",
+    }),
+  });
+  return made;
+}
