@@ -19,7 +19,7 @@ import {
 } from "recharts";
 import type { MoonCategory } from "~/lib/domain";
 import { ALTITUDE_TICKS, PARALLAX_FACTOR_TICKS, halfYearTicks, wholeHourTicks } from "./chart-ticks";
-import { moonColours } from "./FeasibilityParts";
+import { moonColours } from "./moon-colours";
 
 export function HoursPerNightChart({ nights, hoursPerNight }: { nights: { date: string; moonCategory: MoonCategory }[]; hoursPerNight: number[] }) {
   const data = nights.map((n, i) => ({ date: n.date, hours: hoursPerNight[i] ?? 0, moonCategory: n.moonCategory }));

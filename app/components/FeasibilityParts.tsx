@@ -9,8 +9,6 @@ import { useFetcher } from "react-router";
 import { hours } from "~/lib/format";
 import type { FeasibilitySheet, Problem } from "~/lib/proposals/feasibility";
 
-export const moonColours = { dark: "#13213a", grey: "#7c8aa0", bright: "#e8a849" } as const;
-
 export function ProblemsList({ problems, empty = "No problems found: nothing blocks this proposal." }: { problems: Problem[]; empty?: string }) {
   const blocking = problems.filter((p) => p.severity === "blocking");
   const warnings = problems.filter((p) => p.severity === "warning");

@@ -8,7 +8,7 @@ import { requireRole } from "~/lib/auth/auth.server";
 import { callDecisions, saveTemplate } from "~/lib/decisions/decisions.server";
 import { templatesFor } from "~/lib/decisions/facts.server";
 import { resendLetter, sendDecisions } from "~/lib/decisions/send.server";
-import { money } from "~/lib/decisions/template";
+import { formatMoney } from "~/lib/payments/money";
 import { decisionOutcomes, outcomeLabels } from "~/lib/decisions/vocabulary";
 import { formAction, idParam, intent, orNotFound } from "~/lib/actions.server";
 import { hours } from "~/lib/format";
@@ -96,7 +96,7 @@ export default function Decisions({ loaderData }: Route.ComponentProps) {
                       <td>{outcomeLabels[r.outcome]}</td>
                       <td className="tabular-nums">{hours(r.outcome === "accepted" ? hoursOf(r) : null)}<div className="text-xs text-slate-500">{r.facts.hours.map((h) => `${h.telescope} ${h.moonCategory} ${h.semesterCode} ${h.hours.toFixed(1)}`).join(" · ")}</div></td>
                       <td>{r.facts.tier ?? "—"}</td>
-                      <td>{r.facts.charge ? money(r.facts.charge.amountCents, r.facts.charge.currency) : r.outcome !== "accepted" ? "—" : r.sent ? "none" : "raised on sending, if due"}</td>
+                      <td>{r.facts.charge ? formatMoney(r.facts.charge.amountCents, r.facts.charge.currency) : r.outcome !== "accepted" ? "—" : r.sent ? "none" : "raised on sending, if due"}</td>
                       <td data-testid="letter-state">{!r.sent ? "not sent" : r.sent.queued + r.sent.retrying > 0 ? `sending (${r.sent.sent}/${r.sent.total})` : r.sent.failed ? `${r.sent.failed} failed` : `sent to ${r.sent.total}`}{r.sent?.resends ? ` · re-sent ${r.sent.resends}×` : ""}</td>
                       <td className="whitespace-nowrap"><button type="button" className="btn-quiet" onClick={() => setOpen(open === r.proposalId ? null : r.proposalId)}>{open === r.proposalId ? "Hide letter" : "Letter"}</button></td>
                     </tr>

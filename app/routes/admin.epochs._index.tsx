@@ -5,7 +5,8 @@ import { ErrorPage } from "~/components/ErrorPage";
 import { formAction, intent } from "~/lib/actions.server";
 import { requireEpochOffice } from "~/lib/auth/auth.server";
 import { astrometryProgrammes, importNightLog } from "~/lib/epochs/epochs.server";
-import { NIGHT_LOG_MAX_BYTES, refusedNightLogText } from "~/lib/epochs/night-log-csv";
+import { NIGHT_LOG_MAX_BYTES } from "~/lib/epochs/night-log-csv";
+import { refusedCsvText } from "~/lib/proposals/target-csv";
 import { Refusal, utf8Bytes } from "~/lib/forms";
 import type { Route } from "./+types/admin.epochs._index";
 
@@ -37,7 +38,7 @@ export async function action({ request }: Route.ActionArgs) {
   return formAction(request, nightLogIntents, async ({ intent, csv }): Promise<NightLogAnswer> => {
     const { report, saved } = await importNightLog({ user, csv });
     if (report.error) throw new Refusal(report.error, { field: "csv" });
-    return { ok: true, intent, saved, report, remaining: refusedNightLogText(report) };
+    return { ok: true, intent, saved, report, remaining: refusedCsvText(report) };
   });
 }
 

@@ -3,6 +3,7 @@ import { Countdown } from "~/components/Countdown";
 import { moonCategories } from "~/lib/domain";
 import { listPublicCalls } from "~/lib/office/office.server";
 import { formatUtc } from "~/lib/format";
+import { formatMoney } from "~/lib/payments/money";
 import { formatInZone } from "~/lib/zoned-time";
 import type { Route } from "./+types/calls._index";
 
@@ -20,9 +21,6 @@ const moonStyle = {
   grey: { label: "Grey", bar: "bg-night-700/60" },
   bright: { label: "Bright", bar: "bg-dusk-400" },
 } as const;
-
-const money = (cents: number, currency: string) =>
-  new Intl.NumberFormat("en-GB", { style: "currency", currency: currency.toUpperCase(), maximumFractionDigits: cents % 100 ? 2 : 0 }).format(cents / 100);
 
 type PublicCall = Route.ComponentProps["loaderData"]["calls"][number];
 
@@ -133,9 +131,9 @@ function CallCard({ call, now }: { call: PublicCall; now: string }) {
       {call.accessFeePerHourCents || call.pageChargeCents ? (
         <p className="text-sm text-slate-600">
           Charges:{" "}
-          {call.accessFeePerHourCents ? `${money(call.accessFeePerHourCents, call.currency)} per allocated hour for institutions outside the consortium` : null}
+          {call.accessFeePerHourCents ? `${formatMoney(call.accessFeePerHourCents, call.currency)} per allocated hour for institutions outside the consortium` : null}
           {call.accessFeePerHourCents && call.pageChargeCents ? "; " : null}
-          {call.pageChargeCents ? `page charge ${money(call.pageChargeCents, call.currency)} per page of the programme's data-release paper in the observatory's publication` : null}.
+          {call.pageChargeCents ? `page charge ${formatMoney(call.pageChargeCents, call.currency)} per page of the programme's data-release paper in the observatory's publication` : null}.
         </p>
       ) : null}
     </article>

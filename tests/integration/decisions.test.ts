@@ -147,7 +147,7 @@ describe("sending a call's decisions", () => {
     for (const to of [p.pi.email, f.coi.email]) {
       const mail = await waitForMail(to, /^Decision on 001\//);
       for (const c of p.comments) expect(mail.text).toContain(c);
-      expect(mail.text).toContain("€1,312.50");
+      expect(mail.text).toContain("EUR 1,312.50");
       expect(mail.text).toContain(`${f.telescope.name}, dark time, semester ${f.call.semesterCode}: 10.5 h`);
       expect(mail.text).toContain("in the queue tier");
       for (const word of forbidden()) expect(mail.text + (mail.html ?? "")).not.toContain(word);
@@ -158,7 +158,7 @@ describe("sending a call's decisions", () => {
       const text = (await pdfText(new Uint8Array(await file.arrayBuffer()))).replace(/\s+/g, " ");
       expect(text).toContain("Kestrel Ridge Observatory");
       expect(text).toContain("Accepted");
-      expect(text).toContain("€1,312.50");
+      expect(text).toContain("EUR 1,312.50");
       for (const c of p.comments) expect(text).toContain(c);
       for (const word of forbidden()) expect(text).not.toContain(word);
     }

@@ -1,9 +1,10 @@
 // The Visibility tool's charts (recharts), loaded on demand by VisibilityTool (React.lazy).
 import { Bar, BarChart, CartesianGrid, Cell, Line, LineChart, ReferenceArea, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
 import { ALTITUDE_TICKS, wholeHourTicks } from "~/components/chart-ticks";
-import { MOON_COLOURS, localTime } from "./live";
+import { localTime } from "./live";
 import type { Curve } from "./VisibilityTool";
 import { grouped as fmt } from "~/lib/format";
+import { moonColours } from "~/components/moon-colours";
 
 export function AltitudeChart({ curve, limit, timeZone }: { curve: Curve; limit: number; timeZone: string }) {
   const data = curve.points.map((p) => ({ t: Date.parse(p.time), target: p.targetAltDeg, sun: p.sunAltDeg, moon: p.moonAltDeg }));
@@ -36,7 +37,7 @@ export function AltitudeChart({ curve, limit, timeZone }: { curve: Curve; limit:
   );
 }
 
-export function HoursChart({ data }: { data: { date: string; hours: number; moonCategory: keyof typeof MOON_COLOURS }[] }) {
+export function HoursChart({ data }: { data: { date: string; hours: number; moonCategory: keyof typeof moonColours }[] }) {
   return (
     <ResponsiveContainer width="100%" height="100%">
       <BarChart data={data} margin={{ top: 8, right: 16, bottom: 8, left: 0 }} barCategoryGap={0}>
@@ -46,7 +47,7 @@ export function HoursChart({ data }: { data: { date: string; hours: number; moon
         <Tooltip formatter={(v) => `${fmt(Number(v), 2)} h`} />
         <Bar dataKey="hours" isAnimationActive={false}>
           {data.map((d) => (
-            <Cell key={d.date} fill={MOON_COLOURS[d.moonCategory]} />
+            <Cell key={d.date} fill={moonColours[d.moonCategory]} />
           ))}
         </Bar>
       </BarChart>

@@ -6,8 +6,9 @@ import { airmass } from "~/lib/astro/airmass";
 import type { VisibilityJson } from "~/lib/astro/visibility";
 import { moonCategories } from "~/lib/domain";
 import { LiveStatusLine, TelescopePicker } from "./LiveStatus";
-import { MOON_COLOURS, isoDateInput, issuesByField, localTime, useLiveApi, utcTime, type SkyTelescope } from "./live";
+import { isoDateInput, issuesByField, localTime, useLiveApi, utcTime, type SkyTelescope } from "./live";
 import { grouped as fmt } from "~/lib/format";
+import { moonColours } from "~/components/moon-colours";
 
 // recharts is a large chunk: loaded in the browser only, by the pages that draw a chart
 const AltitudeChartLazy = lazy(() => import("./VisibilityCharts").then((m) => ({ default: m.AltitudeChart })));
@@ -196,7 +197,7 @@ function HoursFigure({ answer }: { answer: VisibilityAnswer }) {
       <p className="flex gap-4 text-xs text-slate-600">
         {moonCategories.map((c) => (
           <span key={c} className="inline-flex items-center gap-1">
-            <span className="inline-block h-3 w-3 rounded-sm" style={{ background: MOON_COLOURS[c] }} /> {c}
+            <span className="inline-block h-3 w-3 rounded-sm" style={{ background: moonColours[c] }} /> {c}
           </span>
         ))}
       </p>

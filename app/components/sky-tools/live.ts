@@ -141,8 +141,6 @@ export function localTime(iso: string | null, timeZone: string) {
   }
 }
 
-export const MOON_COLOURS = { dark: "#1e3a5f", grey: "#8a9bb0", bright: "#e8a849" } as const;
-
 /** Props of a text input for an ISO date (the page shows every date as YYYY-MM-DD, whatever the browser's locale). */
 export const isoDateInput = { type: "text", inputMode: "numeric", pattern: "\\d{4}-\\d{2}-\\d{2}", placeholder: "YYYY-MM-DD", autoComplete: "off", maxLength: 10 } as const;
 

@@ -3,7 +3,8 @@
 // the stored letter, so the PDF, the e-mail and the PI's page say the same.
 import { PDFDocument, rgb } from "pdf-lib";
 import { A4, GREY, MARGIN, RULE, newWriter } from "~/lib/proposals/pdf.server";
-import { chargesText, money } from "./template";
+import { formatMoney } from "~/lib/payments/money";
+import { chargesText } from "./template";
 import { outcomeLabels, type LetterFacts } from "./vocabulary";
 
 const NAVY = rgb(0.118, 0.227, 0.373);
@@ -42,7 +43,7 @@ export async function buildLetterPdf(letter: { subject: string; body: string; fa
     ["Outcome", outcomeLabels[f.outcome]],
     ["Tier", f.tier ?? "none"],
     ["Hours", f.hours.length ? `${thisSemester.toFixed(1)} h in ${f.semesterCode}${f.hours.some((h) => h.semesterCode !== f.semesterCode) ? " (and later semesters, below)" : ""}` : "none"],
-    ["Charges due", f.charge ? money(f.charge.amountCents, f.charge.currency) : "nothing"],
+    ["Charges due", f.charge ? formatMoney(f.charge.amountCents, f.charge.currency) : "nothing"],
   ];
   const boxTop = w.y + 4;
   w.y -= 12;

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { anonymisedComments } from "./anonymise";
-import { composeLetter, DEFAULT_TEMPLATES, fillTemplate, money, templateProblems } from "./template";
+import { composeLetter, DEFAULT_TEMPLATES, fillTemplate, templateProblems } from "./template";
 import type { LetterFacts } from "./vocabulary";
 
 const facts: LetterFacts = {
@@ -19,10 +19,8 @@ describe("letter templates", () => {
 
   it("fills every placeholder; 6 h × EUR 125.00 = EUR 750.00 (by hand)", () => {
     expect(fillTemplate("[[pi_name]]|[[code]]|[[tier]]|[[hours]]", facts)).toBe("Dr Invented|014/27A|filler|- KRO 1.0 m, grey time, semester 2027A: 6.0 h");
-    expect(fillTemplate("[[charges]]", facts)).toContain("An access fee of €750.00 (6.0 h at €125.00 per hour) is due.");
+    expect(fillTemplate("[[charges]]", facts)).toContain("An access fee of EUR 750.00 (6.0 h at EUR 125.00 per hour) is due.");
     expect(fillTemplate("[[charges]]", { ...facts, charge: null })).toBe("Nothing is due.");
-    expect(money(131_250, "EUR")).toBe("€1,312.50");
-    expect(money(500, "CHF")).toBe("CHF 5.00");
   });
 
   it("leaves no placeholder in the default letters and adds the comments when a template leaves them out", () => {

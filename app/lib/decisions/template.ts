@@ -1,5 +1,6 @@
 // Decision letters from the office's templates. Placeholders are a name in double square brackets,
 // `[[code]]`; a template naming anything else is refused with that name. Pure: facts in, text out.
+import { formatMoney } from "~/lib/payments/money";
 import type { DecisionOutcome, LetterComment, LetterFacts } from "./vocabulary";
 
 export const PLACEHOLDERS = {
@@ -34,14 +35,6 @@ export function templateProblems(text: string): string[] {
   return problems;
 }
 
-/** Amounts in minor units as the currency writes them (en-GB, two decimals for EUR/GBP/USD). */
-export function money(amountCents: number, currency: string) {
-  try {
-    return new Intl.NumberFormat("en-GB", { style: "currency", currency }).format(amountCents / 100).replace(/\u00a0/g, " ");
-  } catch {
-    return `${(amountCents / 100).toFixed(2)} ${currency}`;
-  }
-}
 
 const moonWords = { dark: "dark time", grey: "grey time", bright: "bright time" } as const;
 
@@ -52,8 +45,8 @@ export function hoursText(f: LetterFacts) {
 
 export function chargesText(f: LetterFacts) {
   if (!f.charge) return "Nothing is due.";
-  const rate = f.charge.hours !== null ? ` (${f.charge.hours.toFixed(1)} h at ${money(f.charge.rateCents, f.charge.currency)} per hour)` : "";
-  return `An access fee of ${money(f.charge.amountCents, f.charge.currency)}${rate} is due. The PI pays it from the proposal's Charges page in Nightshare.`;
+  const rate = f.charge.hours !== null ? ` (${f.charge.hours.toFixed(1)} h at ${formatMoney(f.charge.rateCents, f.charge.currency)} per hour)` : "";
+  return `An access fee of ${formatMoney(f.charge.amountCents, f.charge.currency)}${rate} is due. The PI pays it from the proposal's Charges page in Nightshare.`;
 }
 
 export function commentsText(comments: LetterComment[]) {

@@ -26,8 +26,3 @@ export type NightLogRow =
   | { line: number; text: string; ok: true; proposalId: number; record: EpochRecordInput & { observationId: number } }
   | { line: number; text: string; ok: false; problems: CsvProblem[] };
 export type NightLogReport = { header: string; rows: NightLogRow[]; error?: string };
-
-export function refusedNightLogText(report: NightLogReport) {
-  const refused = report.rows.filter((r) => !r.ok);
-  return refused.length ? [report.header, ...refused.map((r) => r.text)].join("\n") : "";
-}

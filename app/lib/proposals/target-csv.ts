@@ -19,8 +19,11 @@ export type CsvRowResult =
 export type CsvReport = { header: string; rows: CsvRowResult[]; error?: string };
 export type ExistingTarget = { name: string; raDeg: number; decDeg: number };
 
-/** What goes back into the text box: the header and the refused rows, to be fixed and imported again. */
-export function refusedCsvText(report: CsvReport) {
+/**
+ * What goes back into the text box: the header and the refused rows, to be fixed and imported
+ * again (any CSV import's report: the target list's, the night log's).
+ */
+export function refusedCsvText(report: { header: string; rows: { ok: boolean; text: string }[] }) {
   const refused = report.rows.filter((r) => !r.ok);
   if (refused.length === 0) return "";
   return [report.header, ...refused.map((r) => r.text)].join("\n");
