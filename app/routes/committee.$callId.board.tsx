@@ -173,7 +173,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
         cell: (c) => {
           const p = c.getValue();
           if (c.row.original.withheld) return <Withheld short />;
-          if (p === null || p === undefined) return c.row.original.computedRank === null ? NONE : <span className="text-xs text-slate-600" title="It asks no hours of this semester">no hours</span>;
+          if (p === null) return c.row.original.computedRank === null ? NONE : <span className="text-xs text-slate-600" title="It asks no hours of this semester">no hours</span>;
           return <span className="whitespace-nowrap" data-testid={`above-${c.row.original.proposalId}`}>{Math.round(p * 100)} %{inCoinFlipBand(p) ? <span className="ml-1 rounded bg-amber-200 px-1 text-xs text-amber-950">coin flip</span> : null}</span>;
         },
       }),
