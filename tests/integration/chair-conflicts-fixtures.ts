@@ -2,7 +2,7 @@
 // programme 1 has the chair as a Co-I, programme 2 has the chair's declared conflict (the chair is
 // a reviewer too), programme 3 is the chair's own (PI). Another chair of the same call is
 // conflicted on none. Three reviewers graded all four, with comments; the review has started.
-import { CallReview, Proposal, ProposalMember, ReviewAssignment, ReviewPanelMember } from "~/models/index.server";
+import { CallReview, Proposal, ProposalMember, ReviewAssignment, ReviewPanelMember, User } from "~/models/index.server";
 import { newUser } from "../helpers/session";
 import { readyProposal, testCall } from "./proposals-fixtures";
 
@@ -19,6 +19,8 @@ export async function conflictedCall(prefix = "Conflict") {
   const chair = await newUser({ roles: ["chair", "reviewer"], name: `${prefix} Conflicted Chair` });
   const other = await newUser({ roles: ["chair"], name: `${prefix} Other Chair` });
   const reviewers = await Promise.all([0, 1, 2].map((i) => newUser({ roles: ["reviewer"], name: `${prefix} Reviewer ${i}` })));
+  // institutions of their own: the teams are all at newUser's "Test Institute"
+  for (const [i, r] of reviewers.entries()) await User.update({ institution: `${prefix} Reviewing Institute ${i}` }, { where: { id: r.user.id } });
   const call = await testCall();
   const proposals: Proposal[] = [];
   for (let i = 0; i < 4; i++) {
