@@ -174,7 +174,7 @@ export function AllocationSheet({
                     <>
                       {/* not registered: the form sends the stored values (its defaults) */}
                       <td>
-                        <select aria-label={`Tier of ${row.code}`} className="input w-28" disabled value={row.tier ?? ""} onChange={() => undefined}>
+                        <select aria-label={`Tier of ${row.code}`} className="input w-28 cursor-not-allowed bg-slate-100 text-slate-500" disabled value={row.tier ?? ""} onChange={() => undefined}>
                           <option value="">none</option>
                           {allocationTiers.map((t) => <option key={t} value={t}>{t}</option>)}
                         </select>
@@ -208,7 +208,7 @@ export function AllocationSheet({
                     return (
                       <td key={j} className={`text-right ${t && over(t, i) ? "bg-red-50" : ""}`}>
                         {row.conflictReason ? (
-                          <input aria-label={`${row.code} ${columnName(c)} hours`} inputMode="decimal" className="input w-20 text-right" disabled value={initialHours(i, j)} onChange={() => undefined} />
+                          <input aria-label={`${row.code} ${columnName(c)} hours`} inputMode="decimal" className="input w-20 cursor-not-allowed bg-slate-100 text-right text-slate-500" disabled value={initialHours(i, j)} onChange={() => undefined} />
                         ) : (
                           <input
                             aria-label={`${row.code} ${columnName(c)} hours`}
@@ -235,7 +235,7 @@ export function AllocationSheet({
                         <label key={j} className="mb-1 block text-xs">
                           {c.semesterCode} {columnName(c)} (requested {h(c.requestedHours)})
                           {row.conflictReason ? (
-                            <input inputMode="decimal" className="input ml-1 inline-block w-20 text-right" disabled value={initialHours(i, j)} onChange={() => undefined} />
+                            <input inputMode="decimal" className="input ml-1 inline-block w-20 cursor-not-allowed bg-slate-100 text-right text-slate-500" disabled value={initialHours(i, j)} onChange={() => undefined} />
                           ) : (
                             <input inputMode="decimal" className="input ml-1 inline-block w-20 text-right" disabled={locked} defaultValue={initialHours(i, j)} aria-invalid={error(path) ? true : undefined} {...register(path)} />
                           )}
