@@ -109,6 +109,7 @@ describe("the allocation for a conflicted chair", () => {
     expect(await BoardEntry.count({ where: { proposalId: [f.proposals[1].id, f.proposals[2].id, f.proposals[3].id], [Op.or]: [{ tier: { [Op.ne]: null } }, { waitlisted: true }] } })).toBe(0);
     const fine = await app.put(`/api/v1/calls/${f.call.id}/allocation`).set(json(f.chair.cookie)).send({ rows: [row(f.proposals[0], 4)], tiers: [{ proposalId: f.proposals[0].id, tier: "queue" }] });
     expect(fine.status).toBe(200);
+    expect(fine.body.proposals.map((p: { proposalId: number }) => p.proposalId)[0]).toBe(f.proposals[0].id); // the conflicted ones last
     expect(await Allocation.sum("hours", { where: { proposalId: f.proposals[0].id } })).toBe(4);
   });
 
