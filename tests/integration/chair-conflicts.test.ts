@@ -5,7 +5,7 @@
 import { Op } from "sequelize";
 import { beforeAll, describe, expect, it } from "vitest";
 import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
-import { Allocation, BoardEntry, Proposal, ReviewAssignment } from "~/models/index.server";
+import { Allocation, BoardEntry, CallOffer, Proposal, ReviewAssignment } from "~/models/index.server";
 import { postForAnswer, request } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
 import { committeeNote, conflictedCall, DECLARED_REASON } from "./chair-conflicts-fixtures";
@@ -157,6 +157,32 @@ describe("the allocation for a conflicted chair", () => {
     expect(await Allocation.sum("hours", { where: { proposalId: f.proposals[3].id, semesterCode: f.call.semesterCode } })).toBeCloseTo(requested, 6);
     const after = (await BoardEntry.findOne({ where: { proposalId: f.proposals[3].id } }))!;
     expect(after.allocatedByHand).toBe(false);
+  });
+});
+
+describe("fill by rank on a tight budget", () => {
+  it("places a conflicted proposal by its computed rank when its chair fills, not at the position that chair gave it", async () => {
+    const g = await conflictedCall("Chair COI Rank");
+    const app = await request();
+    // room for one proposal's request only: r ≤ 80 % of offered (assured), 2r > offered + 30 % (filler)
+    const r = (await computeFeasibilitySheet({ proposalId: g.proposals[0].id })).totals.find((t) => t.semesterCode === g.call.semesterCode && t.telescopeId === cell.telescopeId && t.moonCategory === cell.moonCategory)!.hours;
+    await CallOffer.update({ hoursOffered: 1.4 * r }, { where: { callId: g.call.id, telescopeId: cell.telescopeId, moonCategory: cell.moonCategory } });
+    const board = await app.get(`/api/v1/calls/${g.call.id}/board`).set("Cookie", g.other.cookie);
+    const top = board.body.proposals.find((p: BoardRow) => p.computedRank === 1).proposalId;
+    const own = g.proposals[3];
+    expect(top).not.toBe(own.id);
+    // the position the chair gave their own programme before the conflict rule knew of it
+    await BoardEntry.create({ callId: g.call.id, proposalId: own.id, chairRank: 1, chairRankReason: "set before the conflict", chairRankById: g.chair.user.id, tier: null });
+    const hoursOf = async (id: number) => (await Allocation.sum("hours", { where: { proposalId: id, semesterCode: g.call.semesterCode } })) ?? 0;
+    const mine = await app.post(`/api/v1/calls/${g.call.id}/allocation/fill-by-rank`).set(json(g.chair.cookie)).send({});
+    expect(mine.status).toBe(200);
+    expect(await hoursOf(top)).toBeCloseTo(r, 9);
+    expect(await hoursOf(own.id)).toBe(0);
+    // the same position set by the other chair counts
+    await BoardEntry.update({ chairRankById: g.other.user.id }, { where: { proposalId: own.id } });
+    expect((await app.post(`/api/v1/calls/${g.call.id}/allocation/fill-by-rank`).set(json(g.chair.cookie)).send({})).status).toBe(200);
+    expect(await hoursOf(own.id)).toBeCloseTo(r, 9);
+    expect(await hoursOf(top)).toBe(0);
   });
 });
 
