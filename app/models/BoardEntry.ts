@@ -15,6 +15,10 @@ export class BoardEntry extends Model<InferAttributes<BoardEntry>, InferCreation
   declare waitlisted: CreationOptional<boolean>;
   /** The chair set its hours, tier or waitlist by hand: fill by rank keeps them. */
   declare allocatedByHand: CreationOptional<boolean>;
+  /** Who set `chairRank` (null: nobody, or before this was recorded). */
+  declare chairRankById: CreationOptional<number | null>;
+  /** Who set the hand-set allocation (null: nobody, or before this was recorded). */
+  declare allocatedByHandById: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -27,6 +31,8 @@ export class BoardEntry extends Model<InferAttributes<BoardEntry>, InferCreation
         tier: { type: DataTypes.ENUM(...allocationTiers), allowNull: true },
         waitlisted: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
         allocatedByHand: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+        chairRankById: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+        allocatedByHandById: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
         createdAt: DataTypes.DATE(3),
         updatedAt: DataTypes.DATE(3),
       },

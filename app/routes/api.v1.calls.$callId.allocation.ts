@@ -1,5 +1,6 @@
 import { saveAllocation } from "~/lib/allocation/allocate.server";
 import { callBoard } from "~/lib/allocation/board.server";
+import { chairConflicts } from "~/lib/review/chair-conflicts.server";
 import { requireRole } from "~/lib/auth/auth.server";
 import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import { allocationSchema } from "~/lib/schemas/allocation";
@@ -16,8 +17,10 @@ export async function action({ request, params }: Route.ActionArgs) {
   const callId = apiId(params.callId, "callId");
   const body = await apiBody(request, allocationSchema);
   const saved = await apiAttempt(() => saveAllocation({ actor: user, callId, rows: body.rows, tiers: body.tiers }));
-  const board = await apiAttempt(() => callBoard({ callId }));
-  return json({ saved, proposals: board.proposals.map((p) => ({ proposalId: p.proposalId, tier: p.tier, waitlisted: p.waitlisted, allocation: p.allocation })) });
+  const [board, conflicts] = await apiAttempt(() => Promise.all([callBoard({ callId }), chairConflicts({ callId, chair: user })]));
+  // in computed order, the proposals this chair is conflicted on last (their place would tell their grades)
+  const rows = [...board.proposals.filter((p) => !conflicts.has(p.proposalId)), ...board.proposals.filter((p) => conflicts.has(p.proposalId))];
+  return json({ saved, proposals: rows.map((p) => ({ proposalId: p.proposalId, tier: p.tier, waitlisted: p.waitlisted, allocation: p.allocation })) });
 }
 
 export async function loader() {

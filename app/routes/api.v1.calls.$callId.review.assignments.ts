@@ -14,7 +14,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const callId = apiId(params.callId, "callId");
   const body = await apiBody(request, assignmentsSchema);
   const result = await apiAttempt(() => replaceAssignments({ actor: user, callId, pairs: body.assignments, commit: body.commit }));
-  return json({ ...result, ...(await apiAttempt(() => reviewState({ callId }))) });
+  return json({ ...result, ...(await apiAttempt(() => reviewState({ callId, viewer: user }))) });
 }
 
 export async function loader() {

@@ -6,11 +6,11 @@ import type { Route } from "./+types/api.v1.calls.$callId.review.suggest";
 
 /** POST /api/v1/calls/:callId/review/suggest (chair) `{ perProposal }`: the suggestion; changes nothing. */
 export async function action({ request, params }: Route.ActionArgs) {
-  await requireRole(request, "chair");
+  const user = await requireRole(request, "chair");
   if (request.method !== "POST") return methodNotAllowed("POST");
   const callId = apiId(params.callId, "callId");
   const { perProposal } = await apiBody(request, suggestSchema);
-  return json(await apiAttempt(() => suggestForCall({ callId, perProposal })));
+  return json(await apiAttempt(() => suggestForCall({ callId, perProposal, viewer: user })));
 }
 
 export async function loader() {

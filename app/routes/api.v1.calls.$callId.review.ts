@@ -5,9 +5,9 @@ import type { Route } from "./+types/api.v1.calls.$callId.review";
 
 /** GET /api/v1/calls/:callId/review (chair): panel, proposals in review, assignments, conflicts, loads. */
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireRole(request, "chair");
+  const user = await requireRole(request, "chair");
   const callId = apiId(params.callId, "callId");
-  return json(await apiAttempt(() => reviewState({ callId })));
+  return json(await apiAttempt(() => reviewState({ callId, viewer: user })));
 }
 
 export async function action() {

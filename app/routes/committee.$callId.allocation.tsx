@@ -15,8 +15,8 @@ export function meta({ data: d }: Route.MetaArgs) {
 }
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireRole(request, "chair");
-  return { sheet: await orNotFound(allocationSheet({ callId: idParam(params.callId, "call") })) };
+  const user = await requireRole(request, "chair");
+  return { sheet: await orNotFound(allocationSheet({ callId: idParam(params.callId, "call"), chair: user })) };
 }
 
 /**

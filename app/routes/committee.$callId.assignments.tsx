@@ -14,9 +14,9 @@ export function meta({ data: d }: Route.MetaArgs) {
 }
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireRole(request, "chair");
+  const user = await requireRole(request, "chair");
   const callId = idParam(params.callId, "call");
-  const [board, helpfulness] = await orNotFound(Promise.all([reviewBoard({ callId }), helpfulnessByReviewer({ callId })]));
+  const [board, helpfulness] = await orNotFound(Promise.all([reviewBoard({ callId, viewer: user }), helpfulnessByReviewer({ callId })]));
   return { board, helpfulness, method: SUGGESTION_METHOD };
 }
 
@@ -54,7 +54,7 @@ export default function Assignments({ loaderData }: Route.ComponentProps) {
   const counts = loads.map((l) => l.count);
   const spread = counts.length ? Math.max(...counts) - Math.min(...counts) : 0;
   const k = Number(perProposal) || review.perProposal;
-  const short = board.proposals.filter((p) => board.panel.filter((r) => pairs.has(key(p.proposalId, r.reviewerId))).length < k);
+  const short = board.proposals.filter((p) => !p.withheld && board.panel.filter((r) => pairs.has(key(p.proposalId, r.reviewerId))).length < k);
   const dirty = pairs.size !== saved.size || [...pairs].some((x) => !saved.has(x));
 
   function toggle(p: number, r: number) {
@@ -175,7 +175,11 @@ export default function Assignments({ loaderData }: Route.ComponentProps) {
                   <span className="font-semibold">{p.code ?? `#${p.proposalId}`}</span> {p.title}
                   <span className="block text-xs text-slate-500">{scienceCategoryLabel(p.category) ?? "no category"} · PI: {p.piInstitution ?? "?"}</span>
                 </td>
-                {board.panel.map((r) => {
+                {p.withheld ? (
+                  <td colSpan={Math.max(1, board.panel.length)} className="bg-amber-50 text-sm text-amber-900" data-testid={`assign-withheld-${p.proposalId}`}>
+                    Reviewers {p.withheld} ({p.conflictReason}): another chair assigns them.
+                  </td>
+                ) : board.panel.map((r) => {
                   const id = key(p.proposalId, r.reviewerId);
                   const reason = conflicts.get(id);
                   const on = pairs.has(id);

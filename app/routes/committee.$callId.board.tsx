@@ -9,7 +9,9 @@ import { SortableTable } from "~/components/SortableTable";
 import { fixed, NONE } from "~/lib/format";
 import { SemesterCheck } from "~/components/allocation/SemesterCheck";
 import { fillAllocationByRank, lockAllocation, moveOnBoard, unlockAllocation } from "~/lib/allocation/allocate.server";
-import { callBoard } from "~/lib/allocation/board.server";
+import { callBoard, withholdConflicted } from "~/lib/allocation/board.server";
+import { chairConflicts } from "~/lib/review/chair-conflicts.server";
+import { CONFLICT_WITHHELD } from "~/lib/review/vocabulary";
 import { boardUncertainty } from "~/lib/allocation/board-uncertainty";
 import { inCoinFlipBand } from "~/lib/allocation/rank-uncertainty";
 import { RankIntervalBar, ReproducibilityCard } from "~/components/allocation/RankUncertainty";
@@ -79,25 +81,36 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireRole(request, "chair");
+  const user = await requireRole(request, "chair");
   const callId = idParam(params.callId, "call");
   const sheets = new Map<number, FeasibilitySheet>(); // read once for the board and its RA pressure
-  const [board, telescopes, semesterCheck] = await orNotFound(
-    Promise.all([callBoard({ callId, sheets }), Telescope.findAll({ attributes: ["id", "name"], order: [["id", "ASC"]] }), latestSemesterCheck({ callId })]),
+  const [board, telescopes, semesterCheck, conflicts] = await orNotFound(
+    Promise.all([callBoard({ callId, sheets }), Telescope.findAll({ attributes: ["id", "name"], order: [["id", "ASC"]] }), latestSemesterCheck({ callId }), chairConflicts({ callId, chair: user })]),
   );
   const [raPressure, owed] = await orNotFound(Promise.all([raPressureSection({ callId, telescopeId: new URL(request.url).searchParams.get("telescopeId"), sheets }), owedBeforeCall({ callId })]));
   const { rows: drawn, reproducibility, coinFlip } = boardUncertainty(board);
-  // the page needs each row's interval, not the grades the bootstrap drew from
-  const proposals = board.proposals.map(({ zScores: _z, ...row }) => ({
-    ...row,
-    rankInterval: drawn.get(row.proposalId)?.rankInterval ?? null,
-    probabilityAboveLine: drawn.get(row.proposalId)?.probabilityAboveLine ?? null,
-  }));
+  // the page needs each row's interval, not the grades the bootstrap drew from; a proposal this
+  // chair is conflicted on shows its hours, not its grades
+  const proposals = withholdConflicted(
+    board.proposals.map((row) => ({
+      ...row,
+      rankInterval: drawn.get(row.proposalId)?.rankInterval ?? null,
+      probabilityAboveLine: drawn.get(row.proposalId)?.probabilityAboveLine ?? null,
+    })),
+    conflicts,
+  )
+    .map(({ zScores: _z, ...row }) => ({ ...row, conflictReason: conflicts.get(row.proposalId)?.reason ?? null }))
+    .sort((a, b) => Number(a.withheld !== null) - Number(b.withheld !== null)); // their place would tell their grades
   return { board: { ...board, proposals }, uncertainty: { reproducibility, coinFlip }, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })), semesterCheck, raPressure, owed };
 }
 
 type Row = Route.ComponentProps["loaderData"]["board"]["proposals"][number];
 const column = createColumnHelper<Row>();
+
+/** In place of a conflicted proposal's grades: the message in full, or one word with it as the tooltip. */
+function Withheld({ short = false }: { short?: boolean }) {
+  return short ? <span className="text-xs text-amber-900" title={CONFLICT_WITHHELD}>withheld</span> : <span className="text-xs text-amber-900">{CONFLICT_WITHHELD}</span>;
+}
 
 export default function RankingBoard({ loaderData }: Route.ComponentProps) {
   const { board, uncertainty, telescopes, semesterCheck, raPressure, owed } = loaderData;
@@ -110,6 +123,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
   const moveRefused = actionData && !actionData.ok && actionData.intent === "move";
   const { call } = board;
   const handSet = board.proposals.filter((p) => p.allocatedByHand);
+  const conflicted = board.proposals.filter((p) => p.withheld !== null);
   const telescopeName = (id: number) => telescopes.find((t) => t.id === id)?.name ?? `telescope ${id}`;
   const [sorting, setSorting] = useState<SortingState>([{ id: "computedRank", desc: false }]);
   // the last semester check's outcome per programme, in the table beside the allocation
@@ -141,7 +155,8 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
         header: "Rank (68 %)",
         sortUndefined: "last",
         cell: (c) => {
-          const { rankInterval } = c.row.original;
+          const { rankInterval, withheld } = c.row.original;
+          if (withheld) return <span data-testid={`withheld-${c.row.original.proposalId}`}><Withheld /></span>;
           const rank = c.getValue();
           if (rank === undefined || !rankInterval) return NONE;
           return (
@@ -157,6 +172,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
         sortUndefined: "last",
         cell: (c) => {
           const p = c.getValue();
+          if (c.row.original.withheld) return <Withheld short />;
           if (p === null) return c.row.original.computedRank === null ? NONE : <span className="text-xs text-slate-600" title="It asks no hours of this semester">no hours</span>;
           return <span className="whitespace-nowrap" data-testid={`above-${c.row.original.proposalId}`}>{Math.round(p * 100)} %{inCoinFlipBand(p) ? <span className="ml-1 rounded bg-amber-200 px-1 text-xs text-amber-950">coin flip</span> : null}</span>;
         },
@@ -170,20 +186,20 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
       column.accessor("title", { header: "Title" }),
       column.accessor((r) => (r.category ? scienceCategoryLabel(r.category) : ""), { id: "category", header: "Category" }),
       column.accessor((r) => r.piInstitution ?? "", { id: "institution", header: "PI institution" }),
-      column.accessor("reviews", { header: "Reviews" }),
+      column.accessor("reviews", { header: "Reviews", cell: (c) => (c.row.original.withheld ? <Withheld short /> : c.getValue()) }),
       ...(board.proposals.some((r) => r.reviewDuty) ? [column.accessor((r) => (r.reviewDuty?.late ? 1 : 0), { id: "reviewDuty", header: "Team's reviews", cell: (c) => <ReviewDutyBadge duty={c.row.original.reviewDuty} withheld={c.row.original.rankWithheld} /> })] : []),
-      column.accessor("rawMean", { header: "Raw mean", cell: (c) => fixed(c.getValue(), 2) }),
+      column.accessor("rawMean", { header: "Raw mean", cell: (c) => (c.row.original.withheld ? <Withheld short /> : fixed(c.getValue(), 2)) }),
       column.accessor("normalisedScore", {
         header: "Normalised",
-        cell: (c) => (
-          <span>
+        cell: (c) => c.row.original.withheld ? <span data-testid={`normalised-withheld-${c.row.original.proposalId}`}><Withheld /></span> : (
+          <span data-testid={`normalised-${c.row.original.proposalId}`}>
             {fixed(c.getValue(), 2)}
             {c.row.original.fallbackReviewerIds.length ? <span className="ml-1 text-xs text-amber-800" title="Some of its reviewers graded too few proposals, or gave one grade to all, and are placed on the panel's scale">({c.row.original.fallbackReviewerIds.length} on panel scale)</span> : null}
           </span>
         ),
       }),
-      column.accessor("spread", { header: "Spread (σ)", cell: (c) => fixed(c.getValue(), 2) }),
-      column.accessor("disagreement", { header: "Reviewers", cell: (c) => (c.getValue() ? <span className="rounded bg-amber-100 px-1.5 py-0.5 text-amber-900">disagree</span> : "agree") }),
+      column.accessor("spread", { header: "Spread (σ)", cell: (c) => (c.row.original.withheld ? <Withheld short /> : fixed(c.getValue(), 2)) }),
+      column.accessor("disagreement", { header: "Reviewers", cell: (c) => (c.row.original.withheld ? <Withheld short /> : c.getValue() ? <span className="rounded bg-amber-100 px-1.5 py-0.5 text-amber-900">disagree</span> : "agree") }),
       column.accessor((r) => hours(r, true), { id: "hoursThis", header: `Requested ${call.semesterCode}`, cell: (c) => requestedCell(c.row.original, c.getValue(), true) }),
       column.accessor((r) => hours(r, false), { id: "hoursLater", header: "Requested later", cell: (c) => requestedCell(c.row.original, c.getValue(), false) }),
       column.accessor((r) => r.tier ?? "", {
@@ -309,7 +325,7 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
               <Field label="Move proposal" id="moveProposal" error={err("proposalId")}>
                 <select id="moveProposal" aria-invalid={err("proposalId") ? true : undefined} aria-describedby={err("proposalId") ? "moveProposal-error" : undefined} name="proposalId" className="input" defaultValue={moveRefused ? typed("proposalId") : ""}>
                   <option value="">Choose…</option>
-                  {board.proposals.map((p) => <option key={p.proposalId} value={p.proposalId}>{p.code} {p.title}</option>)}
+                  {board.proposals.map((p) => <option key={p.proposalId} value={p.proposalId} disabled={p.withheld !== null}>{p.code} {p.title}{p.withheld ? " (you have a conflict)" : ""}</option>)}
                 </select>
               </Field>
               <Field label="To position (empty = computed)" id="moveRank" error={err("chairRank")}>
@@ -320,6 +336,11 @@ export default function RankingBoard({ loaderData }: Route.ComponentProps) {
               </Field>
               <button className="btn" disabled={busy}>Move</button>
             </Form>
+            {conflicted.length ? (
+              <p className="text-sm text-amber-900" data-testid="move-conflicts">
+                You cannot move {conflicted.map((p) => `${p.code ?? `#${p.proposalId}`} (${p.conflictReason})`).join(", ")}: you have a conflict on {conflicted.length === 1 ? "this proposal" : "these proposals"}, so {conflicted.length === 1 ? "its" : "their"} grades are withheld from you and another chair decides {conflicted.length === 1 ? "its" : "their"} place and hours. Fill by rank places {conflicted.length === 1 ? "it" : "them"} by the computed rank only.
+              </p>
+            ) : null}
           </div>
         )}
       </section>

@@ -6,6 +6,6 @@ import type { Route } from "./+types/committee.$callId.ranked-list[.csv]";
 
 /** The ranked list as CSV, in the board's order (chair). */
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireRole(request, "chair");
-  return csvDownload(rankedListCsv({ callId: idParam(params.callId, "call") }));
+  const user = await requireRole(request, "chair");
+  return csvDownload(rankedListCsv({ callId: idParam(params.callId, "call"), chair: user }));
 }

@@ -21,9 +21,9 @@ export function meta({ data: d }: Route.MetaArgs) {
 
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireRole(request, "chair");
+  const user = await requireRole(request, "chair");
   const callId = idParam(params.callId, "call");
-  const [board, candidates, timeZone, teams] = await orNotFound(Promise.all([reviewBoard({ callId }), reviewerCandidates(), observatoryTimeZone(), teamRevealState({ callId })]));
+  const [board, candidates, timeZone, teams] = await orNotFound(Promise.all([reviewBoard({ callId, viewer: user }), reviewerCandidates(), observatoryTimeZone(), teamRevealState({ callId })]));
   return { board, candidates, timeZone, teams, now: new Date().toISOString() };
 }
 
@@ -214,7 +214,8 @@ export default function CallReviewPage({ loaderData }: Route.ComponentProps) {
               <h3 className="font-semibold">
                 <Link to={`/review/${p.proposalId}`}>{p.code ?? `#${p.proposalId}`} · {p.title}</Link>
               </h3>
-              <p className="text-sm text-slate-600">{scienceCategoryLabel(p.category) ?? "no category"} · {board.teamsHidden ? "team hidden" : `PI at ${p.piInstitution ?? "?"}`} · {done.length}/{rows.filter((a) => a.status !== "conflict").length} submitted{mean !== null ? ` · mean overall ${mean.toFixed(2)}` : ""}</p>
+              <p className="text-sm text-slate-600">{scienceCategoryLabel(p.category) ?? "no category"} · {board.teamsHidden ? "team hidden" : `PI at ${p.piInstitution ?? "?"}`}{p.withheld ? "" : ` · ${done.length}/${rows.filter((a) => a.status !== "conflict").length} submitted${mean !== null ? ` · mean overall ${mean.toFixed(2)}` : ""}`}</p>
+              {p.withheld ? <p className="text-sm text-amber-900" data-testid={`progress-withheld-${p.proposalId}`}>Reviewers, grades and comments {p.withheld} ({p.conflictReason}); another chair follows its review.</p> : null}
               <ul className="mt-1 space-y-1">
                 {rows.map((a) => (
                   <li key={a.assignmentId} className="text-sm">

@@ -9,9 +9,10 @@ import { requireUser } from "~/lib/auth/auth.server";
 import { memberRoleLabels, scienceCategoryLabel } from "~/lib/proposals/vocabulary";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { reviewBoard } from "~/lib/review/chair.server";
+import { chairConflicts } from "~/lib/review/chair-conflicts.server";
 import { declareConflict, reopenMyReview, reviewForProposal, saveGrade } from "~/lib/review/desk.server";
 import { committeeAccess, committeeReading } from "~/lib/review/read.server";
-import { reviewStatusLabels } from "~/lib/review/vocabulary";
+import { CONFLICT_WITHHELD, reviewStatusLabels } from "~/lib/review/vocabulary";
 import { conflictSchema, gradeSchema } from "~/lib/schemas/review";
 import { fixed, formatUtc } from "~/lib/format";
 import type { Route } from "./+types/review.$proposalId";
@@ -55,14 +56,16 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   if (access.as === "reviewer") {
     // the page gets the review, not the proposal and call records behind it (their ids name the PI's account)
     const { proposal: _proposal, call: _call, ...review } = await orNotFound(reviewForProposal({ user, proposalId }));
-    return { ...base, as: "reviewer" as const, review, reviews: null };
+    return { ...base, as: "reviewer" as const, review, reviews: null, reviewsWithheld: null };
   }
   // the chair reads every review of the proposal, committee comments included
-  const board = await orNotFound(reviewBoard({ callId: access.call.id }));
+  // (none on a proposal this chair is conflicted on: `reviewsWithheld` says so)
+  const board = await orNotFound(reviewBoard({ callId: access.call.id, viewer: user }));
   const reviews = board.assignments
     .filter((a) => a.proposalId === proposalId)
     .map((a) => ({ ...a, reviewer: board.panel.find((r) => r.reviewerId === a.reviewerId)?.name ?? `user ${a.reviewerId}` }));
-  return { ...base, as: "chair" as const, review: null, reviews };
+  const reviewsWithheld = (await chairConflicts({ callId: access.call.id, chair: user })).has(proposalId) ? CONFLICT_WITHHELD : null;
+  return { ...base, as: "chair" as const, review: null, reviews, reviewsWithheld };
 }
 
 /** The grade as a draft or as a submission: the button decides, never a field of the form. */
@@ -98,7 +101,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function ReviewProposal({ loaderData }: Route.ComponentProps) {
-  const { reading, feasibility, review, reviews, as } = loaderData;
+  const { reading, feasibility, review, reviews, reviewsWithheld, as } = loaderData;
   const actionData = useActionData<ReviewAnswer>();
   const navigation = useNavigation();
   const p = reading.proposal;
@@ -193,7 +196,7 @@ export default function ReviewProposal({ loaderData }: Route.ComponentProps) {
       {reviews ? (
         <section className="card space-y-2">
           <h2>Reviews</h2>
-          {reviews.length === 0 ? <p>No reviewer is assigned yet.</p> : null}
+          {reviewsWithheld ? <p className="text-amber-900" data-testid="reviews-withheld">Reviews and reviewers {reviewsWithheld}.</p> : reviews.length === 0 ? <p>No reviewer is assigned yet.</p> : null}
           {reviews.map((r) => (
             <div key={r.assignmentId} className="border-t border-slate-200 pt-2">
               <p><strong>{r.reviewer}</strong> · {reviewStatusLabels[r.status]}{r.status === "submitted" ? ` · science ${r.science}, feasibility ${r.feasibility}, legacy ${r.legacy}, overall ${r.overall}` : ""}</p>

@@ -6,6 +6,7 @@ import type { z } from "zod";
 import { runningTotals, type CellTotals } from "~/lib/allocation/running-totals";
 import type { SheetColumn, SheetRow } from "~/lib/allocation/sheet.server";
 import { allocationTiers } from "~/lib/domain";
+import { CONFLICT_WITHHELD } from "~/lib/review/vocabulary";
 import { NONE } from "~/lib/format";
 import { allocationSheetSchema } from "~/lib/schemas/allocation";
 
@@ -21,16 +22,19 @@ const hoursOf = (v: unknown) => {
 };
 
 function defaults(rows: SheetRow[], started: boolean): SheetForm {
-  // Before anything is saved the proposal is the requested hours; afterwards, what was saved.
-  const value = (c: SheetRow["cells"][number]) => String(started ? c.allocatedHours : c.requestedHours);
+  // Before anything is saved the proposal is the requested hours; afterwards, what was saved. A row
+  // the chair is conflicted on is sent back as stored (the server refuses any change to it).
   return {
     intent: "save",
-    rows: rows.map((r) => ({
+    rows: rows.map((r) => {
+      const value = (c: SheetRow["cells"][number]) => String(started || r.conflictReason ? c.allocatedHours : c.requestedHours);
+      return {
       proposalId: r.proposalId,
       tier: r.tier ?? "",
       waitlisted: r.waitlisted,
       cells: [...r.cells, ...r.laterCells].map((c) => ({ telescopeId: c.telescopeId, moonCategory: c.moonCategory, semesterCode: c.semesterCode, hours: value(c) })),
-    })),
+      };
+    }),
   };
 }
 
@@ -147,7 +151,7 @@ export function AllocationSheet({
                   <td>
                     {row.position}
                     <span className="block text-xs text-slate-600">
-                      computed {row.computedRank ?? NONE}
+                      computed {row.conflictReason ? CONFLICT_WITHHELD : (row.computedRank ?? NONE)}
                       {row.chairRank !== null ? <span title={row.chairRankReason ?? undefined}> · chair {row.chairRank}</span> : null}
                     </span>
                   </td>
@@ -155,12 +159,29 @@ export function AllocationSheet({
                     <span className="font-medium">{row.code}</span> {row.title}
                     {row.allocatedByHand ? <span className="block text-xs text-slate-600" data-testid={`by-hand-${row.proposalId}`}>set by hand: fill by rank keeps it</span> : null}
                     {row.requestedError ? <span className="block text-xs text-red-800">{row.requestedError}</span> : null}
+                    {row.conflictReason ? (
+                      <span className="block text-xs text-amber-900" data-testid={`conflict-${row.proposalId}`}>
+                        You have a conflict on this proposal ({row.conflictReason}): its hours, tier and waitlist are another chair's to set.
+                      </span>
+                    ) : null}
                     {row.notOffered.length ? (
                       <span className="block text-xs text-amber-800">
                         Also requests time this call does not offer: {row.notOffered.map((c) => `${h(c.hours)} h ${columnName(c)} ${c.semesterCode}`).join(", ")}
                       </span>
                     ) : null}
                   </td>
+                  {row.conflictReason ? (
+                    <>
+                      {/* not registered: the form sends the stored values (its defaults) */}
+                      <td>
+                        <select aria-label={`Tier of ${row.code}`} className="input w-28 cursor-not-allowed bg-slate-100 text-slate-500" disabled value={row.tier ?? ""} onChange={() => undefined}>
+                          <option value="">none</option>
+                          {allocationTiers.map((t) => <option key={t} value={t}>{t}</option>)}
+                        </select>
+                      </td>
+                      <td><input type="checkbox" aria-label={`Waitlist ${row.code}`} disabled checked={row.waitlisted} onChange={() => undefined} /></td>
+                    </>
+                  ) : (<>
                   <td>
                     <select
                       aria-label={`Tier of ${row.code}`}
@@ -180,20 +201,25 @@ export function AllocationSheet({
                     <input type="checkbox" aria-label={`Waitlist ${row.code}`} disabled={locked} defaultChecked={row.waitlisted} {...register(`rows.${i}.waitlisted`)} />
                     {error(`rows.${i}.waitlisted`) ? <p role="alert" className="field-error">{error(`rows.${i}.waitlisted`)}</p> : null}
                   </td>
+                  </>)}
                   {row.cells.map((c, j) => {
                     const t = totals[j];
                     const path = `rows.${i}.cells.${j}.hours` as const;
                     return (
                       <td key={j} className={`text-right ${t && over(t, i) ? "bg-red-50" : ""}`}>
-                        <input
-                          aria-label={`${row.code} ${columnName(c)} hours`}
-                          inputMode="decimal"
-                          className="input w-20 text-right"
-                          disabled={locked}
-                          defaultValue={initialHours(i, j)}
-                          aria-invalid={error(path) ? true : undefined}
-                          {...register(path)}
-                        />
+                        {row.conflictReason ? (
+                          <input aria-label={`${row.code} ${columnName(c)} hours`} inputMode="decimal" className="input w-20 cursor-not-allowed bg-slate-100 text-right text-slate-500" disabled value={initialHours(i, j)} onChange={() => undefined} />
+                        ) : (
+                          <input
+                            aria-label={`${row.code} ${columnName(c)} hours`}
+                            inputMode="decimal"
+                            className="input w-20 text-right"
+                            disabled={locked}
+                            defaultValue={initialHours(i, j)}
+                            aria-invalid={error(path) ? true : undefined}
+                            {...register(path)}
+                          />
+                        )}
                         <span className="block text-xs text-slate-600">requested {h(c.requestedHours)}</span>
                         <span className="block text-xs" data-testid={`running-${row.proposalId}-${c.telescopeId}-${c.moonCategory}`}>Σ {h(t?.runningHours[i] ?? 0)}</span>
                         {error(path) ? <p role="alert" className="field-error">{error(path)}</p> : null}
@@ -208,7 +234,11 @@ export function AllocationSheet({
                       return (
                         <label key={j} className="mb-1 block text-xs">
                           {c.semesterCode} {columnName(c)} (requested {h(c.requestedHours)})
-                          <input inputMode="decimal" className="input ml-1 inline-block w-20 text-right" disabled={locked} defaultValue={initialHours(i, j)} aria-invalid={error(path) ? true : undefined} {...register(path)} />
+                          {row.conflictReason ? (
+                            <input inputMode="decimal" className="input ml-1 inline-block w-20 cursor-not-allowed bg-slate-100 text-right text-slate-500" disabled value={initialHours(i, j)} onChange={() => undefined} />
+                          ) : (
+                            <input inputMode="decimal" className="input ml-1 inline-block w-20 text-right" disabled={locked} defaultValue={initialHours(i, j)} aria-invalid={error(path) ? true : undefined} {...register(path)} />
+                          )}
                           {error(path) ? <span role="alert" className="field-error block">{error(path)}</span> : null}
                         </label>
                       );

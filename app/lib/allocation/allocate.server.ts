@@ -6,6 +6,7 @@ import { Op, type Transaction } from "sequelize";
 import { writeAudit } from "~/lib/audit.server";
 import type { AllocationTier, MoonCategory } from "~/lib/domain";
 import { callNotFound } from "~/lib/review/chair.server";
+import { chairConflicts, conflictRefusal, refuseConflicted } from "~/lib/review/chair-conflicts.server";
 import { Allocation, AuditEntry, BoardEntry, Call, CallAllocation, CallOffer, DecisionLetter, Proposal, sequelize } from "~/models/index.server";
 import { BOARD_STATES, callBoard } from "./board.server";
 import { boardOrder, fillByRank } from "./fill";
@@ -62,9 +63,10 @@ export async function moveOnBoard({ actor, callId, proposalId, chairRank, reason
   return sequelize.transaction(async (transaction) => {
     await openAllocation(callId, transaction);
     const proposal = await boardProposal(callId, proposalId, transaction);
+    refuseConflicted(await chairConflicts({ callId, chair: actor, transaction }), [proposalId], "move it on the board");
     const [entry] = await BoardEntry.findOrCreate({ where: { proposalId }, defaults: { callId, proposalId, chairRank: null, chairRankReason: null, tier: null }, transaction });
     const from = entry.chairRank;
-    await entry.update({ chairRank, chairRankReason: chairRank === null ? null : reason }, { transaction });
+    await entry.update({ chairRank, chairRankReason: chairRank === null ? null : reason, chairRankById: chairRank === null ? null : actor.id }, { transaction });
     await writeAudit({ actorId: actor.id, action: "board.rank_moved", entityType: "proposal", entityId: proposal.id, proposalId: proposal.id, details: { from, to: chairRank, reason } }, transaction);
     return { proposalId, chairRank };
   });
@@ -113,8 +115,28 @@ export async function saveAllocation({ actor, callId, rows, tiers, basedOn, by =
       if (seen.has(key)) throw new Refusal("The same proposal, telescope, moon category and semester appear twice.", { status: 400, field: `rows.${i}` });
       seen.add(key);
     }
-    // as on the page: hours need a tier and rule out the waitlist (a tier not sent stays as stored)
     const stored = new Map((await BoardEntry.findAll({ where: { proposalId: { [Op.in]: proposalIds.length ? proposalIds : [0] } }, transaction })).map((e) => [e.proposalId as number, e]));
+    const before = await Allocation.findAll({ where: { callId, proposalId: { [Op.in]: proposalIds.length ? proposalIds : [0] } }, transaction });
+    const kept = rows.filter((r) => r.hours > 0);
+    const changesOf = (id: number) => {
+      const entry = stored.get(id);
+      const given = tiers.find((t) => t.proposalId === id);
+      return {
+        tier: given !== undefined && given.tier !== (entry?.tier ?? null),
+        waitlist: given?.waitlisted !== undefined && given.waitlisted !== (entry?.waitlisted ?? false),
+        hours: hoursText(before.filter((a) => a.proposalId === id).map((a) => ({ ...a.get(), telescopeId: a.telescopeId as number }))) !== hoursText(kept.filter((r) => r.proposalId === id)),
+      };
+    };
+    if (by === "hand") {
+      // a conflicted chair's sheet carries the proposal as stored; any change to it is refused
+      const conflicts = await chairConflicts({ callId, chair: actor, transaction });
+      for (const id of proposalIds) {
+        const c = conflicts.get(id);
+        const changed = c ? changesOf(id) : null;
+        if (c && changed && (changed.tier || changed.waitlist || changed.hours)) throw conflictRefusal(c, "change its hours, tier or waitlist", `${pathOf(id)}.proposalId`);
+      }
+    }
+    // as on the page: hours need a tier and rule out the waitlist (a tier not sent stays as stored)
     for (const [i, row] of rows.entries()) {
       if (row.hours <= 0) continue;
       const given = tiers.find((t) => t.proposalId === row.proposalId);
@@ -123,20 +145,19 @@ export async function saveAllocation({ actor, callId, rows, tiers, basedOn, by =
       if (tier === null) throw new Refusal(`Proposal ${row.proposalId} has hours but no tier: give it assured, queue or filler.`, { status: 400, field: `rows.${i}.hours` });
       if (waitlisted) throw new Refusal(`Proposal ${row.proposalId} is waitlisted, so it has no hours: set them to 0 or take it off the waitlist.`, { status: 400, field: `rows.${i}.hours` });
     }
-    const before = await Allocation.findAll({ where: { callId, proposalId: { [Op.in]: proposalIds.length ? proposalIds : [0] } }, transaction });
     await Allocation.destroy({ where: { callId, proposalId: { [Op.in]: proposalIds.length ? proposalIds : [0] } }, transaction });
-    const kept = rows.filter((r) => r.hours > 0);
     if (kept.length) await Allocation.bulkCreate(kept.map((r) => ({ ...r, callId })), { transaction });
     for (const id of proposalIds) {
       const entry = stored.get(id);
       const given = tiers.find((t) => t.proposalId === id);
-      const tierChanged = given !== undefined && given.tier !== (entry?.tier ?? null);
-      const waitlistChanged = given?.waitlisted !== undefined && given.waitlisted !== (entry?.waitlisted ?? false);
-      const hoursChanged = hoursText(before.filter((a) => a.proposalId === id).map((a) => ({ ...a.get(), telescopeId: a.telescopeId as number }))) !== hoursText(kept.filter((r) => r.proposalId === id));
-      const byHand = by === "fill" ? false : tierChanged || waitlistChanged || hoursChanged || (entry?.allocatedByHand ?? false);
-      if (!given && byHand === (entry?.allocatedByHand ?? false)) continue;
+      const changed = changesOf(id);
+      const changedNow = changed.tier || changed.waitlist || changed.hours;
+      const byHand = by === "fill" ? false : changedNow || (entry?.allocatedByHand ?? false);
+      if (!given && byHand === (entry?.allocatedByHand ?? false) && !(byHand && changedNow)) continue;
+      // the setter is whoever changed it last by hand; an unchanged row keeps its setter
+      const byHandById = !byHand ? null : changedNow ? actor.id : (entry?.allocatedByHandById ?? null);
       const [row] = entry ? [entry] : await BoardEntry.findOrCreate({ where: { proposalId: id }, defaults: { callId, proposalId: id, chairRank: null, chairRankReason: null, tier: null }, transaction });
-      await row.update({ ...(given ? { tier: given.tier, ...(given.waitlisted === undefined ? {} : { waitlisted: given.waitlisted }) } : {}), allocatedByHand: byHand }, { transaction });
+      await row.update({ ...(given ? { tier: given.tier, ...(given.waitlisted === undefined ? {} : { waitlisted: given.waitlisted }) } : {}), allocatedByHand: byHand, allocatedByHandById: byHandById }, { transaction });
     }
     await writeAudit({ actorId: actor.id, action: "allocation.saved", entityType: "call", entityId: callId, details: { proposals: proposalIds, rows: kept.length, hours: kept.reduce((s, r) => s + r.hours, 0) } }, transaction);
     return { proposals: proposalIds.length, rows: kept.length };
@@ -183,23 +204,30 @@ export async function unlockAllocation({ actor, callId, reason }: { actor: Chair
 /**
  * Fill by rank (see `fill.ts`) over the board's order, saved as the allocation to edit from. The
  * proposals the chair set by hand are kept as they are (their hours counted in the budgets) unless
- * `replaceHandSet`, the chair's explicit choice to fill those too.
+ * `replaceHandSet`, the chair's explicit choice to fill those too. On a proposal the acting chair
+ * is conflicted on, only what someone else set counts: a position or hand-set hours of this chair
+ * (or of nobody known) are ignored and it is filled by its computed rank, and another chair's
+ * hand-set hours stay even with `replaceHandSet`.
  */
 export async function fillAllocationByRank({ actor, callId, replaceHandSet = false }: { actor: Chair; callId: number; replaceHandSet?: boolean }) {
-  const board = await callBoard({ callId });
+  const [board, conflicts, entries] = await Promise.all([callBoard({ callId }), chairConflicts({ callId, chair: actor }), BoardEntry.findAll({ where: { callId } })]);
   if (board.locked) throw lockedRefusal(); // before computing the fill; saveAllocation checks again under the row lock
   const settings = await CallAllocation.findOne({ where: { callId } });
+  const entryOf = new Map(entries.map((e) => [e.proposalId as number, e]));
+  const setByOther = (id: number, by: number | null | undefined) => !conflicts.has(id) || (by !== null && by !== undefined && by !== actor.id);
+  const rows = board.proposals.map((p) => (p.chairRank !== null && !setByOther(p.proposalId, entryOf.get(p.proposalId)?.chairRankById) ? { ...p, chairRank: null } : p));
+  const handSet = (p: (typeof rows)[number]) => p.allocatedByHand && setByOther(p.proposalId, entryOf.get(p.proposalId)?.allocatedByHandById);
+  const keep = (p: (typeof rows)[number]) => handSet(p) && (!replaceHandSet || conflicts.has(p.proposalId));
   const filled = fillByRank({
     semesterCode: board.call.semesterCode,
     offered: board.oversubscription.map((o) => ({ telescopeId: o.telescopeId, moonCategory: o.moonCategory, hours: o.offeredHours })),
     assuredShareLimit: settings?.assuredShareLimit ?? 0.8,
     fillerMargin: settings?.fillerMargin ?? 0.3,
-    ranked: boardOrder(board.proposals).filter((p) => replaceHandSet || !p.allocatedByHand).map((p) => ({ proposalId: p.proposalId, requested: p.requested })),
-    kept: replaceHandSet ? [] : board.proposals.filter((p) => p.allocatedByHand).map((p) => ({ proposalId: p.proposalId, tier: p.tier, allocated: p.allocation })),
+    ranked: boardOrder(rows).filter((p) => !keep(p)).map((p) => ({ proposalId: p.proposalId, requested: p.requested })),
+    kept: rows.filter(keep).map((p) => ({ proposalId: p.proposalId, tier: p.tier, allocated: p.allocation })),
   });
-  const rows = filled.flatMap((f) => f.rows.map((r) => ({ proposalId: f.proposalId, ...r })));
+  const saveRows = filled.flatMap((f) => f.rows.map((r) => ({ proposalId: f.proposalId, ...r })));
   // a proposal the fill gives hours comes off the waitlist; one left without keeps its flag
-  const saved = await saveAllocation({ actor, callId, rows, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier, ...(f.tier === null ? {} : { waitlisted: false }) })), by: "fill" });
-  const kept = replaceHandSet ? [] : board.proposals.filter((p) => p.allocatedByHand).map((p) => p.proposalId);
-  return { ...saved, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier })), kept };
+  const saved = await saveAllocation({ actor, callId, rows: saveRows, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier, ...(f.tier === null ? {} : { waitlisted: false }) })), by: "fill" });
+  return { ...saved, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier })), kept: rows.filter(keep).map((p) => p.proposalId) };
 }

@@ -7,6 +7,8 @@ import { moonCategories, type MoonCategory } from "~/lib/domain";
 import { computeFeasibilitySheets, type FeasibilitySheet } from "~/lib/proposals/feasibility.server";
 import { blankTeamsUntilRevealed } from "~/lib/review/anonymity.server";
 import { callNotFound } from "~/lib/review/chair.server";
+import type { ChairConflicts } from "~/lib/review/chair-conflicts.server";
+import { CONFLICT_WITHHELD } from "~/lib/review/vocabulary";
 import { Allocation, BoardEntry, Call, CallAllocation, CallOffer, Proposal, ReviewAssignment, User } from "~/models/index.server";
 import { applyReviewDuty, reviewDuties, type ReviewDuty } from "~/lib/review/duty.server";
 import { normaliseGrades } from "./normalise";
@@ -137,4 +139,50 @@ export async function callBoard({ callId, sheets }: { callId: number; sheets?: M
     proposals: await blankTeamsUntilRevealed(callId, rows), // dual-anonymous: no PI institution before the reveal
     oversubscription,
   };
+}
+
+export type BoardRow = Awaited<ReturnType<typeof callBoard>>["proposals"][number];
+
+type Scored = { reviews: number; rawMean: number | null; normalisedScore: number | null; normalisedZ: number | null; zScores: number[]; spread: number | null; disagreement: boolean; fallbackReviewerIds: number[]; computedRank: number | null };
+/** `R`'s own `rankInterval` and `probabilityAboveLine`, when it has them, must admit null. */
+export type WithheldRow<R> = Omit<R, keyof Scored> & {
+  reviews: number | null;
+  rawMean: number | null;
+  normalisedScore: number | null;
+  normalisedZ: number | null;
+  zScores: number[];
+  spread: number | null;
+  disagreement: boolean | null;
+  fallbackReviewerIds: number[];
+  computedRank: number | null;
+  /** the conflicted chair's message in place of the grades and what follows from them; null otherwise */
+  withheld: string | null;
+};
+
+/**
+ * The board's rows as a chair with `conflicts` may read them: a conflicted proposal keeps its code,
+ * title, requested and allocated hours, tier and position, and loses its grades, scores, computed
+ * rank (it follows from them) and bootstrap figures. Apply after the numbers that need every
+ * grade (the bootstrap, fill by rank) are computed.
+ */
+export function withholdConflicted<R extends Scored & { proposalId: number }>(rows: readonly R[], conflicts: ChairConflicts): WithheldRow<R>[] {
+  return rows.map((row) => {
+    if (!conflicts.has(row.proposalId)) return { ...row, withheld: null } as WithheldRow<R>;
+    const out: Record<string, unknown> = {
+      ...row,
+      reviews: null,
+      rawMean: null,
+      normalisedScore: null,
+      normalisedZ: null,
+      zScores: [],
+      spread: null,
+      disagreement: null,
+      fallbackReviewerIds: [],
+      computedRank: null,
+      withheld: CONFLICT_WITHHELD,
+    };
+    if ("rankInterval" in row) out.rankInterval = null;
+    if ("probabilityAboveLine" in row) out.probabilityAboveLine = null;
+    return out as WithheldRow<R>;
+  });
 }

@@ -7,7 +7,8 @@ import { createEvents, type EventAttributes } from "ics";
 import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
 import { notFound } from "~/lib/proposals/proposals.server";
 import { Proposal, Telescope } from "~/models/index.server";
-import { BOARD_STATES, callBoard } from "./board.server";
+import { chairConflicts } from "~/lib/review/chair-conflicts.server";
+import { BOARD_STATES, callBoard, withholdConflicted } from "./board.server";
 import { boardOrder } from "./fill";
 
 const num = (x: number | null, digits: number) => (x === null ? "" : x.toFixed(digits));
@@ -24,27 +25,24 @@ async function telescopeNames() {
   return new Map((await Telescope.findAll({ attributes: ["id", "name"] })).map((t) => [t.id, t.name]));
 }
 
-/** One line per proposal in the board's order. */
-export async function rankedListCsv({ callId }: { callId: number }): Promise<{ filename: string; csv: string }> {
-  const board = await callBoard({ callId });
+/** One line per proposal in the board's order; on a proposal `chair` is conflicted on, the grades' columns say they are withheld. */
+export async function rankedListCsv({ callId, chair }: { callId: number; chair: { id: number } }): Promise<{ filename: string; csv: string }> {
+  const [board, conflicts] = await Promise.all([callBoard({ callId }), chairConflicts({ callId, chair })]);
   const semester = board.call.semesterCode;
   const sum = (cells: { semesterCode: string; hours: number }[], here: boolean) => cells.filter((c) => (c.semesterCode === semester) === here).reduce((s, c) => s + c.hours, 0);
-  const rows = boardOrder(board.proposals).map((p, i) => [
+  const shown = new Map(withholdConflicted(board.proposals, conflicts).map((p) => [p.proposalId, p]));
+  const rows = boardOrder(board.proposals).map((full) => shown.get(full.proposalId)!).map((p, i) => [
     i + 1,
-    p.computedRank ?? "",
+    p.withheld ?? p.computedRank ?? "",
     p.chairRank ?? "",
     p.chairRankReason ?? "",
     p.code ?? "",
     p.title,
     p.category ?? "",
     p.piInstitution ?? "",
-    p.reviews,
-    num(p.rawMean, 3),
-    num(p.normalisedScore, 3),
-    num(p.normalisedZ, 3),
-    num(p.spread, 3),
-    p.disagreement ? "yes" : "no",
-    p.fallbackReviewerIds.length,
+    ...(p.withheld
+      ? Array<string>(7).fill(p.withheld)
+      : [p.reviews ?? "", num(p.rawMean, 3), num(p.normalisedScore, 3), num(p.normalisedZ, 3), num(p.spread, 3), p.disagreement ? "yes" : "no", p.fallbackReviewerIds.length]),
     p.requestedError ? "" : num(sum(p.requested, true), 2),
     p.requestedError ? "" : num(sum(p.requested, false), 2),
     p.tier ?? "",

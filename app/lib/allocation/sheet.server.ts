@@ -10,6 +10,7 @@ import { Telescope } from "~/models/index.server";
 import { allocationVersion, saveAllocation } from "./allocate.server";
 import { callBoard, type HoursCell } from "./board.server";
 import { boardOrder } from "./fill";
+import { chairConflicts } from "~/lib/review/chair-conflicts.server";
 
 export type SheetColumn = { telescopeId: number; telescopeName: string; moonCategory: MoonCategory; offeredHours: number; committedHours: number };
 export type SheetCell = { telescopeId: number; moonCategory: MoonCategory; semesterCode: string; requestedHours: number; allocatedHours: number };
@@ -32,12 +33,15 @@ export type SheetRow = {
   /** requested hours on time this call does not offer (shown, not allocatable) */
   notOffered: HoursCell[];
   requestedError: string | null;
+  /** the viewing chair is conflicted on it: why, shown beside its disabled controls (its computed rank is withheld) */
+  conflictReason: string | null;
 };
 
 const cellKey = (c: { telescopeId: number; moonCategory: string; semesterCode: string }) => `${c.telescopeId}|${c.moonCategory}|${c.semesterCode}`;
 
-export async function allocationSheet({ callId }: { callId: number }) {
-  const [board, telescopes, basedOn] = await Promise.all([callBoard({ callId }), Telescope.findAll({ attributes: ["id", "name"] }), allocationVersion(callId)]);
+/** The sheet as `chair` reads it: on a proposal they are conflicted on, no computed rank and no controls. */
+export async function allocationSheet({ callId, chair }: { callId: number; chair: { id: number } }) {
+  const [board, telescopes, basedOn, conflicts] = await Promise.all([callBoard({ callId }), Telescope.findAll({ attributes: ["id", "name"] }), allocationVersion(callId), chairConflicts({ callId, chair })]);
   const nameOf = new Map(telescopes.map((t) => [t.id, t.name]));
   const semester = board.call.semesterCode;
   const columns: SheetColumn[] = board.oversubscription.map((o) => ({
@@ -69,7 +73,7 @@ export async function allocationSheet({ callId }: { callId: number }) {
       proposalId: p.proposalId,
       code: p.code,
       title: p.title,
-      computedRank: p.computedRank,
+      computedRank: conflicts.has(p.proposalId) ? null : p.computedRank,
       chairRank: p.chairRank,
       chairRankReason: p.chairRankReason,
       tier: p.tier,
@@ -79,6 +83,7 @@ export async function allocationSheet({ callId }: { callId: number }) {
       laterCells,
       notOffered: p.requested.filter((r) => r.hours > 0 && !offered.has(`${r.telescopeId}|${r.moonCategory}`)),
       requestedError: p.requestedError,
+      conflictReason: conflicts.get(p.proposalId)?.reason ?? null,
     };
   });
   return { call: board.call, locked: board.locked, settings: board.settings, started, columns, rows, basedOn };

@@ -13,6 +13,7 @@ import { deadlinePassed } from "~/lib/call-phase";
 import { closedCallsWhere } from "~/lib/call-phase.server";
 import { Call, CallReview, Proposal, ReviewAssignment, ReviewPanelMember, RoleGrant, sequelize, User } from "~/models/index.server";
 import { conflictReasonWithoutTeam, HIDDEN_TEAM, teamHidden } from "./anonymity.server";
+import { chairConflicts, CONFLICT_WITHHELD, refuseConflicted } from "./chair-conflicts.server";
 import { pairKey, type Conflict } from "./conflicts";
 import { callFacts, type CallFacts } from "./facts.server";
 import { suggestAssignments } from "./suggest";
@@ -142,11 +143,16 @@ function loadsOf(facts: CallFacts, assignments: { reviewerId: number; status: st
   return facts.panel.map((r) => ({ reviewerId: r.reviewerId, count: assignments.filter((a) => a.reviewerId === r.reviewerId && a.status !== "conflict").length }));
 }
 
-/** Everything the assignment matrix and the progress page show; the chair reads all of it. */
-export async function reviewBoard({ callId }: { callId: number }) {
+/**
+ * Everything the assignment matrix and the progress page show, as `viewer` (a chair) may read it:
+ * on a proposal the viewer is conflicted on, no assignment, grade, comment or conflict (they would
+ * name its reviewers), and `withheld` says why.
+ */
+export async function reviewBoard({ callId, viewer }: { callId: number; viewer: { id: number } }) {
   const facts = await factsOrNotFound(callId);
-  const rows = await ReviewAssignment.findAll({ where: { callId }, order: [["id", "ASC"]] });
-  const assignments = rows.map((a) => ({
+  const [rows, mine] = await Promise.all([ReviewAssignment.findAll({ where: { callId }, order: [["id", "ASC"]] }), chairConflicts({ callId, chair: viewer })]);
+  const visible = (proposalId: number) => !mine.has(proposalId);
+  const assignments = rows.filter((a) => visible(a.proposalId as number)).map((a) => ({
     assignmentId: a.id,
     proposalId: a.proposalId as number,
     reviewerId: a.reviewerId as number,
@@ -180,21 +186,25 @@ export async function reviewBoard({ callId }: { callId: number }) {
       committedAt: facts.review?.committedAt?.toISOString() ?? null,
     },
     panel: facts.panel.map(({ email: _e, ...r }) => r),
-    proposals: hidesTeam(facts) ? facts.proposals.map((p) => ({ ...p, piInstitution: HIDDEN_TEAM })) : facts.proposals,
+    proposals: (hidesTeam(facts) ? facts.proposals.map((p) => ({ ...p, piInstitution: HIDDEN_TEAM })) : facts.proposals).map((p) => ({
+      ...p,
+      withheld: visible(p.proposalId) ? null : CONFLICT_WITHHELD,
+      conflictReason: mine.get(p.proposalId)?.reason ?? null,
+    })),
     teamsHidden: hidesTeam(facts),
     assignments,
-    conflicts: conflictList(facts),
+    conflicts: conflictList(facts).filter((c) => visible(c.proposalId)),
     loads: loadsOf(facts, assignments),
     submittedCount: await Proposal.count({ where: { callId, status: "submitted" } }),
   };
 }
 
 /** GET /api/v1/calls/:callId/review */
-export async function reviewState({ callId }: { callId: number }) {
-  const board = await reviewBoard({ callId });
+export async function reviewState({ callId, viewer }: { callId: number; viewer: { id: number } }) {
+  const board = await reviewBoard({ callId, viewer });
   return {
     panel: board.panel.map((r) => ({ reviewerId: r.reviewerId, name: r.name, institution: r.institution, categories: r.categories })),
-    proposals: board.proposals.map((p) => ({ proposalId: p.proposalId, code: p.code, category: p.category })),
+    proposals: board.proposals.map((p) => ({ proposalId: p.proposalId, code: p.code, category: p.category, withheld: p.withheld })),
     assignments: board.assignments.map((a) => ({ assignmentId: a.assignmentId, proposalId: a.proposalId, reviewerId: a.reviewerId, status: a.status })),
     conflicts: board.conflicts.map((c) => ({ proposalId: c.proposalId, reviewerId: c.reviewerId, reason: c.reason })),
     loads: board.loads,
@@ -206,8 +216,8 @@ export async function reviewState({ callId }: { callId: number }) {
  * call gives each designated reviewer the call's k proposals for each team that designated them
  * instead (`perProposal` is not used).
  */
-export async function suggestForCall({ callId, perProposal }: { callId: number; perProposal: number }) {
-  const facts = await factsOrNotFound(callId);
+export async function suggestForCall({ callId, perProposal, viewer }: { callId: number; perProposal: number; viewer: { id: number } }) {
+  const [facts, mine] = await Promise.all([factsOrNotFound(callId), chairConflicts({ callId, chair: viewer })]);
   const distributed = facts.call.reviewMode === "distributed";
   const result = suggestAssignments({
     proposals: facts.proposals.map((p) => ({ proposalId: p.proposalId, category: p.category })),
@@ -216,10 +226,12 @@ export async function suggestForCall({ callId, perProposal }: { callId: number; 
     perReviewer: distributed ? facts.call.reviewsPerSubmitter : undefined,
     isConflict: (p, r) => facts.conflicts.has(pairKey(p, r)),
   });
+  // a proposal the viewer is conflicted on: its reviewers are not theirs to see (the loads count without it)
+  const assignments = result.assignments.filter((a) => !mine.has(a.proposalId));
   return {
-    assignments: result.assignments,
-    loads: result.loads,
-    impossible: result.impossible,
+    assignments,
+    loads: result.loads.map((l) => ({ ...l, count: assignments.filter((a) => a.reviewerId === l.reviewerId).length })),
+    impossible: result.impossible.filter((x) => !mine.has(x.proposalId)),
     short: result.short,
     balanced: result.balanced,
     categoryMatches: result.categoryMatches,
@@ -266,6 +278,9 @@ export async function replaceAssignments({ actor, callId, pairs, commit = false,
     const review = await CallReview.findOne({ where: { callId }, transaction, lock: transaction.LOCK.UPDATE });
     const facts = await factsOrNotFound(callId, transaction);
     if (!review?.startedAt) throw new Refusal(`Put the proposals of ${facts.call.semesterCode} in review first.`, { status: 409 });
+    // the reviewers of a proposal this chair is conflicted on are another chair's to choose (and stay as they are)
+    const mine = await chairConflicts({ callId, chair: actor, transaction });
+    refuseConflicted(mine, pairs.map((p) => p.proposalId), "assign its reviewers", (i) => `assignments.${i}`);
     const seen = new Set<string>();
     pairs.forEach((p, i) => {
       checkPair(facts, p.proposalId, p.reviewerId, `assignments.${i}`);
@@ -275,7 +290,7 @@ export async function replaceAssignments({ actor, callId, pairs, commit = false,
     });
     const existing = await ReviewAssignment.findAll({ where: { callId }, transaction });
     const keep = new Set(existing.map((a) => pairKey(a.proposalId as number, a.reviewerId as number)));
-    const dropped = existing.filter((a) => a.status !== "conflict" && !seen.has(pairKey(a.proposalId as number, a.reviewerId as number)));
+    const dropped = existing.filter((a) => a.status !== "conflict" && !mine.has(a.proposalId as number) && !seen.has(pairKey(a.proposalId as number, a.reviewerId as number)));
     const worked = dropped.filter((a) => a.status === "draft" || a.status === "submitted");
     if (worked.length) {
       const a = worked[0];
@@ -325,6 +340,7 @@ async function assignmentOfCall(callId: number, assignmentId: number, transactio
 export async function reassign({ actor, callId, assignmentId, reviewerId, now = new Date() }: { actor: Chair; callId: number; assignmentId: number; reviewerId: number; now?: Date }) {
   return sequelize.transaction(async (transaction) => {
     const a = await assignmentOfCall(callId, assignmentId, transaction);
+    refuseConflicted(await chairConflicts({ callId, chair: actor, transaction }), [a.proposalId as number], "reassign its reviews", () => "assignmentId");
     if (a.status === "draft" || a.status === "submitted") throw new Refusal(`This review is ${a.status}; it cannot be moved to someone else.`, { status: 409, field: "reviewerId" });
     const facts = await factsOrNotFound(callId, transaction);
     checkPair(facts, a.proposalId as number, reviewerId, "reviewerId");
@@ -348,6 +364,7 @@ export async function reassign({ actor, callId, assignmentId, reviewerId, now = 
 export async function chairReopenReview({ actor, callId, assignmentId, now = new Date() }: { actor: Chair; callId: number; assignmentId: number; now?: Date }) {
   return sequelize.transaction(async (transaction) => {
     const a = await assignmentOfCall(callId, assignmentId, transaction);
+    refuseConflicted(await chairConflicts({ callId, chair: actor, transaction }), [a.proposalId as number], "reopen its reviews", () => "assignmentId");
     if (a.status === "conflict") throw new Refusal("The reviewer declared a conflict on this proposal; reassign it instead.", { status: 409, field: "assignmentId" });
     const until = new Date(now.getTime() + CHAIR_REOPEN_DAYS * 86_400_000);
     const from = a.status;
@@ -406,12 +423,17 @@ export async function remindReviewer({ actor, callId, reviewerId }: { actor: Cha
   });
 }
 
-/** GET /api/v1/calls/:callId/reviews: every submitted review with its scores (the ranking board's input). */
-export async function submittedReviews({ callId }: { callId: number }) {
+/**
+ * GET /api/v1/calls/:callId/reviews: every submitted review with its scores (the ranking board's
+ * input), except on the proposals `viewer` is conflicted on: those are listed in `withheld`.
+ */
+export async function submittedReviews({ callId, viewer }: { callId: number; viewer: { id: number } }) {
   const call = await Call.findByPk(callId);
   if (!call) callNotFound();
-  const rows = await ReviewAssignment.findAll({ where: { callId, status: "submitted" }, order: [["proposalId", "ASC"], ["reviewerId", "ASC"]] });
-  return rows.map((a) => ({
+  const [all, mine] = await Promise.all([ReviewAssignment.findAll({ where: { callId, status: "submitted" }, order: [["proposalId", "ASC"], ["reviewerId", "ASC"]] }), chairConflicts({ callId, chair: viewer })]);
+  const rows = all.filter((a) => !mine.has(a.proposalId as number));
+  const withheld = [...mine.values()].filter((c) => all.some((a) => a.proposalId === c.proposalId)).map((c) => ({ proposalId: c.proposalId, code: c.code, withheld: CONFLICT_WITHHELD }));
+  const reviews = rows.map((a) => ({
     assignmentId: a.id,
     proposalId: a.proposalId as number,
     reviewerId: a.reviewerId as number,
@@ -423,6 +445,7 @@ export async function submittedReviews({ callId }: { callId: number }) {
     commentToCommittee: a.commentToCommittee,
     submittedAt: a.submittedAt?.toISOString() ?? null,
   }));
+  return { reviews, withheld };
 }
 
 /** Whether this chair may read a proposal: anything past the draft stage (drafts and withdrawn ones stay private). */

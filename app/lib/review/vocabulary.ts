@@ -42,3 +42,6 @@ export const DEFAULT_REVIEWS_PER_SUBMITTER = 8;
 export const MAX_REVIEWS_PER_SUBMITTER = 30;
 export const HELPFULNESS_MIN = 1;
 export const HELPFULNESS_MAX = 5;
+
+/** What a chair conflicted on a proposal reads in place of its grades, scores, comments and reviewers. */
+export const CONFLICT_WITHHELD = "withheld: you have a conflict on this proposal";

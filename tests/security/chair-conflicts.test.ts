@@ -1,0 +1,112 @@
+// A conflicted chair trying the direct calls (issue: the chair's own conflicts of interest): with
+// their own cookie, every change to a proposal they are on the team of, or declared a conflict on,
+// is a 403 JSON body naming the field and the proposal, never a 5xx, and nothing changes; every
+// read (the APIs, the pages' data requests, the export) leaves out its grades, comments and
+// reviewers. A chair invited to the team by address only, not yet signed up under it, counts too.
+import { beforeAll, describe, expect, it } from "vitest";
+import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
+import { Allocation, AuditEntry, BoardEntry, ProposalMember, ReviewAssignment } from "~/models/index.server";
+import { form, request } from "../helpers/app";
+import { ensureDatabase } from "../helpers/db";
+import { newUser } from "../helpers/session";
+import { committeeNote, conflictedCall } from "../integration/chair-conflicts-fixtures";
+
+type Fixture = Awaited<ReturnType<typeof conflictedCall>>;
+let f: Fixture;
+let invited: Awaited<ReturnType<typeof newUser>>;
+let cell: { telescopeId: number; moonCategory: "dark" | "grey" | "bright" };
+const json = (cookie: string) => ({ Cookie: cookie, "Content-Type": "application/json" });
+const hiddenNotes = () => [0, 1, 2].flatMap((r) => [1, 2, 3].map((c) => committeeNote(c, r)));
+
+beforeAll(async () => {
+  await ensureDatabase();
+  f = await conflictedCall("COI Attack");
+  // invited by address after their session began: the invitation is not claimed (no user id on it)
+  invited = await newUser({ roles: ["chair"], name: "COI Attack Invited Chair" });
+  await ProposalMember.create({ proposalId: f.proposals[0].id, userId: null, email: invited.email, role: "coi", acceptedAt: null });
+  const t = (await computeFeasibilitySheet({ proposalId: f.proposals[1].id })).totals.find((x) => x.semesterCode === f.call.semesterCode && x.hours > 0)!;
+  cell = { telescopeId: t.telescopeId, moonCategory: t.moonCategory };
+});
+
+describe("a conflicted chair's direct changes", () => {
+  it("are 403 with a JSON body naming the field and the proposal, and change nothing", async () => {
+    const app = await request();
+    const audits = await AuditEntry.count();
+    const p = f.proposals;
+    const row = (i: number, hours = 5) => ({ proposalId: p[i].id, ...cell, semesterCode: f.call.semesterCode, hours });
+    const attempts: [string, string, unknown, string, number][] = [
+      ["POST", `/api/v1/calls/${f.call.id}/board/rank`, { proposalId: p[1].id, chairRank: 1, reason: "team first" }, "proposalId", 1],
+      ["POST", `/api/v1/calls/${f.call.id}/board/rank`, { proposalId: p[2].id, chairRank: null, reason: "back to computed" }, "proposalId", 2],
+      ["PUT", `/api/v1/calls/${f.call.id}/allocation`, { rows: [row(3)], tiers: [{ proposalId: p[3].id, tier: "assured" }] }, "rows.0.proposalId", 3],
+      ["PUT", `/api/v1/calls/${f.call.id}/allocation`, { rows: [], tiers: [{ proposalId: p[1].id, tier: "queue" }] }, "tiers.0.proposalId", 1],
+      ["PUT", `/api/v1/calls/${f.call.id}/allocation`, { rows: [], tiers: [{ proposalId: p[2].id, tier: null, waitlisted: true }] }, "tiers.0.proposalId", 2],
+      ["PUT", `/api/v1/calls/${f.call.id}/review/assignments`, { assignments: [{ proposalId: p[3].id, reviewerId: f.reviewers[0].user.id }] }, "assignments.0", 3],
+    ];
+    for (const [method, url, body, path, i] of attempts) {
+      const res = await (method === "PUT" ? app.put(url) : app.post(url)).set(json(f.chair.cookie)).send(body as object);
+      expect(res.status, `${method} ${url} ${JSON.stringify(body)}`).toBe(403);
+      expect(res.body.issues[0].path).toBe(path);
+      expect(res.body.error).toContain(`conflict on ${p[i].code}`);
+    }
+    // invited by address only: still on the team
+    const byAddress = await app.post(`/api/v1/calls/${f.call.id}/board/rank`).set(json(invited.cookie)).send({ proposalId: p[0].id, chairRank: 1, reason: "invited" });
+    expect(byAddress.status).toBe(403);
+    expect(byAddress.body.error).toContain(`conflict on ${p[0].code}`);
+    expect(await BoardEntry.count({ where: { callId: f.call.id } })).toBe(0);
+    expect(await Allocation.count({ where: { callId: f.call.id } })).toBe(0);
+    expect(await AuditEntry.count()).toBe(audits);
+  });
+
+  it("through the pages' own actions: a forged sheet, a move, a reassignment and a reopening are 403", async () => {
+    const app = await request();
+    const p = f.proposals;
+    const sheet = await app.post(`/committee/${f.call.id}/allocation`).set(json(f.chair.cookie))
+      .send({ intent: "save", rows: [{ proposalId: p[2].id, tier: "assured", waitlisted: false, cells: [{ ...cell, semesterCode: f.call.semesterCode, hours: 40 }] }] });
+    expect(sheet.status).toBe(403);
+    expect(sheet.text).toContain(`You have a conflict on ${p[2].code}`);
+    const move = await app.post(`/committee/${f.call.id}/board`).set("Cookie", f.chair.cookie).type("form").send(form({ intent: "move", proposalId: p[3].id, chairRank: 1, reason: "mine" }));
+    expect(move.status).toBe(403);
+    const assignment = (await ReviewAssignment.findOne({ where: { proposalId: p[1].id, reviewerId: f.reviewers[0].user.id } }))!;
+    const reassign = await app.post(`/committee/${f.call.id}`).set("Cookie", f.chair.cookie).type("form").send(form({ intent: "reassign", assignmentId: assignment.id, reviewerId: f.reviewers[1].user.id }));
+    expect(reassign.status).toBe(403);
+    const reopen = await app.post(`/committee/${f.call.id}`).set("Cookie", f.chair.cookie).type("form").send(form({ intent: "reopen", assignmentId: assignment.id }));
+    expect(reopen.status).toBe(403);
+    expect((await ReviewAssignment.findByPk(assignment.id))!.status).toBe("submitted");
+    expect(await Allocation.count({ where: { callId: f.call.id } })).toBe(0);
+  });
+});
+
+describe("a conflicted chair's reads", () => {
+  it("never carry the conflicted proposals' comments, reviewers or grades", async () => {
+    const app = await request();
+    const reads = [
+      `/api/v1/calls/${f.call.id}/board`,
+      `/api/v1/calls/${f.call.id}/review`,
+      `/api/v1/calls/${f.call.id}/reviews`,
+      `/committee/${f.call.id}/board.data`,
+      `/committee/${f.call.id}/allocation.data`,
+      `/committee/${f.call.id}.data`,
+      `/committee/${f.call.id}/assignments.data`,
+      `/committee/${f.call.id}/ranked-list.csv`,
+      `/review/${f.proposals[1].id}.data`,
+    ];
+    for (const url of reads) {
+      const res = await app.get(url).set("Cookie", f.chair.cookie);
+      expect(res.status, url).toBe(200);
+      const text = res.text || JSON.stringify(res.body);
+      for (const note of hiddenNotes()) expect(text, url).not.toContain(note);
+    }
+    // what the other chair reads does hold them (the check above can fail)
+    const theirs = await app.get(`/api/v1/calls/${f.call.id}/reviews`).set("Cookie", f.other.cookie);
+    for (const note of hiddenNotes()) expect(JSON.stringify(theirs.body)).toContain(note);
+    const board = await app.get(`/api/v1/calls/${f.call.id}/board`).set("Cookie", f.chair.cookie);
+    for (const i of [1, 2, 3]) {
+      const r = board.body.proposals.find((x: { proposalId: number }) => x.proposalId === f.proposals[i].id);
+      expect([r.reviews, r.rawMean, r.normalisedScore, r.spread, r.disagreement, r.computedRank, r.rankInterval, r.probabilityAboveLine]).toEqual([null, null, null, null, null, null, null, null]);
+    }
+    const state = await app.get(`/api/v1/calls/${f.call.id}/review`).set("Cookie", f.chair.cookie);
+    const hidden = new Set([1, 2, 3].map((i) => f.proposals[i].id));
+    expect(state.body.assignments.filter((a: { proposalId: number }) => hidden.has(a.proposalId))).toEqual([]);
+    expect(state.body.conflicts.filter((c: { proposalId: number }) => hidden.has(c.proposalId))).toEqual([]);
+  });
+});
