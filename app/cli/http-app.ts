@@ -469,8 +469,9 @@ async function sendResponse(req: ExpressRequest, res: ExpressResponse, response:
   }
 }
 
-export async function loadBuild(root: string) {
-  const serverEntry = path.join(root, "build/server/index.js");
+/** `buildDir`: the folder `react-router build` wrote (server/ and client/). */
+export async function loadBuild(buildDir: string) {
+  const serverEntry = path.join(buildDir, "server/index.js");
   const build = (await import(serverEntry)) as ServerBuild;
-  return { build, clientDir: path.join(root, "build/client") };
+  return { build, clientDir: path.join(buildDir, "client") };
 }

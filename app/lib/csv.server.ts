@@ -1,9 +1,13 @@
-// CSV text as the imports read it (targets, the night log), through csv-parse: RFC 4180 quotes
+// CSV both ways.
+// Reading, as the imports do (targets, the night log), through csv-parse: RFC 4180 quotes
 // (a quoted field may hold the separator, doubled quotes and line breaks), a byte-order mark,
 // blank lines and lines starting with # skipped, cells trimmed, a separator of comma, semicolon or
 // tab taken from the header line. Each record keeps the line it starts on and its own text, so a
 // refused row can be named by its line and handed back as typed.
+// Writing, as every export does (`csvText`: the ranked list, the allocation, the charges), through
+// csv-stringify, with each text cell made safe for spreadsheets (`spreadsheetSafe`).
 import { CsvError, parse } from "csv-parse/sync";
+import { stringify } from "csv-stringify/sync";
 
 export type CsvLine = { line: number; text: string; cells: string[] };
 export type CsvRead = { header: CsvLine; rows: CsvLine[] } | { error: string } | { empty: true };
@@ -50,4 +54,23 @@ export function readCsv(text: string): CsvRead {
   });
   const [first, ...rows] = lines;
   return { header: first, rows };
+}
+
+// A text cell that a spreadsheet would read as a formula (a title "=HYPERLINK(…)", a reason
+// "+1+cmd|…") gets a leading ', which spreadsheets take as "text" and do not show. The leading
+// characters: = + - @, tab and carriage return (OWASP's "CSV Injection" page, from memory), NUL
+// (OWASP ASVS 5.0, requirement 1.2.10), and the full-width ＝ ＋ － ＠ that some spreadsheets
+// normalise to them (csv-stringify's `escape_formulas` list). csv-stringify's own option would
+// also mark our formatted negative numbers ("-0.512" is a string here): a cell that is a plain
+// decimal number stays as it is.
+const FORMULA_START = /^[=+\-@\t\r\0\uFF1D\uFF0B\uFF0D\uFF20]/;
+const PLAIN_NUMBER = /^-?\d+(\.\d+)?$/;
+
+export function spreadsheetSafe<T>(cell: T): T | string {
+  return typeof cell === "string" && FORMULA_START.test(cell) && !PLAIN_NUMBER.test(cell) ? `'${cell}` : cell;
+}
+
+/** The lines as CSV (RFC 4180), every text cell through `spreadsheetSafe`. */
+export function csvText(lines: readonly (readonly unknown[])[]): string {
+  return stringify(lines.map((line) => line.map(spreadsheetSafe)));
 }

@@ -1,6 +1,7 @@
 import { orNotFound } from "~/lib/actions.server";
 import { requireUser } from "~/lib/auth/auth.server";
 import { idSchema } from "~/lib/forms";
+import { sandboxedFilePolicy } from "~/lib/http/download.server";
 import { proposalIdParam } from "~/lib/proposals/routes.server";
 import { getProposalFileForUser } from "~/lib/proposals/science-case.server";
 import type { Route } from "./+types/proposals.$proposalId.files.$fileId";
@@ -20,7 +21,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       "Content-Disposition": `${inline ? "inline" : "attachment"}; filename="${ascii}"; filename*=UTF-8''${encodeURIComponent(file.filename)}`,
       "X-Content-Type-Options": "nosniff",
       // Shown inline, the file is its own sandboxed origin: no scripts, no access to our cookies.
-      "Content-Security-Policy": "sandbox; default-src 'none'; img-src data:; style-src 'unsafe-inline'",
+      "Content-Security-Policy": sandboxedFilePolicy(),
       "Cache-Control": "private, no-store",
       ETag: `"${file.sha256}"`,
     },

@@ -220,6 +220,37 @@ describe("reviewer access: only assigned, non-conflicted proposals", () => {
     expect(desk.body.assignments.map((a: { proposalId: number }) => a.proposalId)).toContain(mine.proposalId);
   });
 
+  it("the committee's file is sandboxed: inline, frameable by our own pages only; as a download, by none; another type likewise", async () => {
+    const csp = (res: { headers: Record<string, string> }) => new Map((res.headers["content-security-policy"] ?? "").split(";").map((d) => d.trim().split(/\s+/)).filter((d) => d[0]).map(([name, ...values]) => [name, values.join(" ")]));
+    const get = async (path: string) => (await request()).get(path).set("Cookie", reviewer.cookie);
+    const policy = (res: { headers: Record<string, string> }) => {
+      const d = csp(res);
+      return { sandbox: d.get("sandbox"), defaultSrc: d.get("default-src"), scriptSrc: d.get("script-src"), frameAncestors: d.get("frame-ancestors"), frameOptions: res.headers["x-frame-options"], nosniff: res.headers["x-content-type-options"] };
+    };
+    const inline = await get(`/review/${mine.proposalId}/files/${fileId}?inline=1`);
+    expect(inline.status).toBe(200);
+    expect([inline.headers["content-type"], inline.headers["content-disposition"].split(";")[0]]).toEqual(["application/pdf", "inline"]);
+    // "sandbox" with no token: no scripts, forms or popups, and an origin of its own
+    expect(policy(inline)).toEqual({ sandbox: "", defaultSrc: "'none'", scriptSrc: undefined, frameAncestors: "'self'", frameOptions: "SAMEORIGIN", nosniff: "nosniff" });
+
+    const attached = await get(`/review/${mine.proposalId}/files/${fileId}`);
+    expect(attached.status).toBe(200);
+    expect(attached.headers["content-disposition"]).toMatch(/^attachment;/);
+    expect(policy(attached)).toEqual({ sandbox: "", defaultSrc: "'none'", scriptSrc: undefined, frameAncestors: "'none'", frameOptions: "DENY", nosniff: "nosniff" });
+
+    // a stored file of another type (none is stored today), asked for inline: sandboxed all the same
+    const body = Buffer.from("<script>alert(document.cookie)</script>");
+    const html = await StoredFile.create({ proposalId: mine.proposalId, kind: "other", filename: "page.html", contentType: "text/html", sizeBytes: body.length, sha256: "0".repeat(64), pageCount: null, data: body, uploadedById: null });
+    try {
+      const other = await get(`/review/${mine.proposalId}/files/${html.id}?inline=1`);
+      expect(other.status).toBe(200);
+      expect(other.headers["content-type"]).toMatch(/^text\/html/);
+      expect(policy(other)).toEqual({ sandbox: "", defaultSrc: "'none'", scriptSrc: undefined, frameAncestors: "'self'", frameOptions: "SAMEORIGIN", nosniff: "nosniff" });
+    } finally {
+      await html.destroy();
+    }
+  });
+
   it("another proposal, another's file, and anything for an unassigned reviewer: 404", async () => {
     const otherFile = (await StoredFile.findOne({ where: { proposalId: notMine.id } }))!.id;
     const cases: [Person, string][] = [

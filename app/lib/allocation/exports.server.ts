@@ -1,7 +1,8 @@
-// The board's exports: the ranked list and the allocation as CSV (RFC 4180, via csv-stringify),
+// The board's exports: the ranked list and the allocation as CSV (`csvText`: RFC 4180, text cells
+// safe for spreadsheets),
 // and an accepted programme's planned astrometric epochs as iCalendar (RFC 5545, via ics).
+import { csvText } from "~/lib/csv.server";
 import { Refusal } from "~/lib/forms";
-import { stringify } from "csv-stringify/sync";
 import { Op } from "sequelize";
 import { createEvents, type EventAttributes } from "ics";
 import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
@@ -12,14 +13,6 @@ import { BOARD_STATES, callBoard, withholdConflicted } from "./board.server";
 import { boardOrder } from "./fill";
 
 const num = (x: number | null, digits: number) => (x === null ? "" : x.toFixed(digits));
-
-// A cell a spreadsheet would run as a formula (a title "=HYPERLINK(…)", a reason "+1+cmd|…") gets
-// a leading ' (common practice, OWASP "CSV injection"; the characters are csv-stringify's
-// `escape_formulas` list). Its own option would also quote our formatted negative numbers
-// ("-0.512" is a string here), so numbers are left as they are.
-const FORMULA_START = /^[=+\-@\t\r\uFF1D\uFF0B\uFF0D\uFF20]/;
-const NUMBER = /^-?\d+(\.\d+)?$/;
-const safeCells = (lines: (string | number)[][]) => lines.map((line) => line.map((c) => (typeof c === "string" && FORMULA_START.test(c) && !NUMBER.test(c) ? `'${c}` : c)));
 
 async function telescopeNames() {
   return new Map((await Telescope.findAll({ attributes: ["id", "name"] })).map((t) => [t.id, t.name]));
@@ -55,7 +48,7 @@ export async function rankedListCsv({ callId, chair }: { callId: number; chair: 
     "raw_mean", "normalised_score", "normalised_z", "spread_z", "disagreement", "reviewers_on_panel_scale",
     `requested_${semester}_h`, "requested_later_h", "tier", `allocated_${semester}_h`, "allocated_later_h", "state",
   ];
-  return { filename: `ranked-list-${semester}.csv`, csv: stringify(safeCells([header, ...rows])) };
+  return { filename: `ranked-list-${semester}.csv`, csv: csvText([header, ...rows]) };
 }
 
 /** One line per proposal × telescope × moon category × semester with hours, in the board's order. */
@@ -68,7 +61,7 @@ export async function allocationCsv({ callId }: { callId: number }): Promise<{ f
       lines.push([i + 1, p.code ?? "", p.title, p.tier ?? "", names.get(a.telescopeId) ?? String(a.telescopeId), a.moonCategory, a.semesterCode, a.hours.toFixed(2), requested.toFixed(2), board.locked ? "yes" : "no"]);
     }
   });
-  return { filename: `allocation-${board.call.semesterCode}.csv`, csv: stringify(safeCells(lines)) };
+  return { filename: `allocation-${board.call.semesterCode}.csv`, csv: csvText(lines) };
 }
 
 const dateParts = (iso: string): [number, number, number] => {

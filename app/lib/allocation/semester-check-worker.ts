@@ -1,5 +1,6 @@
-// Entry of a semester check's worker thread (started by semester-check.server.ts through tsx's
-// loader): builds the check's input from the facts, runs it, posts progress and the result.
+// Entry of a semester check's worker thread (started by semester-check.server.ts, bundled or
+// through tsx: worker-entry.server.ts): builds the check's input from the facts, runs it, posts
+// progress and the result.
 import { parentPort, workerData } from "node:worker_threads";
 import { runSemesterCheck } from "./semester-check";
 import { checkInputFromFacts, type CheckFacts } from "./semester-check-input";

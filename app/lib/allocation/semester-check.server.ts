@@ -1,19 +1,17 @@
 // The semester check's jobs: the facts of a call's allocation from the database (board order,
 // tiers, allocated hours, clear fractions, each programme's feasibility input), their sha256 as
 // the check's `inputHash`, a `semester_checks` row per run, and the run itself in a worker thread
-// (semester-check-worker.ts through tsx's loader, like the science pool) that reports progress.
+// (semester-check-worker.ts, bundled or through tsx like the science pool: worker-entry.server.ts)
+// that reports progress.
 // One check runs at a time per server process (the machine has two cores); the others wait
 // queued. The check runs seconds, far past the science pool's 20-s budget for short tasks, and
 // must not hold one of its two workers, so it has a thread of its own.
 import { createHash } from "node:crypto";
-import { existsSync } from "node:fs";
-import path from "node:path";
-import { pathToFileURL } from "node:url";
-import { Worker } from "node:worker_threads";
 import { Op } from "sequelize";
 import stringify from "safe-stable-stringify";
 import type { MoonCategory } from "~/lib/domain";
 import { Refusal } from "~/lib/forms";
+import { findWorkerEntry, startWorker } from "~/lib/worker-entry.server";
 import { loadFeasibilityInputs } from "~/lib/proposals/feasibility.server";
 import { callNotFound } from "~/lib/review/chair.server";
 import { Allocation, BoardEntry, Call, CallOffer, Proposal, ReviewAssignment, SemesterCheck, Telescope, TelescopeClearFraction } from "~/models/index.server";
@@ -94,7 +92,7 @@ export function factsHash(facts: CheckFacts): string {
 // ---------------------------------------------------------------------------------------------
 // Jobs
 
-const workerFile = path.resolve(process.cwd(), "app/lib/allocation/semester-check-worker.ts");
+const workerEntry = findWorkerEntry("semester-check-worker");
 const pending: { id: number; facts: CheckFacts; callId: number }[] = [];
 const active = new Set<number>();
 let running = false;
@@ -102,7 +100,7 @@ let running = false;
 type WorkerMessage = { progress?: number; result?: SemesterCheckResult; error?: string };
 
 function runInWorker(job: { facts: CheckFacts; realisations: number; seed: number }, onProgress: (p: number) => void): Promise<SemesterCheckResult> {
-  if (process.env.SCIENCE_WORKERS === "0" || !existsSync(workerFile)) {
+  if (process.env.SCIENCE_WORKERS === "0" || !workerEntry) {
     // no worker available: the server's own thread, after the current request has been answered
     return new Promise((resolve, reject) =>
       setImmediate(() => {
@@ -116,12 +114,7 @@ function runInWorker(job: { facts: CheckFacts; realisations: number; seed: numbe
       }),
     );
   }
-  const url = pathToFileURL(workerFile).href;
-  const worker = new Worker(`import("tsx/esm/api").then(({ register }) => { register(); return import(${JSON.stringify(url)}); })`, {
-    eval: true,
-    env: process.env,
-    workerData: job,
-  });
+  const worker = startWorker(workerEntry, { env: process.env, workerData: job });
   worker.unref();
   return new Promise((resolve, reject) => {
     let settled = false;

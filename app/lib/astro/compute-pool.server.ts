@@ -1,16 +1,15 @@
 // A small pool of worker threads for the heavy science computations (long visibility runs, the
 // epoch planner), so that one client's six-year plans cannot stall every other request.
 //
-// Workers run the TypeScript source (app/lib/astro/compute-worker.ts) through tsx's loader:
-// the server build bundles everything into build/server/index.js, so a worker needs its own
-// entry, and tsx is what `npm start`, `npm run dev` and `npm test` already run with. Where the
-// source or tsx is missing (SCIENCE_WORKERS=0, or a deployment without dev dependencies) the
-// tasks run in the server itself, still behind the same queue bound and budget.
-import { existsSync } from "node:fs";
+// A worker runs compute-worker.ts: from a build, as the plain JavaScript that `npm run build`
+// bundled beside the server (no tsx needed); from the sources (`npm run dev`, vitest), as
+// TypeScript through tsx's loader (app/lib/worker-entry.server.ts). With SCIENCE_WORKERS=0, or
+// with neither file there, the tasks run in the server itself, behind the same queue bound and
+// budget. A worker that fails to start (say tsx missing beside the sources) is not replaced by
+// the server's thread: its task fails, and the science API answers 503.
 import { cpus } from "node:os";
-import path from "node:path";
-import { pathToFileURL } from "node:url";
-import { Worker } from "node:worker_threads";
+import type { Worker } from "node:worker_threads";
+import { findWorkerEntry, startWorker, type WorkerEntry } from "../worker-entry.server";
 import { runScienceTask, type ScienceTask } from "./science-tasks";
 
 export class PoolBusy extends Error {
@@ -40,29 +39,26 @@ export const POOL_SETTINGS = {
 type Job = { id: number; task: ScienceTask; resolve: (v: unknown) => void; reject: (e: Error) => void; timer: NodeJS.Timeout; slot?: Slot };
 type Slot = { worker: Worker; job: Job | null; ready: Promise<void> };
 
-const workerFile = path.resolve(process.cwd(), "app/lib/astro/compute-worker.ts");
-
-function startWorker(): Worker {
-  const url = pathToFileURL(workerFile).href;
-  // An eval'd CommonJS stub that registers tsx's ESM loader, then imports the TypeScript entry.
-  return new Worker(`import("tsx/esm/api").then(({ register }) => { register(); return import(${JSON.stringify(url)}); })`, {
-    eval: true,
-    env: process.env,
-  });
-}
-
 export class ComputePool {
   #slots: Slot[] = [];
   #queue: Job[] = [];
   #nextId = 1;
   #inProcess: boolean;
+  #entry: WorkerEntry | null;
 
-  constructor(readonly size: number, readonly queueBound: number, readonly timeoutMs: number) {
-    this.#inProcess = size === 0 || !existsSync(workerFile);
+  /** `entry`: the worker's code, by default the bundle or the source as `findWorkerEntry` finds them. */
+  constructor(readonly size: number, readonly queueBound: number, readonly timeoutMs: number, entry = findWorkerEntry("compute-worker")) {
+    this.#entry = entry;
+    this.#inProcess = size === 0 || !entry;
   }
 
   get usesWorkers() {
     return !this.#inProcess;
+  }
+
+  /** What the workers run: the bundled JavaScript, the TypeScript source, or nothing (in-process). */
+  get workerKind(): WorkerEntry["kind"] | null {
+    return this.#inProcess ? null : this.#entry!.kind;
   }
 
   /** Tasks running or waiting. */
@@ -109,7 +105,7 @@ export class ComputePool {
   }
 
   #spawn(): Slot {
-    const worker = startWorker();
+    const worker = startWorker(this.#entry!, { env: process.env });
     worker.unref();
     let ready!: () => void;
     const slot: Slot = { worker, job: null, ready: new Promise<void>((r) => (ready = r)) };

@@ -1,4 +1,5 @@
-// Entry of a science worker thread (started by compute-pool.server.ts through tsx's loader).
+// Entry of a science worker thread (started by compute-pool.server.ts: bundled by `npm run build`,
+// through tsx from the sources; see app/lib/worker-entry.server.ts).
 import { parentPort } from "node:worker_threads";
 import { runScienceTask, type ScienceTask } from "./science-tasks";
 

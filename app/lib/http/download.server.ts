@@ -1,6 +1,15 @@
 // Downloads (CSV, iCalendar) that no cache keeps, and refusals as plain text for a download link.
 import { Refusal } from "~/lib/forms";
 
+/**
+ * The policy of a stored file that a browser may show: a sandbox (no scripts, an origin of its
+ * own, so no access to our cookies or pages) that loads nothing; framed by nothing, or (the
+ * committee's inline science case) by our own pages. Chromium's PDF viewer shows a PDF under it.
+ */
+export function sandboxedFilePolicy(frameAncestors: "'none'" | "'self'" = "'none'") {
+  return `sandbox; default-src 'none'; img-src data:; style-src 'unsafe-inline'; frame-ancestors ${frameAncestors}`;
+}
+
 /** A file download that no cache keeps (the board's numbers are the chair's only). */
 export function downloadResponse(filename: string, contentType: string, body: string): Response {
   return new Response(body, {

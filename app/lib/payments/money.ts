@@ -34,13 +34,3 @@ export function decimalAmount(amountMinor: number, currency: string): string {
   const digits = minorDigits(currency);
   return (amountMinor / 10 ** digits).toFixed(digits);
 }
-
-/**
- * A text cell a spreadsheet will not run as a formula: a value starting with = + - @ (or a tab or
- * carriage return, which some spreadsheets skip before reading a formula) gets a leading `'`
- * (common practice, the OWASP "CSV injection" advice).
- */
-export function spreadsheetSafe(value: string | null | undefined): string {
-  const text = value ?? "";
-  return /^[=+\-@\t\r]/.test(text) ? `'${text}` : text;
-}

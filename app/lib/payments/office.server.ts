@@ -1,13 +1,13 @@
 // The office's view of every charge (admin): the list, a waiver with its reason (audited, in one
-// transaction), and the CSV export (csv-stringify; text cells made safe for spreadsheets).
-import { stringify } from "csv-stringify/sync";
+// transaction), and the CSV export (`csvText`; text cells made safe for spreadsheets).
 import { writeAudit } from "~/lib/audit.server";
+import { csvText } from "~/lib/csv.server";
 import { Refusal } from "~/lib/forms";
 import { type Actor } from "~/lib/proposals/proposals.server";
 import { stripe } from "~/lib/payments/payments.server";
 import { Call, Charge, Proposal, ProposalMember, sequelize, User } from "~/models/index.server";
 import { chargeView, type ChargeView } from "./charges.server";
-import { chargeKindLabels, chargeStateLabels, decimalAmount, spreadsheetSafe } from "./money";
+import { chargeKindLabels, chargeStateLabels, decimalAmount } from "./money";
 
 export type OfficeChargeView = ChargeView & {
   code: string | null;
@@ -70,25 +70,25 @@ const CSV_HEADER = ["charge", "proposal", "title", "call", "kind", "semester", "
 export async function chargesCsv(): Promise<{ filename: string; csv: string }> {
   const rows = (await allCharges()).map((c) => [
     c.id,
-    spreadsheetSafe(c.code),
-    spreadsheetSafe(c.title),
-    spreadsheetSafe(c.callSemester),
+    c.code ?? "",
+    c.title,
+    c.callSemester,
     chargeKindLabels[c.kind],
-    spreadsheetSafe(c.semesterCode),
+    c.semesterCode,
     c.hours ?? "",
     c.pages ?? "",
     decimalAmount(c.rateCents, c.currency),
     decimalAmount(c.amountCents, c.currency),
     c.currency.toUpperCase(),
     chargeStateLabels[c.state],
-    spreadsheetSafe(c.piName),
-    spreadsheetSafe(c.piEmail),
-    spreadsheetSafe(c.piInstitution),
+    c.piName ?? "",
+    c.piEmail ?? "",
+    c.piInstitution ?? "",
     c.createdAt,
     c.paidAt ?? "",
     c.waivedAt ?? "",
-    spreadsheetSafe(c.waivedBy),
-    spreadsheetSafe(c.waiveReason),
+    c.waivedBy ?? "",
+    c.waiveReason ?? "",
   ]);
-  return { filename: `charges-${new Date().toISOString().slice(0, 10)}.csv`, csv: stringify([CSV_HEADER, ...rows]) };
+  return { filename: `charges-${new Date().toISOString().slice(0, 10)}.csv`, csv: csvText([CSV_HEADER, ...rows]) };
 }

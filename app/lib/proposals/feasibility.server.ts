@@ -26,14 +26,16 @@ function byProposal<T extends { proposalId?: unknown }>(rows: T[]): Map<number, 
   return out;
 }
 
-/**
- * The feasibility inputs of many proposals in seven queries, whatever their number (the ranking
- * board reads hundreds): proposals, their calls with offers, targets, observations with epochs,
- * the telescopes with instruments and filters, and the semesters the office has set up.
- */
 /** What the inputs need of a proposal (a model, or a plain row the caller has just read). */
 export type FeasibilityProposal = { id: number; callId?: unknown; isMultiSemester: boolean | number; semestersRequested: string[] | string | null };
 
+/**
+ * The feasibility inputs of many proposals in at most six queries, whatever their number (the
+ * ranking board reads hundreds): the proposals (unless given), every call with its offers (or,
+ * when the caller gives the calls, only the office's semesters), the targets, the observations,
+ * the telescopes with instruments and filters (one statement), and the observations' planned
+ * epochs (when there are observations).
+ */
 export async function loadFeasibilityInputs(args: { proposalIds: number[]; proposals?: FeasibilityProposal[]; calls?: Call[] }): Promise<Map<number, FeasibilityInput>> {
   return (await readFeasibilityInputs(args)).inputs;
 }
