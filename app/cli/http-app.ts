@@ -123,6 +123,13 @@ export function createHttpApp({ build, clientDir, trustProxy = false, appUrl = p
       next(error);
     }
   });
+  // In place of express's error page, which shows the stack outside production: the message only
+  app.use((error: unknown, req: ExpressRequest, res: ExpressResponse, next: (error?: unknown) => void) => {
+    if (res.headersSent) return next(error);
+    console.error("[app] request failed:", error);
+    res.status(500).setHeader("Cache-Control", "no-store");
+    res.type("text/plain").send("Unexpected Server Error");
+  });
 
   // A science GET (the exact path, no extension, no body, no cross-site check for a GET) is
   // answered before express: the same headers, client address and direct call as through it,
@@ -141,7 +148,8 @@ export function createHttpApp({ build, clientDir, trustProxy = false, appUrl = p
     if (!loader) return void app(req, res);
     answerScienceGet(req, res, loader, science).catch((error) => {
       console.error("[app] science request failed:", error);
-      if (!res.headersSent) res.writeHead(500, { "Content-Type": "text/plain" });
+      // the security headers on this answer too (its own nonce: nothing was sent before)
+      if (!res.headersSent) res.writeHead(500, [...securityHeaders(cspNonce(), false), ["Content-Type", "text/plain; charset=utf-8"], ["Cache-Control", "no-store"]].flat());
       res.end("Unexpected Server Error");
     });
   };

@@ -168,4 +168,16 @@ describe("a science GET with smuggled internal headers or an unusual loader resu
       await echo.close();
     }
   });
+
+  it("a loader whose answer cannot be written (status 1000) is a 500 that still carries the security headers", async () => {
+    const odd = await listening(frontWith(() => ({ type: "DataWithResponseInit", data: {}, init: { status: 1000 } })));
+    try {
+      const a = await raw(odd.port, "GET /api/v1/visibility HTTP/1.1\r\nHost: 127.0.0.1");
+      expect(a.status).toBe(500);
+      expectSecurityHeaders(a, "500");
+      expect(one(a, "cache-control")).toBe("no-store");
+    } finally {
+      await odd.close();
+    }
+  });
 });
