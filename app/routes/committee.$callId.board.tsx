@@ -9,7 +9,7 @@ import { SortableTable } from "~/components/SortableTable";
 import { fixed, NONE } from "~/lib/format";
 import { SemesterCheck } from "~/components/allocation/SemesterCheck";
 import { fillAllocationByRank, lockAllocation, moveOnBoard, unlockAllocation } from "~/lib/allocation/allocate.server";
-import { callBoard, withholdConflicted } from "~/lib/allocation/board.server";
+import { callBoard, conflictedLast, withholdConflicted } from "~/lib/allocation/board.server";
 import { chairConflicts } from "~/lib/review/chair-conflicts.server";
 import { CONFLICT_WITHHELD } from "~/lib/review/vocabulary";
 import { boardUncertainty } from "~/lib/allocation/board-uncertainty";
@@ -91,16 +91,15 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { rows: drawn, reproducibility, coinFlip } = boardUncertainty(board);
   // the page needs each row's interval, not the grades the bootstrap drew from; a proposal this
   // chair is conflicted on shows its hours, not its grades
-  const proposals = withholdConflicted(
+  const proposals = conflictedLast(withholdConflicted(
     board.proposals.map((row) => ({
       ...row,
       rankInterval: drawn.get(row.proposalId)?.rankInterval ?? null,
       probabilityAboveLine: drawn.get(row.proposalId)?.probabilityAboveLine ?? null,
     })),
     conflicts,
-  )
-    .map(({ zScores: _z, ...row }) => ({ ...row, conflictReason: conflicts.get(row.proposalId)?.reason ?? null }))
-    .sort((a, b) => Number(a.withheld !== null) - Number(b.withheld !== null)); // their place would tell their grades
+  ), conflicts) // their place would tell their grades
+    .map(({ zScores: _z, ...row }) => ({ ...row, conflictReason: conflicts.get(row.proposalId)?.reason ?? null }));
   return { board: { ...board, proposals }, uncertainty: { reproducibility, coinFlip }, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })), semesterCheck, raPressure, owed };
 }
 
