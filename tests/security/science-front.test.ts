@@ -6,6 +6,7 @@
 import net from "node:net";
 import type { AddressInfo, Server } from "node:net";
 import path from "node:path";
+import supertest from "supertest";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createHttpApp } from "~/cli/http-app";
 import { testApp } from "../helpers/app";
@@ -179,5 +180,32 @@ describe("a science GET with smuggled internal headers or an unusual loader resu
     } finally {
       await odd.close();
     }
+  });
+});
+
+describe("the science budget and a client's own addresses", () => {
+  it("one /64 is one budget: an IPv6 client cannot take a fresh one per address; another /64 has its own", async () => {
+    const { visibilityResponse, RATE_LIMIT_PER_MINUTE } = await import("~/lib/http/science-api.server");
+    // the real route's function behind one trusted proxy hop, which passes on the client's address
+    const app = supertest(frontWith(({ request }) => visibilityResponse(request), 1));
+    const q = QUERY.replace("nights=2", "nights=1");
+    const from = (address: string) => app.get(`/api/v1/visibility?${q}`).set("X-Forwarded-For", address);
+    for (let i = 0; i < RATE_LIMIT_PER_MINUTE; i++) {
+      const res = await from(`2001:db8:5:7:${(i + 1).toString(16)}::1`);
+      expect(res.status, `request ${i + 1}`).toBe(200);
+    }
+    const fresh = await from("2001:0db8:0005:0007:ffff:ffff:ffff:fffe");
+    expect(fresh.status, "a new address in the same /64").toBe(429);
+    expect(Number(fresh.headers["retry-after"])).toBeGreaterThan(0);
+    expect((await from("2001:db8:5:8::1")).status, "the next /64").toBe(200);
+  });
+
+  it("an IPv4 address written IPv4-mapped is the same budget as written plainly", async () => {
+    const { rateLimitKey } = await import("~/lib/http/science-api.server");
+    expect(rateLimitKey("::ffff:192.0.2.7")).toBe(rateLimitKey("192.0.2.7"));
+    expect(rateLimitKey("::FFFF:192.0.2.7")).toBe("192.0.2.7");
+    expect(rateLimitKey("2001:db8::1")).toBe(rateLimitKey("2001:db8:0:0:ffff::2"));
+    expect(rateLimitKey("2001:db8::1")).not.toBe(rateLimitKey("2001:db8:0:1::1"));
+    expect(rateLimitKey("fe80::1%eth0")).toBe(rateLimitKey("fe80::2"));
   });
 });
