@@ -16,7 +16,7 @@ import { boardUncertainty } from "~/lib/allocation/board-uncertainty";
 import { inCoinFlipBand } from "~/lib/allocation/rank-uncertainty";
 import { RankIntervalBar, ReproducibilityCard } from "~/components/allocation/RankUncertainty";
 import { raPressureSection } from "~/lib/allocation/ra-pressure.server";
-import { latestSemesterCheck } from "~/lib/allocation/semester-check.server";
+import { latestSemesterCheck, withholdPositions } from "~/lib/allocation/semester-check.server";
 import type { FeasibilitySheet } from "~/lib/proposals/feasibility";
 import { DISAGREEMENT_SPAN, MIN_GRADES } from "~/lib/allocation/normalise";
 import { HIDDEN_TEAM } from "~/lib/domain";
@@ -100,7 +100,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     conflicts,
   ), conflicts) // their place would tell their grades
     .map(({ zScores: _z, ...row }) => ({ ...row, conflictReason: conflicts.get(row.proposalId)?.reason ?? null }));
-  return { board: { ...board, proposals }, uncertainty: { reproducibility, coinFlip }, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })), semesterCheck, raPressure, owed };
+  return { board: { ...board, proposals }, uncertainty: { reproducibility, coinFlip }, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })), semesterCheck: withholdPositions(semesterCheck, conflicts), raPressure, owed };
 }
 
 type Row = Route.ComponentProps["loaderData"]["board"]["proposals"][number];

@@ -185,6 +185,27 @@ describe("where a conflicted proposal sits in what the conflicted chair reads", 
     expect(fill.body.kept, "fill by rank's answer").toEqual(expected);
   });
 
+  it("the semester check (its API and the board page) gives a conflicted programme no position and lists it last", async () => {
+    // runs after the test above gave every proposal hours and a tier
+    const app = await request();
+    const p = g.proposals.map((x) => x.id);
+    const started = await app.post(`/api/v1/calls/${g.call.id}/semester-check`).set(json(g.other.cookie)).send({ realisations: 1 });
+    expect(started.status, JSON.stringify(started.body)).toBe(202);
+    let body: { status: string; result: { programmes: { proposalId: number; position: number | null }[] } | null } = { status: "queued", result: null };
+    for (let i = 0; i < 240 && body.status !== "done" && body.status !== "failed"; i++) {
+      await new Promise((r) => setTimeout(r, 250));
+      body = (await app.get(`/api/v1/semester-checks/${started.body.id}`).set("Cookie", g.other.cookie)).body;
+    }
+    expect(body.status).toBe("done");
+    const seen = (rows: { proposalId: number; position: number | null }[]) => rows.map((r) => [r.proposalId, r.position]);
+    // the other chair: by position, as the board orders them
+    expect(seen(body.result!.programmes)).toEqual([[p[0], 1], [p[2], 2], [p[1], 3], [p[3], 4]]);
+    const mine = await app.get(`/api/v1/semester-checks/${started.body.id}`).set("Cookie", g.chair.cookie);
+    expect(seen(mine.body.result.programmes), "semester check API").toEqual([[p[0], 1], [p[1], null], [p[2], null], [p[3], null]]);
+    const page = (await pageData(`/committee/${g.call.id}/board.data`, g.chair.cookie))["routes/committee.$callId.board"].data as { semesterCheck: typeof body };
+    expect(seen(page.semesterCheck.result!.programmes), "board page").toEqual([[p[0], 1], [p[1], null], [p[2], null], [p[3], null]]);
+  });
+
   it("the other proposals' computed ranks leave no gap where a conflicted one ranks (board, allocation page, ranked list)", async () => {
     const app = await request();
     const p = g.proposals.map((x) => x.id);
