@@ -77,6 +77,31 @@ describe("a conflicted chair's direct changes", () => {
   });
 });
 
+describe("a conflicted chair's writes in odd shapes", () => {
+  it("an array, a repeated key or field, a mix with a proposal they may change: refused, nothing changes", async () => {
+    const app = await request();
+    const p = f.proposals;
+    const rank = `/api/v1/calls/${f.call.id}/board/rank`;
+    const asArray = await app.post(rank).set(json(f.chair.cookie)).send({ proposalId: [p[1].id], chairRank: 1, reason: "an array" });
+    expect(asArray.status).toBe(400);
+    expect(asArray.body.issues[0].path).toBe("proposalId");
+    // JSON's last key wins: the conflicted one
+    const repeated = await app.post(rank).set(json(f.chair.cookie)).send(`{"proposalId":${p[0].id},"chairRank":1,"reason":"repeated","proposalId":${p[1].id}}`);
+    expect(repeated.status).toBe(403);
+    expect(repeated.body.error).toContain(`conflict on ${p[1].code}`);
+    const form2 = await app.post(`/committee/${f.call.id}/board`).set("Cookie", f.chair.cookie).type("form").send(`intent=move&proposalId=${p[0].id}&proposalId=${p[1].id}&chairRank=1&reason=twice`);
+    expect(form2.status).toBeGreaterThanOrEqual(400);
+    expect(form2.status).toBeLessThan(500);
+    const before = await ReviewAssignment.count({ where: { callId: f.call.id } });
+    const mixed = await app.put(`/api/v1/calls/${f.call.id}/review/assignments`).set(json(f.chair.cookie))
+      .send({ assignments: [{ proposalId: p[0].id, reviewerId: f.other.user.id }, { proposalId: p[3].id, reviewerId: f.other.user.id }] });
+    expect(mixed.status).toBe(403);
+    expect(mixed.body.issues[0].path).toBe("assignments.1");
+    expect(await ReviewAssignment.count({ where: { callId: f.call.id } })).toBe(before);
+    expect(await BoardEntry.count({ where: { callId: f.call.id } })).toBe(0);
+  });
+});
+
 describe("a conflicted chair's reads", () => {
   it("never carry the conflicted proposals' comments, reviewers or grades", async () => {
     const app = await request();
@@ -90,6 +115,13 @@ describe("a conflicted chair's reads", () => {
       `/committee/${f.call.id}/assignments.data`,
       `/committee/${f.call.id}/ranked-list.csv`,
       `/review/${f.proposals[1].id}.data`,
+      `/review/${f.proposals[2].id}.data`,
+      `/review/${f.proposals[3].id}.data`,
+      `/committee.data`,
+      `/review.data`,
+      `/api/v1/review/assignments`,
+      `/api/v1/calls/${f.call.id}/review/teams`,
+      `/api/v1/calls/${f.call.id}/reproducibility`,
     ];
     for (const url of reads) {
       const res = await app.get(url).set("Cookie", f.chair.cookie);
