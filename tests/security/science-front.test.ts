@@ -114,6 +114,15 @@ describe("a science GET over a raw socket", () => {
     }
   });
 
+  it("other spellings of the path (//, percent-encoded, a ;param, a #) are never a 5xx and carry the security headers", async () => {
+    for (const target of [`//api/v1/visibility?${QUERY}`, `/api/v1/%76isibility?${QUERY}`, `/api/v1/visibility;x=1?${QUERY}`, `/api/v1/visibility#x`, `/api/v1/visibility%2F?${QUERY}`, `/api//v1/visibility?${QUERY}`]) {
+      const a = await raw(port, `GET ${target} HTTP/1.1\r\nHost: ${host}`);
+      expect(a.status, target).toBeGreaterThanOrEqual(200);
+      expect(a.status, target).toBeLessThan(500);
+      expectSecurityHeaders(a, target);
+    }
+  });
+
   it("HEAD and a very long query are answered as through React Router, with the same headers", async () => {
     const head = await raw(port, `HEAD /api/v1/visibility?${QUERY} HTTP/1.1\r\nHost: ${host}`);
     const headRouter = await raw(port, `HEAD /api/v1/visibility/?${QUERY} HTTP/1.1\r\nHost: ${host}`);
