@@ -123,6 +123,13 @@ export function createHttpApp({ build, clientDir, trustProxy = false, appUrl = p
       next(error);
     }
   });
+  // In place of express's error page, which shows the stack outside production: the message only
+  app.use((error: unknown, req: ExpressRequest, res: ExpressResponse, next: (error?: unknown) => void) => {
+    if (res.headersSent) return next(error);
+    console.error("[app] request failed:", error);
+    res.status(500).setHeader("Cache-Control", "no-store");
+    res.type("text/plain").send("Unexpected Server Error");
+  });
 
   // A science GET (the exact path, no extension, no body, no cross-site check for a GET) is
   // answered before express: the same headers, client address and direct call as through it,
@@ -141,7 +148,8 @@ export function createHttpApp({ build, clientDir, trustProxy = false, appUrl = p
     if (!loader) return void app(req, res);
     answerScienceGet(req, res, loader, science).catch((error) => {
       console.error("[app] science request failed:", error);
-      if (!res.headersSent) res.writeHead(500, { "Content-Type": "text/plain" });
+      // the security headers on this answer too (its own nonce: nothing was sent before)
+      if (!res.headersSent) res.writeHead(500, [...securityHeaders(cspNonce(), false), ["Content-Type", "text/plain; charset=utf-8"], ["Cache-Control", "no-store"]].flat());
       res.end("Unexpected Server Error");
     });
   };
@@ -237,7 +245,15 @@ async function answerScienceGet(req: IncomingMessage, res: ServerResponse, loade
   headers.set(INTERNAL_HEADERS.nonce, nonce);
   // express's req.ip: the nearest address the configured proxies do not vouch for
   headers.set(INTERNAL_HEADERS.clientIp, proxyaddr(req, front.trust) ?? "unknown");
-  const request = new Request(`${plainProtocol(req, front.trust)}://${plainHost(req, front)}${req.url}`, { headers });
+  const url = requestUrl(plainProtocol(req, front.trust), plainHost(req, front), req.url ?? "");
+  if (url === null) {
+    // as express's path answers it (`fetchRequest`): a 400 naming the host, with the headers
+    const body = JSON.stringify(badHost);
+    const flat = [...front.securityHeaders(nonce), ["Cache-Control", "no-store"], ["Content-Type", "application/json; charset=utf-8"], ["Content-Length", String(Buffer.byteLength(body))]].flat();
+    res.writeHead(400, flat);
+    return void res.end(body);
+  }
+  const request = new Request(url, { headers });
   const args = { request, params: {}, context: new RouterContextProvider() };
   let answer: Answer;
   try {
@@ -273,6 +289,26 @@ async function answerScienceGet(req: IncomingMessage, res: ServerResponse, loade
 async function fromResponse(response: Response): Promise<Answer> {
   return { status: response.status, statusText: response.statusText, headers: response.headers, body: Buffer.from(await response.arrayBuffer()), json: false };
 }
+
+/**
+ * The URL a route gets: the protocol and host as express computes them and the request target's
+ * path and query. An absolute-form target (`GET http://elsewhere/path`, RFC 9112 §3.2.2) keeps
+ * only its path and query, so that its authority is never glued onto ours. Null when no URL can
+ * be made (a Host with a space, `<`, an unclosed `[` …): the front answers that 400.
+ */
+export function requestUrl(protocol: string, host: string, target: string): string | null {
+  let pathAndQuery = target;
+  if (!target.startsWith("/")) {
+    if (!URL.canParse(target)) return null;
+    const absolute = new URL(target);
+    pathAndQuery = `${absolute.pathname}${absolute.search}`;
+  }
+  const url = URL.parse(`${protocol}://${host}${pathAndQuery}`);
+  return url ? url.href : null;
+}
+
+const BAD_HOST = "The request's Host header is not a host name; send the address this site is served at.";
+const badHost = { error: BAD_HOST, issues: [{ path: "host", message: "Host is not a valid host name" }] };
 
 const firstValue = (value: string | string[] | undefined) => (Array.isArray(value) ? value[0] : value);
 
@@ -391,6 +427,12 @@ function cspNonce() {
 
 /** The Fetch API request React Router (or a direct route) gets; null when a 413 was answered. */
 async function fetchRequest(req: ExpressRequest, res: ExpressResponse): Promise<Request | null> {
+  const href = requestUrl(req.protocol, requestHost(req), req.originalUrl);
+  if (href === null) {
+    discardRest(req);
+    refuse(res, isApiPath(req.path), 400, BAD_HOST, badHost.issues[0].message, "host");
+    return null;
+  }
   let body: Buffer | undefined;
   const headers = new Headers();
   for (const [key, values] of Object.entries(req.headers)) {
@@ -422,8 +464,7 @@ async function fetchRequest(req: ExpressRequest, res: ExpressResponse): Promise<
   let finished = false;
   res.on("finish", () => (finished = true));
   res.on("close", () => finished || controller.abort());
-  const url = new URL(`${req.protocol}://${requestHost(req)}${req.originalUrl}`);
-  return new Request(url.href, { method: req.method, headers, body: body ? new Uint8Array(body.buffer as ArrayBuffer, body.byteOffset, body.byteLength) : undefined, signal: controller.signal });
+  return new Request(href, { method: req.method, headers, body: body ? new Uint8Array(body.buffer as ArrayBuffer, body.byteOffset, body.byteLength) : undefined, signal: controller.signal });
 }
 
 /** The host React Router sees, as @react-router/express builds it. */

@@ -52,7 +52,12 @@ export function fieldErrors(error: z.ZodError): FieldErrors {
 export function apiIssues(error: z.ZodError, summary = "The request has invalid fields.") {
   return {
     error: summary,
-    issues: error.issues.map((issue) => ({ path: issue.path.join(".") || "(body)", message: issue.message })),
+    // a field the schema does not take (a strict object's unknown key) is named itself, one issue each
+    issues: error.issues.flatMap((issue) =>
+      issue.code === "unrecognized_keys"
+        ? issue.keys.map((key) => ({ path: [...issue.path, key].join("."), message: `${key} is not a field of this request; leave it out` }))
+        : [{ path: issue.path.join(".") || "(body)", message: issue.message }],
+    ),
   };
 }
 

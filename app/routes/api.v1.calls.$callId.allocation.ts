@@ -1,5 +1,5 @@
 import { saveAllocation } from "~/lib/allocation/allocate.server";
-import { callBoard } from "~/lib/allocation/board.server";
+import { callBoard, conflictedLast } from "~/lib/allocation/board.server";
 import { chairConflicts } from "~/lib/review/chair-conflicts.server";
 import { requireRole } from "~/lib/auth/auth.server";
 import { apiAttempt, apiBody, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
@@ -18,8 +18,8 @@ export async function action({ request, params }: Route.ActionArgs) {
   const body = await apiBody(request, allocationSchema);
   const saved = await apiAttempt(() => saveAllocation({ actor: user, callId, rows: body.rows, tiers: body.tiers }));
   const [board, conflicts] = await apiAttempt(() => Promise.all([callBoard({ callId }), chairConflicts({ callId, chair: user })]));
-  // in computed order, the proposals this chair is conflicted on last (their place would tell their grades)
-  const rows = [...board.proposals.filter((p) => !conflicts.has(p.proposalId)), ...board.proposals.filter((p) => conflicts.has(p.proposalId))];
+  // in computed order, the proposals this chair is conflicted on last, by id (their place would tell their grades)
+  const rows = conflictedLast(board.proposals, conflicts);
   return json({ saved, proposals: rows.map((p) => ({ proposalId: p.proposalId, tier: p.tier, waitlisted: p.waitlisted, allocation: p.allocation })) });
 }
 

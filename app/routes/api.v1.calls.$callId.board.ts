@@ -1,4 +1,4 @@
-import { callBoard, withholdConflicted } from "~/lib/allocation/board.server";
+import { callBoard, conflictedLast, withholdConflicted } from "~/lib/allocation/board.server";
 import { chairConflicts } from "~/lib/review/chair-conflicts.server";
 import { boardUncertainty } from "~/lib/allocation/board-uncertainty";
 import { requireRole } from "~/lib/auth/auth.server";
@@ -24,8 +24,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return json({
     panel: board.panel,
     locked: board.locked,
-    // in computed order; the proposals this chair is conflicted on last (their place would tell their grades)
-    proposals: [...rows.filter((r) => !r.withheld), ...rows.filter((r) => r.withheld)].map(
+    // in computed order; the proposals this chair is conflicted on last, by id (their place would tell their grades)
+    proposals: conflictedLast(rows, conflicts).map(
       ({ proposalId, code, rawMean, normalisedScore, spread, disagreement, computedRank, chairRank, requested, allocation, fallbackReviewerIds, reviews, rankInterval, probabilityAboveLine, withheld }) => ({
         proposalId, code, reviews, rawMean, normalisedScore, spread, disagreement, fallbackReviewerIds, computedRank, chairRank, requested, allocation, rankInterval, probabilityAboveLine, withheld,
       }),

@@ -1,4 +1,5 @@
-import { semesterCheckById } from "~/lib/allocation/semester-check.server";
+import { semesterCheckById, withholdPositions } from "~/lib/allocation/semester-check.server";
+import { chairConflicts } from "~/lib/review/chair-conflicts.server";
 import { requireRole } from "~/lib/auth/auth.server";
 import { apiAttempt, apiId, json, methodNotAllowed } from "~/lib/http/api.server";
 import type { Route } from "./+types/api.v1.semester-checks.$id";
@@ -8,11 +9,12 @@ import type { Route } from "./+types/api.v1.semester-checks.$id";
  * stale, result, error, createdAt, finishedAt }`; `result` once done, `stale` once finished.
  */
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireRole(request, "chair");
+  const user = await requireRole(request, "chair");
   const id = apiId(params.id, "id");
   const check = await apiAttempt(() => semesterCheckById({ id }));
   if (!check) return json({ error: "No such semester check.", issues: [] }, 404);
-  return json(check);
+  // a programme this chair is conflicted on: no position, listed last
+  return json(withholdPositions(check, await apiAttempt(() => chairConflicts({ callId: check.callId, chair: user }))));
 }
 
 export async function action() {

@@ -6,6 +6,6 @@ import type { Route } from "./+types/committee.$callId.allocation[.csv]";
 
 /** The allocation as CSV: one line per proposal × telescope × moon category × semester (chair). */
 export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireRole(request, "chair");
-  return csvDownload(allocationCsv({ callId: idParam(params.callId, "call") }));
+  const user = await requireRole(request, "chair");
+  return csvDownload(allocationCsv({ callId: idParam(params.callId, "call"), chair: user }));
 }

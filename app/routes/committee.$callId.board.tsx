@@ -9,14 +9,14 @@ import { SortableTable } from "~/components/SortableTable";
 import { fixed, NONE } from "~/lib/format";
 import { SemesterCheck } from "~/components/allocation/SemesterCheck";
 import { fillAllocationByRank, lockAllocation, moveOnBoard, unlockAllocation } from "~/lib/allocation/allocate.server";
-import { callBoard, withholdConflicted } from "~/lib/allocation/board.server";
+import { callBoard, conflictedLast, withholdConflicted } from "~/lib/allocation/board.server";
 import { chairConflicts } from "~/lib/review/chair-conflicts.server";
 import { CONFLICT_WITHHELD } from "~/lib/review/vocabulary";
 import { boardUncertainty } from "~/lib/allocation/board-uncertainty";
 import { inCoinFlipBand } from "~/lib/allocation/rank-uncertainty";
 import { RankIntervalBar, ReproducibilityCard } from "~/components/allocation/RankUncertainty";
 import { raPressureSection } from "~/lib/allocation/ra-pressure.server";
-import { latestSemesterCheck } from "~/lib/allocation/semester-check.server";
+import { latestSemesterCheck, withholdPositions } from "~/lib/allocation/semester-check.server";
 import type { FeasibilitySheet } from "~/lib/proposals/feasibility";
 import { DISAGREEMENT_SPAN, MIN_GRADES } from "~/lib/allocation/normalise";
 import { HIDDEN_TEAM } from "~/lib/domain";
@@ -91,17 +91,16 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { rows: drawn, reproducibility, coinFlip } = boardUncertainty(board);
   // the page needs each row's interval, not the grades the bootstrap drew from; a proposal this
   // chair is conflicted on shows its hours, not its grades
-  const proposals = withholdConflicted(
+  const proposals = conflictedLast(withholdConflicted(
     board.proposals.map((row) => ({
       ...row,
       rankInterval: drawn.get(row.proposalId)?.rankInterval ?? null,
       probabilityAboveLine: drawn.get(row.proposalId)?.probabilityAboveLine ?? null,
     })),
     conflicts,
-  )
-    .map(({ zScores: _z, ...row }) => ({ ...row, conflictReason: conflicts.get(row.proposalId)?.reason ?? null }))
-    .sort((a, b) => Number(a.withheld !== null) - Number(b.withheld !== null)); // their place would tell their grades
-  return { board: { ...board, proposals }, uncertainty: { reproducibility, coinFlip }, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })), semesterCheck, raPressure, owed };
+  ), conflicts) // their place would tell their grades
+    .map(({ zScores: _z, ...row }) => ({ ...row, conflictReason: conflicts.get(row.proposalId)?.reason ?? null }));
+  return { board: { ...board, proposals }, uncertainty: { reproducibility, coinFlip }, telescopes: telescopes.map((t) => ({ id: t.id, name: t.name })), semesterCheck: withholdPositions(semesterCheck, conflicts), raPressure, owed };
 }
 
 type Row = Route.ComponentProps["loaderData"]["board"]["proposals"][number];

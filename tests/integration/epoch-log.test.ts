@@ -116,7 +116,7 @@ describe("recording epochs: who may, and what is refused", () => {
       [{ ...base, precisionMas: "NaN" }, "precisionMas"],
       [{ ...base, telescopeId: "1 OR 1=1", precisionMas: 3 }, "telescopeId"],
       [{ ...base, frames: 0, lost: { cause: "aliens" } }, "lost.cause"],
-      [{ ...base, precisionMas: 3, extra: 1 }, "(body)"],
+      [{ ...base, precisionMas: 3, extra: 1 }, "extra"],
       ["{not json", "(body)"],
     ];
     for (const [body, path] of cases) {

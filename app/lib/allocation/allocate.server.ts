@@ -8,7 +8,7 @@ import type { AllocationTier, MoonCategory } from "~/lib/domain";
 import { callNotFound } from "~/lib/review/chair.server";
 import { chairConflicts, conflictRefusal, refuseConflicted } from "~/lib/review/chair-conflicts.server";
 import { Allocation, AuditEntry, BoardEntry, Call, CallAllocation, CallOffer, DecisionLetter, Proposal, sequelize } from "~/models/index.server";
-import { BOARD_STATES, callBoard } from "./board.server";
+import { BOARD_STATES, callBoard, conflictedLast } from "./board.server";
 import { boardOrder, fillByRank } from "./fill";
 
 type Chair = { id: number };
@@ -229,5 +229,6 @@ export async function fillAllocationByRank({ actor, callId, replaceHandSet = fal
   const saveRows = filled.flatMap((f) => f.rows.map((r) => ({ proposalId: f.proposalId, ...r })));
   // a proposal the fill gives hours comes off the waitlist; one left without keeps its flag
   const saved = await saveAllocation({ actor, callId, rows: saveRows, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier, ...(f.tier === null ? {} : { waitlisted: false }) })), by: "fill" });
-  return { ...saved, tiers: filled.map((f) => ({ proposalId: f.proposalId, tier: f.tier })), kept: rows.filter(keep).map((p) => p.proposalId) };
+  // the proposals this chair is conflicted on last, by id: their order here would tell their grades
+  return { ...saved, tiers: conflictedLast(filled, conflicts).map((f) => ({ proposalId: f.proposalId, tier: f.tier })), kept: conflictedLast(rows.filter(keep), conflicts).map((p) => p.proposalId) };
 }

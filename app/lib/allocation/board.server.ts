@@ -166,8 +166,9 @@ export type WithheldRow<R> = Omit<R, keyof Scored> & {
  * grade (the bootstrap, fill by rank) are computed.
  */
 export function withholdConflicted<R extends Scored & { proposalId: number }>(rows: readonly R[], conflicts: ChairConflicts): WithheldRow<R>[] {
+  const ranks = visibleComputedRanks(rows, conflicts);
   return rows.map((row) => {
-    if (!conflicts.has(row.proposalId)) return { ...row, withheld: null } as WithheldRow<R>;
+    if (!conflicts.has(row.proposalId)) return { ...row, computedRank: ranks.get(row.proposalId) ?? null, withheld: null } as WithheldRow<R>;
     const out: Record<string, unknown> = {
       ...row,
       reviews: null,
@@ -185,4 +186,24 @@ export function withholdConflicted<R extends Scored & { proposalId: number }>(ro
     if ("probabilityAboveLine" in row) out.probabilityAboveLine = null;
     return out as WithheldRow<R>;
   });
+}
+
+/**
+ * `rows` (in the board's order) as a chair with `conflicts` reads them: the proposals they are
+ * conflicted on last, by proposal id. Where such a proposal sits, among the others or among
+ * themselves, would tell its grades.
+ */
+export function conflictedLast<R extends { proposalId: number }>(rows: readonly R[], conflicts: ChairConflicts): R[] {
+  if (conflicts.size === 0) return [...rows];
+  return [...rows.filter((r) => !conflicts.has(r.proposalId)), ...rows.filter((r) => conflicts.has(r.proposalId)).sort((a, b) => a.proposalId - b.proposalId)];
+}
+
+/**
+ * Each proposal's computed rank among those the chair with `conflicts` may see (1 + how many of
+ * them rank higher): a gap in the ranks shown would tell a conflicted proposal's. Null for a
+ * conflicted or unranked proposal.
+ */
+export function visibleComputedRanks(rows: readonly { proposalId: number; computedRank: number | null }[], conflicts: ChairConflicts): Map<number, number | null> {
+  const shown = rows.filter((r) => !conflicts.has(r.proposalId) && r.computedRank !== null).map((r) => r.computedRank!);
+  return new Map(rows.map((r) => [r.proposalId, conflicts.has(r.proposalId) || r.computedRank === null ? null : 1 + shown.filter((x) => x < r.computedRank!).length]));
 }

@@ -9,7 +9,7 @@ import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
 import { notFound } from "~/lib/proposals/proposals.server";
 import { Proposal, Telescope } from "~/models/index.server";
 import { chairConflicts } from "~/lib/review/chair-conflicts.server";
-import { BOARD_STATES, callBoard, withholdConflicted } from "./board.server";
+import { BOARD_STATES, callBoard, conflictedLast, withholdConflicted } from "./board.server";
 import { boardOrder } from "./fill";
 
 const num = (x: number | null, digits: number) => (x === null ? "" : x.toFixed(digits));
@@ -24,7 +24,7 @@ export async function rankedListCsv({ callId, chair }: { callId: number; chair: 
   const semester = board.call.semesterCode;
   const sum = (cells: { semesterCode: string; hours: number }[], here: boolean) => cells.filter((c) => (c.semesterCode === semester) === here).reduce((s, c) => s + c.hours, 0);
   const shown = new Map(withholdConflicted(board.proposals, conflicts).map((p) => [p.proposalId, p]));
-  const rows = boardOrder(board.proposals).map((full) => shown.get(full.proposalId)!).map((p, i) => [
+  const rows = conflictedLast(boardOrder(board.proposals), conflicts).map((full) => shown.get(full.proposalId)!).map((p, i) => [
     i + 1,
     p.withheld ?? p.computedRank ?? "",
     p.chairRank ?? "",
@@ -51,11 +51,11 @@ export async function rankedListCsv({ callId, chair }: { callId: number; chair: 
   return { filename: `ranked-list-${semester}.csv`, csv: csvText([header, ...rows]) };
 }
 
-/** One line per proposal × telescope × moon category × semester with hours, in the board's order. */
-export async function allocationCsv({ callId }: { callId: number }): Promise<{ filename: string; csv: string }> {
-  const [board, names] = await Promise.all([callBoard({ callId }), telescopeNames()]);
+/** One line per proposal × telescope × moon category × semester with hours, in the board's order (the proposals `chair` is conflicted on last). */
+export async function allocationCsv({ callId, chair }: { callId: number; chair: { id: number } }): Promise<{ filename: string; csv: string }> {
+  const [board, names, conflicts] = await Promise.all([callBoard({ callId }), telescopeNames(), chairConflicts({ callId, chair })]);
   const lines: (string | number)[][] = [["position", "code", "title", "tier", "telescope", "moon_category", "semester", "hours", "requested_hours", "locked"]];
-  boardOrder(board.proposals).forEach((p, i) => {
+  conflictedLast(boardOrder(board.proposals), conflicts).forEach((p, i) => {
     for (const a of p.allocation) {
       const requested = p.requested.filter((r) => r.telescopeId === a.telescopeId && r.moonCategory === a.moonCategory && r.semesterCode === a.semesterCode).reduce((s, r) => s + r.hours, 0);
       lines.push([i + 1, p.code ?? "", p.title, p.tier ?? "", names.get(a.telescopeId) ?? String(a.telescopeId), a.moonCategory, a.semesterCode, a.hours.toFixed(2), requested.toFixed(2), board.locked ? "yes" : "no"]);

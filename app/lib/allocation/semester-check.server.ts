@@ -14,8 +14,9 @@ import { Refusal } from "~/lib/forms";
 import { findWorkerEntry, startWorker } from "~/lib/worker-entry.server";
 import { loadFeasibilityInputs } from "~/lib/proposals/feasibility.server";
 import { callNotFound } from "~/lib/review/chair.server";
+import type { ChairConflicts } from "~/lib/review/chair-conflicts.server";
 import { Allocation, BoardEntry, Call, CallOffer, Proposal, ReviewAssignment, SemesterCheck, Telescope, TelescopeClearFraction } from "~/models/index.server";
-import { BOARD_STATES } from "./board.server";
+import { BOARD_STATES, conflictedLast } from "./board.server";
 import { boardOrder } from "./fill";
 import { normaliseGrades } from "./normalise";
 import { runSemesterCheck, type SemesterCheckResult } from "./semester-check";
@@ -230,6 +231,16 @@ async function view(row: SemesterCheck, currentHash: string | null): Promise<Sem
     error: row.error,
     result: row.status === "done" ? (row.result as SemesterCheckResult) : null,
   };
+}
+
+/**
+ * `check` as the chair with `conflicts` reads it: a programme they are conflicted on has no
+ * position and comes last, by proposal id (its place on the board would tell its grades).
+ */
+export function withholdPositions(check: SemesterCheckView | null, conflicts: ChairConflicts): SemesterCheckView | null {
+  if (!check?.result || conflicts.size === 0) return check;
+  const programmes = conflictedLast(check.result.programmes, conflicts).map((p) => (conflicts.has(p.proposalId) ? { ...p, position: null } : p));
+  return { ...check, result: { ...check.result, programmes } };
 }
 
 /** One check by id (the chair's; 404 when there is none). */

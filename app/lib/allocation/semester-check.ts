@@ -126,7 +126,8 @@ export type ProgrammeOutcome = {
   code: string | null;
   title: string;
   tier: AllocationTier;
-  position: number;
+  /** its place on the board; null to a chair conflicted on it (`withholdPositions`) */
+  position: number | null;
   allocatedHours: number;
   /** hours of the visits the allocation covers */
   plannedHours: number;

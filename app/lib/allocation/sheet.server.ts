@@ -8,7 +8,7 @@ import type { AllocationTier, MoonCategory } from "~/lib/domain";
 import type { AllocationSheet } from "~/lib/schemas/allocation";
 import { Telescope } from "~/models/index.server";
 import { allocationVersion, saveAllocation } from "./allocate.server";
-import { callBoard, type HoursCell } from "./board.server";
+import { callBoard, conflictedLast, visibleComputedRanks, type HoursCell } from "./board.server";
 import { boardOrder } from "./fill";
 import { chairConflicts } from "~/lib/review/chair-conflicts.server";
 
@@ -53,7 +53,9 @@ export async function allocationSheet({ callId, chair }: { callId: number; chair
   }));
   const offered = new Set(columns.map((c) => `${c.telescopeId}|${c.moonCategory}`));
   const started = board.proposals.some((p) => p.allocation.length > 0 || p.tier !== null);
-  const rows: SheetRow[] = boardOrder(board.proposals).map((p, i) => {
+  const ranks = visibleComputedRanks(board.proposals, conflicts);
+  // the proposals this chair is conflicted on last, by id; the others' ranks counted among themselves
+  const rows: SheetRow[] = conflictedLast(boardOrder(board.proposals), conflicts).map((p, i) => {
     const requested = new Map<string, number>();
     for (const r of p.requested) requested.set(cellKey(r), (requested.get(cellKey(r)) ?? 0) + r.hours);
     const allocated = new Map(p.allocation.map((a) => [cellKey(a), a.hours]));
@@ -73,7 +75,7 @@ export async function allocationSheet({ callId, chair }: { callId: number; chair
       proposalId: p.proposalId,
       code: p.code,
       title: p.title,
-      computedRank: conflicts.has(p.proposalId) ? null : p.computedRank,
+      computedRank: ranks.get(p.proposalId) ?? null,
       chairRank: p.chairRank,
       chairRankReason: p.chairRankReason,
       tier: p.tier,

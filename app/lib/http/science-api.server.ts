@@ -1,6 +1,7 @@
 // The science API behind api.v1.visibility / exposure / astrometry / epoch-plan: validation,
 // telescope and instrument look-ups, a per-IP budget weighed by each request's cost, the heavy
 // computations in a worker pool, and JSON errors (400/429/503 with Retry-After, never 500).
+import { isIPv4, isIPv6 } from "node:net";
 import { data } from "react-router";
 import type { z } from "zod";
 import { apiIssues } from "~/lib/forms";
@@ -61,8 +62,27 @@ class Refused extends Error {
   }
 }
 
+/**
+ * The budget's key for a client address: an IPv4 address itself (also when written IPv4-mapped,
+ * `::ffff:192.0.2.1`), an IPv6 address its /64. One host is routinely given a whole /64 (RFC 6177
+ * and RFC 7934 recommend at least that per subscriber), so per address it could take a fresh
+ * budget for every request.
+ */
+export function rateLimitKey(ip: string): string {
+  const address = ip.trim().split("%")[0];
+  const mapped = /^(?:0{0,4}:){0,5}:?ffff:(\d{1,3}(?:\.\d{1,3}){3})$/i.exec(address);
+  if (mapped && isIPv4(mapped[1])) return mapped[1];
+  if (!isIPv6(address)) return ip;
+  const [head, tail] = address.includes("::") ? address.split("::") : [address, null];
+  const groups = (part: string | null) => (part ? part.split(":").flatMap((g) => (g.includes(".") ? ["0", "0"] : [g])) : []);
+  const h = groups(head);
+  const t = groups(tail);
+  const all = [...h, ...Array<string>(Math.max(0, 8 - h.length - t.length)).fill("0"), ...t];
+  return `${all.slice(0, 4).map((g) => Number.parseInt(g || "0", 16).toString(16)).join(":")}::/64`;
+}
+
 function bucketOf(request: Request) {
-  const ip = request.headers.get("x-nightshare-client-ip") ?? "unknown";
+  const ip = rateLimitKey(request.headers.get("x-nightshare-client-ip") ?? "unknown");
   const now = Date.now();
   let b = buckets.get(ip);
   if (!b || now - b.start >= 60_000) {

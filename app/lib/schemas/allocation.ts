@@ -8,11 +8,16 @@ export const reasonSchema = z.string().trim().min(3, "Give a reason of at least 
 /** The chair's position: 1 = top; null returns the proposal to its computed rank. */
 export const chairRankSchema = z.number({ error: "Give a whole position from 1, or leave it empty for the computed rank." }).int("Give a whole position from 1.").min(1, "Positions start at 1.").max(10_000).nullable();
 
-export const boardMoveSchema = z.object({
-  proposalId: idSchema("proposal id"),
-  chairRank: chairRankSchema,
-  reason: reasonSchema,
-});
+// The API's bodies take only their own fields: anything else (the hand-set flags and who set a
+// position, `allocatedByHand`, `allocatedByHandById`, `chairRankById`, are the server's to set)
+// is a 400 naming it, not silently dropped.
+export const boardMoveSchema = z
+  .object({
+    proposalId: idSchema("proposal id"),
+    chairRank: chairRankSchema,
+    reason: reasonSchema,
+  })
+  .strict();
 
 export const allocationSchema = z.object({
   rows: z
@@ -23,14 +28,14 @@ export const allocationSchema = z.object({
         moonCategory: z.enum(moonCategories),
         semesterCode: z.string().trim().min(1).max(8),
         hours: z.number().min(0, "Hours cannot be negative.").max(5000, "More hours than a semester holds."),
-      }),
+      }).strict(),
     )
     .max(20_000),
   tiers: z
-    .array(z.object({ proposalId: idSchema("proposal id"), tier: z.enum(allocationTiers).nullable(), waitlisted: z.boolean().optional() }))
+    .array(z.object({ proposalId: idSchema("proposal id"), tier: z.enum(allocationTiers).nullable(), waitlisted: z.boolean().optional() }).strict())
     .max(5_000)
     .default([]),
-});
+}).strict();
 
 export const unlockSchema = z.object({ reason: reasonSchema });
 
