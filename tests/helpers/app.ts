@@ -1,5 +1,6 @@
 import type { Server } from "node:http";
 import path from "node:path";
+import type { Response as AgentResponse } from "superagent";
 import supertest from "supertest";
 import { UNSAFE_decodeViaTurboStream as decodeTurboStream, type ServerBuild } from "react-router";
 import { createHttpApp } from "~/cli/http-app";
@@ -52,13 +53,22 @@ export async function postForAnswer(path: string, cookie: string, fields: [strin
     .type("form")
     .send(new URLSearchParams(fields.map(([k, v]) => [k, String(v)])).toString())
     .buffer(true)
-    .parse((stream, done) => {
-      let text = "";
-      stream.setEncoding("utf8");
-      stream.on("data", (chunk: string) => (text += chunk));
-      stream.on("end", () => done(null, text));
-    });
-  const decoded = await decodeTurboStream(new Response(res.body as string).body!, globalThis);
+    .parse(textBody);
+  return { status: res.status, answer: (await decodeData(res.body as string)) as { data?: unknown; error?: unknown } };
+}
+
+/** supertest's parser for a body taken as text whatever its type (a `.data` turbo-stream, a CSV). */
+export function textBody(res: AgentResponse, done: (error: Error | null, body: unknown) => void) {
+  const stream = res as unknown as NodeJS.ReadableStream; // in node, superagent hands over the response stream
+  let text = "";
+  stream.setEncoding("utf8");
+  stream.on("data", (chunk: string) => (text += chunk));
+  stream.on("end", () => done(null, text));
+}
+
+/** A `.data` answer (React Router's single fetch) decoded. */
+export async function decodeData(text: string): Promise<unknown> {
+  const decoded = await decodeTurboStream(new Response(text).body!, globalThis);
   await decoded.done;
-  return { status: res.status, answer: decoded.value as { data?: unknown; error?: unknown } };
+  return decoded.value;
 }

@@ -3,11 +3,10 @@
 // is a 403 JSON body naming the field and the proposal, never a 5xx, and nothing changes; every
 // read (the APIs, the pages' data requests, the export) leaves out its grades, comments and
 // reviewers. A chair invited to the team by address only, not yet signed up under it, counts too.
-import { UNSAFE_decodeViaTurboStream as decodeTurboStream } from "react-router";
 import { beforeAll, describe, expect, it } from "vitest";
 import { computeFeasibilitySheet } from "~/lib/proposals/feasibility.server";
 import { Allocation, AuditEntry, BoardEntry, ProposalMember, ReviewAssignment } from "~/models/index.server";
-import { form, request } from "../helpers/app";
+import { decodeData, form, request, textBody } from "../helpers/app";
 import { ensureDatabase } from "../helpers/db";
 import { newUser } from "../helpers/session";
 import { committeeNote, conflictedCall } from "../integration/chair-conflicts-fixtures";
@@ -150,16 +149,9 @@ async function pageData(path: string, cookie: string) {
     .get(path)
     .set("Cookie", cookie)
     .buffer(true)
-    .parse((stream, done) => {
-      let text = "";
-      stream.setEncoding("utf8");
-      stream.on("data", (chunk: string) => (text += chunk));
-      stream.on("end", () => done(null, text));
-    });
+    .parse(textBody);
   expect(res.status, path).toBe(200);
-  const decoded = await decodeTurboStream(new Response(res.body as string).body!, globalThis);
-  await decoded.done;
-  return decoded.value as Record<string, { data: never }>;
+  return (await decodeData(res.body as string)) as Record<string, { data: never }>;
 }
 
 const csvColumn = (csv: string, name: string) => {
