@@ -136,8 +136,7 @@ export function createHttpApp({ build, clientDir, trustProxy = false, appUrl = p
   // in plain node (express's router and its request and response prototypes cost as much as the
   // computation on the busiest calls). Everything else goes through express as above.
   const science: ScienceFront = {
-    trust: app.get("trust proxy fn") as ScienceFront["trust"],
-    trustEnabled: app.enabled("trust proxy"),
+    ...proxyTrust(app),
     securityHeaders: (nonce) => securityHeaders(nonce, false),
     build,
   };
@@ -198,36 +197,55 @@ type DataWithInit = { type: "DataWithResponseInit"; data: unknown; init: Respons
 const isDataWithInit = (value: unknown): value is DataWithInit =>
   typeof value === "object" && value !== null && (value as { type?: unknown }).type === "DataWithResponseInit";
 
+/** The express path's direct call: the security headers are already on `res`. */
 async function directRequest(req: ExpressRequest, res: ExpressResponse, request: Request, fn: RouteFunction, build: ServerBuild) {
-  const args = { request, params: {}, context: new RouterContextProvider() };
-  let result: unknown;
-  try {
-    result = await fn(args);
-  } catch (error) {
-    if (error instanceof Response) return sendResponse(req, res, error);
-    // as React Router answers a resource route's unexpected error
-    build.entry.module.handleError?.(error, args);
-    return sendResponse(req, res, new Response("Unexpected Server Error", { status: 500, headers: { "X-Remix-Error": "yes" } }));
-  }
-  if (result instanceof Response) return sendResponse(req, res, result);
-  if (!isDataWithInit(result)) return sendResponse(req, res, typeof result === "string" ? new Response(result) : Response.json(result));
-  // Response.json(data, init) without building a stream and reading it back; the body as a
-  // string, so that node writes it with the headers in one write (and sets Content-Length from
-  // it: measuring it here as well would scan the body twice)
-  const headers = new Headers(result.init?.headers);
-  if (!headers.has("content-type")) headers.set("content-type", "application/json");
-  const body = JSON.stringify(result.data) ?? "null";
-  if (res.destroyed || res.writableEnded) return;
-  res.statusMessage = result.init?.statusText ?? "";
-  res.status(result.init?.status ?? 200);
-  setResponseHeaders(req, res, headers);
-  res.end(body);
+  writeAnswer(req, res, await runDirect(fn, request, build), []);
 }
 
-type ScienceFront = {
-  /** express's compiled `trust proxy` (address, hop) → trusted */
-  trust: (address: string, hop: number) => boolean;
-  trustEnabled: boolean;
+/**
+ * A route module's loader or action called as React Router calls a resource route, its answer
+ * as `Response.json(data, init)` would give it, without building a stream and reading it back.
+ */
+async function runDirect(fn: RouteFunction, request: Request, build: ServerBuild): Promise<Answer> {
+  const args = { request, params: {}, context: new RouterContextProvider() };
+  try {
+    const result = await fn(args);
+    if (isDataWithInit(result)) {
+      const init = result.init;
+      return { status: init?.status ?? 200, statusText: init?.statusText, headers: init?.headers ? new Headers(init.headers) : undefined, body: JSON.stringify(result.data) ?? "null", json: true };
+    }
+    return await fromResponse(result instanceof Response ? result : typeof result === "string" ? new Response(result) : Response.json(result));
+  } catch (error) {
+    if (error instanceof Response) return fromResponse(error);
+    // as React Router answers a resource route's unexpected error
+    build.entry.module.handleError?.(error, args);
+    return fromResponse(new Response("Unexpected Server Error", { status: 500, headers: { "X-Remix-Error": "yes" } }));
+  }
+}
+
+/**
+ * Writes a direct answer in one write (status line, headers, body): `security` (the defaults,
+ * which a route's own headers replace; empty when already set on `res`), the route's headers,
+ * JSON's content type, then the cache rule of `setResponseHeaders`.
+ */
+function writeAnswer(req: IncomingMessage, res: ServerResponse, answer: Answer, security: [string, string][]) {
+  if (res.destroyed || res.writableEnded) return;
+  const out = new Map<string, [string, string]>();
+  for (const [name, value] of security) out.set(name.toLowerCase(), [name, value]);
+  const cookies = answer.headers?.getSetCookie() ?? [];
+  for (const [name, value] of answer.headers ?? []) if (name !== "set-cookie") out.set(name, [name, value]);
+  if (answer.json && !out.has("content-type")) out.set("content-type", ["content-type", "application/json"]);
+  if (req.headers.cookie || cookies.length) out.set("cache-control", ["Cache-Control", "private, no-store"]);
+  const flat: string[] = [];
+  for (const [name, value] of out.values()) flat.push(name, value);
+  for (const cookie of cookies) flat.push("set-cookie", cookie);
+  flat.push("Content-Length", String(Buffer.byteLength(answer.body)));
+  // headers given here replace those set on `res` before (node's writeHead with a list)
+  res.writeHead(answer.status, answer.statusText || undefined, flat);
+  res.end(answer.body);
+}
+
+type ScienceFront = ProxyTrust & {
   securityHeaders: (nonce: string) => [string, string][];
   build: ServerBuild;
 };
@@ -236,16 +254,11 @@ type Answer = { status: number; statusText?: string; headers?: Headers; body: st
 /** A science GET in plain node: as `directRequest` after express's layers, without express. */
 async function answerScienceGet(req: IncomingMessage, res: ServerResponse, loader: RouteFunction, front: ScienceFront) {
   const nonce = cspNonce();
-  const headers = new Headers();
-  for (const [key, values] of Object.entries(req.headers)) {
-    if (values === undefined || INTERNAL_NAMES.includes(key)) continue;
-    if (Array.isArray(values)) for (const value of values) headers.append(key, value);
-    else headers.set(key, values);
-  }
+  const headers = fetchHeaders(req, INTERNAL_NAMES);
   headers.set(INTERNAL_HEADERS.nonce, nonce);
   // express's req.ip: the nearest address the configured proxies do not vouch for
   headers.set(INTERNAL_HEADERS.clientIp, proxyaddr(req, front.trust) ?? "unknown");
-  const url = requestUrl(plainProtocol(req, front.trust), plainHost(req, front), req.url ?? "");
+  const url = requestUrl(requestProtocol(req, front), requestHost(req, front), req.url ?? "");
   if (url === null) {
     // as express's path answers it (`fetchRequest`): a 400 naming the host, with the headers
     const body = JSON.stringify(badHost);
@@ -253,37 +266,7 @@ async function answerScienceGet(req: IncomingMessage, res: ServerResponse, loade
     res.writeHead(400, flat);
     return void res.end(body);
   }
-  const request = new Request(url, { headers });
-  const args = { request, params: {}, context: new RouterContextProvider() };
-  let answer: Answer;
-  try {
-    const result = await loader(args);
-    if (isDataWithInit(result)) {
-      const init = result.init;
-      answer = { status: init?.status ?? 200, statusText: init?.statusText, headers: init?.headers ? new Headers(init.headers) : undefined, body: JSON.stringify(result.data) ?? "null", json: true };
-    } else answer = await fromResponse(result instanceof Response ? result : typeof result === "string" ? new Response(result) : Response.json(result));
-  } catch (error) {
-    if (error instanceof Response) answer = await fromResponse(error);
-    else {
-      front.build.entry.module.handleError?.(error, args);
-      answer = await fromResponse(new Response("Unexpected Server Error", { status: 500, headers: { "X-Remix-Error": "yes" } }));
-    }
-  }
-  if (res.destroyed || res.writableEnded) return;
-  // the security headers, which a route's own replace; the route's; then the cache rule
-  const out = new Map<string, [string, string]>();
-  for (const [name, value] of front.securityHeaders(nonce)) out.set(name.toLowerCase(), [name, value]);
-  const cookies = answer.headers?.getSetCookie() ?? [];
-  for (const [name, value] of answer.headers ?? []) if (name !== "set-cookie") out.set(name, [name, value]);
-  if (answer.json && !out.has("content-type")) out.set("content-type", ["content-type", "application/json"]);
-  if (req.headers.cookie || cookies.length) out.set("cache-control", ["Cache-Control", "private, no-store"]);
-  const flat: string[] = [];
-  for (const [name, value] of out.values()) flat.push(name, value);
-  for (const cookie of cookies) flat.push("set-cookie", cookie);
-  // one write: the status line, the headers and the body
-  flat.push("Content-Length", String(Buffer.byteLength(answer.body)));
-  res.writeHead(answer.status, answer.statusText || undefined, flat);
-  res.end(answer.body);
+  writeAnswer(req, res, await runDirect(loader, new Request(url, { headers }), front.build), front.securityHeaders(nonce));
 }
 
 async function fromResponse(response: Response): Promise<Answer> {
@@ -312,22 +295,26 @@ const badHost = { error: BAD_HOST, issues: [{ path: "host", message: "Host is no
 
 const firstValue = (value: string | string[] | undefined) => (Array.isArray(value) ? value[0] : value);
 
-/** express's req.protocol, without express. */
-function plainProtocol(req: IncomingMessage, trust: ScienceFront["trust"]) {
+/** How far the front trusts proxies: express's compiled `trust proxy` and whether it is set. */
+type ProxyTrust = { trust: (address: string, hop: number) => boolean; trustEnabled: boolean };
+const proxyTrust = (app: express.Application): ProxyTrust => ({ trust: app.get("trust proxy fn"), trustEnabled: app.enabled("trust proxy") });
+
+/** express's req.protocol, for either path. */
+function requestProtocol(req: IncomingMessage, { trust }: ProxyTrust) {
   const protocol = (req.socket as TLSSocket).encrypted ? "https" : "http";
   if (!trust(req.socket.remoteAddress ?? "", 0)) return protocol;
   const header = firstValue(req.headers["x-forwarded-proto"]) || protocol;
   return header.split(",")[0].trim();
 }
 
-/** `requestHost` (React Router's express adapter's host) without express. */
-function plainHost(req: IncomingMessage, front: ScienceFront) {
-  const forwarded = front.trustEnabled ? firstValue(req.headers["x-forwarded-host"]) : undefined;
+/** The host React Router sees, as @react-router/express builds it (from express's req.hostname), for either path. */
+function requestHost(req: IncomingMessage, { trust, trustEnabled }: ProxyTrust) {
+  const forwarded = trustEnabled ? firstValue(req.headers["x-forwarded-host"]) : undefined;
   const [, forwardedPort] = forwarded?.split(":") ?? [];
   const [, hostPort] = req.headers.host?.split(":") ?? [];
   const port = [forwardedPort, hostPort].map((p) => Number.parseInt(p ?? "", 10)).find((p) => Number.isSafeInteger(p));
   // express's req.hostname: the forwarded host only from a trusted proxy, without its port
-  let host = forwarded && front.trust(req.socket.remoteAddress ?? "", 0) ? forwarded.split(",")[0].trimEnd() : req.headers.host;
+  let host = forwarded && trust(req.socket.remoteAddress ?? "", 0) ? forwarded.split(",")[0].trimEnd() : req.headers.host;
   if (host) {
     const offset = host[0] === "[" ? host.indexOf("]") + 1 : 0;
     const colon = host.indexOf(":", offset);
@@ -425,21 +412,28 @@ function cspNonce() {
   return nonce;
 }
 
+/** The request's headers as Fetch API headers, without those named in `drop`. */
+function fetchHeaders(req: IncomingMessage, drop: readonly string[] = []) {
+  const headers = new Headers();
+  for (const [key, values] of Object.entries(req.headers)) {
+    if (values === undefined || drop.includes(key)) continue;
+    if (Array.isArray(values)) for (const value of values) headers.append(key, value);
+    else headers.set(key, values);
+  }
+  return headers;
+}
+
 /** The Fetch API request React Router (or a direct route) gets; null when a 413 was answered. */
 async function fetchRequest(req: ExpressRequest, res: ExpressResponse): Promise<Request | null> {
-  const href = requestUrl(req.protocol, requestHost(req), req.originalUrl);
+  const trust = proxyTrust(req.app);
+  const href = requestUrl(requestProtocol(req, trust), requestHost(req, trust), req.originalUrl);
   if (href === null) {
     discardRest(req);
     refuse(res, isApiPath(req.path), 400, BAD_HOST, badHost.issues[0].message, "host");
     return null;
   }
   let body: Buffer | undefined;
-  const headers = new Headers();
-  for (const [key, values] of Object.entries(req.headers)) {
-    if (values === undefined) continue;
-    if (Array.isArray(values)) for (const value of values) headers.append(key, value);
-    else headers.set(key, values);
-  }
+  const headers = fetchHeaders(req);
   if (req.method !== "GET" && req.method !== "HEAD") {
     const { limit, what } = bodyLimitFor(req.path);
     const read = await readLimitedBody(req, limit);
@@ -465,15 +459,6 @@ async function fetchRequest(req: ExpressRequest, res: ExpressResponse): Promise<
   res.on("finish", () => (finished = true));
   res.on("close", () => finished || controller.abort());
   return new Request(href, { method: req.method, headers, body: body ? new Uint8Array(body.buffer as ArrayBuffer, body.byteOffset, body.byteLength) : undefined, signal: controller.signal });
-}
-
-/** The host React Router sees, as @react-router/express builds it. */
-function requestHost(req: ExpressRequest) {
-  const [, forwardedPort] = req.app.enabled("trust proxy") ? (req.get("X-Forwarded-Host")?.split(":") ?? []) : [];
-  const [, hostPort] = req.get("host")?.split(":") ?? [];
-  const port = [forwardedPort, hostPort].map((p) => Number.parseInt(p ?? "", 10)).find((p) => Number.isSafeInteger(p));
-  const hostname = req.hostname?.split(/[\\/?#@]/)[0] || "localhost";
-  return `${hostname}${port ? `:${port}` : ""}`;
 }
 
 function setResponseHeaders(req: ExpressRequest, res: ExpressResponse, headers: Headers) {
