@@ -11,7 +11,8 @@ import { WORKER_ENTRIES, type WorkerName } from "../lib/worker-entry.server";
 
 const common = { bundle: true, packages: "external", platform: "node", format: "esm", target: "node20", logLevel: "warning" } as const;
 
-async function bundle(entry: string, outfile: string) {
+/** One TypeScript entry to one plain-JavaScript file (also `npm start`'s front, start.ts). */
+export async function bundle(entry: string, outfile: string) {
   const { build } = await import("esbuild");
   await build({ ...common, entryPoints: [entry], outfile });
 }

@@ -147,8 +147,8 @@ try {
 async function bundleFront(): Promise<string | null> {
   const outfile = path.join(repoRoot, ".data/front/serve-local.mjs");
   try {
-    const { build } = await import("esbuild");
-    await build({ entryPoints: [path.join(repoRoot, "app/cli/serve-local.ts")], outfile, bundle: true, packages: "external", platform: "node", format: "esm", target: "node20", logLevel: "warning" });
+    const { bundle } = await import("./node-bundles");
+    await bundle(path.join(repoRoot, "app/cli/serve-local.ts"), outfile);
     return outfile;
   } catch (error) {
     console.error("[start] could not bundle the HTTP front; serving it through tsx:", error instanceof Error ? error.message : error);
