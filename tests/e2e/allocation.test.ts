@@ -100,6 +100,8 @@ describe("the allocation page", () => {
     // ticked, the fill replaces them with the requested hours
     await page.goto(`${suite.server.url}/committee/${call.id}/board`);
     await page.getByLabel(/also refill the 2 proposals whose hours you set by hand/).check();
+    await page.getByTestId("replace-hand-set").scrollIntoViewIfNeeded();
+    await screenshot(page, "allocation-04-refill-ticked");
     await page.getByRole("button", { name: "Fill by rank" }).click();
     await page.getByText(/^Filled by rank: 2 assured/).waitFor();
     await page.goto(`${suite.server.url}/committee/${call.id}/allocation`);
